@@ -1,0 +1,2 @@
+// Programs, designs, revisions, studies, review threads and release decisions.
+export {};
