@@ -1,0 +1,12 @@
+import { defineProject } from "vitest/config";
+import react from "@vitejs/plugin-react";
+
+export default defineProject({
+  plugins: [react()],
+  test: {
+    name: "web",
+    include: ["src/**/*.test.{ts,tsx}", "test/**/*.test.{ts,tsx}"],
+    environment: "happy-dom",
+    setupFiles: ["./test/setup.ts"],
+  },
+});
