@@ -8,6 +8,7 @@ import { errorHandler, notFoundHandler } from "./lib/errors.ts";
 import { healthRoutes } from "./routes/health.ts";
 import { accessRoutes } from "./routes/access/index.ts";
 import { domainRoutes } from "./routes/domain/index.ts";
+import { sessionMiddleware } from "./auth/session.ts";
 
 export type { AppContext } from "./context.ts";
 export { createContext } from "./context.ts";
@@ -34,6 +35,7 @@ export function createApp(ctx: AppContext): Express {
   app.use(express.json({ limit: "2mb" }));
 
   const api = express.Router();
+  api.use(sessionMiddleware(ctx));
   api.use(healthRoutes(ctx));
   api.use("/v1", accessRoutes(ctx));
   api.use("/v1", domainRoutes(ctx));
