@@ -49,3 +49,11 @@ describe("foundation", () => {
     });
   });
 });
+
+describe("OpenAPI document", () => {
+  it("is served at /api/v1/openapi.json", async () => {
+    const res = await request(server.app).get("/api/v1/openapi.json").expect(200);
+    expect(res.body.openapi).toBe("3.1.0");
+    expect(res.body.info.title).toBe("Stackproof API");
+  });
+});

@@ -3,6 +3,7 @@ import { ENGINE_VERSION } from "@stackproof/optics";
 import type { AppContext } from "../context.ts";
 import { migrationStatus } from "../db/client.ts";
 import { API_VERSION } from "../version.ts";
+import { buildOpenApiDocument } from "../lib/openapi.ts";
 
 export function healthRoutes(ctx: AppContext): Router {
   const router = Router();
@@ -23,6 +24,9 @@ export function healthRoutes(ctx: AppContext): Router {
       database,
       migrations,
     });
+  });
+  router.get("/v1/openapi.json", (_req, res) => {
+    res.json(buildOpenApiDocument());
   });
   return router;
 }
