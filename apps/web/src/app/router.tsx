@@ -4,12 +4,27 @@ import { RouteError } from "./routes/route-error.tsx";
 
 export function createRouter() {
   return createBrowserRouter([
+    // Pages outside the shell: signing in, and the printable release record.
+    { path: "sign-in", lazy: () => import("./routes/auth/sign-in.tsx"), errorElement: <RouteError /> },
+    { path: "forgot-password", lazy: () => import("./routes/auth/forgot-password.tsx"), errorElement: <RouteError /> },
+    { path: "reset-password", lazy: () => import("./routes/auth/reset-password.tsx"), errorElement: <RouteError /> },
+    { path: "accept-invitation", lazy: () => import("./routes/auth/accept-invitation.tsx"), errorElement: <RouteError /> },
+    { path: "releases/:releaseId", lazy: () => import("./routes/release-record.tsx"), errorElement: <RouteError /> },
     {
       element: <AppShell />,
       errorElement: <RouteError />,
       children: [
         { index: true, lazy: () => import("./routes/home.tsx") },
-        { path: "sign-in", lazy: () => import("./routes/sign-in.tsx") },
+        { path: "programs/:programId", lazy: () => import("./routes/program.tsx") },
+        { path: "materials", lazy: () => import("./routes/materials.tsx") },
+        { path: "people", lazy: () => import("./routes/people.tsx") },
+        { path: "audit", lazy: () => import("./routes/audit.tsx") },
+        { path: "outbox", lazy: () => import("./routes/outbox.tsx") },
+        // The design workspace.
+        { path: "designs/new", lazy: () => import("./routes/designs/new-design.tsx") },
+        { path: "designs/:designId", lazy: () => import("./routes/designs/design.tsx") },
+        { path: "designs/:designId/revisions/:revisionId", lazy: () => import("./routes/designs/revision.tsx") },
+        { path: "designs/:designId/compare", lazy: () => import("./routes/designs/compare.tsx") },
         { path: "*", lazy: () => import("./routes/not-found.tsx") },
       ],
     },
