@@ -1,0 +1,8 @@
+// One vitest run over every package: used by the README's test command (scripts/run-tests.mjs).
+import { defineConfig } from "vitest/config";
+
+export default defineConfig({
+  test: {
+    projects: ["packages/*/vitest.config.ts", "apps/*/vitest.config.ts", "tests/vitest.config.ts"],
+  },
+});
