@@ -1,6 +1,8 @@
 import { createBrowserRouter, RouterProvider } from "react-router";
 import { AppShell } from "../components/layout/app-shell.tsx";
 import { RouteError } from "./routes/route-error.tsx";
+import { requireSession } from "../lib/session.ts";
+import { PageSpinner } from "../components/ui/spinner.tsx";
 
 export function createRouter() {
   return createBrowserRouter([
@@ -11,8 +13,12 @@ export function createRouter() {
     { path: "accept-invitation", lazy: () => import("./routes/auth/accept-invitation.tsx"), errorElement: <RouteError /> },
     { path: "releases/:releaseId", lazy: () => import("./routes/release-record.tsx"), errorElement: <RouteError /> },
     {
+      id: "shell",
       element: <AppShell />,
       errorElement: <RouteError />,
+      hydrateFallbackElement: <PageSpinner label="Opening Stackproof…" />,
+      // Signed-out people are sent to /sign-in?next=<where they were going>.
+      loader: ({ request }) => requireSession(request),
       children: [
         { index: true, lazy: () => import("./routes/home.tsx") },
         { path: "programs/:programId", lazy: () => import("./routes/program.tsx") },

@@ -1,0 +1,35 @@
+import { queryOptions, useQuery } from "@tanstack/react-query";
+import { api } from "../../../lib/api-client.ts";
+import type { Page } from "../../../lib/types.ts";
+
+export interface OutboxItem {
+  id: string;
+  to: string;
+  subject: string;
+  receivedAt: string;
+}
+
+export const getOutbox = (cursor?: string) => api.get<Page<OutboxItem>>("/outbox", { query: { limit: 50, cursor } });
+
+export const outboxQueryOptions = (cursor?: string) =>
+  queryOptions({ queryKey: ["outbox", { cursor: cursor ?? null }], queryFn: () => getOutbox(cursor), retry: false });
+
+export const useOutbox = (cursor?: string) => useQuery(outboxQueryOptions(cursor));
+
+/** Whether this server captures mail (GET /outbox answers; a real SMTP host makes it 404). */
+export const outboxAvailableQueryOptions = () =>
+  queryOptions({
+    queryKey: ["outbox", "available"],
+    queryFn: async () => {
+      try {
+        await api.get<Page<OutboxItem>>("/outbox", { query: { limit: 1 } });
+        return true;
+      } catch {
+        return false;
+      }
+    },
+    staleTime: 5 * 60_000,
+    retry: false,
+  });
+
+export const useOutboxAvailable = () => useQuery(outboxAvailableQueryOptions()).data ?? false;
