@@ -1,1 +1,60 @@
-export {};
+// Core thin-film engine: materials, design format, spectra, fast evaluator, fields.
+// Conventions: λ nm, thickness nm, substrate mm, angle degrees in the incident medium,
+// N = n − ik (k ≥ 0 absorbing), layers in deposition order (layers[0] on the substrate).
+export {
+  ConstantModelSchema,
+  CauchyModelSchema,
+  SellmeierModelSchema,
+  TablePointSchema,
+  TableModelSchema,
+  MaterialModelSchema,
+  MaterialRoleSchema,
+  MaterialSchema,
+  refractiveIndex,
+  indexTable,
+} from "./materials.ts";
+export type {
+  MaterialModel,
+  MaterialModelInput,
+  MaterialRole,
+  Material,
+  MaterialInput,
+  IndexValue,
+  IndexTable,
+} from "./materials.ts";
+export { MATERIAL_LIBRARY, getMaterial } from "./library.ts";
+export {
+  DESIGN_FORMAT,
+  LayerSchema,
+  SubstrateSchema,
+  DesignSchema,
+  parseDesign,
+  qwotToThickness,
+  thicknessToQwot,
+  designFromQwots,
+  layerQwots,
+} from "./design.ts";
+export type { Layer, Substrate, Design, DesignInput, QwotLayer, QwotDesignSpec } from "./design.ts";
+// named StackPolarization here so the studies half may keep its own identical alias
+export type { Polarization as StackPolarization } from "./kernel.ts";
+export { forwardSqrt } from "./kernel.ts";
+export { createStackEvaluator } from "./evaluator.ts";
+export type { RTA, StackEvaluator, StackEvaluatorOptions } from "./evaluator.ts";
+export {
+  computeSpectrum,
+  wavelengthGrid,
+  groupDelay,
+  coneQuadrature,
+  coneHalfAngleDeg,
+  SPEED_OF_LIGHT_NM_PER_FS,
+} from "./spectrum.ts";
+export type {
+  PolResponse,
+  Spectrum,
+  SpectrumOptions,
+  ConeOption,
+  ConeRay,
+  GroupDelayOptions,
+} from "./spectrum.ts";
+export { fieldProfile } from "./field.ts";
+export type { FieldProfileOptions, FieldProfile } from "./field.ts";

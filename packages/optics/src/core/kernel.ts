@@ -1,0 +1,1022 @@
+/**
+ * Characteristic-matrix (Abelès) kernel shared by {@link computeSpectrum} and the fast
+ * evaluator. Internal module: the public entry points are in spectrum.ts and evaluator.ts.
+ *
+ * Conventions (Macleod, *Thin-Film Optical Filters*): N = n − ik (k ≥ 0 absorbing), time
+ * dependence exp(+iωt). In layer j the invariant s = n0 sin θ0 gives q = N cos θ =
+ * √(N² − s²) with the forward branch Im q ≤ 0 (Re q ≥ 0 when lossless), so the wave
+ * exp(−i 2π q z / λ) decays into the stack; δ = 2π q d / λ; tilted admittances (free-space
+ * admittance units) η_s = q and η_p = N²/q = N / cos θ.
+ * M = Π [[cos δ, i sin δ / η], [i η sin δ, cos δ]] taken from the incident side;
+ * [B, C] = M [1, η_sub]; r = (η0 B − C)/(η0 B + C); R = |r|²; T = 4 η0 Re(η_sub)/|η0 B + C|².
+ *
+ * Layers are stored in deposition order (j = 0 next to the substrate), so the product is
+ * built by left-multiplying layer matrices starting from the substrate side.
+ *
+ * Storage is wavelength-major ([w * L + j]) so the layer loop reads contiguously. Hot loops
+ * hold real and imaginary parts in separate locals, write into preallocated Float64Arrays,
+ * and inline sin/cos/exp (see fastmath.ts).
+ */
+import type { Design } from "./design.ts";
+import { getMaterial } from "./library.ts";
+import { indexTable } from "./materials.ts";
+import {
+  C1, C2, C3, C4, C5, C6, E1, E2, E3, E4, E5, E6, LN2_HI, LN2_LO, LOG2E, O1, O2, O3, O4, O5, O6,
+  PIO2_1, PIO2_1T, POW2, POW2_OFFSET, QUAD_C, QUAD_S, RND, S1, S2, S3, S4, S5, S6, TWO_OVER_PI,
+} from "./fastmath.ts";
+
+/** Polarization: "s" (TE), "p" (TM) or "u" (unpolarized = mean of s and p intensities). */
+export type Polarization = "s" | "p" | "u";
+
+/** Rescale step for complex paths: entries are multiplied by 1e-65 (= e^−149.668). */
+const RESCALE = 1e-65;
+const RESCALE_LOG = 149.66822000238394;
+/** Largest |Im δ| per layer kept; beyond it a layer is opaque to well below 1e-130. */
+const MAX_DECAY = 150;
+
+/**
+ * Forward-branch complex square root: principal root, then flipped so that Im q ≤ 0
+ * (and Re q ≥ 0 when Im q = 0). Writes [re, im] into out.
+ */
+export function forwardSqrt(re: number, im: number, out: Float64Array): void {
+  const r = Math.sqrt(re * re + im * im);
+  const u = Math.sqrt(0.5 * (r + Math.abs(re)));
+  if (u === 0) {
+    out[0] = 0;
+    out[1] = 0;
+    return;
+  }
+  let qr: number;
+  let qi: number;
+  if (re >= 0) {
+    qr = u;
+    qi = im / (2 * u);
+  } else {
+    qr = Math.abs(im) / (2 * u);
+    qi = im >= 0 ? u : -u;
+  }
+  const tol = 1e-13 * (Math.abs(qr) + Math.abs(qi));
+  if (qi > tol || (Math.abs(qi) <= tol && qr < 0)) {
+    qr = -qr;
+    qi = -qi;
+  }
+  out[0] = qr;
+  out[1] = qi;
+}
+
+/** Optical constants of a design tabulated on a wavelength grid (angle-independent). */
+export interface PreparedStack {
+  wavelengths: Float64Array;
+  W: number;
+  L: number;
+  /** layer indices N = n − ik as re = n, im = −k, [w * L + j] */
+  nRe: Float64Array;
+  nIm: Float64Array;
+  /** incident medium n (k ignored: the incident medium is taken as lossless) */
+  incident: Float64Array;
+  /** substrate N (re, im = −k) */
+  subRe: Float64Array;
+  subIm: Float64Array;
+  /** exit medium n behind the substrate (k ignored) */
+  exit: Float64Array;
+  /** every layer has k = 0 at every wavelength */
+  lossless: boolean;
+  /** back surface counted incoherently */
+  backside: boolean;
+  substrateNm: number;
+  /** per-layer minimum of n² over the grid (lossless index-scaling fast path test) */
+  minN2: Float64Array;
+  nominal: Float64Array;
+  warnings: string[];
+}
+
+/** Validate a wavelength list and copy it into a Float64Array (nm, finite, > 0). */
+export function toWavelengths(wavelengths: ArrayLike<number>): Float64Array {
+  const W = wavelengths.length;
+  if (W === 0) throw new RangeError("wavelengths: expected at least one wavelength, got none");
+  const out = new Float64Array(W);
+  for (let i = 0; i < W; i++) {
+    const v = wavelengths[i] as number;
+    if (!(v > 0) || !Number.isFinite(v)) {
+      throw new RangeError(`wavelengths[${i}]: expected a finite number > 0 nm, got ${String(v)}`);
+    }
+    out[i] = v;
+  }
+  return out;
+}
+
+/**
+ * Tabulate the optical constants of a design on a wavelength grid.
+ * With `coherentSubstrate` and a counted back surface, the substrate becomes a coherent
+ * layer (deposition index 0) and the exit medium becomes the semi-infinite substrate.
+ */
+export function prepareStack(
+  design: Design,
+  wavelengthsIn: ArrayLike<number>,
+  coherentSubstrate = false,
+): PreparedStack {
+  const wavelengths = toWavelengths(wavelengthsIn);
+  const W = wavelengths.length;
+  const custom = design.materials;
+  const warnings: string[] = [];
+  const cache = new Map<string, { n: Float64Array; k: Float64Array }>();
+  const table = (id: string, where: string): { n: Float64Array; k: Float64Array } => {
+    const hit = cache.get(id);
+    if (hit) return hit;
+    const mat = getMaterial(id, custom);
+    let t;
+    try {
+      t = indexTable(mat.model, wavelengths);
+    } catch (e) {
+      if (e instanceof RangeError) throw new RangeError(`${where} (${id}): ${e.message}`);
+      throw e;
+    }
+    if (t.extrapolated > 0) {
+      warnings.push(`${id}: optical constants held constant beyond the table at ${t.extrapolated} wavelength(s)`);
+    }
+    cache.set(id, t);
+    return t;
+  };
+
+  const layerIds: string[] = [];
+  const thick: number[] = [];
+  const labels: string[] = [];
+  let backside = design.substrate.backside;
+  let substrateId = design.substrate.material;
+  if (coherentSubstrate && backside) {
+    layerIds.push(design.substrate.material);
+    thick.push(design.substrate.thicknessMm * 1e6);
+    labels.push("substrate");
+    substrateId = design.exit;
+    backside = false;
+  }
+  design.layers.forEach((l, i) => {
+    layerIds.push(l.material);
+    thick.push(l.thickness);
+    labels.push(`layers[${i}]`);
+  });
+  const L = layerIds.length;
+  const nRe = new Float64Array(W * L);
+  const nIm = new Float64Array(W * L);
+  const minN2 = new Float64Array(L).fill(Infinity);
+  let lossless = true;
+  for (let j = 0; j < L; j++) {
+    const t = table(layerIds[j]!, labels[j]!);
+    for (let w = 0; w < W; w++) {
+      const n = t.n[w]!;
+      const k = t.k[w]!;
+      nRe[w * L + j] = n;
+      nIm[w * L + j] = -k;
+      if (k !== 0) lossless = false;
+      if (n * n < minN2[j]!) minN2[j] = n * n;
+    }
+  }
+  const inc = table(design.incident, "incident");
+  const sub = table(substrateId, "substrate");
+  const ex = table(design.exit, "exit");
+  if (inc.k.some((k) => k > 0)) warnings.push(`incident medium ${design.incident}: k ignored (taken as lossless)`);
+  if (backside && ex.k.some((k) => k > 0)) warnings.push(`exit medium ${design.exit}: k ignored (taken as lossless)`);
+  const subIm = new Float64Array(W);
+  for (let w = 0; w < W; w++) subIm[w] = -sub.k[w]!;
+  const nominal = Float64Array.from(thick);
+  return {
+    wavelengths,
+    W,
+    L,
+    nRe,
+    nIm,
+    incident: Float64Array.from(inc.n),
+    subRe: Float64Array.from(sub.n),
+    subIm,
+    exit: Float64Array.from(ex.n),
+    lossless,
+    backside,
+    substrateNm: design.substrate.thicknessMm * 1e6,
+    minN2,
+    nominal,
+    warnings,
+  };
+}
+
+/** Angle- and polarization-dependent tables (thickness-independent). */
+export interface PolTables {
+  W: number;
+  L: number;
+  pol: "s" | "p";
+  /** β = 2π q / λ (nm⁻¹) */
+  betaR: Float64Array;
+  betaI: Float64Array;
+  etaR: Float64Array;
+  etaI: Float64Array;
+  ietaR: Float64Array;
+  ietaI: Float64Array;
+  /** N² per layer (for index-scaled recomputation) */
+  n2R: Float64Array;
+  n2I: Float64Array;
+  /** s² = (n0 sin θ0)² and 2π/λ per wavelength */
+  s2: Float64Array;
+  k0: Float64Array;
+  /** incident admittance (real) */
+  eta0: Float64Array;
+  /** substrate admittance */
+  etaSR: Float64Array;
+  etaSI: Float64Array;
+  /** cos θ in the incident medium and substrate cos θ (complex) for amplitude conversion */
+  backside: boolean;
+  /** back-surface reflectance and transmittance (substrate → exit), one-pass internal transmittance */
+  Rb: Float64Array;
+  Tb: Float64Array;
+  tau: Float64Array;
+  /** all layers lossless and propagating (real β and η): real fast path */
+  real: boolean;
+  /** lossless layers (index scaling may still allow the real path) */
+  lossless: boolean;
+  maxS2: number;
+  minN2: Float64Array;
+}
+
+/** Build the per-angle, per-polarization tables. angleDeg in [0, 90) in the incident medium. */
+export function tabulate(prep: PreparedStack, angleDeg: number, pol: "s" | "p"): PolTables {
+  if (!(angleDeg >= 0 && angleDeg < 90)) {
+    throw new RangeError(`angleDeg: expected an angle in [0, 90) degrees, got ${String(angleDeg)}`);
+  }
+  const { W, L } = prep;
+  const size = W * L;
+  const betaR = new Float64Array(size);
+  const betaI = new Float64Array(size);
+  const etaR = new Float64Array(size);
+  const etaI = new Float64Array(size);
+  const ietaR = new Float64Array(size);
+  const ietaI = new Float64Array(size);
+  const n2R = new Float64Array(size);
+  const n2I = new Float64Array(size);
+  const s2 = new Float64Array(W);
+  const k0 = new Float64Array(W);
+  const eta0 = new Float64Array(W);
+  const etaSR = new Float64Array(W);
+  const etaSI = new Float64Array(W);
+  const Rb = new Float64Array(W);
+  const Tb = new Float64Array(W);
+  const tau = new Float64Array(W);
+  const sinT = Math.sin((angleDeg * Math.PI) / 180);
+  const q = new Float64Array(2);
+  let real = true;
+  let maxS2 = 0;
+  for (let w = 0; w < W; w++) {
+    const lam = prep.wavelengths[w]!;
+    const n0 = prep.incident[w]!;
+    const s = n0 * sinT;
+    const ss = s * s;
+    s2[w] = ss;
+    if (ss > maxS2) maxS2 = ss;
+    const kw = (2 * Math.PI) / lam;
+    k0[w] = kw;
+    for (let j = 0; j < L; j++) {
+      const i = w * L + j;
+      const nr = prep.nRe[i]!;
+      const ni = prep.nIm[i]!;
+      const Nr = nr * nr - ni * ni;
+      const Ni = 2 * nr * ni;
+      n2R[i] = Nr;
+      n2I[i] = Ni;
+      forwardSqrt(Nr - ss, Ni, q);
+      const qr = q[0]!;
+      const qi = q[1]!;
+      let er: number;
+      let ei: number;
+      if (pol === "s") {
+        er = qr;
+        ei = qi;
+      } else {
+        const dd = qr * qr + qi * qi;
+        er = (Nr * qr + Ni * qi) / dd;
+        ei = (Ni * qr - Nr * qi) / dd;
+      }
+      const de = er * er + ei * ei;
+      betaR[i] = kw * qr;
+      betaI[i] = kw * qi;
+      etaR[i] = er;
+      etaI[i] = ei;
+      ietaR[i] = er / de;
+      ietaI[i] = -ei / de;
+      if (qi !== 0 || ei !== 0) real = false;
+    }
+    const q0 = Math.sqrt(n0 * n0 - ss);
+    eta0[w] = pol === "s" ? q0 : (n0 * n0) / q0;
+    const sr = prep.subRe[w]!;
+    const si = prep.subIm[w]!;
+    const S2r = sr * sr - si * si;
+    const S2i = 2 * sr * si;
+    forwardSqrt(S2r - ss, S2i, q);
+    const qsr = q[0]!;
+    const qsi = q[1]!;
+    let esr: number;
+    let esi: number;
+    if (pol === "s") {
+      esr = qsr;
+      esi = qsi;
+    } else {
+      const dd = qsr * qsr + qsi * qsi;
+      esr = (S2r * qsr + S2i * qsi) / dd;
+      esi = (S2i * qsr - S2r * qsi) / dd;
+    }
+    etaSR[w] = esr;
+    etaSI[w] = esi;
+    if (prep.backside) {
+      const ne = prep.exit[w]!;
+      forwardSqrt(ne * ne - ss, 0, q);
+      let eer: number;
+      let eei: number;
+      if (pol === "s") {
+        eer = q[0]!;
+        eei = q[1]!;
+      } else {
+        const dd = q[0]! * q[0]! + q[1]! * q[1]!;
+        eer = (ne * ne * q[0]!) / dd;
+        eei = (-ne * ne * q[1]!) / dd;
+      }
+      const sumR = esr + eer;
+      const sumI = esi + eei;
+      const difR = esr - eer;
+      const difI = esi - eei;
+      const den = sumR * sumR + sumI * sumI;
+      Rb[w] = (difR * difR + difI * difI) / den;
+      Tb[w] = (4 * esr * eer) / den;
+      // one pass through the substrate: |exp(−i 2π q_s d/λ)|² = exp(4π Im(q_s) d / λ); ≈ exp(−4πk d/(λ cos θ))
+      tau[w] = Math.exp(2 * kw * qsi * prep.substrateNm);
+    }
+  }
+  return {
+    W, L, pol, betaR, betaI, etaR, etaI, ietaR, ietaI, n2R, n2I, s2, k0, eta0, etaSR, etaSI,
+    backside: prep.backside, Rb, Tb, tau, real, lossless: prep.lossless, maxS2, minN2: prep.minN2,
+  };
+}
+
+/** Amplitude outputs of the coherent front stack (tangential-field convention). */
+export interface AmplitudeOut {
+  rRe: Float64Array;
+  rIm: Float64Array;
+  tRe: Float64Array;
+  tIm: Float64Array;
+}
+
+/**
+ * One polarization's evaluator: preallocated scratch, no allocation per call.
+ * `run` writes R, T, A (fractions) per wavelength.
+ */
+export class PolKernel {
+  readonly t: PolTables;
+  private readonly W: number;
+  // front-stack matrix per wavelength (vector mode uses m11 = B, m21 = C)
+  private readonly aR: Float64Array;
+  private readonly aI: Float64Array;
+  private readonly bR: Float64Array;
+  private readonly bI: Float64Array;
+  private readonly cR: Float64Array;
+  private readonly cI: Float64Array;
+  private readonly dR: Float64Array;
+  private readonly dI: Float64Array;
+  private readonly sc: Int32Array;
+  private readonly q2 = new Float64Array(2);
+
+  constructor(tables: PolTables) {
+    this.t = tables;
+    const W = tables.W;
+    this.W = W;
+    this.aR = new Float64Array(W);
+    this.aI = new Float64Array(W);
+    this.bR = new Float64Array(W);
+    this.bI = new Float64Array(W);
+    this.cR = new Float64Array(W);
+    this.cI = new Float64Array(W);
+    this.dR = new Float64Array(W);
+    this.dI = new Float64Array(W);
+    this.sc = new Int32Array(W);
+  }
+
+  /**
+   * Evaluate for thicknesses d (nm, deposition order) and optional per-layer index scale.
+   * Writes R, T, A into the given arrays (length ≥ W); amplitudes when `amp` is given.
+   */
+  run(
+    d: Float64Array,
+    scale: Float64Array | undefined,
+    R: Float64Array,
+    T: Float64Array,
+    A: Float64Array,
+    amp?: AmplitudeOut,
+  ): void {
+    const t = this.t;
+    if (t.backside) {
+      if (scale) {
+        if (this.realScaled(scale)) this.matRealScaled(d, scale);
+        else this.matScaled(d, scale);
+      } else if (t.real) this.matReal(d);
+      else this.matComplex(d);
+      this.finishMatrix(R, T, A, amp);
+    } else {
+      if (scale) {
+        if (this.realScaled(scale)) this.vecRealScaled(d, scale);
+        else this.vecScaled(d, scale);
+      } else if (t.real) this.vecReal(d);
+      else this.vecComplex(d);
+      this.finishVector(R, T, A, amp);
+    }
+  }
+
+  /** Real path possible under index scaling: lossless and propagating in every layer. */
+  private realScaled(scale: Float64Array): boolean {
+    const t = this.t;
+    if (!t.lossless) return false;
+    for (let j = 0; j < t.L; j++) {
+      const f = scale[j]!;
+      if (!(f * f * t.minN2[j]! > t.maxS2)) return false;
+    }
+    return true;
+  }
+
+  // ------------------------------------------------------------------ vector mode
+  private vecReal(d: Float64Array): void {
+    const t = this.t;
+    const L = t.L;
+    const W = this.W;
+    const bt = t.betaR;
+    const et = t.etaR;
+    const it = t.ietaR;
+    const esR = t.etaSR;
+    const esI = t.etaSI;
+    const oBr = this.aR, oBi = this.aI, oCr = this.cR, oCi = this.cI, osc = this.sc;
+    for (let w = 0; w < W; w++) {
+      let Br = 1;
+      let Bi = 0;
+      let Cr = esR[w]!;
+      let Ci = esI[w]!;
+      const base = w * L;
+      for (let j = 0; j < L; j++) {
+        const i = base + j;
+        const x = bt[i]! * d[j]!;
+        const nq = x * TWO_OVER_PI + RND - RND;
+        const r = x - nq * PIO2_1 - nq * PIO2_1T;
+        const z = r * r;
+        const sp = r + r * z * (S1 + z * (S2 + z * (S3 + z * (S4 + z * (S5 + z * S6)))));
+        const cp = 1 - 0.5 * z + z * z * (C1 + z * (C2 + z * (C3 + z * (C4 + z * (C5 + z * C6)))));
+        const qd = (nq | 0) & 3;
+        const qc = QUAD_C[qd]!;
+        const qs = QUAD_S[qd]!;
+        const s = sp * qc + cp * qs;
+        const c = cp * qc - sp * qs;
+        const a = s * it[i]!;
+        const b = s * et[i]!;
+        const nBr = c * Br - a * Ci;
+        const nBi = c * Bi + a * Cr;
+        const nCr = c * Cr - b * Bi;
+        const nCi = c * Ci + b * Br;
+        Br = nBr;
+        Bi = nBi;
+        Cr = nCr;
+        Ci = nCi;
+      }
+      oBr[w] = Br;
+      oBi[w] = Bi;
+      oCr[w] = Cr;
+      oCi[w] = Ci;
+      osc[w] = 0;
+    }
+  }
+
+  private vecRealScaled(d: Float64Array, scale: Float64Array): void {
+    const t = this.t;
+    const L = t.L;
+    const W = this.W;
+    const n2 = t.n2R;
+    const p = t.pol === "p";
+    const oBr = this.aR, oBi = this.aI, oCr = this.cR, oCi = this.cI, osc = this.sc;
+    for (let w = 0; w < W; w++) {
+      let Br = 1;
+      let Bi = 0;
+      let Cr = t.etaSR[w]!;
+      let Ci = t.etaSI[w]!;
+      const ss = t.s2[w]!;
+      const kw = t.k0[w]!;
+      const base = w * L;
+      for (let j = 0; j < L; j++) {
+        const i = base + j;
+        const f = scale[j]!;
+        const N2 = n2[i]! * f * f;
+        const qv = Math.sqrt(N2 - ss);
+        const eta = p ? N2 / qv : qv;
+        const x = kw * qv * d[j]!;
+        const nq = x * TWO_OVER_PI + RND - RND;
+        const r = x - nq * PIO2_1 - nq * PIO2_1T;
+        const z = r * r;
+        const sp = r + r * z * (S1 + z * (S2 + z * (S3 + z * (S4 + z * (S5 + z * S6)))));
+        const cp = 1 - 0.5 * z + z * z * (C1 + z * (C2 + z * (C3 + z * (C4 + z * (C5 + z * C6)))));
+        const qd = (nq | 0) & 3;
+        const qc = QUAD_C[qd]!;
+        const qs = QUAD_S[qd]!;
+        const s = sp * qc + cp * qs;
+        const c = cp * qc - sp * qs;
+        const a = s / eta;
+        const b = s * eta;
+        const nBr = c * Br - a * Ci;
+        const nBi = c * Bi + a * Cr;
+        const nCr = c * Cr - b * Bi;
+        const nCi = c * Ci + b * Br;
+        Br = nBr;
+        Bi = nBi;
+        Cr = nCr;
+        Ci = nCi;
+      }
+      oBr[w] = Br;
+      oBi[w] = Bi;
+      oCr[w] = Cr;
+      oCi[w] = Ci;
+      osc[w] = 0;
+    }
+  }
+
+  private vecComplex(d: Float64Array): void {
+    const t = this.t;
+    const L = t.L;
+    const W = this.W;
+    const bRt = t.betaR, bIt = t.betaI, eRt = t.etaR, eIt = t.etaI, iRt = t.ietaR, iIt = t.ietaI;
+    const oBr = this.aR, oBi = this.aI, oCr = this.cR, oCi = this.cI, osc = this.sc;
+    for (let w = 0; w < W; w++) {
+      let Br = 1;
+      let Bi = 0;
+      let Cr = t.etaSR[w]!;
+      let Ci = t.etaSI[w]!;
+      let acc = 0;
+      let nsc = 0;
+      const base = w * L;
+      for (let j = 0; j < L; j++) {
+        const i = base + j;
+        const dj = d[j]!;
+        const x = bRt[i]! * dj;
+        let y = bIt[i]! * dj;
+        if (y < -MAX_DECAY) y = -MAX_DECAY;
+        // sin, cos of x
+        const nq = x * TWO_OVER_PI + RND - RND;
+        const r = x - nq * PIO2_1 - nq * PIO2_1T;
+        const z = r * r;
+        const sp = r + r * z * (S1 + z * (S2 + z * (S3 + z * (S4 + z * (S5 + z * S6)))));
+        const cp = 1 - 0.5 * z + z * z * (C1 + z * (C2 + z * (C3 + z * (C4 + z * (C5 + z * C6)))));
+        const qd = (nq | 0) & 3;
+        const qc = QUAD_C[qd]!;
+        const qs = QUAD_S[qd]!;
+        const sa = sp * qc + cp * qs;
+        const ca = cp * qc - sp * qs;
+        // cosh, sinh of y
+        const nn = y * LOG2E + RND - RND;
+        const ry = y - nn * LN2_HI - nn * LN2_LO;
+        const zy = ry * ry;
+        const ev = 1 + zy * (E1 + zy * (E2 + zy * (E3 + zy * (E4 + zy * (E5 + zy * E6)))));
+        const od = ry * (1 + zy * (O1 + zy * (O2 + zy * (O3 + zy * (O4 + zy * (O5 + zy * O6))))));
+        const ni = nn | 0;
+        const ep = (ev + od) * POW2[POW2_OFFSET + ni]!;
+        const em = (ev - od) * POW2[POW2_OFFSET - ni]!;
+        const ch = 0.5 * (ep + em);
+        const sh = 0.5 * (ep - em);
+        // cos δ = ca ch − i sa sh ; i sin δ = −ca sh + i sa ch
+        const csr = ca * ch;
+        const csi = -sa * sh;
+        const isr = -ca * sh;
+        const isi = sa * ch;
+        const er = eRt[i]!, ei = eIt[i]!, ir = iRt[i]!, ii = iIt[i]!;
+        const m12r = isr * ir - isi * ii;
+        const m12i = isr * ii + isi * ir;
+        const m21r = isr * er - isi * ei;
+        const m21i = isr * ei + isi * er;
+        const nBr = csr * Br - csi * Bi + m12r * Cr - m12i * Ci;
+        const nBi = csr * Bi + csi * Br + m12r * Ci + m12i * Cr;
+        const nCr = m21r * Br - m21i * Bi + csr * Cr - csi * Ci;
+        const nCi = m21r * Bi + m21i * Br + csr * Ci + csi * Cr;
+        Br = nBr;
+        Bi = nBi;
+        Cr = nCr;
+        Ci = nCi;
+        acc += y;
+        if (acc < -MAX_DECAY) {
+          Br *= RESCALE;
+          Bi *= RESCALE;
+          Cr *= RESCALE;
+          Ci *= RESCALE;
+          acc += RESCALE_LOG;
+          nsc++;
+        }
+      }
+      oBr[w] = Br;
+      oBi[w] = Bi;
+      oCr[w] = Cr;
+      oCi[w] = Ci;
+      osc[w] = nsc;
+    }
+  }
+
+  private vecScaled(d: Float64Array, scale: Float64Array): void {
+    const t = this.t;
+    const L = t.L;
+    const W = this.W;
+    const n2R = t.n2R, n2I = t.n2I;
+    const p = t.pol === "p";
+    const oBr = this.aR, oBi = this.aI, oCr = this.cR, oCi = this.cI, osc = this.sc;
+    for (let w = 0; w < W; w++) {
+      let Br = 1;
+      let Bi = 0;
+      let Cr = t.etaSR[w]!;
+      let Ci = t.etaSI[w]!;
+      const ss = t.s2[w]!;
+      const kw = t.k0[w]!;
+      let acc = 0;
+      let nsc = 0;
+      const base = w * L;
+      for (let j = 0; j < L; j++) {
+        const i = base + j;
+        const f2 = scale[j]! * scale[j]!;
+        const Nr = n2R[i]! * f2;
+        const Ni = n2I[i]! * f2;
+        // q = forward √(N² − s²)
+        const zr = Nr - ss;
+        const rr = Math.sqrt(zr * zr + Ni * Ni);
+        const u = Math.sqrt(0.5 * (rr + Math.abs(zr)));
+        let qr: number;
+        let qi: number;
+        if (u === 0) {
+          qr = 0;
+          qi = 0;
+        } else if (zr >= 0) {
+          qr = u;
+          qi = Ni / (2 * u);
+        } else {
+          qr = Math.abs(Ni) / (2 * u);
+          qi = Ni >= 0 ? u : -u;
+        }
+        const tol = 1e-13 * (Math.abs(qr) + Math.abs(qi));
+        if (qi > tol || (Math.abs(qi) <= tol && qr < 0)) {
+          qr = -qr;
+          qi = -qi;
+        }
+        let er: number;
+        let ei: number;
+        if (p) {
+          const dq = qr * qr + qi * qi;
+          er = (Nr * qr + Ni * qi) / dq;
+          ei = (Ni * qr - Nr * qi) / dq;
+        } else {
+          er = qr;
+          ei = qi;
+        }
+        const de = er * er + ei * ei;
+        const ir = er / de;
+        const ii = -ei / de;
+        const kd = kw * d[j]!;
+        const x = qr * kd;
+        let y = qi * kd;
+        if (y < -MAX_DECAY) y = -MAX_DECAY;
+        const nq = x * TWO_OVER_PI + RND - RND;
+        const r = x - nq * PIO2_1 - nq * PIO2_1T;
+        const z = r * r;
+        const sp = r + r * z * (S1 + z * (S2 + z * (S3 + z * (S4 + z * (S5 + z * S6)))));
+        const cp = 1 - 0.5 * z + z * z * (C1 + z * (C2 + z * (C3 + z * (C4 + z * (C5 + z * C6)))));
+        const qd = (nq | 0) & 3;
+        const qc = QUAD_C[qd]!;
+        const qs = QUAD_S[qd]!;
+        const sa = sp * qc + cp * qs;
+        const ca = cp * qc - sp * qs;
+        const nn = y * LOG2E + RND - RND;
+        const ry = y - nn * LN2_HI - nn * LN2_LO;
+        const zy = ry * ry;
+        const ev = 1 + zy * (E1 + zy * (E2 + zy * (E3 + zy * (E4 + zy * (E5 + zy * E6)))));
+        const od = ry * (1 + zy * (O1 + zy * (O2 + zy * (O3 + zy * (O4 + zy * (O5 + zy * O6))))));
+        const nI = nn | 0;
+        const ep = (ev + od) * POW2[POW2_OFFSET + nI]!;
+        const em = (ev - od) * POW2[POW2_OFFSET - nI]!;
+        const ch = 0.5 * (ep + em);
+        const sh = 0.5 * (ep - em);
+        const csr = ca * ch;
+        const csi = -sa * sh;
+        const isr = -ca * sh;
+        const isi = sa * ch;
+        const m12r = isr * ir - isi * ii;
+        const m12i = isr * ii + isi * ir;
+        const m21r = isr * er - isi * ei;
+        const m21i = isr * ei + isi * er;
+        const nBr = csr * Br - csi * Bi + m12r * Cr - m12i * Ci;
+        const nBi = csr * Bi + csi * Br + m12r * Ci + m12i * Cr;
+        const nCr = m21r * Br - m21i * Bi + csr * Cr - csi * Ci;
+        const nCi = m21r * Bi + m21i * Br + csr * Ci + csi * Cr;
+        Br = nBr;
+        Bi = nBi;
+        Cr = nCr;
+        Ci = nCi;
+        acc += y;
+        if (acc < -MAX_DECAY) {
+          Br *= RESCALE;
+          Bi *= RESCALE;
+          Cr *= RESCALE;
+          Ci *= RESCALE;
+          acc += RESCALE_LOG;
+          nsc++;
+        }
+      }
+      oBr[w] = Br;
+      oBi[w] = Bi;
+      oCr[w] = Cr;
+      oCi[w] = Ci;
+      osc[w] = nsc;
+    }
+  }
+
+  private finishVector(R: Float64Array, T: Float64Array, A: Float64Array, amp?: AmplitudeOut): void {
+    const t = this.t;
+    const W = this.W;
+    for (let w = 0; w < W; w++) {
+      const e0 = t.eta0[w]!;
+      const Br = this.aR[w]!, Bi = this.aI[w]!, Cr = this.cR[w]!, Ci = this.cI[w]!;
+      const dr = e0 * Br + Cr;
+      const di = e0 * Bi + Ci;
+      const nr = e0 * Br - Cr;
+      const ni = e0 * Bi - Ci;
+      const dd = dr * dr + di * di;
+      const Rv = (nr * nr + ni * ni) / dd;
+      let Tv = (4 * e0 * t.etaSR[w]!) / dd;
+      const nsc = this.sc[w]!;
+      if (nsc > 0) Tv *= Math.pow(RESCALE * RESCALE, nsc);
+      R[w] = Rv;
+      T[w] = Tv;
+      A[w] = 1 - Rv - Tv;
+      if (amp) {
+        amp.rRe[w] = (nr * dr + ni * di) / dd;
+        amp.rIm[w] = (ni * dr - nr * di) / dd;
+        const f = nsc > 0 ? Math.pow(RESCALE, nsc) : 1;
+        amp.tRe[w] = ((2 * e0 * dr) / dd) * f;
+        amp.tIm[w] = ((-2 * e0 * di) / dd) * f;
+      }
+    }
+  }
+
+  // ------------------------------------------------------------------ matrix mode (backside)
+  private matReal(d: Float64Array): void {
+    const t = this.t;
+    const L = t.L;
+    const W = this.W;
+    const bt = t.betaR;
+    const et = t.etaR;
+    const it = t.ietaR;
+    for (let w = 0; w < W; w++) {
+      // M = [[A, iB], [iC, D]] with A, B, C, D real (product of lossless layer matrices)
+      let mA = 1;
+      let mB = 0;
+      let mC = 0;
+      let mD = 1;
+      const base = w * L;
+      for (let j = 0; j < L; j++) {
+        const i = base + j;
+        const x = bt[i]! * d[j]!;
+        const nq = x * TWO_OVER_PI + RND - RND;
+        const r = x - nq * PIO2_1 - nq * PIO2_1T;
+        const z = r * r;
+        const sp = r + r * z * (S1 + z * (S2 + z * (S3 + z * (S4 + z * (S5 + z * S6)))));
+        const cp = 1 - 0.5 * z + z * z * (C1 + z * (C2 + z * (C3 + z * (C4 + z * (C5 + z * C6)))));
+        const qd = (nq | 0) & 3;
+        const qc = QUAD_C[qd]!;
+        const qs = QUAD_S[qd]!;
+        const s = sp * qc + cp * qs;
+        const c = cp * qc - sp * qs;
+        const a = s * it[i]!;
+        const b = s * et[i]!;
+        const nA = c * mA - a * mC;
+        const nB = c * mB + a * mD;
+        const nC = b * mA + c * mC;
+        const nD = c * mD - b * mB;
+        mA = nA;
+        mB = nB;
+        mC = nC;
+        mD = nD;
+      }
+      this.aR[w] = mA;
+      this.aI[w] = 0;
+      this.bR[w] = 0;
+      this.bI[w] = mB;
+      this.cR[w] = 0;
+      this.cI[w] = mC;
+      this.dR[w] = mD;
+      this.dI[w] = 0;
+      this.sc[w] = 0;
+    }
+  }
+
+  private matRealScaled(d: Float64Array, scale: Float64Array): void {
+    const t = this.t;
+    const L = t.L;
+    const W = this.W;
+    const n2 = t.n2R;
+    const p = t.pol === "p";
+    for (let w = 0; w < W; w++) {
+      let mA = 1;
+      let mB = 0;
+      let mC = 0;
+      let mD = 1;
+      const ss = t.s2[w]!;
+      const kw = t.k0[w]!;
+      const base = w * L;
+      for (let j = 0; j < L; j++) {
+        const i = base + j;
+        const f = scale[j]!;
+        const N2 = n2[i]! * f * f;
+        const qv = Math.sqrt(N2 - ss);
+        const eta = p ? N2 / qv : qv;
+        const x = kw * qv * d[j]!;
+        const nq = x * TWO_OVER_PI + RND - RND;
+        const r = x - nq * PIO2_1 - nq * PIO2_1T;
+        const z = r * r;
+        const sp = r + r * z * (S1 + z * (S2 + z * (S3 + z * (S4 + z * (S5 + z * S6)))));
+        const cp = 1 - 0.5 * z + z * z * (C1 + z * (C2 + z * (C3 + z * (C4 + z * (C5 + z * C6)))));
+        const qd = (nq | 0) & 3;
+        const qc = QUAD_C[qd]!;
+        const qs = QUAD_S[qd]!;
+        const s = sp * qc + cp * qs;
+        const c = cp * qc - sp * qs;
+        const a = s / eta;
+        const b = s * eta;
+        const nA = c * mA - a * mC;
+        const nB = c * mB + a * mD;
+        const nC = b * mA + c * mC;
+        const nD = c * mD - b * mB;
+        mA = nA;
+        mB = nB;
+        mC = nC;
+        mD = nD;
+      }
+      this.aR[w] = mA;
+      this.aI[w] = 0;
+      this.bR[w] = 0;
+      this.bI[w] = mB;
+      this.cR[w] = 0;
+      this.cI[w] = mC;
+      this.dR[w] = mD;
+      this.dI[w] = 0;
+      this.sc[w] = 0;
+    }
+  }
+
+  private matComplex(d: Float64Array): void {
+    this.matGeneral(d, undefined);
+  }
+
+  private matScaled(d: Float64Array, scale: Float64Array): void {
+    this.matGeneral(d, scale);
+  }
+
+  /** Full complex matrix product; recomputes q and η when `scale` is given. */
+  private matGeneral(d: Float64Array, scale: Float64Array | undefined): void {
+    const t = this.t;
+    const L = t.L;
+    const W = this.W;
+    const p = t.pol === "p";
+    const q = this.q2;
+    for (let w = 0; w < W; w++) {
+      let aR = 1, aI = 0, bR = 0, bI = 0, cR = 0, cI = 0, dR = 1, dI = 0;
+      const ss = t.s2[w]!;
+      const kw = t.k0[w]!;
+      let acc = 0;
+      let nsc = 0;
+      const base = w * L;
+      for (let j = 0; j < L; j++) {
+        const i = base + j;
+        let xr: number, yr: number, er: number, ei: number, ir: number, ii: number;
+        if (scale) {
+          const f2 = scale[j]! * scale[j]!;
+          const Nr = t.n2R[i]! * f2;
+          const Ni = t.n2I[i]! * f2;
+          forwardSqrt(Nr - ss, Ni, q);
+          const qr = q[0]!;
+          const qi = q[1]!;
+          if (p) {
+            const dq = qr * qr + qi * qi;
+            er = (Nr * qr + Ni * qi) / dq;
+            ei = (Ni * qr - Nr * qi) / dq;
+          } else {
+            er = qr;
+            ei = qi;
+          }
+          const de = er * er + ei * ei;
+          ir = er / de;
+          ii = -ei / de;
+          xr = kw * qr * d[j]!;
+          yr = kw * qi * d[j]!;
+        } else {
+          er = t.etaR[i]!;
+          ei = t.etaI[i]!;
+          ir = t.ietaR[i]!;
+          ii = t.ietaI[i]!;
+          xr = t.betaR[i]! * d[j]!;
+          yr = t.betaI[i]! * d[j]!;
+        }
+        if (yr < -MAX_DECAY) yr = -MAX_DECAY;
+        const nq = xr * TWO_OVER_PI + RND - RND;
+        const r = xr - nq * PIO2_1 - nq * PIO2_1T;
+        const z = r * r;
+        const sp = r + r * z * (S1 + z * (S2 + z * (S3 + z * (S4 + z * (S5 + z * S6)))));
+        const cp = 1 - 0.5 * z + z * z * (C1 + z * (C2 + z * (C3 + z * (C4 + z * (C5 + z * C6)))));
+        const qd = (nq | 0) & 3;
+        const qc = QUAD_C[qd]!;
+        const qs = QUAD_S[qd]!;
+        const sa = sp * qc + cp * qs;
+        const ca = cp * qc - sp * qs;
+        const nn = yr * LOG2E + RND - RND;
+        const ry = yr - nn * LN2_HI - nn * LN2_LO;
+        const zy = ry * ry;
+        const ev = 1 + zy * (E1 + zy * (E2 + zy * (E3 + zy * (E4 + zy * (E5 + zy * E6)))));
+        const od = ry * (1 + zy * (O1 + zy * (O2 + zy * (O3 + zy * (O4 + zy * (O5 + zy * O6))))));
+        const nI = nn | 0;
+        const ep = (ev + od) * POW2[POW2_OFFSET + nI]!;
+        const em = (ev - od) * POW2[POW2_OFFSET - nI]!;
+        const ch = 0.5 * (ep + em);
+        const sh = 0.5 * (ep - em);
+        const csr = ca * ch;
+        const csi = -sa * sh;
+        const isr = -ca * sh;
+        const isi = sa * ch;
+        const m12r = isr * ir - isi * ii;
+        const m12i = isr * ii + isi * ir;
+        const m21r = isr * er - isi * ei;
+        const m21i = isr * ei + isi * er;
+        // [[cs, m12], [m21, cs]] × [[a, b], [c, d]]
+        const naR = csr * aR - csi * aI + m12r * cR - m12i * cI;
+        const naI = csr * aI + csi * aR + m12r * cI + m12i * cR;
+        const nbR = csr * bR - csi * bI + m12r * dR - m12i * dI;
+        const nbI = csr * bI + csi * bR + m12r * dI + m12i * dR;
+        const ncR = m21r * aR - m21i * aI + csr * cR - csi * cI;
+        const ncI = m21r * aI + m21i * aR + csr * cI + csi * cR;
+        const ndR = m21r * bR - m21i * bI + csr * dR - csi * dI;
+        const ndI = m21r * bI + m21i * bR + csr * dI + csi * dR;
+        aR = naR; aI = naI; bR = nbR; bI = nbI; cR = ncR; cI = ncI; dR = ndR; dI = ndI;
+        acc += yr;
+        if (acc < -MAX_DECAY) {
+          aR *= RESCALE; aI *= RESCALE; bR *= RESCALE; bI *= RESCALE;
+          cR *= RESCALE; cI *= RESCALE; dR *= RESCALE; dI *= RESCALE;
+          acc += RESCALE_LOG;
+          nsc++;
+        }
+      }
+      this.aR[w] = aR; this.aI[w] = aI; this.bR[w] = bR; this.bI[w] = bI;
+      this.cR[w] = cR; this.cI[w] = cI; this.dR[w] = dR; this.dI[w] = dI;
+      this.sc[w] = nsc;
+    }
+  }
+
+  private finishMatrix(R: Float64Array, T: Float64Array, A: Float64Array, amp?: AmplitudeOut): void {
+    const t = this.t;
+    const W = this.W;
+    for (let w = 0; w < W; w++) {
+      const e0 = t.eta0[w]!;
+      const sr = t.etaSR[w]!;
+      const si = t.etaSI[w]!;
+      const aR = this.aR[w]!, aI = this.aI[w]!, bR = this.bR[w]!, bI = this.bI[w]!;
+      const cR = this.cR[w]!, cI = this.cI[w]!, dR = this.dR[w]!, dI = this.dI[w]!;
+      // front: [B, C] = M [1, ηs]
+      const Br = aR + bR * sr - bI * si;
+      const Bi = aI + bR * si + bI * sr;
+      const Cr = cR + dR * sr - dI * si;
+      const Ci = cI + dR * si + dI * sr;
+      const dr = e0 * Br + Cr;
+      const di = e0 * Bi + Ci;
+      const nr = e0 * Br - Cr;
+      const ni = e0 * Bi - Ci;
+      const dd = dr * dr + di * di;
+      const Rf = (nr * nr + ni * ni) / dd;
+      let Tf = (4 * e0 * sr) / dd;
+      const nsc = this.sc[w]!;
+      if (nsc > 0) Tf *= Math.pow(RESCALE * RESCALE, nsc);
+      // seen from the substrate: reversed stack [[d, b], [c, a]] applied to [1, η0]
+      const B2r = dR + bR * e0;
+      const B2i = dI + bI * e0;
+      const C2r = cR + aR * e0;
+      const C2i = cI + aI * e0;
+      const xBr = sr * B2r - si * B2i;
+      const xBi = sr * B2i + si * B2r;
+      const pr = xBr - C2r;
+      const pi = xBi - C2i;
+      const mr = xBr + C2r;
+      const mi = xBi + C2i;
+      const Rr = (pr * pr + pi * pi) / (mr * mr + mi * mi);
+      const tau = t.tau[w]!;
+      const Rb = t.Rb[w]!;
+      const tt = tau * tau;
+      const den = 1 - Rr * Rb * tt;
+      const Rv = Rf + (Tf * Tf * tt * Rb) / den;
+      const Tv = (Tf * tau * t.Tb[w]!) / den;
+      R[w] = Rv;
+      T[w] = Tv;
+      A[w] = 1 - Rv - Tv;
+      if (amp) {
+        amp.rRe[w] = (nr * dr + ni * di) / dd;
+        amp.rIm[w] = (ni * dr - nr * di) / dd;
+        const f = nsc > 0 ? Math.pow(RESCALE, nsc) : 1;
+        amp.tRe[w] = ((2 * e0 * dr) / dd) * f;
+        amp.tIm[w] = ((-2 * e0 * di) / dd) * f;
+      }
+    }
+  }
+}

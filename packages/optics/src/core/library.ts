@@ -1,0 +1,313 @@
+/**
+ * Built-in material library. Thin-film indices depend strongly on the deposition process;
+ * the film values here are typical values for dense films, good for design studies, and
+ * are marked "approximate, from memory" unless a published formula is quoted exactly.
+ * Teams should override them with their own measured constants (design-local materials).
+ *
+ * Conventions: N = n − ik (k ≥ 0 absorbing); Cauchy/Sellmeier in µm; tables in nm.
+ */
+import type { Material } from "./materials.ts";
+
+const FROM_MEMORY = "approximate, from memory";
+
+/** The built-in library, read-only. Ids are stable and referenced by designs. */
+export const MATERIAL_LIBRARY: readonly Material[] = Object.freeze([
+  // ---- media ----
+  {
+    id: "air",
+    name: "Air",
+    model: { kind: "constant", n: 1, k: 0 },
+    role: "medium",
+    source: "n = 1 (the 2.7e-4 excess of real air is neglected, common practice, no source)",
+  },
+  {
+    id: "water",
+    name: "Water",
+    model: { kind: "cauchy", A: 1.3247, B: 0.00331, C: -0.0000321 },
+    role: "medium",
+    source: FROM_MEMORY + " (n ≈ 1.333 at 589 nm)",
+  },
+  // ---- dielectric films (dense films, visible and near infrared) ----
+  {
+    id: "SiO2",
+    name: "Silicon dioxide (film)",
+    model: { kind: "cauchy", A: 1.45, B: 0.0036, C: 0 },
+    role: "layer",
+    source: FROM_MEMORY + " (n ≈ 1.46 at 550 nm)",
+  },
+  {
+    id: "MgF2",
+    name: "Magnesium fluoride (film)",
+    model: { kind: "cauchy", A: 1.372, B: 0.0025, C: 0 },
+    role: "layer",
+    source: FROM_MEMORY + " (n ≈ 1.38 at 550 nm)",
+  },
+  {
+    id: "Al2O3",
+    name: "Aluminium oxide (film)",
+    model: { kind: "cauchy", A: 1.615, B: 0.005, C: 0 },
+    role: "layer",
+    source: FROM_MEMORY + " (n ≈ 1.63 at 550 nm)",
+  },
+  {
+    id: "HfO2",
+    name: "Hafnium dioxide (film)",
+    model: { kind: "cauchy", A: 1.94, B: 0.016, C: 0 },
+    role: "layer",
+    source: FROM_MEMORY + " (n ≈ 1.99 at 550 nm)",
+  },
+  {
+    id: "ZrO2",
+    name: "Zirconium dioxide (film)",
+    model: { kind: "cauchy", A: 1.99, B: 0.018, C: 0 },
+    role: "layer",
+    source: FROM_MEMORY + " (n ≈ 2.05 at 550 nm)",
+  },
+  {
+    id: "Ta2O5",
+    name: "Tantalum pentoxide (film)",
+    model: { kind: "cauchy", A: 2.05, B: 0.025, C: 0 },
+    role: "layer",
+    source: FROM_MEMORY + " (n ≈ 2.13 at 550 nm)",
+  },
+  {
+    id: "Nb2O5",
+    name: "Niobium pentoxide (film)",
+    model: { kind: "cauchy", A: 2.2, B: 0.03, C: 0 },
+    role: "layer",
+    source: FROM_MEMORY + " (n ≈ 2.30 at 550 nm)",
+  },
+  {
+    id: "TiO2",
+    name: "Titanium dioxide (film)",
+    model: { kind: "cauchy", A: 2.21, B: 0.045, C: 0.0035 },
+    role: "layer",
+    source: FROM_MEMORY + " (n ≈ 2.40 at 550 nm)",
+  },
+  {
+    id: "Si3N4",
+    name: "Silicon nitride (film)",
+    model: { kind: "cauchy", A: 1.98, B: 0.014, C: 0 },
+    role: "layer",
+    source: FROM_MEMORY + " (n ≈ 2.03 at 550 nm)",
+  },
+  {
+    id: "ZnS",
+    name: "Zinc sulfide (film)",
+    model: { kind: "cauchy", A: 2.26, B: 0.028, C: 0.0025 },
+    role: "layer",
+    source: FROM_MEMORY + " (n ≈ 2.38 at 550 nm, 2.29 at 1000 nm)",
+  },
+  {
+    id: "Ge",
+    name: "Germanium (film, infrared)",
+    model: {
+      kind: "table",
+      points: [
+        [2000, 4.1, 0],
+        [3000, 4.045, 0],
+        [5000, 4.016, 0],
+        [8000, 4.006, 0],
+        [10000, 4.004, 0],
+        [14000, 4.0, 0],
+      ],
+    },
+    role: "layer",
+    source: FROM_MEMORY + " (bulk values; opaque below about 1.8 µm, so the table starts at 2 µm)",
+  },
+  // ---- metals (tables over their useful range) ----
+  {
+    id: "Ag",
+    name: "Silver",
+    model: {
+      kind: "table",
+      points: [
+        [380, 0.07, 1.78],
+        [400, 0.05, 2.07],
+        [450, 0.04, 2.62],
+        [500, 0.05, 3.07],
+        [550, 0.055, 3.43],
+        [600, 0.055, 3.84],
+        [650, 0.055, 4.28],
+        [700, 0.04, 4.7],
+        [800, 0.03, 5.49],
+        [900, 0.04, 6.25],
+        [1000, 0.04, 7.0],
+        [1200, 0.05, 8.5],
+        [1500, 0.07, 10.6],
+        [2000, 0.11, 14.2],
+      ],
+    },
+    role: "metal",
+    source: FROM_MEMORY + " (shape after Johnson & Christy, Phys. Rev. B 6, 4370, 1972)",
+  },
+  {
+    id: "Al",
+    name: "Aluminium",
+    model: {
+      kind: "table",
+      points: [
+        [300, 0.28, 3.64],
+        [350, 0.38, 4.25],
+        [400, 0.49, 4.86],
+        [450, 0.62, 5.47],
+        [500, 0.77, 6.08],
+        [550, 0.96, 6.69],
+        [600, 1.2, 7.26],
+        [650, 1.47, 7.79],
+        [700, 1.83, 8.31],
+        [750, 2.4, 8.62],
+        [800, 2.8, 8.45],
+        [850, 2.75, 8.3],
+        [900, 2.06, 8.3],
+        [1000, 1.35, 9.6],
+        [1200, 1.2, 12.2],
+        [1500, 1.5, 15.0],
+        [2000, 2.1, 20.0],
+      ],
+    },
+    role: "metal",
+    source: FROM_MEMORY + " (shape after Rakić, Appl. Opt. 34, 4755, 1995)",
+  },
+  {
+    id: "Au",
+    name: "Gold",
+    model: {
+      kind: "table",
+      points: [
+        [400, 1.47, 1.95],
+        [450, 1.38, 1.85],
+        [500, 0.97, 1.87],
+        [550, 0.43, 2.45],
+        [600, 0.25, 2.98],
+        [650, 0.17, 3.5],
+        [700, 0.16, 3.95],
+        [800, 0.15, 4.9],
+        [900, 0.17, 5.7],
+        [1000, 0.22, 6.35],
+        [1200, 0.28, 7.8],
+        [1500, 0.4, 9.5],
+        [2000, 0.6, 12.6],
+      ],
+    },
+    role: "metal",
+    source: FROM_MEMORY + " (shape after Johnson & Christy, Phys. Rev. B 6, 4370, 1972)",
+  },
+  {
+    id: "Cr",
+    name: "Chromium",
+    model: {
+      kind: "table",
+      points: [
+        [400, 2.2, 3.15],
+        [450, 2.45, 3.2],
+        [500, 2.75, 3.3],
+        [550, 3.05, 3.35],
+        [600, 3.2, 3.45],
+        [650, 3.4, 3.6],
+        [700, 3.6, 3.8],
+        [800, 3.9, 4.2],
+        [900, 4.1, 4.4],
+        [1000, 4.2, 4.5],
+        [1200, 4.3, 4.9],
+        [1500, 4.4, 5.4],
+        [2000, 4.5, 6.3],
+      ],
+    },
+    role: "metal",
+    source: FROM_MEMORY + " (film values vary widely with deposition)",
+  },
+  // ---- substrates ----
+  {
+    id: "fused-silica",
+    name: "Fused silica",
+    model: {
+      kind: "sellmeier",
+      B: [0.6961663, 0.4079426, 0.8974794],
+      C: [0.0684043 ** 2, 0.1162414 ** 2, 9.896161 ** 2],
+    },
+    role: "substrate",
+    source: "Malitson, J. Opt. Soc. Am. 55, 1205 (1965), Sellmeier fit 0.21–3.71 µm",
+  },
+  {
+    id: "boro-crown",
+    name: "Borosilicate crown glass",
+    model: {
+      kind: "sellmeier",
+      B: [1.03961212, 0.231792344, 1.01046945],
+      C: [0.00600069867, 0.0200179144, 103.560653],
+    },
+    role: "substrate",
+    source:
+      "Sellmeier coefficients of the standard borosilicate crown (nd ≈ 1.5168) as printed in optical-glass catalogues; from memory",
+  },
+  {
+    id: "sapphire",
+    name: "Sapphire (ordinary ray)",
+    model: {
+      kind: "sellmeier",
+      B: [1.4313493, 0.65054713, 5.3414021],
+      C: [0.0726631 ** 2, 0.1193242 ** 2, 18.028251 ** 2],
+    },
+    role: "substrate",
+    source: "Malitson & Dodge, J. Opt. Soc. Am. 62, 1405 (1972), ordinary ray; coefficients from memory",
+  },
+  {
+    id: "silicon",
+    name: "Silicon (crystalline)",
+    model: {
+      kind: "table",
+      points: [
+        [400, 5.57, 0.387],
+        [450, 4.67, 0.14],
+        [500, 4.3, 0.073],
+        [550, 4.08, 0.041],
+        [600, 3.95, 0.025],
+        [650, 3.85, 0.017],
+        [700, 3.78, 0.011],
+        [800, 3.69, 0.0065],
+        [900, 3.63, 0.0025],
+        [1000, 3.57, 0.0011],
+        [1100, 3.54, 0.0002],
+        [1200, 3.52, 0],
+        [1550, 3.48, 0],
+        [2000, 3.45, 0],
+        [5000, 3.425, 0],
+        [10000, 3.42, 0],
+      ],
+    },
+    role: "substrate",
+    source: FROM_MEMORY + " (shape after Green, Sol. Energy Mater. Sol. Cells 92, 1305, 2008)",
+  },
+  {
+    id: "germanium",
+    name: "Germanium (substrate, infrared)",
+    model: {
+      kind: "table",
+      points: [
+        [2000, 4.1, 0],
+        [3000, 4.045, 0],
+        [5000, 4.016, 0],
+        [8000, 4.006, 0],
+        [10000, 4.004, 0],
+        [12000, 4.003, 0.0002],
+        [14000, 4.0, 0.001],
+      ],
+    },
+    role: "substrate",
+    source: FROM_MEMORY + " (opaque below about 1.8 µm; lattice absorption beyond 11 µm)",
+  },
+] satisfies Material[]);
+
+/**
+ * Look a material up by id. Design-local (custom) materials override the library.
+ *
+ * @throws RangeError naming the id when it is neither custom nor in {@link MATERIAL_LIBRARY}
+ */
+export function getMaterial(id: string, custom?: readonly Material[]): Material {
+  const found = custom?.find((m) => m.id === id) ?? MATERIAL_LIBRARY.find((m) => m.id === id);
+  if (!found) {
+    throw new RangeError(`unknown material id "${id}" (not in the design's materials nor the library)`);
+  }
+  return found;
+}
