@@ -12,6 +12,8 @@ export class ApiError extends Error {
     readonly code: string,
     message: string,
     readonly details?: unknown,
+    /** Seconds from a Retry-After header (429), when the server sent one. */
+    readonly retryAfter?: number,
   ) {
     super(message);
     this.name = "ApiError";
@@ -37,19 +39,31 @@ function buildUrl(path: string, query?: Query): string {
 
 async function request<T>(method: string, path: string, options: RequestOptions = {}): Promise<T> {
   const isForm = options.body instanceof FormData;
-  const res = await fetch(buildUrl(path, options.query), {
-    method,
-    credentials: "same-origin",
-    signal: options.signal,
-    headers: options.body === undefined || isForm ? undefined : { "Content-Type": "application/json" },
-    body:
-      options.body === undefined ? undefined : isForm ? (options.body as FormData) : JSON.stringify(options.body),
-  });
+  let res: Response;
+  try {
+    res = await fetch(buildUrl(path, options.query), {
+      method,
+      credentials: "same-origin",
+      signal: options.signal,
+      headers: options.body === undefined || isForm ? undefined : { "Content-Type": "application/json" },
+      body: options.body === undefined ? undefined : isForm ? (options.body as FormData) : JSON.stringify(options.body),
+    });
+  } catch (error) {
+    if (error instanceof DOMException && error.name === "AbortError") throw error;
+    throw new ApiError(0, "network_error", "The Stackproof server could not be reached. Check your connection and try again.");
+  }
   const text = await res.text();
   const data: unknown = text ? safeJson(text) : undefined;
   if (!res.ok) {
     const err = (data as { error?: ApiErrorBody } | undefined)?.error;
-    throw new ApiError(res.status, err?.code ?? "http_error", err?.message ?? `Request failed (${res.status}).`, err?.details);
+    const retry = Number(res.headers.get("Retry-After"));
+    throw new ApiError(
+      res.status,
+      err?.code ?? "http_error",
+      err?.message ?? `Request failed (${res.status}).`,
+      err?.details,
+      Number.isFinite(retry) && retry > 0 ? retry : undefined,
+    );
   }
   return data as T;
 }

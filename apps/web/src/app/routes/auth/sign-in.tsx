@@ -1,8 +1,26 @@
+import { redirect, useNavigate, useSearchParams } from "react-router";
+import { AuthLayout } from "../../../components/layout/auth-layout.tsx";
+import { SignInForm } from "../../../features/auth/components/sign-in-form.tsx";
+import { safeNext, sessionQueryOptions } from "../../../lib/session.ts";
+import { queryClient } from "../../../lib/query-client.ts";
+
 export function Component() {
+  const [params] = useSearchParams();
+  const navigate = useNavigate();
+  const next = safeNext(params.get("next"));
   return (
-    <div className="mx-auto mt-16 max-w-sm rounded-xl border border-ink-100 bg-white p-8 shadow-sm">
-      <h1 className="text-xl font-semibold">Sign in to Stackproof</h1>
-      <p className="mt-2 text-sm text-ink-700">Sign-in arrives with accounts and roles.</p>
-    </div>
+    <AuthLayout
+      title="Sign in to Stackproof"
+      intro={next !== "/" ? <p>Sign in to continue to the page you asked for.</p> : <p>Use the account your workspace administrator set up for you.</p>}
+    >
+      <SignInForm onSignedIn={() => navigate(next, { replace: true })} />
+    </AuthLayout>
   );
+}
+
+/** Someone already signed in goes straight on. */
+export async function loader({ request }: { request: Request }) {
+  const session = await queryClient.ensureQueryData(sessionQueryOptions());
+  if (session) return redirect(safeNext(new URL(request.url).searchParams.get("next")));
+  return null;
 }

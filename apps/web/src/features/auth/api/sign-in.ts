@@ -1,0 +1,22 @@
+import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { api } from "../../../lib/api-client.ts";
+import { sessionQueryKey, type Session } from "../../../lib/session.ts";
+
+export interface SignInInput {
+  email: string;
+  password: string;
+}
+
+export const signIn = (input: SignInInput) => api.post<Session>("/auth/sign-in", input);
+
+/** Signs in and stores the session, so the shell's loader finds it without another request. */
+export function useSignIn() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: signIn,
+    onSuccess: (session) => {
+      qc.removeQueries();
+      qc.setQueryData(sessionQueryKey, session);
+    },
+  });
+}
