@@ -59,6 +59,8 @@ export function scaleErrorModel(model: ErrorModel, scale: number): ErrorModel {
  */
 export interface TrialSampler {
   readonly materials: readonly string[];
+  /** False when the model has no index drift or noise: every index factor is then exactly 1. */
+  readonly hasIndexErrors: boolean;
   /**
    * Draw trial `index` of `seed` applied to `nominal` thicknesses (nm) into `thicknessOut` (nm, clamped at 0)
    * and `indexScaleOut` (per-layer factor on N).
@@ -80,8 +82,10 @@ export function createTrialSampler(model: ErrorModel, layerMaterials: readonly s
   const abs = model.thickness.absoluteNm;
   const noise = (model.indexNoisePct ?? 0) / 100;
   const { distribution, truncateSigma } = model.thickness;
+  const hasIndexErrors = noise > 0 || driftSigma.some((v) => v > 0);
   return {
     materials,
+    hasIndexErrors,
     sample(rng, seed, index, nominal, thicknessOut, indexScaleOut) {
       rng.reset(seed, index);
       for (let m = 0; m < materials.length; m++) sysScale[m] = 1 + (sysSigma[m] as number) * rng.normal();

@@ -3,17 +3,19 @@ import seedrandom from "seedrandom";
 const SQRT3 = Math.sqrt(3);
 
 /**
- * Per-trial random stream. Trial i of a study draws only from `seedrandom(`${seed}#${i}`)`
- * (ARC4, seedrandom 3), so a trial's numbers never depend on which worker or chunk ran it.
+ * Per-trial random stream. Trial i of a study draws only from `seedrandom.alea(`${seed}#${i}`)`
+ * (Baagøe's Alea generator as shipped in seedrandom 3; about four times cheaper to seed than the
+ * default ARC4, which matters with one fresh generator per trial), so a trial's numbers never depend
+ * on which worker or chunk ran it.
  */
 export class TrialRandom {
-  private rng: seedrandom.PRNG = seedrandom("");
+  private rng: seedrandom.PRNG = seedrandom.alea("");
   private spare = 0;
   private hasSpare = false;
 
   /** Re-seed for trial `index` of the study seeded with `seed`. */
   reset(seed: string, index: number): void {
-    this.rng = seedrandom(`${seed}#${index}`);
+    this.rng = seedrandom.alea(`${seed}#${index}`);
     this.hasSpare = false;
   }
 

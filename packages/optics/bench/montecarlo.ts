@@ -1,0 +1,83 @@
+// Monte Carlo throughput: trials per second on one thread and the speed-up from 1 to 2 worker threads.
+// Run with `pnpm optics bench` (repo root) or `pnpm exec tsx bench/montecarlo.ts` (this package).
+import { isDeepStrictEqual } from "node:util";
+import { pathToFileURL } from "node:url";
+import { designFromQwots } from "../src/core/index.ts";
+import { runYieldWithWorkers } from "../src/cli/node-pool.ts";
+import { createYieldRunner, planChunks } from "../src/studies/index.ts";
+import type { YieldStudy } from "../src/studies/index.ts";
+
+/** 40-layer Ta2O5/SiO2 edge-type stack at λ0 = 550 nm with a 3-band mask (Halvorsen Thinfilm Works test part). */
+export function benchStudy(trials: number): YieldStudy {
+  const layers = Array.from({ length: 40 }, (_, i) => ({
+    material: i % 2 === 0 ? "Ta2O5" : "SiO2",
+    qwot: i === 0 || i === 39 ? 0.5 : 1,
+  }));
+  const design = designFromQwots({
+    name: "HTW-bench-40",
+    referenceWavelength: 550,
+    layers,
+    substrate: { material: "boro-crown", thicknessMm: 1, backside: true },
+  });
+  return {
+    design,
+    mask: {
+      bands: [
+        { id: "block", start: 520, stop: 580, quantity: "R", polarization: "u", angleDeg: 0, requirement: "min", value: 99 },
+        { id: "pass-blue", start: 420, stop: 460, quantity: "T", polarization: "u", angleDeg: 0, requirement: "avgMin", value: 80 },
+        { id: "block-45s", start: 540, stop: 560, quantity: "OD", polarization: "s", angleDeg: 45, requirement: "min", value: 1 },
+      ],
+    },
+    errorModel: { thickness: { relativePct: 1, absoluteNm: 0.3, distribution: "normal" }, systematicPct: 0.5, indexDriftPct: 0.3 },
+    trials,
+    seed: "HTW-bench",
+  };
+}
+
+/** Measured figures. */
+export interface MonteCarloBench {
+  layers: number;
+  bands: number;
+  wavelengthsPerTrial: number;
+  trials: number;
+  inProcess: { seconds: number; trialsPerSecond: number };
+  workers1: { seconds: number; trialsPerSecond: number };
+  workers2: { seconds: number; trialsPerSecond: number };
+  speedup1to2: number;
+  identicalAcrossWorkerCounts: boolean;
+}
+
+const now = (): number => performance.now() / 1000;
+
+/** Run the benchmark (about 10–20 s on a laptop core for the default 2000 trials). */
+export async function runMonteCarloBench(trials = 2000): Promise<MonteCarloBench> {
+  const study = benchStudy(trials);
+  const runner = createYieldRunner(study);
+  runner.runChunk(0, Math.min(50, trials)); // warm up the JIT
+  let t0 = now();
+  for (const [s, c] of planChunks(trials, 250)) runner.runChunk(s, c);
+  const inProcess = now() - t0;
+  t0 = now();
+  const one = await runYieldWithWorkers(study, { workers: 1 });
+  const w1 = now() - t0;
+  t0 = now();
+  const two = await runYieldWithWorkers(study, { workers: 2 });
+  const w2 = now() - t0;
+  const rate = (seconds: number) => ({ seconds: Number(seconds.toFixed(3)), trialsPerSecond: Math.round(trials / seconds) });
+  return {
+    layers: runner.evaluator.layerCount,
+    bands: runner.evaluator.bands.length,
+    wavelengthsPerTrial: runner.evaluator.groups.reduce((s, g) => s + g.wavelengths.length, 0),
+    trials,
+    inProcess: rate(inProcess),
+    workers1: rate(w1),
+    workers2: rate(w2),
+    speedup1to2: Number((w1 / w2).toFixed(2)),
+    identicalAcrossWorkerCounts: isDeepStrictEqual(one, two),
+  };
+}
+
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  const trials = Number(process.argv[2] ?? 2000);
+  console.log(JSON.stringify(await runMonteCarloBench(trials), null, 2));
+}
