@@ -9,6 +9,7 @@ import { healthRoutes } from "./routes/health.ts";
 import { accessRoutes } from "./routes/access/index.ts";
 import { domainRoutes } from "./routes/domain/index.ts";
 import { sessionMiddleware } from "./auth/session.ts";
+import { originCheck } from "./auth/origin.ts";
 
 export type { AppContext } from "./context.ts";
 export { createContext } from "./context.ts";
@@ -35,6 +36,7 @@ export function createApp(ctx: AppContext): Express {
   app.use(express.json({ limit: "2mb" }));
 
   const api = express.Router();
+  api.use(originCheck(ctx));
   api.use(sessionMiddleware(ctx));
   api.use(healthRoutes(ctx));
   api.use("/v1", accessRoutes(ctx));
