@@ -1,21 +1,46 @@
-import { useHealth } from "../../features/health/api/get-health.ts";
+import { Card, EmptyState, ErrorState, PageSpinner } from "../../components/ui/index.ts";
+import { overviewQueryOptions, useOverview } from "../../features/home/api/get-overview.ts";
+import { queueQueryOptions } from "../../features/home/api/get-queue.ts";
+import { MyQueue } from "../../features/home/components/my-queue.tsx";
+import { OverviewTable } from "../../features/home/components/overview-table.tsx";
+import { queryClient } from "../../lib/query-client.ts";
+import { useSession } from "../../lib/session.ts";
+
+/** Start both requests at once; the page renders its own loading and error states. */
+export function loader() {
+  void queryClient.prefetchQuery(overviewQueryOptions());
+  void queryClient.prefetchQuery(queueQueryOptions());
+  return null;
+}
 
 export function Component() {
-  const { data } = useHealth();
+  const session = useSession();
+  const overview = useOverview();
   return (
-    <section aria-labelledby="home-title">
-      <h1 id="home-title" className="text-2xl font-semibold tracking-tight">
-        Coating designs, proven before they reach the chamber
-      </h1>
-      <p className="mt-2 max-w-2xl text-ink-700">
-        Check a multilayer design against its spec mask, measure its yield under real process errors, review it and
-        release it with a record anyone can reproduce.
-      </p>
-      {data && (
-        <p className="mt-6 font-mono text-xs text-ink-500">
-          API {data.version} · optics engine {data.engineVersion} · database {data.database}
+    <div className="flex flex-col gap-6">
+      <header>
+        <h1 className="text-2xl font-semibold tracking-tight">Overview</h1>
+        <p className="mt-1 text-sm text-ink-700">
+          {session ? `${session.workspace.name} — ` : ""}every design, its latest revision and whether its verified yield meets the
+          program's target.
         </p>
-      )}
-    </section>
+      </header>
+      {session && <MyQueue session={session} />}
+      <Card title="Designs" flush>
+        {overview.isPending ? (
+          <PageSpinner label="Loading designs…" />
+        ) : overview.isError ? (
+          <div className="p-5">
+            <ErrorState error={overview.error} onRetry={() => void overview.refetch()} />
+          </div>
+        ) : overview.data.items.length === 0 ? (
+          <div className="p-5">
+            <EmptyState title="No designs yet" description="Designs appear here once a designer starts one in a program." />
+          </div>
+        ) : (
+          <OverviewTable rows={overview.data.items} />
+        )}
+      </Card>
+    </div>
   );
 }
