@@ -1,0 +1,380 @@
+// The review workflow: states, who may move a revision between them, the release gate, and release records.
+//
+//   draft ──submit──▶ in_review ──request_changes──▶ changes_requested ──submit──▶ in_review
+//                         │
+//                         └──approve (gate)──▶ approved ──release──▶ released
+//   withdraw: the author (designer) from draft, in_review or changes_requested; an approver from any state but withdrawn.
+//
+// Every transition is one better-sqlite3 transaction: read the state, check, UPDATE ... WHERE status = <the state
+// read>, append the decision and the audit entry. Of two racing requests exactly one changes the row; the other
+// sees the new state (or zero changed rows) and gets 409.
+import { and, asc, desc, eq } from "drizzle-orm";
+import { PROTECTIVE_CAUTION, evaluateSpec, type YieldResult } from "@stackproof/optics";
+import type { AuthContext } from "../auth/types.ts";
+import type { AppContext } from "../context.ts";
+import { decisions, releases, revisions, yieldRuns, type DecisionAction, type RevisionStatus } from "../db/schema.ts";
+import { recordAudit, type DbOrTx } from "../lib/audit.ts";
+import { HttpError, conflict, forbidden } from "../lib/errors.ts";
+import { newId } from "./canonical.ts";
+import { loadRevision, maskOf, person, stackOf, userNames, type RevisionContext, type YieldRunRow } from "./load.ts";
+import { mailApproved, mailChangesRequested, mailReleased, mailReviewRequested } from "./notify.ts";
+import { openBlockingThreads, threadsForRevision } from "./threads.ts";
+
+export type GateCheckId = "verified_yield" | "blocking_threads" | "independent_approver" | "state";
+
+export interface GateCheck {
+  id: GateCheckId;
+  ok: boolean;
+  message: string;
+}
+
+export interface Gate {
+  checks: GateCheck[];
+  canApprove: boolean;
+  canRelease: boolean;
+  /** The verified run that satisfies the yield check (the newest such run, or the one asked for). */
+  yieldRun: YieldRunRow | null;
+}
+
+const pct = (x: number) => `${(x * 100).toFixed(1)} %`;
+
+/** The release gate of a revision for the signed-in member. `yieldRunId` pins the yield check to one run. */
+export function evaluateGate(db: DbOrTx, rc: RevisionContext, auth: AuthContext, yieldRunId?: string): Gate {
+  const { revision, program } = rc;
+  const target = program.targetYield;
+  const runs = db
+    .select()
+    .from(yieldRuns)
+    .where(eq(yieldRuns.revisionId, revision.id))
+    .orderBy(desc(yieldRuns.createdAt), desc(yieldRuns.id))
+    .all();
+  const qualifies = (r: YieldRunRow) =>
+    r.status === "done" && r.verified === true && (r.result as YieldResult | null)?.yield !== undefined && (r.result as YieldResult).yield >= target;
+  let yieldCheck: GateCheck;
+  let yieldRun: YieldRunRow | null = null;
+  if (yieldRunId !== undefined) {
+    const run = runs.find((r) => r.id === yieldRunId);
+    if (!run) yieldCheck = { id: "verified_yield", ok: false, message: `Yield run ${yieldRunId} is not a run of revision ${revision.number}.` };
+    else if (run.status !== "done") yieldCheck = { id: "verified_yield", ok: false, message: `Yield run ${run.id} is ${run.status}, not done.` };
+    else if (run.verified !== true) {
+      yieldCheck = { id: "verified_yield", ok: false, message: `Yield run ${run.id} is not verified${run.mismatch ? `: ${run.mismatch}` : ""}.` };
+    } else if (!qualifies(run)) {
+      yieldCheck = {
+        id: "verified_yield",
+        ok: false,
+        message: `Yield run ${run.id} reached ${pct((run.result as YieldResult).yield)}, below the program target ${pct(target)}.`,
+      };
+    } else {
+      yieldRun = run;
+      yieldCheck = { id: "verified_yield", ok: true, message: `Verified yield ${pct((run.result as YieldResult).yield)} ≥ target ${pct(target)} (run ${run.id}).` };
+    }
+  } else {
+    yieldRun = runs.find(qualifies) ?? null;
+    if (yieldRun) {
+      yieldCheck = {
+        id: "verified_yield",
+        ok: true,
+        message: `Verified yield ${pct((yieldRun.result as YieldResult).yield)} ≥ target ${pct(target)} (run ${yieldRun.id}).`,
+      };
+    } else {
+      const verified = runs.filter((r) => r.status === "done" && r.verified === true);
+      const best = verified.reduce<number | null>((m, r) => Math.max(m ?? 0, (r.result as YieldResult).yield), null);
+      yieldCheck = {
+        id: "verified_yield",
+        ok: false,
+        message:
+          best === null
+            ? `No verified, finished yield run on revision ${revision.number}; run one (target ${pct(target)}).`
+            : `The best verified yield on revision ${revision.number} is ${pct(best)}, below the program target ${pct(target)}.`,
+      };
+    }
+  }
+
+  const blocking = openBlockingThreads(db, rc);
+  const blockingCheck: GateCheck =
+    blocking.length === 0
+      ? { id: "blocking_threads", ok: true, message: "No open blocking thread on this design." }
+      : {
+          id: "blocking_threads",
+          ok: false,
+          message: `${blocking.length} open blocking thread${blocking.length === 1 ? "" : "s"} (opened on revision ${[...new Set(blocking.map((t) => t.revisionNumber))].join(", ")}).`,
+        };
+
+  const isApprover = auth.roles.includes("approver");
+  const isAuthor = auth.user.id === revision.authorId;
+  const approverCheck: GateCheck = !isApprover
+    ? { id: "independent_approver", ok: false, message: "You do not hold the approver role." }
+    : isAuthor
+      ? { id: "independent_approver", ok: false, message: "You are the author of this revision; another approver must approve it." }
+      : { id: "independent_approver", ok: true, message: "You are an approver and not the author of this revision." };
+
+  const stateCheck: GateCheck =
+    revision.status === "in_review"
+      ? { id: "state", ok: true, message: "The revision is in review." }
+      : { id: "state", ok: false, message: `The revision is ${revision.status.replace("_", " ")}; only a revision in review can be approved.` };
+
+  const checks = [yieldCheck, blockingCheck, approverCheck, stateCheck];
+  return {
+    checks,
+    canApprove: checks.every((c) => c.ok),
+    canRelease: revision.status === "approved" && isApprover,
+    yieldRun,
+  };
+}
+
+const NEXT: Record<DecisionAction, { from: readonly RevisionStatus[]; to: RevisionStatus }> = {
+  submit: { from: ["draft", "changes_requested"], to: "in_review" },
+  request_changes: { from: ["in_review"], to: "changes_requested" },
+  approve: { from: ["in_review"], to: "approved" },
+  release: { from: ["approved"], to: "released" },
+  withdraw: { from: ["draft", "in_review", "changes_requested", "approved", "released"], to: "withdrawn" },
+};
+
+const AUDIT_VERB: Record<DecisionAction, string> = {
+  submit: "submitted for review",
+  request_changes: "sent back with changes requested",
+  approve: "approved",
+  release: "released",
+  withdraw: "withdrawn",
+};
+
+const AUDIT_SENTENCE: Record<DecisionAction, string> = {
+  submit: "submitted",
+  request_changes: "requested changes on",
+  approve: "approved",
+  release: "released",
+  withdraw: "withdrew",
+};
+
+const AUDIT_ACTION: Record<DecisionAction, string> = {
+  submit: "revision.submitted",
+  request_changes: "revision.changes_requested",
+  approve: "revision.approved",
+  release: "revision.released",
+  withdraw: "revision.withdrawn",
+};
+
+/** 403 unless the member's roles allow `action` on this revision at all (state is checked afterwards). */
+function checkRole(action: DecisionAction, auth: AuthContext, rc: RevisionContext) {
+  const has = (r: "designer" | "reviewer" | "approver") => auth.roles.includes(r);
+  switch (action) {
+    case "submit":
+      if (!has("designer")) throw forbidden("Submitting for review needs the designer role.");
+      return;
+    case "request_changes":
+      if (!has("reviewer") && !has("approver")) throw forbidden("Requesting changes needs the reviewer or approver role.");
+      return;
+    case "approve":
+    case "release":
+      if (!has("approver")) throw forbidden(`${action === "approve" ? "Approving" : "Releasing"} needs the approver role.`);
+      return;
+    case "withdraw":
+      if (has("approver")) return;
+      if (!has("designer")) throw forbidden("Withdrawing needs the designer (author) or approver role.");
+      if (auth.user.id !== rc.revision.authorId) throw forbidden("Only the author or an approver may withdraw a revision.");
+      if (!["draft", "in_review", "changes_requested"].includes(rc.revision.status)) {
+        throw forbidden("A designer may withdraw only a draft or a revision in review; ask an approver.");
+      }
+      return;
+  }
+}
+
+export interface TransitionInput {
+  action: DecisionAction;
+  note?: string;
+  yieldRunId?: string;
+}
+
+export interface TransitionOutcome {
+  revision: RevisionContext["revision"];
+  decision: typeof decisions.$inferSelect;
+  releaseId: string | null;
+}
+
+export function applyTransition(ctx: AppContext, auth: AuthContext, revisionId: string, input: TransitionInput): TransitionOutcome {
+  const note = input.note?.trim() ?? "";
+  const outcome = ctx.db.transaction((tx) => {
+    const rc = loadRevision(tx, auth.workspaceId, revisionId);
+    checkRole(input.action, auth, rc);
+    const from = rc.revision.status;
+    const rule = NEXT[input.action];
+    if (!rule.from.includes(from)) {
+      throw conflict(`A revision that is ${from.replace("_", " ")} cannot be ${AUDIT_VERB[input.action]}.`, { status: from });
+    }
+    let yieldRunId: string | null = null;
+    if (input.action === "approve") {
+      const gate = evaluateGate(tx, rc, auth, input.yieldRunId);
+      const failed = gate.checks.filter((c) => !c.ok);
+      if (failed.length > 0) {
+        throw new HttpError(422, "gate_failed", `Approval refused: ${failed.map((c) => c.message).join(" ")}`, { checks: failed });
+      }
+      yieldRunId = gate.yieldRun?.id ?? null;
+    }
+    if (input.action === "release") {
+      const approval = tx
+        .select()
+        .from(decisions)
+        .where(and(eq(decisions.revisionId, rc.revision.id), eq(decisions.action, "approve")))
+        .orderBy(desc(decisions.at))
+        .get();
+      yieldRunId = approval?.yieldRunId ?? null;
+      if (!yieldRunId) throw conflict("This revision has no approval with a verified yield run to release.");
+    }
+    const at = new Date();
+    const changed = tx
+      .update(revisions)
+      .set({ status: rule.to, statusChangedAt: at })
+      .where(and(eq(revisions.id, rc.revision.id), eq(revisions.status, from)))
+      .run();
+    if (changed.changes !== 1) throw conflict("The revision changed state meanwhile; reload it.");
+    const decision = {
+      id: newId(),
+      revisionId: rc.revision.id,
+      action: input.action,
+      fromStatus: from,
+      toStatus: rule.to,
+      actorId: auth.user.id,
+      actorName: auth.user.name,
+      revisionHash: rc.revision.hash,
+      yieldRunId,
+      note,
+      at,
+    };
+    tx.insert(decisions).values(decision).run();
+    recordAudit(tx, {
+      workspaceId: auth.workspaceId,
+      actorId: auth.user.id,
+      action: AUDIT_ACTION[input.action],
+      subjectType: "revision",
+      subjectId: rc.revision.id,
+      summary: `${auth.user.name} ${AUDIT_SENTENCE[input.action]} ${rc.design.name} rev ${rc.revision.number}${input.action === "submit" ? " for review" : ""}${note ? `: ${note.slice(0, 120)}` : ""}`,
+      data: { from, to: rule.to, revisionHash: rc.revision.hash, yieldRunId, decisionId: decision.id },
+    });
+    let releaseId: string | null = null;
+    if (input.action === "release" && yieldRunId) {
+      releaseId = newId();
+      const updated = { ...rc, revision: { ...rc.revision, status: rule.to } };
+      tx.insert(releases)
+        .values({
+          id: releaseId,
+          workspaceId: auth.workspaceId,
+          revisionId: rc.revision.id,
+          designId: rc.design.id,
+          programId: rc.program.id,
+          yieldRunId,
+          releasedBy: auth.user.id,
+          releasedAt: at,
+          snapshot: releaseSnapshot(tx, updated, yieldRunId, releaseId, auth, at),
+        })
+        .run();
+    }
+    return { rc, decision, releaseId };
+  });
+
+  const actor = { id: auth.user.id, name: auth.user.name };
+  const rc = outcome.rc;
+  if (input.action === "submit") mailReviewRequested(ctx, rc, actor, note);
+  if (input.action === "request_changes") mailChangesRequested(ctx, rc, actor, note);
+  if (input.action === "approve") mailApproved(ctx, rc, actor, note);
+  if (input.action === "release" && outcome.releaseId) {
+    const run = ctx.db.select().from(yieldRuns).where(eq(yieldRuns.id, outcome.decision.yieldRunId ?? "")).get();
+    const result = run?.result as YieldResult | undefined;
+    const yieldText = result
+      ? `${pct(result.yield)} (95 % interval ${pct(result.interval.low)}–${pct(result.interval.high)}, ${result.trials} trials)`
+      : "";
+    mailReleased(ctx, rc, actor, outcome.releaseId, yieldText);
+  }
+  const revision = ctx.db.select().from(revisions).where(eq(revisions.id, revisionId)).get() ?? rc.revision;
+  return { revision, decision: outcome.decision, releaseId: outcome.releaseId };
+}
+
+export function decisionViews(db: DbOrTx, revisionId: string) {
+  return db
+    .select()
+    .from(decisions)
+    .where(eq(decisions.revisionId, revisionId))
+    .orderBy(asc(decisions.at), asc(decisions.id))
+    .all()
+    .map((d) => ({
+      id: d.id,
+      action: d.action,
+      fromStatus: d.fromStatus,
+      toStatus: d.toStatus,
+      actor: { id: d.actorId, name: d.actorName },
+      at: d.at.toISOString(),
+      revisionHash: d.revisionHash,
+      yieldRunId: d.yieldRunId,
+      note: d.note,
+    }));
+}
+
+/** What the release record shows; stored with the release so that it reads the same later. */
+export function releaseSnapshot(db: DbOrTx, rc: RevisionContext, yieldRunId: string, releaseId: string, auth: AuthContext, at: Date) {
+  const run = db.select().from(yieldRuns).where(eq(yieldRuns.id, yieldRunId)).get();
+  const result = run?.result as YieldResult | undefined;
+  const mask = maskOf(rc.revision, rc.program);
+  const nominal = evaluateSpec(stackOf(rc.revision), mask);
+  const threads = threadsForRevision(db, rc);
+  const names = userNames(db, [rc.revision.authorId, ...threads.map((t) => t.authorId)]);
+  return {
+    id: releaseId,
+    releasedAt: at.toISOString(),
+    releasedBy: { id: auth.user.id, name: auth.user.name },
+    workspace: { id: auth.workspaceId, name: auth.workspaceName },
+    program: {
+      id: rc.program.id,
+      name: rc.program.name,
+      customer: rc.program.customer,
+      application: rc.program.application,
+      description: rc.program.description,
+      protective: rc.program.protective,
+      targetYield: rc.program.targetYield,
+    },
+    design: { id: rc.design.id, name: rc.design.name },
+    revision: {
+      id: rc.revision.id,
+      number: rc.revision.number,
+      hash: rc.revision.hash,
+      note: rc.revision.note,
+      author: person(names, rc.revision.authorId),
+      createdAt: rc.revision.createdAt.toISOString(),
+      stack: rc.revision.stack,
+      specMask: mask,
+    },
+    nominal: { pass: nominal.pass, bands: nominal.bands },
+    yieldRun: run && result
+      ? {
+          id: run.id,
+          trials: run.trials,
+          seed: run.seed,
+          errorModel: run.errorModel,
+          yield: result.yield,
+          passCount: result.passCount,
+          interval: result.interval,
+          bandFailures: result.bandFailures,
+          criticalLayers: result.criticalLayers.slice(0, 5),
+          engineVersion: run.engineVersion,
+          verified: run.verified,
+          clientVerified: run.clientResult !== null && run.clientResult !== undefined,
+          finishedAt: run.finishedAt ? run.finishedAt.toISOString() : null,
+        }
+      : null,
+    decisions: decisionViews(db, rc.revision.id),
+    threads: {
+      total: threads.length,
+      open: threads.filter((t) => t.status === "open").length,
+      resolved: threads.filter((t) => t.status === "resolved").length,
+      items: threads.map((t) => ({
+        id: t.id,
+        severity: t.severity,
+        status: t.status,
+        anchor: t.anchor,
+        revisionNumber: t.revisionNumber,
+        author: person(names, t.authorId),
+      })),
+    },
+    caution: rc.program.protective ? PROTECTIVE_CAUTION : null,
+  };
+}
+
+export type ReleaseSnapshot = ReturnType<typeof releaseSnapshot>;

@@ -1,0 +1,242 @@
+// CSV readers for uploads: n,k tables, layer lists and measured spectra.
+// Rows are numbered as lines of the file (the header is row 1); every problem names its row and column.
+// Lines starting with "#" are comments; blank lines are skipped; cells are trimmed.
+import { CsvError, parse } from "csv-parse/sync";
+import { HttpError } from "../lib/errors.ts";
+
+export interface CellProblem {
+  row: number;
+  column: string;
+  message: string;
+}
+
+/** At most this many problems are reported for one file. */
+const MAX_PROBLEMS = 50;
+/** Data rows accepted in one file. */
+export const MAX_ROWS = 20000;
+
+export class CsvProblems extends HttpError {
+  constructor(what: string, problems: CellProblem[]) {
+    const first = problems[0];
+    const where = first ? ` (row ${first.row}, column ${first.column}: ${first.message}${problems.length > 1 ? `; ${problems.length - 1} more` : ""})` : "";
+    super(422, "invalid_csv", `The ${what} file has errors${where}.`, problems.slice(0, MAX_PROBLEMS));
+  }
+}
+
+interface Row {
+  line: number;
+  cells: string[];
+}
+
+interface Table {
+  header: string[];
+  rows: Row[];
+}
+
+function readTable(text: string, what: string): Table {
+  let records: { info: { lines: number }; record: string[] }[];
+  try {
+    records = parse(text, {
+      info: true,
+      skip_empty_lines: true,
+      relax_column_count: true,
+      trim: true,
+      comment: "#",
+      comment_no_infix: true,
+    }) as unknown as { info: { lines: number }; record: string[] }[];
+  } catch (err) {
+    if (err instanceof CsvError) {
+      const line = (err as CsvError & { lines?: number }).lines ?? 1;
+      throw new CsvProblems(what, [{ row: line, column: "-", message: err.message }]);
+    }
+    throw err;
+  }
+  const [head, ...rest] = records;
+  if (!head) throw new CsvProblems(what, [{ row: 1, column: "-", message: "the file has no header row" }]);
+  if (rest.length > MAX_ROWS) {
+    throw new CsvProblems(what, [{ row: MAX_ROWS + 2, column: "-", message: `more than ${MAX_ROWS} data rows` }]);
+  }
+  return {
+    header: head.record.map((h) => h.toLowerCase()),
+    rows: rest.map((r) => ({ line: r.info.lines, cells: r.record })),
+  };
+}
+
+/**
+ * Check the header: exactly one of each `oneOf` group, the `required` and any `optional` columns, nothing else.
+ * Returns column positions by name.
+ */
+function columns(
+  table: Table,
+  what: string,
+  spec: { required: string[]; oneOf?: string[][]; optional?: string[] },
+): Map<string, number> {
+  const problems: CellProblem[] = [];
+  const allowed = new Set([...spec.required, ...(spec.oneOf ?? []).flat(), ...(spec.optional ?? [])]);
+  const pos = new Map<string, number>();
+  table.header.forEach((h, i) => {
+    if (!allowed.has(h)) {
+      problems.push({ row: 1, column: h || `#${i + 1}`, message: `unexpected column "${h}"; expected ${describeHeader(spec)}` });
+    } else if (pos.has(h)) problems.push({ row: 1, column: h, message: `column "${h}" appears twice` });
+    else pos.set(h, i);
+  });
+  for (const r of spec.required) {
+    if (!pos.has(r)) problems.push({ row: 1, column: r, message: `missing column "${r}"; expected ${describeHeader(spec)}` });
+  }
+  for (const group of spec.oneOf ?? []) {
+    const present = group.filter((g) => pos.has(g));
+    if (present.length === 0) problems.push({ row: 1, column: group.join("|"), message: `missing column: one of ${group.join(", ")}` });
+    if (present.length > 1) problems.push({ row: 1, column: present.join("|"), message: `only one of ${group.join(", ")} may be given` });
+  }
+  if (problems.length > 0) throw new CsvProblems(what, problems);
+  return pos;
+}
+
+function describeHeader(spec: { required: string[]; oneOf?: string[][]; optional?: string[] }): string {
+  const parts = [...(spec.oneOf ?? []).map((g) => g.join(" or ")), ...spec.required, ...(spec.optional ?? []).map((o) => `[${o}]`)];
+  return parts.join(", ");
+}
+
+class RowReader {
+  readonly problems: CellProblem[] = [];
+  constructor(private readonly pos: Map<string, number>) {}
+
+  cell(row: Row, column: string): string | undefined {
+    const i = this.pos.get(column);
+    return i === undefined ? undefined : row.cells[i];
+  }
+
+  number(row: Row, column: string, check?: (v: number) => string | null): number {
+    const raw = this.cell(row, column);
+    if (raw === undefined || raw === "") {
+      this.problems.push({ row: row.line, column, message: "missing value" });
+      return Number.NaN;
+    }
+    const v = Number(raw);
+    if (!Number.isFinite(v) || !/^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(raw)) {
+      this.problems.push({ row: row.line, column, message: `expected a number, got "${raw.length > 40 ? raw.slice(0, 37) + "..." : raw}"` });
+      return Number.NaN;
+    }
+    const bad = check?.(v);
+    if (bad) {
+      this.problems.push({ row: row.line, column, message: bad });
+      return Number.NaN;
+    }
+    return v;
+  }
+
+  width(row: Row, expected: number) {
+    if (row.cells.length !== expected) {
+      this.problems.push({ row: row.line, column: "-", message: `expected ${expected} cells, got ${row.cells.length}` });
+      return false;
+    }
+    return true;
+  }
+}
+
+function requireRows(table: Table, what: string, min: number) {
+  if (table.rows.length < min) {
+    throw new CsvProblems(what, [{ row: 2, column: "-", message: `expected at least ${min} data row${min === 1 ? "" : "s"}` }]);
+  }
+}
+
+function increasing(rows: Row[], values: number[], column: string, reader: RowReader) {
+  for (let i = 1; i < values.length; i++) {
+    const a = values[i - 1] as number;
+    const b = values[i] as number;
+    if (Number.isFinite(a) && Number.isFinite(b) && !(b > a)) {
+      reader.problems.push({ row: (rows[i] as Row).line, column, message: `wavelengths must increase from row to row (${b} after ${a})` });
+    }
+  }
+}
+
+const positive = (v: number) => (v > 0 ? null : `expected a number > 0, got ${v}`);
+const nonNegative = (v: number) => (v >= 0 ? null : `expected a number ≥ 0, got ${v}`);
+
+/** n,k table: header `wavelength_nm` or `wavelength_um`, `n`, and optionally `k` (0 when absent). Points in nm. */
+export function parseIndexTable(text: string): [number, number, number][] {
+  const what = "n,k table";
+  const table = readTable(text, what);
+  const pos = columns(table, what, { required: ["n"], oneOf: [["wavelength_nm", "wavelength_um"]], optional: ["k"] });
+  requireRows(table, what, 2);
+  const reader = new RowReader(pos);
+  const wlColumn = pos.has("wavelength_um") ? "wavelength_um" : "wavelength_nm";
+  const scale = wlColumn === "wavelength_um" ? 1000 : 1;
+  const points: [number, number, number][] = [];
+  for (const row of table.rows) {
+    if (!reader.width(row, table.header.length)) {
+      points.push([Number.NaN, Number.NaN, Number.NaN]);
+      continue;
+    }
+    const w = reader.number(row, wlColumn, positive);
+    const n = reader.number(row, "n", positive);
+    const k = pos.has("k") ? reader.number(row, "k", nonNegative) : 0;
+    points.push([w * scale, n, k]);
+  }
+  increasing(table.rows, points.map((p) => p[0]), wlColumn, reader);
+  if (reader.problems.length > 0) throw new CsvProblems(what, reader.problems);
+  return points;
+}
+
+export interface CsvLayer {
+  material: string;
+  thickness: number;
+  locked?: boolean;
+}
+
+const TRUE = new Set(["true", "yes", "1", "y"]);
+const FALSE = new Set(["false", "no", "0", "n", ""]);
+
+/**
+ * Layer list: header `material,thickness_nm[,locked]`, one layer per row in deposition order (the first row is
+ * the layer next to the substrate). `known(id)` says whether a material id can be used.
+ */
+export function parseLayerCsv(text: string, known: (id: string) => boolean): CsvLayer[] {
+  const what = "layer";
+  const table = readTable(text, what);
+  const pos = columns(table, what, { required: ["material", "thickness_nm"], optional: ["locked"] });
+  requireRows(table, what, 1);
+  const reader = new RowReader(pos);
+  const layers: CsvLayer[] = [];
+  for (const row of table.rows) {
+    if (!reader.width(row, table.header.length)) continue;
+    const material = reader.cell(row, "material") ?? "";
+    if (material === "") reader.problems.push({ row: row.line, column: "material", message: "missing material id" });
+    else if (!known(material)) reader.problems.push({ row: row.line, column: "material", message: `unknown material id "${material}"` });
+    const thickness = reader.number(row, "thickness_nm", nonNegative);
+    const layer: CsvLayer = { material, thickness };
+    if (pos.has("locked")) {
+      const raw = (reader.cell(row, "locked") ?? "").toLowerCase();
+      if (TRUE.has(raw)) layer.locked = true;
+      else if (FALSE.has(raw)) layer.locked = false;
+      else reader.problems.push({ row: row.line, column: "locked", message: `expected true or false, got "${raw}"` });
+    }
+    layers.push(layer);
+  }
+  if (reader.problems.length > 0) throw new CsvProblems(what, reader.problems);
+  return layers;
+}
+
+/** Measured spectrum: header `wavelength_nm` and one of `R` or `T` (percent, −1..101 to allow for noise). */
+export function parseSpectrumCsv(text: string): { quantity: "R" | "T"; wavelengths: number[]; values: number[] } {
+  const what = "measured spectrum";
+  const table = readTable(text, what);
+  const pos = columns(table, what, { required: ["wavelength_nm"], oneOf: [["r", "t"]] });
+  requireRows(table, what, 2);
+  const reader = new RowReader(pos);
+  const column = pos.has("r") ? "r" : "t";
+  const wavelengths: number[] = [];
+  const values: number[] = [];
+  for (const row of table.rows) {
+    if (!reader.width(row, table.header.length)) {
+      wavelengths.push(Number.NaN);
+      values.push(Number.NaN);
+      continue;
+    }
+    wavelengths.push(reader.number(row, "wavelength_nm", positive));
+    values.push(reader.number(row, column, (v) => (v >= -1 && v <= 101 ? null : `expected a percentage between 0 and 100, got ${v}`)));
+  }
+  increasing(table.rows, wavelengths, "wavelength_nm", reader);
+  if (reader.problems.length > 0) throw new CsvProblems(what, reader.problems.map((p) => ({ ...p, column: p.column === "r" ? "R" : p.column === "t" ? "T" : p.column })));
+  return { quantity: column === "r" ? "R" : "T", wavelengths, values };
+}
