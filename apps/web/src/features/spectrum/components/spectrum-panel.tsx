@@ -1,0 +1,193 @@
+import { useId } from "react";
+import type { Design, SpecMask } from "@stackproof/optics";
+import { SpectrumChart } from "./spectrum-chart.tsx";
+import type { ChartCurve, ChartEnvelope, ChartMarker } from "./spectrum-chart.tsx";
+import { useElementWidth } from "./use-element-width.ts";
+import { useLiveSpectrum, useVerdicts } from "../lib/use-live-spectrum.ts";
+import { forbiddenRegions } from "../lib/mask-geometry.ts";
+import type { ChartQuantity } from "../lib/mask-geometry.ts";
+import { QUANTITY_COLORS, QUANTITY_NAMES, spectrumCurves } from "../lib/curves.ts";
+import type { SpectrumSettings } from "../lib/spectrum-engine.ts";
+
+export interface ChartView {
+  settings: SpectrumSettings;
+  quantities: ChartQuantity[];
+  scale: "percent" | "od";
+}
+
+export interface SpectrumPanelProps {
+  design: Design;
+  mask: SpecMask | null;
+  view: ChartView;
+  onViewChange: (view: ChartView) => void;
+  overlays?: readonly ChartCurve[];
+  envelopes?: readonly ChartEnvelope[];
+  markers?: readonly ChartMarker[];
+  onSelectRange?: (start: number, stop: number) => void;
+  height?: number;
+  title?: string;
+}
+
+const inputCls =
+  "w-full rounded border border-ink-300 bg-white px-2 py-1 text-sm tabular focus-visible:outline-2 focus-visible:outline-film-teal";
+
+export function SpectrumPanel(props: SpectrumPanelProps) {
+  const { design, mask, view, onViewChange } = props;
+  const [ref, width] = useElementWidth<HTMLDivElement>();
+  const live = useLiveSpectrum(design, view.settings);
+  const verdicts = useVerdicts(design, mask);
+  const verdictMap = new Map<string, boolean>(verdicts?.ok ? verdicts.bands.map((b) => [b.id, b.pass]) : []);
+  const regions = forbiddenRegions(mask?.bands ?? [], verdictMap);
+  const hasOD = (mask?.bands ?? []).some((b) => b.quantity === "OD");
+  const curves = live.ok
+    ? spectrumCurves(live.spectrum, view.scale === "od" ? ["OD"] : view.quantities, { idPrefix: "nominal-", primary: true })
+    : [];
+  const set = (patch: Partial<SpectrumSettings>) => onViewChange({ ...view, settings: { ...view.settings, ...patch } });
+  const idp = useId();
+  const toggleQuantity = (q: ChartQuantity) => {
+    const has = view.quantities.includes(q);
+    const next = has ? view.quantities.filter((x) => x !== q) : [...view.quantities, q];
+    if (next.length > 0) onViewChange({ ...view, quantities: next });
+  };
+  const num = (v: string, fallback: number) => {
+    const n = Number(v);
+    return Number.isFinite(n) ? n : fallback;
+  };
+
+  return (
+    <section aria-label="Spectrum" className="rounded-lg border border-ink-100 bg-white p-3">
+      <div className="mb-2 flex flex-wrap items-end gap-x-4 gap-y-2 text-sm">
+        <fieldset className="flex items-center gap-1">
+          <legend className="sr-only">Quantities</legend>
+          {view.scale === "percent"
+            ? (["R", "T", "A"] as const).map((q) => (
+                <button
+                  key={q}
+                  type="button"
+                  aria-pressed={view.quantities.includes(q)}
+                  onClick={() => toggleQuantity(q)}
+                  title={QUANTITY_NAMES[q]}
+                  className={`rounded px-2 py-0.5 font-mono text-xs ${view.quantities.includes(q) ? "bg-ink-900 text-paper" : "bg-ink-100 text-ink-700"}`}
+                >
+                  <span className="mr-1 inline-block h-2 w-2 rounded-full" style={{ background: QUANTITY_COLORS[q] }} aria-hidden />
+                  {q}
+                </button>
+              ))
+            : null}
+          {hasOD ? (
+            <button
+              type="button"
+              aria-pressed={view.scale === "od"}
+              onClick={() => onViewChange({ ...view, scale: view.scale === "od" ? "percent" : "od" })}
+              className={`ml-1 rounded px-2 py-0.5 font-mono text-xs ${view.scale === "od" ? "bg-ink-900 text-paper" : "bg-ink-100 text-ink-700"}`}
+            >
+              OD
+            </button>
+          ) : null}
+        </fieldset>
+        <label className="flex flex-col text-xs text-ink-700">
+          Polarization
+          <select
+            className={inputCls}
+            value={view.settings.polarization}
+            onChange={(e) => set({ polarization: e.target.value as SpectrumSettings["polarization"] })}
+          >
+            <option value="u">unpolarized</option>
+            <option value="s">s</option>
+            <option value="p">p</option>
+          </select>
+        </label>
+        <label className="flex w-20 flex-col text-xs text-ink-700">
+          Angle (°)
+          <input className={inputCls} type="number" min={0} max={89} step={1} value={view.settings.angleDeg} onChange={(e) => set({ angleDeg: Math.min(89, Math.max(0, num(e.target.value, 0))) })} />
+        </label>
+        <label className="flex w-24 flex-col text-xs text-ink-700">
+          Cone half-angle (°)
+          <input className={inputCls} type="number" min={0} max={30} step={0.5} value={view.settings.coneHalfAngleDeg} onChange={(e) => set({ coneHalfAngleDeg: Math.min(30, Math.max(0, num(e.target.value, 0))) })} />
+        </label>
+        <label className="flex w-24 flex-col text-xs text-ink-700" htmlFor={`${idp}-from`}>
+          From (nm)
+          <input id={`${idp}-from`} className={inputCls} type="number" min={1} value={view.settings.start} onChange={(e) => { const v = num(e.target.value, view.settings.start); if (v > 0 && v < view.settings.stop) set({ start: v }); }} />
+        </label>
+        <label className="flex w-24 flex-col text-xs text-ink-700">
+          To (nm)
+          <input className={inputCls} type="number" min={2} value={view.settings.stop} onChange={(e) => { const v = num(e.target.value, view.settings.stop); if (v > view.settings.start) set({ stop: v }); }} />
+        </label>
+        {verdicts ? (
+          <p className="ml-auto text-sm" data-testid="nominal-verdict">
+            {verdicts.ok ? (
+              <span className={verdicts.pass ? "font-semibold text-verdict-pass" : "font-semibold text-verdict-fail"}>
+                {verdicts.pass ? "Nominal design meets the mask" : `Nominal design misses ${verdicts.bands.filter((b) => !b.pass).length} band(s)`}
+              </span>
+            ) : (
+              <span className="text-verdict-fail">{verdicts.error}</span>
+            )}
+          </p>
+        ) : null}
+      </div>
+      <div ref={ref} className="w-full">
+        {live.ok ? (
+          <SpectrumChart
+            width={width}
+            height={props.height ?? 340}
+            scale={view.scale}
+            domain={{ start: view.settings.start, stop: view.settings.stop }}
+            curves={[...curves, ...(props.overlays ?? [])]}
+            regions={regions}
+            envelopes={props.envelopes}
+            markers={props.markers}
+            title={props.title ?? `Spectrum of ${design.name} at ${view.settings.angleDeg}°, ${view.settings.polarization === "u" ? "unpolarized" : `${view.settings.polarization}-polarized`}`}
+            onSelectRange={props.onSelectRange}
+          />
+        ) : (
+          <div role="alert" className="rounded border border-verdict-fail/40 bg-verdict-fail/5 p-4 text-sm text-verdict-fail">
+            The spectrum cannot be computed: {live.error}
+          </div>
+        )}
+      </div>
+      <Legend overlays={props.overlays ?? []} hasEnvelope={(props.envelopes ?? []).length > 0} />
+      {verdicts?.ok && mask ? (
+        <ul className="mt-2 grid gap-1 text-xs sm:grid-cols-2" aria-label="Spec bands">
+          {verdicts.bands.map((b) => {
+            const band = mask.bands.find((x) => x.id === b.id);
+            return (
+              <li key={b.id} className="flex items-center gap-2" data-band={b.id}>
+                <span className={`rounded px-1.5 py-0.5 font-semibold ${b.pass ? "bg-verdict-pass/10 text-verdict-pass" : "bg-verdict-fail/10 text-verdict-fail"}`}>
+                  {b.pass ? "pass" : "fail"}
+                </span>
+                <span className="truncate">{band?.label ?? b.id}</span>
+                <span className="ml-auto tabular text-ink-500">
+                  margin {b.margin.toFixed(2)}
+                  {band?.quantity === "OD" ? "" : " %"} · {band?.angleDeg}° {band?.polarization}
+                </span>
+              </li>
+            );
+          })}
+        </ul>
+      ) : null}
+    </section>
+  );
+}
+
+function Legend({ overlays, hasEnvelope }: { overlays: readonly ChartCurve[]; hasEnvelope: boolean }) {
+  return (
+    <div className="mt-1 flex flex-wrap gap-x-4 gap-y-1 text-xs text-ink-700" aria-label="Legend">
+      <span className="flex items-center gap-1.5">
+        <span className="inline-block h-3 w-4 bg-ink-500/20" aria-hidden /> forbidden by the mask
+      </span>
+      <span className="flex items-center gap-1.5">
+        <span className="inline-block h-1 w-4 rounded bg-verdict-fail" aria-hidden /> violation
+      </span>
+      {hasEnvelope ? (
+        <span className="flex items-center gap-1.5">
+          <span className="inline-block h-3 w-4 bg-film-teal-soft/60" aria-hidden /> 5–95 % of simulated builds
+        </span>
+      ) : null}
+      {overlays.map((c) => (
+        <span key={c.id} className="flex items-center gap-1.5">
+          <span className="inline-block h-0.5 w-4" style={{ background: c.color, borderTop: c.dashed ? `2px dashed ${c.color}` : undefined }} aria-hidden /> {c.label}
+        </span>
+      ))}
+    </div>
+  );
+}

@@ -1,0 +1,22 @@
+import { useMutation, useQueryClient } from "@tanstack/react-query";
+import type { Design, SpecMask } from "@stackproof/optics";
+import { api } from "../../../lib/api-client.ts";
+import type { Revision } from "./types.ts";
+
+export interface CreateRevisionInput {
+  designId: string;
+  stack: Design;
+  note: string;
+  specMask?: SpecMask;
+}
+
+export const createRevision = ({ designId, ...body }: CreateRevisionInput) =>
+  api.post<Revision>(`/designs/${designId}/revisions`, body);
+
+export function useCreateRevision() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: createRevision,
+    onSuccess: (_r, input) => qc.invalidateQueries({ queryKey: ["designs", input.designId] }),
+  });
+}

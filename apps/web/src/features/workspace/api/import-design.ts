@@ -1,0 +1,19 @@
+import { useMutation } from "@tanstack/react-query";
+import { parseDesign } from "@stackproof/optics";
+import type { Design } from "@stackproof/optics";
+import { api } from "../../../lib/api-client.ts";
+
+export interface ImportedDesign {
+  stack: Design;
+  warnings: string[];
+}
+
+/** Sends a CSV or JSON design file to POST /imports/design; nothing is stored on the server. */
+export async function importDesign(file: File): Promise<ImportedDesign> {
+  const form = new FormData();
+  form.append("file", file);
+  const r = await api.post<{ stack: Design; warnings?: string[] }>("/imports/design", form);
+  return { stack: parseDesign(r.stack), warnings: r.warnings ?? [] };
+}
+
+export const useImportDesign = () => useMutation({ mutationFn: importDesign });
