@@ -3,7 +3,7 @@
 import { isDeepStrictEqual } from "node:util";
 import { pathToFileURL } from "node:url";
 import { designFromQwots } from "../src/core/index.ts";
-import { runYieldWithWorkers } from "../src/cli/node-pool.ts";
+import { createYieldPool } from "../src/cli/node-pool.ts";
 import { createYieldRunner, planChunks } from "../src/studies/index.ts";
 import type { YieldStudy } from "../src/studies/index.ts";
 
@@ -41,6 +41,7 @@ export interface MonteCarloBench {
   wavelengthsPerTrial: number;
   trials: number;
   inProcess: { seconds: number; trialsPerSecond: number };
+  /** Steady state of a warmed-up pool (thread start-up excluded). */
   workers1: { seconds: number; trialsPerSecond: number };
   workers2: { seconds: number; trialsPerSecond: number };
   speedup1to2: number;
@@ -54,15 +55,23 @@ export async function runMonteCarloBench(trials = 2000): Promise<MonteCarloBench
   const study = benchStudy(trials);
   const runner = createYieldRunner(study);
   runner.runChunk(0, Math.min(50, trials)); // warm up the JIT
-  let t0 = now();
+  const t0 = now();
   for (const [s, c] of planChunks(trials, 250)) runner.runChunk(s, c);
   const inProcess = now() - t0;
-  t0 = now();
-  const one = await runYieldWithWorkers(study, { workers: 1 });
-  const w1 = now() - t0;
-  t0 = now();
-  const two = await runYieldWithWorkers(study, { workers: 2 });
-  const w2 = now() - t0;
+  // Pools are started and warmed up first: the figures are steady-state throughput, not thread start-up.
+  const timedPool = async (size: number) => {
+    const pool = createYieldPool(size);
+    try {
+      await pool.run(benchStudy(Math.min(100, trials)));
+      const start = now();
+      const result = await pool.run(study);
+      return { seconds: now() - start, result };
+    } finally {
+      await pool.close();
+    }
+  };
+  const { seconds: w1, result: one } = await timedPool(1);
+  const { seconds: w2, result: two } = await timedPool(2);
   const rate = (seconds: number) => ({ seconds: Number(seconds.toFixed(3)), trialsPerSecond: Math.round(trials / seconds) });
   return {
     layers: runner.evaluator.layerCount,

@@ -64,7 +64,14 @@ async function readJson(file: string | undefined, what: string, cwd: string): Pr
 
 async function spectrumCommand(args: string[], io: CliIo): Promise<void> {
   const { positional, flags } = parseFlags(args, ["from", "to", "step", "angle"]);
-  const design = parseDesign(await readJson(positional[0], "design", io.cwd));
+  const raw = await readJson(positional[0], "design", io.cwd);
+  let design: ReturnType<typeof parseDesign>;
+  try {
+    design = parseDesign(raw);
+  } catch (error) {
+    if (error instanceof RangeError) throw new CliError(`design.${error.message}`);
+    throw error;
+  }
   const from = numberFlag(flags, "from", 380);
   const to = numberFlag(flags, "to", 780);
   const step = numberFlag(flags, "step", 1);

@@ -4,15 +4,29 @@ import { availableParallelism } from "node:os";
 import { mergeYieldChunks, parseYieldStudy, planChunks } from "../studies/index.ts";
 import type { YieldChunk, YieldResult, YieldStudy } from "../studies/index.ts";
 
+/** Messages to a yield worker. */
+export type WorkerRequest =
+  | { type: "study"; id: number; study: YieldStudy }
+  | { type: "run"; id: number; start: number; count: number }
+  | { type: "release"; id: number };
 /** Messages from a yield worker. */
-export type WorkerReply = { type: "ready" } | { type: "chunk"; chunk: YieldChunk } | { type: "error"; message: string };
+export type WorkerReply = { type: "chunk"; id: number; chunk: YieldChunk } | { type: "error"; id: number; message: string };
 
-/** Options of {@link runYieldWithWorkers}. */
-export interface PoolOptions {
-  workers: number;
+/** Options of one pooled run. */
+export interface PoolRunOptions {
   /** Trials per chunk; default spreads the study over about 8 chunks per worker, 25..1000 trials each. */
   chunkSize?: number;
   onProgress?: (done: number, total: number) => void;
+  /** Checked between chunks; the run rejects with the signal's reason. */
+  signal?: AbortSignal;
+}
+
+/** A persistent pool of worker threads running yield chunks. */
+export interface YieldPool {
+  readonly size: number;
+  /** Run a whole study; runs are queued one after another. Same result as a single-threaded run. */
+  run(study: YieldStudy, options?: PoolRunOptions): Promise<YieldResult>;
+  close(): Promise<void>;
 }
 
 /** Number of worker threads worth starting on this machine. */
@@ -21,22 +35,41 @@ export function defaultWorkerCount(): number {
 }
 
 const workerUrl = new URL("./yield-worker.ts", import.meta.url);
+const bootstrapUrl = new URL("./worker-bootstrap.mjs", import.meta.url);
 
-/**
- * Run a yield study on a pool of Node worker threads. Chunks are handed out on demand; the merge does not
- * depend on which worker ran which chunk, so the result is identical to a single-threaded run.
- */
-export async function runYieldWithWorkers(studyInput: YieldStudy, options: PoolOptions): Promise<YieldResult> {
-  const study = parseYieldStudy(studyInput);
-  const count = options.workers;
-  if (!Number.isInteger(count) || count < 1 || count > 64) throw new RangeError(`workers must be an integer in 1..64, got ${count}`);
-  const chunkSize = options.chunkSize ?? Math.min(1000, Math.max(25, Math.ceil(study.trials / (count * 8))));
-  const queue = planChunks(study.trials, chunkSize);
-  const total = study.trials;
-  const chunks: YieldChunk[] = [];
-  let done = 0;
-  const workers: Worker[] = [];
-  try {
+/** Start a yield worker; a TypeScript worker file goes through a bootstrap that registers the tsx loader. */
+function startWorker(): Worker {
+  if (!workerUrl.pathname.endsWith(".ts")) return new Worker(workerUrl);
+  return new Worker(bootstrapUrl, { workerData: { entry: workerUrl.href } });
+}
+
+interface Slot {
+  worker: Worker;
+  studies: Set<number>;
+  onReply: ((reply: WorkerReply) => void) | null;
+  onFailure: ((error: Error) => void) | null;
+}
+
+/** Start `size` worker threads. Close the pool when done (the threads keep the process alive). */
+export function createYieldPool(size: number): YieldPool {
+  if (!Number.isInteger(size) || size < 1 || size > 64) throw new RangeError(`workers must be an integer in 1..64, got ${size}`);
+  const slots: Slot[] = Array.from({ length: size }, () => {
+    const slot: Slot = { worker: startWorker(), studies: new Set(), onReply: null, onFailure: null };
+    slot.worker.on("message", (reply: WorkerReply) => slot.onReply?.(reply));
+    slot.worker.on("error", (error) => slot.onFailure?.(error));
+    slot.worker.on("exit", (code) => slot.onFailure?.(new Error(`yield worker exited with code ${code}`)));
+    return slot;
+  });
+  let nextId = 1;
+  let queue: Promise<unknown> = Promise.resolve();
+
+  const runOnce = async (studyInput: YieldStudy, options: PoolRunOptions): Promise<YieldResult> => {
+    const study = parseYieldStudy(studyInput);
+    const id = nextId++;
+    const chunkSize = options.chunkSize ?? Math.min(1000, Math.max(25, Math.ceil(study.trials / (size * 8))));
+    const pending = planChunks(study.trials, chunkSize);
+    const chunks: YieldChunk[] = [];
+    let done = 0;
     await new Promise<void>((resolve, reject) => {
       let active = 0;
       let failed = false;
@@ -45,36 +78,63 @@ export async function runYieldWithWorkers(studyInput: YieldStudy, options: PoolO
         failed = true;
         reject(error);
       };
-      const feed = (worker: Worker): void => {
-        const next = queue.shift();
+      const feed = (slot: Slot): void => {
+        if (failed) return;
+        if (options.signal?.aborted) return fail(options.signal.reason instanceof Error ? options.signal.reason : new Error("aborted"));
+        const next = pending.shift();
         if (!next) {
+          slot.onReply = null;
+          slot.onFailure = null;
           active--;
-          if (active === 0 && !failed) resolve();
+          if (active === 0) resolve();
           return;
         }
-        worker.postMessage({ type: "run", start: next[0], count: next[1] });
+        if (!slot.studies.has(id)) {
+          slot.worker.postMessage({ type: "study", id, study } satisfies WorkerRequest);
+          slot.studies.add(id);
+        }
+        slot.worker.postMessage({ type: "run", id, start: next[0], count: next[1] } satisfies WorkerRequest);
       };
-      for (let w = 0; w < Math.min(count, queue.length); w++) {
-        const worker = new Worker(workerUrl, { workerData: { study } });
-        workers.push(worker);
+      for (const slot of slots.slice(0, Math.min(size, pending.length))) {
         active++;
-        worker.on("message", (reply: WorkerReply) => {
+        slot.onFailure = fail;
+        slot.onReply = (reply) => {
+          if (reply.id !== id) return;
           if (reply.type === "error") return fail(new RangeError(reply.message));
-          if (reply.type === "chunk") {
-            chunks.push(reply.chunk);
-            done += reply.chunk.count;
-            options.onProgress?.(done, total);
-          }
-          feed(worker);
-        });
-        worker.on("error", fail);
-        worker.on("exit", (code) => {
-          if (code !== 0) fail(new Error(`yield worker exited with code ${code}`));
-        });
+          chunks.push(reply.chunk);
+          done += reply.chunk.count;
+          options.onProgress?.(done, study.trials);
+          feed(slot);
+        };
+        feed(slot);
       }
     });
+    for (const slot of slots) {
+      if (slot.studies.delete(id)) slot.worker.postMessage({ type: "release", id } satisfies WorkerRequest);
+    }
+    return mergeYieldChunks(study, chunks);
+  };
+
+  return {
+    size,
+    run(study, options = {}) {
+      const result = queue.then(() => runOnce(study, options));
+      queue = result.catch(() => undefined);
+      return result;
+    },
+    async close() {
+      for (const slot of slots) slot.onFailure = null;
+      await Promise.all(slots.map((s) => s.worker.terminate()));
+    },
+  };
+}
+
+/** One-off pooled run: start `workers` threads, run the study, stop the threads. */
+export async function runYieldWithWorkers(study: YieldStudy, options: PoolRunOptions & { workers: number }): Promise<YieldResult> {
+  const pool = createYieldPool(options.workers);
+  try {
+    return await pool.run(study, options);
   } finally {
-    await Promise.all(workers.map((w) => w.terminate()));
+    await pool.close();
   }
-  return mergeYieldChunks(study, chunks);
 }

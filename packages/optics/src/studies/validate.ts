@@ -19,6 +19,10 @@ export function parseWith<S extends z.ZodType>(schema: S, input: unknown, what: 
   const issue = result.error.issues[0];
   if (!issue) throw new RangeError(`${what}: invalid input`);
   const path = issue.path.map((p) => (typeof p === "number" ? `[${p}]` : `.${String(p)}`)).join("");
-  const value = "input" in issue ? describeValue(issue.input) : "undefined (missing)";
+  const got = "input" in issue ? issue.input : undefined;
+  if (got === undefined && issue.code === "invalid_type") {
+    throw new RangeError(`${what}${path}: required field is missing (expected ${issue.expected})`);
+  }
+  const value = describeValue(got);
   throw new RangeError(`${what}${path}: ${issue.message}, got ${value}`);
 }
