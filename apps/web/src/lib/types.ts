@@ -14,17 +14,49 @@ export interface PersonRef {
   name: string;
 }
 
-/** A revision as listed in queues and design summaries. */
+/** A revision as listed in queues and design summaries (api: RevisionSummarySchema). */
 export interface RevisionSummary {
   id: string;
-  designId?: string;
   number: number;
   status: RevisionStatus;
+  note?: string;
+  hash?: string;
+  author?: PersonRef | null;
   authorName?: string;
-  author?: PersonRef;
   createdAt: string;
-  design?: { id: string; name: string };
-  program?: { id: string; name: string };
+  statusChangedAt?: string | null;
+  designId: string;
+  designName?: string;
+  programId?: string;
+  programName?: string;
+}
+
+/** One band of a spec mask (optics docs/studies.md). Values in percent for R/T/A, OD units for OD. */
+export interface SpecBand {
+  id: string;
+  label?: string;
+  start: number;
+  stop: number;
+  step?: number;
+  quantity: "R" | "T" | "A" | "OD";
+  polarization: "s" | "p" | "u";
+  angleDeg: number;
+  requirement: "min" | "max" | "avgMin" | "avgMax";
+  value: number;
+  tolerance?: number;
+}
+
+export interface SpecMask {
+  protective?: boolean;
+  bands: SpecBand[];
+}
+
+/** Process error model (optics docs/studies.md); all spreads are 1σ. */
+export interface ErrorModel {
+  thickness?: { relativePct?: number; absoluteNm?: number; distribution?: "normal" | "uniform"; truncateSigma?: number };
+  systematicPct?: number | Record<string, number>;
+  indexDriftPct?: number | Record<string, number>;
+  indexNoisePct?: number;
 }
 
 /** A Monte Carlo yield estimate with its confidence interval (fractions 0..1). */

@@ -21,14 +21,10 @@ export const queueLanes: Lane[] = [
   { key: "readyForRelease", roles: ["approver"], title: "Signed off, ready to release", empty: "Nothing is waiting to be released." },
 ];
 
-function revisionLink(r: RevisionSummary): string | null {
-  const designId = r.designId ?? r.design?.id;
-  return designId ? paths.revision(designId, r.id) : null;
-}
 
 function QueueItem({ r }: { r: RevisionSummary }) {
-  const to = revisionLink(r);
-  const name = r.design?.name ?? "Design";
+  const to = paths.revision(r.designId, r.id);
+  const name = r.designName ?? "Design";
   const label = (
     <span className="font-medium text-ink-900">
       {name} <span className="font-mono text-ink-500">r{r.number}</span>
@@ -36,16 +32,12 @@ function QueueItem({ r }: { r: RevisionSummary }) {
   );
   return (
     <li className="flex flex-wrap items-center gap-x-3 gap-y-1 py-2">
-      {to ? (
-        <Link to={to} className="hover:underline">
-          {label}
-        </Link>
-      ) : (
-        label
-      )}
+      <Link to={to} className="hover:underline">
+        {label}
+      </Link>
       <StatusPill status={r.status} />
       <span className="text-xs text-ink-500">
-        {r.program?.name ? `${r.program.name} · ` : ""}
+        {r.programName ? `${r.programName} · ` : ""}
         {r.author?.name ?? r.authorName ?? ""}
         {r.createdAt ? ` · ${formatDate(r.createdAt)}` : ""}
       </span>

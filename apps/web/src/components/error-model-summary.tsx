@@ -1,0 +1,34 @@
+import type { ErrorModel } from "../lib/types.ts";
+
+function perMaterial(v: number | Record<string, number> | undefined): string {
+  if (v === undefined) return "none";
+  if (typeof v === "number") return `${v} % (every material)`;
+  const entries = Object.entries(v);
+  return entries.length === 0 ? "none" : entries.map(([m, x]) => `${m} ${x} %`).join(", ");
+}
+
+/** The process error model as a definition list (all spreads 1σ). */
+export function ErrorModelSummary({ model }: { model: ErrorModel | null | undefined }) {
+  if (!model) return <p className="text-sm text-ink-500">No error model set.</p>;
+  const t = model.thickness ?? {};
+  const rows: Array<[string, string]> = [
+    [
+      "Thickness, per layer",
+      `${t.relativePct ?? 0} % + ${t.absoluteNm ?? 0} nm, ${t.distribution ?? "normal"}${t.truncateSigma ? `, cut at ±${t.truncateSigma}σ` : ""}`,
+    ],
+    ["Thickness, systematic", perMaterial(model.systematicPct)],
+    ["Index drift", perMaterial(model.indexDriftPct)],
+    ["Index noise, per layer", `${model.indexNoisePct ?? 0} %`],
+  ];
+  return (
+    <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1.5 text-sm">
+      {rows.map(([k, v]) => (
+        <div key={k} className="contents">
+          <dt className="text-ink-500">{k}</dt>
+          <dd className="font-mono text-ink-900">{v}</dd>
+        </div>
+      ))}
+      <p className="col-span-2 mt-1 text-xs text-ink-500">All spreads are one standard deviation.</p>
+    </dl>
+  );
+}
