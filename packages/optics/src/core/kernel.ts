@@ -20,10 +20,47 @@
 import type { Design } from "./design.ts";
 import { getMaterial } from "./library.ts";
 import { indexTable } from "./materials.ts";
-import {
-  C1, C2, C3, C4, C5, C6, E1, E2, E3, E4, E5, E6, LN2_HI, LN2_LO, LOG2E, O1, O2, O3, O4, O5, O6,
-  PIO2_1, PIO2_1T, POW2, POW2_OFFSET, QUAD_C, QUAD_S, RND, S1, S2, S3, S4, S5, S6, TWO_OVER_PI,
-} from "./fastmath.ts";
+// Local copies of the fastmath constants: module-local constants fold into the JIT code,
+// imported bindings are not guaranteed to (they are live bindings).
+const S1 = -1.66666666666666324348e-1;
+const S2 = 8.33333333332248946124e-3;
+const S3 = -1.98412698298579493134e-4;
+const S4 = 2.75573137070700676789e-6;
+const S5 = -2.50507602534068634195e-8;
+const S6 = 1.58969099521155010221e-10;
+const C1 = 4.16666666666666019037e-2;
+const C2 = -1.38888888888741095749e-3;
+const C3 = 2.48015872894767294178e-5;
+const C4 = -2.75573143513906633035e-7;
+const C5 = 2.0875723212981748279e-9;
+const C6 = -1.13596475577881948265e-11;
+const PIO2_1 = 1.57079632673412561417;
+const PIO2_1T = 6.07710050650619224932e-11;
+const TWO_OVER_PI = 0.63661977236758134308;
+const RND = 6755399441055744;
+const LOG2E = 1.4426950408889634;
+const LN2_HI = 6.93147180369123816490e-1;
+const LN2_LO = 1.90821492927058770002e-10;
+const POW2_OFFSET = 256;
+const E1 = 1 / 2;
+const E2 = 1 / 24;
+const E3 = 1 / 720;
+const E4 = 1 / 40320;
+const E5 = 1 / 3628800;
+const E6 = 1 / 479001600;
+const O1 = 1 / 6;
+const O2 = 1 / 120;
+const O3 = 1 / 5040;
+const O4 = 1 / 362880;
+const O5 = 1 / 39916800;
+const O6 = 1 / 6227020800;
+const QUAD_C = new Float64Array([1, 0, -1, 0]);
+const QUAD_S = new Float64Array([0, 1, 0, -1]);
+const POW2 = (() => {
+  const t = new Float64Array(2 * POW2_OFFSET + 1);
+  for (let i = 0; i < t.length; i++) t[i] = Math.pow(2, i - POW2_OFFSET);
+  return t;
+})();
 
 /** Polarization: "s" (TE), "p" (TM) or "u" (unpolarized = mean of s and p intensities). */
 export type Polarization = "s" | "p" | "u";
