@@ -1,0 +1,263 @@
+import type { ReactNode } from "react";
+import { ProtectiveCaution } from "../../../components/protective-caution.tsx";
+import { describeRequirement } from "../../../components/spec-mask-table.tsx";
+import { ErrorModelSummary } from "../../../components/error-model-summary.tsx";
+import { StatusPill, revisionStatuses, type RevisionStatus } from "../../../components/ui/index.ts";
+import { formatDateTime, formatPercent, formatTarget } from "../../../lib/format.ts";
+import { cx } from "../../../components/ui/cx.ts";
+import type { ReleaseRecord } from "../api/get-release.ts";
+
+const actionText: Record<string, string> = {
+  submit: "Submitted for review",
+  request_changes: "Sent back for rework",
+  approve: "Signed off",
+  release: "Released",
+  withdraw: "Withdrawn",
+};
+
+function anchorText(a: ReleaseRecord["threads"]["items"][number]["anchor"]): string {
+  if (a.kind === "band") return `band ${a.bandId ?? "?"}`;
+  if (a.kind === "range") return `${a.start}–${a.stop} nm`;
+  if (a.kind === "layer") return `layer ${(a.index ?? 0) + 1}`;
+  return "whole design";
+}
+
+function Section({ title, children, className }: { title: string; children: ReactNode; className?: string }) {
+  return (
+    <section className={cx("release-section mt-8", className)}>
+      <h2 className="border-b-2 border-ink-900 pb-1 text-base font-semibold tracking-tight">{title}</h2>
+      <div className="mt-3">{children}</div>
+    </section>
+  );
+}
+
+const th = "border-b border-ink-300 py-1.5 pr-3 text-left text-xs font-semibold tracking-wide text-ink-500 uppercase";
+const td = "border-b border-ink-100 py-1.5 pr-3 align-top";
+
+/** A release record laid out as a document to file: identity, result, specification, stack, decisions. */
+export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
+  const status = (revisionStatuses as readonly string[]).includes(r.status) ? (r.status as RevisionStatus) : null;
+  const y = r.yieldRun;
+  const meets = y ? y.yield >= r.program.targetYield : false;
+  const outcomes = new Map(r.nominal.bands.map((b) => [b.id, b]));
+  const failures = new Map((y?.bandFailures ?? []).map((b) => [b.id, b.count]));
+  const stack = r.revision.stack;
+
+  return (
+    <article className="release-sheet mx-auto max-w-[210mm] bg-white px-[14mm] py-[12mm] shadow-md print:max-w-none print:p-0 print:shadow-none" aria-labelledby="release-title">
+      <header className="flex flex-wrap items-start gap-4 border-b-4 border-double border-ink-900 pb-4">
+        <div className="min-w-0 flex-1">
+          <p className="text-xs font-semibold tracking-[0.18em] text-ink-500 uppercase">Release record · {r.workspace.name}</p>
+          <h1 id="release-title" className="mt-1 text-2xl font-semibold tracking-tight">
+            {r.design.name} <span className="font-mono">r{r.revision.number}</span>
+          </h1>
+          <p className="mt-1 text-sm text-ink-700">
+            Program {r.program.name}
+            {r.program.customer ? ` for ${r.program.customer}` : ""}
+            {r.program.application ? ` · ${r.program.application}` : ""}
+          </p>
+        </div>
+        <div className="text-right text-sm">
+          {status ? <StatusPill status={status} /> : <span className="font-mono">{r.status}</span>}
+          <p className="mt-2 text-ink-700">Released {formatDateTime(r.releasedAt)}</p>
+          <p className="text-ink-700">by {r.releasedBy.name}</p>
+        </div>
+      </header>
+
+      {r.status === "withdrawn" && (
+        <p role="alert" className="mt-4 border-2 border-verdict-fail px-4 py-2 font-semibold text-verdict-fail print:border-black print:text-black">
+          This release was withdrawn afterwards. Do not use it for production.
+        </p>
+      )}
+      {(r.program.protective || r.caution) && <ProtectiveCaution className="mt-4" application={r.program.application || null} text={r.caution} />}
+
+      <Section title="Identity">
+        <dl className="grid grid-cols-[12rem_1fr] gap-x-4 gap-y-1.5 text-sm max-sm:grid-cols-1">
+          <dt className="text-ink-500">Release</dt>
+          <dd className="font-mono">{r.id}</dd>
+          <dt className="text-ink-500">Revision</dt>
+          <dd>
+            r{r.revision.number}, written by {r.revision.author?.name ?? "unknown"} on {formatDateTime(r.revision.createdAt)}
+          </dd>
+          <dt className="text-ink-500">Content hash</dt>
+          <dd className="font-mono text-xs break-all">{r.revision.hash}</dd>
+          {r.revision.note && (
+            <>
+              <dt className="text-ink-500">Revision note</dt>
+              <dd>{r.revision.note}</dd>
+            </>
+          )}
+        </dl>
+      </Section>
+
+      <Section title="Verified yield">
+        {y ? (
+          <div className="flex flex-wrap items-start gap-6">
+            <div>
+              <p className={cx("font-mono text-3xl font-semibold tabular", meets ? "text-verdict-pass" : "text-verdict-fail", "print:text-black")}>
+                {formatPercent(y.yield)}
+              </p>
+              <p className="font-mono text-sm text-ink-700 tabular">
+                {Math.round((y.interval.confidence ?? 0.95) * 100)} % interval {formatPercent(y.interval.low)} – {formatPercent(y.interval.high)}
+              </p>
+              <p className="mt-1 text-sm font-semibold">
+                Target {formatTarget(r.program.targetYield)}: {meets ? "met" : "not met"}
+              </p>
+            </div>
+            <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
+              <dt className="text-ink-500">Trials</dt>
+              <dd className="font-mono tabular">
+                {y.passCount.toLocaleString("en-GB")} of {y.trials.toLocaleString("en-GB")} passed
+              </dd>
+              <dt className="text-ink-500">Seed</dt>
+              <dd className="font-mono">{y.seed}</dd>
+              <dt className="text-ink-500">Engine</dt>
+              <dd className="font-mono">{y.engineVersion}</dd>
+              <dt className="text-ink-500">Run</dt>
+              <dd className="font-mono text-xs">
+                {y.id} · {y.verified ? "verified by the server" : "not verified"}
+                {y.finishedAt ? ` · ${formatDateTime(y.finishedAt)}` : ""}
+              </dd>
+            </dl>
+            <div className="basis-full">
+              <p className="mb-1 text-xs font-semibold tracking-wide text-ink-500 uppercase">Error model of the run</p>
+              <ErrorModelSummary model={y.errorModel} />
+            </div>
+          </div>
+        ) : (
+          <p className="text-sm text-verdict-fail">No verified yield run is attached to this release.</p>
+        )}
+      </Section>
+
+      <Section title="Spec mask and nominal result">
+        <table className="w-full border-collapse text-sm">
+          <thead>
+            <tr>
+              <th className={th}>Band</th>
+              <th className={th}>Range (nm)</th>
+              <th className={th}>Quantity</th>
+              <th className={th}>Requirement</th>
+              <th className={th}>Nominal</th>
+              <th className={cx(th, "text-right")}>Margin</th>
+              {y && <th className={cx(th, "text-right")}>Failed trials</th>}
+            </tr>
+          </thead>
+          <tbody>
+            {r.revision.specMask.bands.map((b) => {
+              const o = outcomes.get(b.id);
+              return (
+                <tr key={b.id}>
+                  <td className={td}>{b.label ?? b.id}</td>
+                  <td className={cx(td, "font-mono tabular")}>
+                    {b.start}–{b.stop}
+                  </td>
+                  <td className={cx(td, "font-mono")}>
+                    {b.quantity} {b.angleDeg}° {b.polarization}
+                  </td>
+                  <td className={td}>{describeRequirement(b)}</td>
+                  <td className={cx(td, "font-semibold", o?.pass ? "text-verdict-pass" : "text-verdict-fail", "print:text-black")}>
+                    {o ? (o.pass ? "pass" : "FAIL") : "—"}
+                  </td>
+                  <td className={cx(td, "text-right font-mono tabular")}>{o ? o.margin.toFixed(3) : "—"}</td>
+                  {y && <td className={cx(td, "text-right font-mono tabular")}>{failures.get(b.id) ?? 0}</td>}
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      </Section>
+
+      <Section title="Layer stack">
+        <p className="mb-2 text-sm text-ink-700">
+          Light enters from <span className="font-mono">{stack.incident ?? "air"}</span>; layer 1 faces it.
+          {stack.referenceWavelength ? ` Reference wavelength ${stack.referenceWavelength} nm.` : ""}
+        </p>
+        <table className="w-full border-collapse text-sm">
+          <thead>
+            <tr>
+              <th className={cx(th, "w-12 text-right")}>#</th>
+              <th className={th}>Material</th>
+              <th className={cx(th, "text-right")}>Thickness (nm)</th>
+              <th className={th}>Note</th>
+            </tr>
+          </thead>
+          <tbody>
+            {stack.layers.map((l, i) => (
+              <tr key={i}>
+                <td className={cx(td, "text-right font-mono tabular")}>{i + 1}</td>
+                <td className={cx(td, "font-mono")}>{l.material}</td>
+                <td className={cx(td, "text-right font-mono tabular")}>{l.thickness.toFixed(2)}</td>
+                <td className={td}>{[l.label, l.locked ? "locked" : ""].filter(Boolean).join(", ")}</td>
+              </tr>
+            ))}
+            {stack.substrate && (
+              <tr>
+                <td className={cx(td, "text-right text-ink-500")}>sub.</td>
+                <td className={cx(td, "font-mono")}>{stack.substrate.material}</td>
+                <td className={cx(td, "text-right font-mono tabular")}>{stack.substrate.thicknessMm !== undefined ? `${stack.substrate.thicknessMm} mm` : "—"}</td>
+                <td className={td}>substrate{stack.exit ? `, exit into ${stack.exit}` : ""}</td>
+              </tr>
+            )}
+          </tbody>
+        </table>
+        <p className="mt-1 text-xs text-ink-500">
+          {stack.layers.length} layers, {stack.layers.reduce((s, l) => s + l.thickness, 0).toFixed(1)} nm in total.
+        </p>
+      </Section>
+
+      <Section title="Decisions">
+        {r.decisions.length === 0 ? (
+          <p className="text-sm text-ink-500">No decisions recorded.</p>
+        ) : (
+          <ol className="flex flex-col gap-2 text-sm">
+            {r.decisions.map((d) => (
+              <li key={d.id} className="release-decision grid grid-cols-[10rem_1fr] gap-x-4 border-l-2 border-film-teal pl-3 print:border-black max-sm:grid-cols-1">
+                <span className="font-mono text-xs text-ink-500 tabular">{formatDateTime(d.at)}</span>
+                <span>
+                  <strong>{actionText[d.action] ?? d.action}</strong> by {d.actor.name}
+                  {d.note ? <span className="block text-ink-700">“{d.note}”</span> : null}
+                  <span className="block font-mono text-[11px] text-ink-500">hash {d.revisionHash.slice(0, 16)}…</span>
+                </span>
+              </li>
+            ))}
+          </ol>
+        )}
+      </Section>
+
+      <Section title="Review threads">
+        <p className="text-sm">
+          {r.threads.total} thread{r.threads.total === 1 ? "" : "s"}: {r.threads.resolved} resolved, {r.threads.open} open at release.
+        </p>
+        {r.threads.items.length > 0 && (
+          <table className="mt-2 w-full border-collapse text-sm">
+            <thead>
+              <tr>
+                <th className={th}>On</th>
+                <th className={th}>Severity</th>
+                <th className={th}>State</th>
+                <th className={th}>Opened by</th>
+                <th className={th}>At revision</th>
+              </tr>
+            </thead>
+            <tbody>
+              {r.threads.items.map((t) => (
+                <tr key={t.id}>
+                  <td className={td}>{anchorText(t.anchor)}</td>
+                  <td className={td}>{t.severity}</td>
+                  <td className={td}>{t.status}</td>
+                  <td className={td}>{t.author?.name ?? "—"}</td>
+                  <td className={cx(td, "font-mono")}>r{t.revisionNumber}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        )}
+      </Section>
+
+      <footer className="mt-10 border-t border-ink-300 pt-2 text-xs text-ink-500">
+        Stackproof release record {r.id} · revision hash {r.revision.hash.slice(0, 16)}… · anyone can re-run the yield study from the seed, trial
+        count and error model above.
+      </footer>
+    </article>
+  );
+}
