@@ -343,7 +343,8 @@ export function mergeYieldChunks(studyInput: YieldStudy, chunks: readonly YieldC
   // Envelopes from the sampled trials.
   const plans = planEnvelopes(evaluator);
   const ps = study.envelopePercentiles ?? [5, 50, 95];
-  const envelopes: YieldEnvelope[] = plans.map((plan, e) => {
+  // No sampled spectra (envelopeSamples: 0) → no envelopes, rather than arrays of NaN that JSON would turn into null.
+  const envelopes: YieldEnvelope[] = (samples.length === 0 ? [] : plans).map((plan, e) => {
     const g = evaluator.groups[plan.group] as GroupPlan;
     const column = new Float64Array(samples.length);
     const out = ps.map((p) => ({ p, values: new Array<number>(plan.wavelengths.length).fill(Number.NaN) }));

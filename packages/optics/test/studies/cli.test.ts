@@ -5,6 +5,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { runCli } from "../../src/cli/main.ts";
 
 const pkg = fileURLToPath(new URL("../..", import.meta.url));
 const example = join(pkg, "docs/examples/study-htw-ar4.json");
@@ -57,14 +58,11 @@ describe("optics CLI", { timeout: 60_000 }, () => {
     expect(result.interval.method).toBe("wilson");
   });
 
+  // Spawned: the exit code and the single stderr line as a user sees them.
   it.concurrent.each([
     [["yield", "missing.json"], /^optics yield: study file not found: .*missing\.json$/],
     [["yield", "broken.json"], /^optics yield: study file .*broken\.json is not valid JSON/],
     [["yield", "negative.json"], /^optics yield: study\.errorModel\.thickness\.relativePct: .*got -2$/],
-    [["yield", "small.json", "--workers", "0"], /^optics yield: --workers: expected an integer in 1\.\.64, got 0$/],
-    [["spectrum", "design.json", "--step", "-1"], /^optics spectrum: --step: expected a step > 0 nm, got -1$/],
-    [["spectrum", "small.json"], /^optics spectrum: design\.format: /],
-    [["frobnicate"], /^optics frobnicate: unknown command/],
   ])("bad input %j exits 1 with one line", async (args, pattern) => {
     const res = await cli(args);
     expect(res.code).toBe(1);
@@ -72,5 +70,23 @@ describe("optics CLI", { timeout: 60_000 }, () => {
     const lines = res.stderr.trimEnd().split("\n");
     expect(lines).toHaveLength(1);
     expect(lines[0]).toMatch(pattern);
+  });
+
+  // In process (same runCli the entry point calls), to keep the suite fast.
+  it.each([
+    [["yield", "small.json", "--workers", "0"], /^optics yield: --workers: expected an integer in 1\.\.64, got 0$/],
+    [["spectrum", "design.json", "--step", "-1"], /^optics spectrum: --step: expected a step > 0 nm, got -1$/],
+    [["spectrum", "small.json"], /^optics spectrum: design\.format: /],
+    [["frobnicate"], /^optics frobnicate: unknown command/],
+    [["spectrum", "design.json", "--colour", "red"], /^optics spectrum: unknown option --colour/],
+  ])("bad input %j returns 1 with one line", async (args, pattern) => {
+    const out: string[] = [];
+    const err: string[] = [];
+    const code = await runCli(args, { out: (t) => out.push(t), err: (t) => err.push(t), cwd: dir });
+    expect(code).toBe(1);
+    expect(out).toEqual([]);
+    expect(err).toHaveLength(1);
+    expect(err[0]).not.toContain("\n");
+    expect(err[0]).toMatch(pattern);
   });
 });

@@ -28,19 +28,21 @@ export function qwotDesign(layers: [string, number][], referenceWavelength = 550
   };
 }
 
-/** Four-layer visible AR, deposition order from the substrate: M 0.5, H 0.5? — see the spec tests for the values used. */
-export function ar4Design(): Design {
-  // Quarter-wave-based four-layer AR (substrate | M H H L | air, QWOTs 1, 0.5, 1.5? simplified): thicknesses below
-  // were refined once with refineDesign against the 420–680 nm R ≤ 0.5 % mask and rounded to 0.1 nm.
+/** The example four-layer visible AR of docs/examples (library materials on borosilicate crown glass). */
+export function htwAr4(): Design {
   return {
-    ...qwotDesign([]),
+    format: "stackproof.design/v1",
+    name: "HTW-AR4 visible anti-reflection, revision B",
+    referenceWavelength: 550,
+    incident: "air",
+    exit: "air",
     layers: [
-      { material: "M170", thickness: 80.9 },
-      { material: "H230", thickness: 29.9 },
-      { material: "L138", thickness: 22.3 },
-      { material: "H230", thickness: 57.2 },
-      { material: "L138", thickness: 98.6 },
+      { material: "Ta2O5", thickness: 6.7 },
+      { material: "Al2O3", thickness: 52.2 },
+      { material: "Ta2O5", thickness: 125.4 },
+      { material: "MgF2", thickness: 92.8 },
     ],
+    substrate: { material: "boro-crown", thicknessMm: 1, backside: false },
   };
 }
 

@@ -133,3 +133,15 @@ describe("Monte Carlo yield", () => {
     expect(() => runYieldChunk(badMaterial, 0, 1)).toThrow(/study\.design\.layers\[0\]\.material.*"unobtainium"/);
   });
 });
+
+describe("Monte Carlo result shape", () => {
+  it("is plain JSON: survives a JSON round trip unchanged, and envelopeSamples: 0 gives no envelopes", () => {
+    const s = study({ trials: 40, envelopeSamples: 0 });
+    const res = mergeYieldChunks(s, [runYieldChunk(s, 0, 40)]);
+    expect(res.envelopes).toEqual([]);
+    expect(JSON.parse(JSON.stringify(res))).toEqual(res);
+    const chunk = runYieldChunk(study({ trials: 40 }), 0, 40);
+    expect(JSON.parse(JSON.stringify(chunk))).toEqual(chunk);
+    expect(chunk.envelopeSamples).toHaveLength(40);
+  });
+});
