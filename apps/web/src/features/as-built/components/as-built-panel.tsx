@@ -1,0 +1,210 @@
+// As-built: measured spectra of built coatings against the revision's curve, their difference, and a fit
+// (in a worker) that estimates each layer's thickness error.
+import { useMemo, useState } from "react";
+import type { FormEvent } from "react";
+import { createStackEvaluator } from "@stackproof/optics";
+import type { Design, FitResult } from "@stackproof/optics";
+import { scaleBand, scaleLinear } from "@visx/scale";
+import { Bar, LinePath, Line } from "@visx/shape";
+import { AxisBottom, AxisLeft } from "@visx/axis";
+import { Group } from "@visx/group";
+import { runEngineJob } from "../../../workers/pool.ts";
+import { useMeasurements, useUploadMeasurement } from "../api/measurements.ts";
+import type { MeasuredSpectrum } from "../api/measurements.ts";
+
+export interface MeasuredOverlay {
+  id: string;
+  label: string;
+  quantity: "R" | "T";
+  wavelengths: number[];
+  values: number[];
+  kind: "measured" | "fitted";
+}
+
+export interface AsBuiltPanelProps {
+  revisionId: string;
+  /** the saved revision's stack (measurements belong to a revision, not to unsaved edits) */
+  design: Design;
+  canUpload: boolean;
+  width: number;
+  onOverlay: (overlays: MeasuredOverlay[]) => void;
+}
+
+const field = "mt-0.5 w-full rounded border border-ink-300 bg-white px-2 py-1 text-sm";
+
+function modelValues(design: Design, m: MeasuredSpectrum): number[] | string {
+  try {
+    const ev = createStackEvaluator(design, { wavelengths: m.wavelengths, angleDeg: m.angleDeg, polarization: m.polarization });
+    const n = m.wavelengths.length;
+    const out = { R: new Float64Array(n), T: new Float64Array(n), A: new Float64Array(n) };
+    ev.evaluate(ev.nominalThicknesses, out);
+    return Array.from(m.quantity === "R" ? out.R : out.T, (v) => v * 100);
+  } catch (e) {
+    return e instanceof Error ? e.message : String(e);
+  }
+}
+
+export function AsBuiltPanel(props: AsBuiltPanelProps) {
+  const list = useMeasurements(props.revisionId);
+  const upload = useUploadMeasurement(props.revisionId);
+  const [selected, setSelected] = useState<string | null>(null);
+  const [fit, setFit] = useState<{ s: "idle" } | { s: "running" } | { s: "done"; r: FitResult; id: string } | { s: "error"; message: string }>({ s: "idle" });
+  const [form, setForm] = useState({ label: "", angleDeg: "0", polarization: "u" as "s" | "p" | "u", file: null as File | null });
+  const [formError, setFormError] = useState<string | null>(null);
+  const m = (list.data ?? []).find((x) => x.id === selected) ?? null;
+  const model = useMemo(() => (m ? modelValues(props.design, m) : null), [m, props.design]);
+
+  const show = (next: MeasuredSpectrum | null, fitted?: FitResult) => {
+    setSelected(next?.id ?? null);
+    if (!next) return props.onOverlay([]);
+    const overlays: MeasuredOverlay[] = [{ id: `measured-${next.id}`, label: `Measured ${next.quantity}: ${next.label}`, quantity: next.quantity, wavelengths: next.wavelengths, values: next.values, kind: "measured" }];
+    if (fitted) overlays.push({ id: `fitted-${next.id}`, label: `Fitted ${next.quantity}`, quantity: next.quantity, wavelengths: next.wavelengths, values: fitted.fittedSpectrum, kind: "fitted" });
+    props.onOverlay(overlays);
+  };
+
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    const angle = Number(form.angleDeg);
+    if (!form.file) return setFormError("Choose a CSV file (wavelength_nm,R or wavelength_nm,T in percent).");
+    if (!form.label.trim()) return setFormError("Give the measurement a label, e.g. the run number.");
+    if (!(angle >= 0 && angle < 90)) return setFormError("The angle must be between 0 and 90°.");
+    setFormError(null);
+    upload.mutate(
+      { file: form.file, label: form.label.trim(), angleDeg: angle, polarization: form.polarization },
+      {
+        onSuccess: (created) => {
+          setForm({ ...form, label: "", file: null });
+          if (created && typeof created === "object" && "id" in created && Array.isArray(created.wavelengths)) show(created);
+        },
+      },
+    );
+  };
+
+  const runFit = async () => {
+    if (!m) return;
+    setFit({ s: "running" });
+    try {
+      const r = await runEngineJob((api) => api.fitAsBuilt(props.design, { wavelengths: m.wavelengths, values: m.values, quantity: m.quantity, angleDeg: m.angleDeg, polarization: m.polarization }));
+      setFit({ s: "done", r, id: m.id });
+      show(m, r);
+    } catch (e) {
+      setFit({ s: "error", message: e instanceof Error ? e.message : String(e) });
+    }
+  };
+
+  const fitted = fit.s === "done" && fit.id === m?.id ? fit.r : null;
+  return (
+    <section aria-labelledby="asbuilt-h" className="space-y-3">
+      <h2 id="asbuilt-h" className="text-base font-semibold">
+        As built
+      </h2>
+      {list.isPending ? <p className="text-sm text-ink-500">Loading measurements…</p> : null}
+      {list.error ? <p role="alert" className="text-sm text-verdict-fail">Could not load measurements: {list.error.message}</p> : null}
+      {list.data && list.data.length === 0 ? <p className="text-sm text-ink-500">No measured spectra for this revision yet.</p> : null}
+      {list.data && list.data.length > 0 ? (
+        <ul className="flex flex-wrap gap-2" aria-label="Measured spectra">
+          {list.data.map((x) => (
+            <li key={x.id}>
+              <button type="button" aria-pressed={x.id === selected} onClick={() => show(x.id === selected ? null : x)} className={`rounded border px-2 py-1 text-xs ${x.id === selected ? "border-film-amber bg-film-amber/10" : "border-ink-300 bg-white"}`}>
+                {x.label} · {x.quantity} · {x.angleDeg}° {x.polarization}
+              </button>
+            </li>
+          ))}
+        </ul>
+      ) : null}
+      {m && Array.isArray(model) ? (
+        <div className="space-y-2">
+          <DifferenceChart m={m} model={model} fitted={fitted?.fittedSpectrum ?? null} width={Math.min(props.width, 620)} />
+          <div className="flex items-center gap-2">
+            <button type="button" onClick={() => void runFit()} disabled={fit.s === "running"} className="rounded bg-ink-900 px-3 py-1.5 text-sm font-semibold text-paper disabled:opacity-40">
+              {fit.s === "running" ? "Fitting in a worker…" : "Estimate layer errors"}
+            </button>
+            {fitted ? <span className="text-xs text-ink-700">RMS residual {fitted.residualRms.toFixed(2)} % after {fitted.iterations} iterations</span> : null}
+          </div>
+          {fit.s === "error" ? <p role="alert" className="text-xs text-verdict-fail">{fit.message}</p> : null}
+          {fitted ? <LayerErrorBars errors={fitted.thicknessErrorsPct} materials={props.design.layers.map((l) => l.material)} width={Math.min(props.width, 620)} /> : null}
+        </div>
+      ) : null}
+      {m && typeof model === "string" ? <p role="alert" className="text-xs text-verdict-fail">The model cannot be evaluated at the measured wavelengths: {model}</p> : null}
+      {props.canUpload ? (
+        <form onSubmit={submit} aria-label="Upload a measured spectrum" className="grid grid-cols-2 gap-2 rounded-md border border-ink-100 p-3 text-xs text-ink-700 md:grid-cols-5">
+          <label className="md:col-span-2">
+            CSV file (wavelength_nm,R or wavelength_nm,T, in %)
+            <input type="file" accept=".csv,text/csv" className={field} onChange={(e) => setForm({ ...form, file: e.target.files?.[0] ?? null })} />
+          </label>
+          <label>
+            Label
+            <input className={field} value={form.label} onChange={(e) => setForm({ ...form, label: e.target.value })} />
+          </label>
+          <label>
+            Angle (°)
+            <input className={field} value={form.angleDeg} inputMode="decimal" onChange={(e) => setForm({ ...form, angleDeg: e.target.value })} />
+          </label>
+          <label>
+            Polarization
+            <select className={field} value={form.polarization} onChange={(e) => setForm({ ...form, polarization: e.target.value as "s" | "p" | "u" })}>
+              <option value="u">unpolarized</option>
+              <option value="s">s</option>
+              <option value="p">p</option>
+            </select>
+          </label>
+          <div className="col-span-2 flex items-center gap-2 md:col-span-5">
+            <button type="submit" disabled={upload.isPending} className="rounded border border-ink-300 bg-white px-3 py-1 text-sm">
+              {upload.isPending ? "Uploading…" : "Upload measurement"}
+            </button>
+            {formError ? <span role="alert" className="text-verdict-fail">{formError}</span> : null}
+            {upload.error ? <span role="alert" className="text-verdict-fail">{upload.error.message}</span> : null}
+          </div>
+        </form>
+      ) : null}
+    </section>
+  );
+}
+
+function DifferenceChart({ m, model, fitted, width }: { m: MeasuredSpectrum; model: number[]; fitted: number[] | null; width: number }) {
+  const mg = { top: 8, right: 10, bottom: 34, left: 44 };
+  const height = 150;
+  const iw = Math.max(10, width - mg.left - mg.right);
+  const ih = height - mg.top - mg.bottom;
+  const diff = m.values.map((v, i) => v - (model[i] ?? 0));
+  const diffFit = fitted ? m.values.map((v, i) => v - (fitted[i] ?? 0)) : null;
+  const lim = Math.max(0.5, ...diff.map(Math.abs));
+  const x = scaleLinear<number>({ domain: [m.wavelengths[0] ?? 0, m.wavelengths[m.wavelengths.length - 1] ?? 1], range: [0, iw] });
+  const y = scaleLinear<number>({ domain: [-lim, lim], range: [ih, 0] });
+  const idx = m.wavelengths.map((_, i) => i);
+  return (
+    <svg width={width} height={height} role="img" aria-label="Measured minus modelled spectrum" data-testid="asbuilt-difference">
+      <Group left={mg.left} top={mg.top}>
+        <Line from={{ x: 0, y: y(0) }} to={{ x: iw, y: y(0) }} stroke="#a9b6c8" />
+        <LinePath<number> data={idx} x={(i) => x(m.wavelengths[i] ?? 0)} y={(i) => y(diff[i] ?? 0)} stroke="#d98a2b" strokeWidth={1.5} fill="none" />
+        {diffFit ? <LinePath<number> data={idx} x={(i) => x(m.wavelengths[i] ?? 0)} y={(i) => y(diffFit[i] ?? 0)} stroke="#1f7f7a" strokeWidth={1.2} strokeDasharray="4 3" fill="none" /> : null}
+        <AxisLeft scale={y} numTicks={4} label={`Δ${m.quantity} (%)`} labelOffset={26} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "end", dx: -2, dy: 3 }} labelProps={{ fontSize: 11, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
+        <AxisBottom top={ih} scale={x} numTicks={6} label="Wavelength (nm) — amber: measured − design, teal dashed: measured − fit" labelOffset={8} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} labelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
+      </Group>
+    </svg>
+  );
+}
+
+function LayerErrorBars({ errors, materials, width }: { errors: number[]; materials: string[]; width: number }) {
+  const mg = { top: 8, right: 10, bottom: 30, left: 44 };
+  const height = 170;
+  const iw = Math.max(10, width - mg.left - mg.right);
+  const ih = height - mg.top - mg.bottom;
+  const lim = Math.max(1, ...errors.map(Math.abs));
+  const x = scaleBand<number>({ domain: errors.map((_, i) => i), range: [0, iw], padding: 0.2 });
+  const y = scaleLinear<number>({ domain: [-lim, lim], range: [ih, 0] });
+  return (
+    <svg width={width} height={height} role="img" aria-label="Estimated thickness error of each layer, percent" data-testid="asbuilt-errors">
+      <Group left={mg.left} top={mg.top}>
+        <Line from={{ x: 0, y: y(0) }} to={{ x: iw, y: y(0) }} stroke="#5a708f" />
+        {errors.map((e, i) => (
+          <Bar key={i} x={x(i) ?? 0} width={x.bandwidth()} y={Math.min(y(0), y(e))} height={Math.abs(y(e) - y(0))} fill={Math.abs(e) > 2 ? "#b3362d" : "#1f7f7a"}>
+            <title>{`Layer ${i + 1} (${materials[i] ?? ""}): ${e >= 0 ? "+" : ""}${e.toFixed(2)} %`}</title>
+          </Bar>
+        ))}
+        <AxisLeft scale={y} numTicks={4} label="Thickness error (%)" labelOffset={26} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "end", dx: -2, dy: 3 }} labelProps={{ fontSize: 11, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
+        <AxisBottom top={ih} scale={x} tickFormat={(i) => String(Number(i) + 1)} numTicks={Math.min(errors.length, 20)} tickLabelProps={{ fontSize: 9, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
+      </Group>
+    </svg>
+  );
+}
