@@ -139,7 +139,7 @@ export function refractiveIndex(model: MaterialModel, wavelengthNm: number): Ind
       for (let i = 0; i < model.B.length; i++) {
         n2 += ((model.B[i] ?? 0) * l2) / (l2 - (model.C[i] ?? 0));
       }
-      if (!(n2 > 0)) {
+      if (!(n2 > 0) || !Number.isFinite(n2)) {
         throw new RangeError(
           `Sellmeier model gives n² = ${n2.toPrecision(4)} ≤ 0 at ${wavelengthNm} nm (inside a resonance)`,
         );
