@@ -9,6 +9,11 @@ export const SESSION_COOKIE = "stackproof_session";
 /** A session lives 14 days; lucia renews it (a "fresh" session) once less than half of that remains. */
 export const SESSION_LIFETIME = new TimeSpan(14, "d");
 
+/** Secure in production, unless PUBLIC_URL says the site is served over plain http (the cookie would never be kept). */
+export function secureCookie(env: Env): boolean {
+  return env.NODE_ENV === "production" && !env.PUBLIC_URL?.startsWith("http:");
+}
+
 export function createLucia(db: Db, env: Env) {
   const adapter = new DrizzleSQLiteAdapter(db, sessions, users);
   return new Lucia(adapter, {
@@ -16,7 +21,7 @@ export function createLucia(db: Db, env: Env) {
     sessionCookie: {
       name: SESSION_COOKIE,
       expires: true,
-      attributes: { sameSite: "lax", secure: env.NODE_ENV === "production", path: "/" },
+      attributes: { sameSite: "lax", secure: secureCookie(env), path: "/" },
     },
     getSessionAttributes: (attributes) => ({ workspaceId: attributes.workspaceId }),
     getUserAttributes: (attributes) => ({ email: attributes.email, name: attributes.name }),

@@ -49,9 +49,16 @@ export async function startCaptureServer(store: Db, port: number): Promise<Captu
     },
   });
   await new Promise<void>((resolve, reject) => {
-    server.once("error", reject);
+    server.once("error", (err: Error) =>
+      reject(
+        new Error(
+          `The local mail capture server could not listen on 127.0.0.1:${port} (${err.message}). ` +
+            "Set CAPTURE_SMTP_PORT to a free port (0 picks one) or configure SMTP_HOST.",
+        ),
+      ),
+    );
     server.listen(port, "127.0.0.1", () => {
-      server.off("error", reject);
+      server.removeAllListeners("error");
       resolve();
     });
   });

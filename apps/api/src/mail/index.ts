@@ -59,7 +59,12 @@ export async function createMailService(env: Env): Promise<MailService> {
     store = openDatabase(file);
     // A separate in-memory database does not share the app's tables; give it its own.
     if (file === ":memory:") runMigrations(store);
-    capture = await startCaptureServer(store, env.CAPTURE_SMTP_PORT);
+    try {
+      capture = await startCaptureServer(store, env.CAPTURE_SMTP_PORT);
+    } catch (err) {
+      store.$client.close();
+      throw err;
+    }
     transport = nodemailer.createTransport({
       host: "127.0.0.1",
       port: capture.port,

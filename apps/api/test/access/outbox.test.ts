@@ -153,3 +153,18 @@ describe("templates", () => {
     expect(all[6]?.text).toContain("not a certification");
   });
 });
+
+describe("capture server start-up", () => {
+  it("explains a busy capture port", async () => {
+    const { createMailService } = await import("../../src/mail/index.ts");
+    const { loadEnv } = await import("../../src/env.ts");
+    const first = await createMailService(loadEnv({ NODE_ENV: "test", DATABASE_FILE: ":memory:" }));
+    try {
+      await expect(
+        createMailService(loadEnv({ NODE_ENV: "test", DATABASE_FILE: ":memory:", CAPTURE_SMTP_PORT: String(first.capturePort) })),
+      ).rejects.toThrow(/could not listen on 127\.0\.0\.1:\d+.*CAPTURE_SMTP_PORT/);
+    } finally {
+      await first.close();
+    }
+  });
+});

@@ -67,3 +67,25 @@ describe("sign-in", () => {
     await agent.get("/api/v1/auth/me").expect(401);
   });
 });
+
+describe("session cookie in production", () => {
+  it("is Secure, and not when PUBLIC_URL is plain http", async () => {
+    for (const [overrides, secure] of [
+      [{ NODE_ENV: "production" }, true],
+      [{ NODE_ENV: "production", PUBLIC_URL: "http://coatings-lab.halvorsen-thinfilm.test" }, false],
+    ] as const) {
+      const prod = await createTestServer(overrides);
+      try {
+        const m = await createMember(prod, { roles: ["designer"] });
+        const res = await withOrigin(request(prod.app).post("/api/v1/auth/sign-in"))
+          .send({ email: m.email, password: m.password })
+          .expect(200);
+        const cookie = res.headers["set-cookie"]?.[0] ?? "";
+        expect(/;\s*Secure/i.test(cookie), cookie).toBe(secure);
+        expect(cookie).toMatch(/HttpOnly/i);
+      } finally {
+        await prod.close();
+      }
+    }
+  });
+});

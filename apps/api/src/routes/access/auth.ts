@@ -34,6 +34,13 @@ export function authRoutes(ctx: AppContext, router: Router): void {
   const perAccount = createFailureLimiter({ max: SIGN_IN_LIMIT.perAccount, windowMs: SIGN_IN_LIMIT.windowMs });
   const perAddress = createFailureLimiter({ max: SIGN_IN_LIMIT.perAddress, windowMs: SIGN_IN_LIMIT.windowMs });
   const resetMails = createFailureLimiter({ max: RESET_MAILS_PER_HOUR, windowMs: 60 * 60_000 });
+  let lastSweep = 0;
+  /** Expired sessions are deleted when met; this removes the ones never seen again, at most hourly. */
+  async function sweepExpiredSessions() {
+    if (Date.now() - lastSweep < 60 * 60_000) return;
+    lastSweep = Date.now();
+    await lucia.deleteExpiredSessions();
+  }
 
   route(
     router,
@@ -83,6 +90,7 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       }
       perAccount.reset(accountKey);
       if (req.auth) await lucia.invalidateSession(req.auth.sessionId);
+      await sweepExpiredSessions();
       return startSession(ctx, res, user, { id: membership.id, name: membership.name }, membership.roles);
     },
   );

@@ -6,6 +6,7 @@ import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { invitations, memberships, users, workspaces, type Role } from "../../db/schema.ts";
 import { getAuth } from "../../auth/guards.ts";
+import { luciaFor } from "../../auth/lucia.ts";
 import { hashPassword, verifyPassword } from "../../auth/password.ts";
 import { hashToken, newId, newToken } from "../../auth/tokens.ts";
 import { recordAudit } from "../../lib/audit.ts";
@@ -251,7 +252,7 @@ export function invitationRoutes(ctx: AppContext, router: Router): void {
         404: "Unknown, used, revoked or expired (invalid_invitation)",
       },
     },
-    async ({ body, res }) => {
+    async ({ body, req, res }) => {
       const found = findByToken(body.token);
       if (!found) throw invalidInvitation();
       const { inv } = found;
@@ -318,6 +319,7 @@ export function invitationRoutes(ctx: AppContext, router: Router): void {
         });
         return { user, roles };
       });
+      if (req.auth) await luciaFor(ctx.db, ctx.env).invalidateSession(req.auth.sessionId);
       return startSession(ctx, res, result.user, { id: inv.workspaceId, name: found.workspaceName }, result.roles);
     },
   );
