@@ -1,7 +1,7 @@
 // The built product starts as one process and serves the app shell without console errors.
 import fs from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { openBrowser, startProduct, type BrowserSession, type Product } from "./support/harness.ts";
+import { DEMO, openBrowser, signInAs, startProduct, type BrowserSession, type Product } from "./support/harness.ts";
 
 let product: Product;
 let browser: BrowserSession;
@@ -17,9 +17,18 @@ afterAll(async () => {
 });
 
 describe("the built product", () => {
-  it("serves the shell with a healthy API and no console errors", async () => {
+  it("sends a signed-out visitor to the sign-in page", async () => {
     const { page } = browser;
     await page.goto(product.url);
+    await page.waitForURL((u) => u.pathname.startsWith("/sign-in"));
+    await page.getByRole("button", { name: /sign in/i }).waitFor();
+    await browser.screenshot("shell-sign-in");
+    expect(browser.consoleErrors).toEqual([]);
+  });
+
+  it("serves the shell with a healthy API and no console errors once signed in", async () => {
+    const { page } = browser;
+    await signInAs(page, product.url, DEMO.admin);
     await page.getByText("Stackproof").first().waitFor();
     await page.getByText(/server healthy/i).waitFor({ timeout: 15_000 });
     const file = await browser.screenshot("shell");
