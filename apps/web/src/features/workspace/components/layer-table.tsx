@@ -231,6 +231,10 @@ export function LayerTable(props: LayerTableProps) {
                       setActive({ row: r, col: c });
                       onSelect(r);
                     },
+                    onFocus: (e: { target: EventTarget; currentTarget: EventTarget }) => {
+                      // Focus that arrives by other means (a click, a screen reader) moves the grid's cursor too.
+                      if (e.target === e.currentTarget && (r !== activeRow || c !== active.col)) setActive({ row: r, col: c });
+                    },
                     onDoubleClick: () => {
                       if (EDITABLE.includes(colId)) startEdit(r, colId);
                     },
