@@ -2,6 +2,7 @@
 import { createApp } from "./app.ts";
 import { createContext } from "./context.ts";
 import { loadEnv } from "./env.ts";
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, DEMO_WORKSPACE, isDemoWorkspacePresent } from "./demo/index.ts";
 
 const env = loadEnv();
 const ctx = await createContext(env);
@@ -11,6 +12,22 @@ const server = app.listen(env.PORT, env.HOST, () => {
   const port = typeof address === "object" && address ? address.port : env.PORT;
   const url = env.PUBLIC_URL ?? `http://${env.HOST === "0.0.0.0" ? "localhost" : env.HOST}:${port}`;
   console.log(`\nStackproof is running: open ${url}\n`);
+  if (ctx.demo) {
+    console.log(
+      `Loaded the demo workspace "${DEMO_WORKSPACE}" (${ctx.demo.programs} programs, ${ctx.demo.revisions} revisions, ` +
+        `${ctx.demo.yieldRuns} verified yield runs, ${ctx.demo.releases} release) in ${ctx.demo.ms} ms.`,
+    );
+  }
+  if (env.DEMO_DATA && isDemoWorkspacePresent(ctx.db)) {
+    console.log(`Demo accounts (demo only; password "${DEMO_PASSWORD}" for all):`);
+    for (const a of DEMO_ACCOUNTS) console.log(`  ${a.email.padEnd(28)} ${a.name} — ${a.title}`);
+    console.log("");
+  }
+  if (ctx.jobs.recovered.resumed.length || ctx.jobs.recovered.failed.length) {
+    console.log(
+      `Yield runs left by the previous process: ${ctx.jobs.recovered.resumed.length} resumed, ${ctx.jobs.recovered.failed.length} marked failed.`,
+    );
+  }
 });
 
 let closing = false;

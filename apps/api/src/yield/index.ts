@@ -115,7 +115,8 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
   };
 
   function spawn(): PoolWorker {
-    const worker = new Worker(new URL("./worker.ts", import.meta.url), { execArgv: ["--import", "tsx"] });
+    // worker-boot.mjs registers tsx in the worker and imports worker.ts (works under tsx and under vitest).
+    const worker = new Worker(new URL("./worker-boot.mjs", import.meta.url));
     const pw: PoolWorker = { worker, busy: false };
     worker.on("message", (reply: WorkerReply) => {
       const task = tasks.get(reply.taskId);

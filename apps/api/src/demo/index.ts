@@ -1,0 +1,317 @@
+// Demo data: the fictional Halvorsen Thinfilm Works, loaded into a new database when DEMO_DATA is on.
+// Yield runs are computed here synchronously with the same optics functions the workers use (small trial counts).
+import { eq } from "drizzle-orm";
+import { ENGINE_VERSION, mergeYieldChunks, planChunks, runYieldChunk, type YieldStudy } from "@stackproof/optics";
+import { hashPassword } from "../auth/password.ts";
+import type { Db } from "../db/client.ts";
+import {
+  comments,
+  decisions,
+  designs,
+  memberships,
+  programs,
+  releases,
+  revisions,
+  threads,
+  users,
+  workspaces,
+  yieldRuns,
+  type DecisionAction,
+  type RevisionStatus,
+  type Role,
+  type ThreadAnchor,
+} from "../db/schema.ts";
+import { recordAudit } from "../lib/audit.ts";
+import { newId, revisionHash } from "../domain/canonical.ts";
+import type { RevisionContext } from "../domain/load.ts";
+import { finishedRunValues } from "../yield/index.ts";
+import { releaseSnapshot } from "../domain/workflow.ts";
+import { demoPrograms, type DemoProgram } from "./designs.ts";
+
+/** Demo only: every demo account uses this password. */
+export const DEMO_PASSWORD = "stackproof-demo";
+export const DEMO_WORKSPACE = "Halvorsen Thinfilm Works";
+
+export const DEMO_ACCOUNTS: { key: string; name: string; email: string; roles: Role[]; title: string }[] = [
+  { key: "admin", name: "Maren Kolstad", email: "admin@halvorsen.example", roles: ["admin"], title: "administrator" },
+  { key: "designer", name: "Ilse Varga", email: "designer@halvorsen.example", roles: ["designer"], title: "filter designer" },
+  { key: "reviewer", name: "Tobiah Renwick", email: "reviewer@halvorsen.example", roles: ["reviewer"], title: "peer reviewer" },
+  { key: "approver", name: "Sunniva Achterberg", email: "approver@halvorsen.example", roles: ["approver"], title: "program manager (approver)" },
+];
+
+/** True when the database has no workspace yet (a new database). */
+export function isNewDatabase(db: Db): boolean {
+  return db.select({ id: workspaces.id }).from(workspaces).limit(1).all().length === 0;
+}
+
+const DAY = 24 * 3600 * 1000;
+
+export interface DemoSummary {
+  workspaceId: string;
+  programs: number;
+  revisions: number;
+  yieldRuns: number;
+  releases: number;
+  ms: number;
+}
+
+export async function seedDemo(db: Db): Promise<DemoSummary> {
+  const t0 = performance.now();
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  const now = Date.now();
+  const at = (daysAgo: number, hours = 0) => new Date(now - daysAgo * DAY + hours * 3600 * 1000);
+  const workspaceId = newId();
+  const people = Object.fromEntries(DEMO_ACCOUNTS.map((a) => [a.key, { ...a, id: newId() }])) as Record<
+    string,
+    (typeof DEMO_ACCOUNTS)[number] & { id: string }
+  >;
+  const p = (key: string) => {
+    const found = people[key];
+    if (!found) throw new Error(`demo person ${key}`);
+    return found;
+  };
+  const designer = p("designer");
+  const reviewer = p("reviewer");
+  const approver = p("approver");
+  const specs = new Map(demoPrograms().map((d) => [d.key, d]));
+  const spec = (key: string): DemoProgram => {
+    const s = specs.get(key);
+    if (!s) throw new Error(`demo program ${key}`);
+    return s;
+  };
+
+  // Studies are computed before the transaction: better-sqlite3 transactions must stay synchronous and short.
+  const study = (d: DemoProgram, revisionIndex: number): YieldStudy => {
+    const rev = d.revisions[revisionIndex];
+    if (!rev) throw new Error(`demo revision ${d.key}/${revisionIndex}`);
+    return { design: rev.stack, mask: { ...d.mask, protective: d.protective }, errorModel: d.errorModel, trials: d.trials, seed: `${d.key}-r${revisionIndex + 1}` };
+  };
+  const compute = (s: YieldStudy) => mergeYieldChunks(s, planChunks(s.trials, 100).map(([start, count]) => runYieldChunk(s, start, count)));
+  const studies = {
+    kestrel: study(spec("kestrel"), 1),
+    aster: study(spec("aster"), 1),
+    wren: study(spec("wren"), 0),
+  };
+  const results = { kestrel: compute(studies.kestrel), aster: compute(studies.aster), wren: compute(studies.wren) };
+
+  let revisionCount = 0;
+  let runCount = 0;
+  let releaseCount = 0;
+  db.transaction((tx) => {
+    tx.insert(workspaces).values({ id: workspaceId, name: DEMO_WORKSPACE, createdAt: at(30) }).run();
+    for (const person of Object.values(people)) {
+      tx.insert(users).values({ id: person.id, email: person.email, name: person.name, passwordHash, createdAt: at(30) }).run();
+      tx.insert(memberships).values({ workspaceId, userId: person.id, roles: person.roles, createdAt: at(30) }).run();
+    }
+
+    const contexts = new Map<string, RevisionContext[]>();
+    let day = 21;
+    for (const d of specs.values()) {
+      const programId = newId();
+      const program = {
+        id: programId,
+        workspaceId,
+        name: d.name,
+        customer: d.customer,
+        description: d.description,
+        application: d.application,
+        protective: d.protective,
+        targetYield: d.targetYield,
+        specMask: d.mask,
+        errorModel: d.errorModel,
+        studyDefaults: { trials: 2000, seed: d.key },
+        createdBy: approver.id,
+        createdAt: at(day),
+      };
+      tx.insert(programs).values(program).run();
+      const design = { id: newId(), programId, name: d.designName, createdBy: designer.id, createdAt: at(day - 1) };
+      tx.insert(designs).values(design).run();
+      const list: RevisionContext[] = [];
+      d.revisions.forEach((r, i) => {
+        const row = {
+          id: newId(),
+          designId: design.id,
+          number: i + 1,
+          stack: r.stack,
+          specMask: d.mask,
+          note: r.note,
+          authorId: designer.id,
+          hash: revisionHash(r.stack, d.mask),
+          status: "draft" as RevisionStatus,
+          statusChangedAt: null,
+          createdAt: at(day - 1 - 3 * i),
+        };
+        tx.insert(revisions).values(row).run();
+        revisionCount++;
+        list.push({ revision: row, design, program });
+      });
+      contexts.set(d.key, list);
+      day -= 4;
+    }
+
+    const rev = (key: string, n: number): RevisionContext => {
+      const r = contexts.get(key)?.[n - 1];
+      if (!r) throw new Error(`demo revision ${key} ${n}`);
+      return r;
+    };
+
+    const decide = (rc: RevisionContext, action: DecisionAction, to: RevisionStatus, by: { id: string; name: string }, when: Date, note = "", yieldRunId: string | null = null) => {
+      const from = rc.revision.status;
+      tx.insert(decisions)
+        .values({ id: newId(), revisionId: rc.revision.id, action, fromStatus: from, toStatus: to, actorId: by.id, actorName: by.name, revisionHash: rc.revision.hash, yieldRunId, note, at: when })
+        .run();
+      tx.update(revisions).set({ status: to, statusChangedAt: when }).where(eqId(rc.revision.id)).run();
+      rc.revision = { ...rc.revision, status: to, statusChangedAt: when };
+      recordAudit(tx, {
+        workspaceId,
+        actorId: by.id,
+        action: `revision.${{ submit: "submitted", request_changes: "changes_requested", approve: "approved", release: "released", withdraw: "withdrawn" }[action]}`,
+        subjectType: "revision",
+        subjectId: rc.revision.id,
+        summary: `${by.name} ${{ submit: "submitted", request_changes: "requested changes on", approve: "approved", release: "released", withdraw: "withdrew" }[action]} ${rc.design.name} rev ${rc.revision.number}${note ? `: ${note}` : ""}`,
+        data: { from, to, demo: true },
+      });
+    };
+
+    const thread = (
+      rc: RevisionContext,
+      anchor: ThreadAnchor,
+      severity: "blocking" | "advisory",
+      by: { id: string },
+      when: Date,
+      talk: { by: { id: string }; body: string; mentions?: string[] }[],
+      resolved?: { by: { id: string }; when: Date },
+    ) => {
+      const id = newId();
+      tx.insert(threads)
+        .values({
+          id,
+          designId: rc.design.id,
+          revisionId: rc.revision.id,
+          revisionNumber: rc.revision.number,
+          anchor,
+          severity,
+          status: resolved ? "resolved" : "open",
+          authorId: by.id,
+          resolvedBy: resolved?.by.id ?? null,
+          resolvedAt: resolved?.when ?? null,
+          createdAt: when,
+        })
+        .run();
+      talk.forEach((c, i) => {
+        tx.insert(comments)
+          .values({ id: newId(), threadId: id, authorId: c.by.id, body: c.body, mentions: c.mentions ?? [], createdAt: new Date(when.getTime() + i * 3600 * 1000) })
+          .run();
+      });
+      return id;
+    };
+
+    const storeRun = (rc: RevisionContext, s: YieldStudy, result: ReturnType<typeof compute>, by: { id: string }, when: Date) => {
+      const id = newId();
+      const base = {
+        id,
+        revisionId: rc.revision.id,
+        requestedBy: by.id,
+        status: "running" as const,
+        progressDone: 0,
+        trials: s.trials,
+        seed: s.seed,
+        errorModel: s.errorModel,
+        clientResult: null,
+        result: null,
+        verified: null,
+        mismatch: null,
+        engineVersion: ENGINE_VERSION,
+        error: null,
+        createdAt: when,
+        startedAt: when,
+        finishedAt: null,
+      };
+      // A server-only run: verified, since the server computed it itself.
+      const done = finishedRunValues(base, result);
+      tx.insert(yieldRuns).values({ ...base, ...done, finishedAt: new Date(when.getTime() + 60_000) }).run();
+      runCount++;
+      return id;
+    };
+
+    // Kestrel: rev 1 sent back (blocking thread on the short-side blocking, resolved by rev 2); rev 2 in review,
+    // verified yield above target, one advisory thread: the approver can approve it.
+    const k1 = rev("kestrel", 1);
+    decide(k1, "submit", "in_review", designer, at(17), "Ready for a first look.");
+    thread(k1, { kind: "band", bandId: "block-short" }, "blocking", reviewer, at(16), [
+      { by: reviewer, body: "Short-side blocking fails nominally (T ≈ 1.9 % at 850 nm). Four mirror pairs are not enough." },
+      { by: designer, body: "Agreed, adding a pair on each side in rev 2." },
+    ], { by: reviewer, when: at(12) });
+    decide(k1, "request_changes", "changes_requested", reviewer, at(16), "Blocking bands fail nominally.");
+    const k2 = rev("kestrel", 2);
+    decide(k2, "submit", "in_review", designer, at(11), "Five pairs; verified yield attached.");
+    storeRun(k2, studies.kestrel, results.kestrel, designer, at(11, 1));
+    thread(k2, { kind: "range", start: 903, stop: 907 }, "advisory", reviewer, at(10), [
+      {
+        by: reviewer,
+        body: `Most failures are peak shift out of 904–906 nm. Fine for the target, but @${approver.name} may want the cavity flagged as critical in the run sheet.`,
+        mentions: [approver.id],
+      },
+    ]);
+
+    // Aster: rev 2 in review with a verified yield below target and an advisory thread on the emission band.
+    const a2 = rev("aster", 2);
+    decide(a2, "submit", "in_review", designer, at(8), "Ten periods; ripple in the emission band is still high.");
+    storeRun(a2, studies.aster, results.aster, designer, at(8, 1));
+    thread(a2, { kind: "band", bandId: "transmit" }, "advisory", reviewer, at(7), [
+      { by: reviewer, body: "Emission average sits just under 75 % at 45°. Matching layers against the substrate and the air side would flatten the ripple." },
+    ]);
+
+    // Wren: released with its decisions and release record.
+    const w1 = rev("wren", 1);
+    decide(w1, "submit", "in_review", designer, at(9), "Standard QHQ recipe for the window.");
+    const wrenRun = storeRun(w1, studies.wren, results.wren, designer, at(9, 1));
+    thread(w1, { kind: "layer", index: 1 }, "advisory", reviewer, at(8), [
+      { by: reviewer, body: "The half-wave ZrO2 layer dominates the critical-layer ranking; keep its monitoring chip fresh." },
+    ], { by: designer, when: at(7) });
+    decide(w1, "approve", "approved", approver, at(6), "Yield well above target.", wrenRun);
+    decide(w1, "release", "released", approver, at(5), "Released for the spring lot.", wrenRun);
+    const releaseId = newId();
+    const approverAuth = {
+      user: { id: approver.id, email: approver.email, name: approver.name },
+      sessionId: "demo",
+      workspaceId,
+      workspaceName: DEMO_WORKSPACE,
+      roles: approver.roles,
+    };
+    tx.insert(releases)
+      .values({
+        id: releaseId,
+        workspaceId,
+        revisionId: w1.revision.id,
+        designId: w1.design.id,
+        programId: w1.program.id,
+        yieldRunId: wrenRun,
+        releasedBy: approver.id,
+        releasedAt: at(5),
+        snapshot: releaseSnapshot(tx, w1, wrenRun, releaseId, approverAuth, at(5)),
+      })
+      .run();
+    releaseCount++;
+
+    // Merlin (protective): rev 1 sent back with a blocking thread still open; rev 2 is a draft it carries forward to.
+    const m1 = rev("merlin", 1);
+    decide(m1, "submit", "in_review", designer, at(4), "First notch candidate.");
+    thread(m1, { kind: "band", bandId: "od" }, "blocking", reviewer, at(3), [
+      {
+        by: reviewer,
+        body: `OD margin at 528 and 536 nm is under 0.5. For an eye-protection window I want at least 1 OD of margin before we go further. @${designer.name.split(" ")[0]}`,
+        mentions: [designer.id],
+      },
+    ]);
+    decide(m1, "request_changes", "changes_requested", reviewer, at(3), "OD margin too thin for a protective part.");
+  });
+  return { workspaceId, programs: specs.size, revisions: revisionCount, yieldRuns: runCount, releases: releaseCount, ms: Math.round(performance.now() - t0) };
+}
+
+const eqId = (id: string) => eq(revisions.id, id);
+
+/** Whether the demo accounts exist in this database (they are printed at start-up only then). */
+export function isDemoWorkspacePresent(db: Db): boolean {
+  return db.select({ id: users.id }).from(users).where(eq(users.email, DEMO_ACCOUNTS[0]?.email ?? "")).limit(1).all().length > 0;
+}

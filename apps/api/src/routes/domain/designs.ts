@@ -1,0 +1,280 @@
+// Designs, revisions, diffs, design import, the home overview and the per-role queue.
+import type { Router } from "express";
+import { and, desc, eq, inArray } from "drizzle-orm";
+import { z } from "zod";
+import { DESIGN_FORMAT, MATERIAL_LIBRARY } from "@stackproof/optics";
+import type { AppContext } from "../../context.ts";
+import { getAuth } from "../../auth/guards.ts";
+import { designs, programs, revisions } from "../../db/schema.ts";
+import { recordAudit } from "../../lib/audit.ts";
+import { HttpError } from "../../lib/errors.ts";
+import { route } from "../../lib/route.ts";
+import { diffStacks } from "../../domain/diff.ts";
+import { loadDesign, loadRevision, stackOf, type RevisionContext } from "../../domain/load.ts";
+import { resolveDesign, workspaceMaterials } from "../../domain/materials.ts";
+import { createRevision, designView, overviewRow, revisionSummary, revisionView } from "../../domain/revisions.ts";
+import { evaluateGate } from "../../domain/workflow.ts";
+import { parseLayerCsv } from "../../uploads/csv.ts";
+import { singleFile, uploadedText } from "../../uploads/index.ts";
+import { DesignSchemaOut, IdParams, NewRevisionBody, RevisionSchema, RevisionSummarySchema } from "./schemas.ts";
+
+const TAG = "Designs and revisions";
+
+/** Every revision of the workspace with its design and program, newest first. */
+function workspaceRevisions(ctx: AppContext, workspaceId: string, statuses: string[]): RevisionContext[] {
+  return ctx.db
+    .select({ revision: revisions, design: designs, program: programs })
+    .from(revisions)
+    .innerJoin(designs, eq(revisions.designId, designs.id))
+    .innerJoin(programs, eq(designs.programId, programs.id))
+    .where(and(eq(programs.workspaceId, workspaceId), inArray(revisions.status, statuses as (typeof revisions.$inferSelect.status)[])))
+    .orderBy(desc(revisions.statusChangedAt), desc(revisions.createdAt))
+    .all();
+}
+
+export function designRoutes(ctx: AppContext, router: Router): void {
+  route(
+    router,
+    {
+      method: "get",
+      path: "/overview",
+      summary: "One row per design for the home table",
+      tag: TAG,
+      access: "member",
+      response: z.object({ items: z.array(z.unknown()) }),
+    },
+    ({ req }) => {
+      const auth = getAuth(req);
+      const rows = ctx.db
+        .select({ design: designs, program: programs })
+        .from(designs)
+        .innerJoin(programs, eq(designs.programId, programs.id))
+        .where(eq(programs.workspaceId, auth.workspaceId))
+        .orderBy(programs.name, designs.name)
+        .all();
+      return { items: rows.map((r) => overviewRow(ctx.db, r.design, r.program)) };
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "get",
+      path: "/queue",
+      summary: "Revisions waiting for the signed-in member, by role",
+      tag: TAG,
+      access: "member",
+      response: z.object({
+        changesRequested: z.array(RevisionSummarySchema),
+        reviewRequested: z.array(RevisionSummarySchema),
+        readyForDecision: z.array(RevisionSummarySchema),
+        readyForRelease: z.array(RevisionSummarySchema),
+      }),
+    },
+    ({ req }) => {
+      const auth = getAuth(req);
+      const has = (r: string) => auth.roles.some((x) => x === r);
+      const changes = has("designer")
+        ? workspaceRevisions(ctx, auth.workspaceId, ["changes_requested"]).filter((rc) => rc.revision.authorId === auth.user.id)
+        : [];
+      const inReview = workspaceRevisions(ctx, auth.workspaceId, ["in_review"]);
+      const review = has("reviewer") ? inReview.filter((rc) => rc.revision.authorId !== auth.user.id) : [];
+      const decision = has("approver")
+        ? inReview.filter((rc) => {
+            const gate = evaluateGate(ctx.db, rc, auth);
+            return gate.checks.every((c) => c.ok);
+          })
+        : [];
+      const release = has("approver") ? workspaceRevisions(ctx, auth.workspaceId, ["approved"]) : [];
+      return {
+        changesRequested: revisionSummary(ctx.db, changes),
+        reviewRequested: revisionSummary(ctx.db, review),
+        readyForDecision: revisionSummary(ctx.db, decision),
+        readyForRelease: revisionSummary(ctx.db, release),
+      };
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "get",
+      path: "/designs/:id",
+      summary: "A design with its revisions (newest first)",
+      tag: TAG,
+      access: "member",
+      params: IdParams,
+      response: DesignSchemaOut,
+      errors: { 404: "No such design in this workspace" },
+    },
+    ({ req, params }) => {
+      const auth = getAuth(req);
+      const { design, program } = loadDesign(ctx.db, auth.workspaceId, params.id);
+      return designView(ctx.db, design, program);
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "post",
+      path: "/designs/:id/revisions",
+      summary: "Add a revision (number = last + 1, status draft)",
+      tag: TAG,
+      access: ["designer"],
+      params: IdParams,
+      body: NewRevisionBody,
+      status: 201,
+      response: RevisionSchema,
+      errors: { 404: "No such design in this workspace" },
+    },
+    ({ req, params, body }) => {
+      const auth = getAuth(req);
+      const { design, program } = loadDesign(ctx.db, auth.workspaceId, params.id);
+      const revision = ctx.db.transaction((tx) => {
+        const revision = createRevision(tx, {
+          workspaceId: auth.workspaceId,
+          design,
+          program,
+          stack: body.stack,
+          specMask: body.specMask,
+          note: body.note,
+          authorId: auth.user.id,
+        });
+        recordAudit(tx, {
+          workspaceId: auth.workspaceId,
+          actorId: auth.user.id,
+          action: "revision.created",
+          subjectType: "revision",
+          subjectId: revision.id,
+          summary: `${auth.user.name} added ${design.name} rev ${revision.number}`,
+          data: { hash: revision.hash },
+        });
+        return revision;
+      });
+      return revisionView(ctx.db, { revision, design, program });
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "get",
+      path: "/revisions/:id",
+      summary: "A revision with its nominal verdict against the spec mask",
+      tag: TAG,
+      access: "member",
+      params: IdParams,
+      response: RevisionSchema,
+      errors: { 404: "No such revision in this workspace" },
+    },
+    ({ req, params }) => {
+      const auth = getAuth(req);
+      return revisionView(ctx.db, loadRevision(ctx.db, auth.workspaceId, params.id));
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "get",
+      path: "/revisions/:id/diff",
+      summary: "Layer differences from revision `against` (before) to this one (after), aligned by layer index",
+      tag: TAG,
+      access: "member",
+      params: IdParams,
+      query: z.object({ against: z.string().min(1).max(100) }),
+      response: z.object({
+        added: z.array(z.unknown()),
+        removed: z.array(z.unknown()),
+        changed: z.array(z.unknown()),
+        unchanged: z.number(),
+        other: z.array(z.string()),
+        totalThicknessDeltaNm: z.number(),
+        specMaskChanged: z.boolean(),
+        summary: z.string(),
+        before: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
+        after: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
+      }),
+      errors: { 404: "No such revision in this workspace" },
+    },
+    ({ req, params, query }) => {
+      const auth = getAuth(req);
+      const after = loadRevision(ctx.db, auth.workspaceId, params.id);
+      const before = loadRevision(ctx.db, auth.workspaceId, query.against);
+      const diff = diffStacks(stackOf(before.revision), stackOf(after.revision));
+      const specMaskChanged = JSON.stringify(before.revision.specMask) !== JSON.stringify(after.revision.specMask);
+      return {
+        ...diff,
+        specMaskChanged,
+        summary: specMaskChanged ? `${diff.summary}; spec mask changed` : diff.summary,
+        before: { id: before.revision.id, number: before.revision.number, hash: before.revision.hash },
+        after: { id: after.revision.id, number: after.revision.number, hash: after.revision.hash },
+      };
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "post",
+      path: "/imports/design",
+      summary: "Parse an uploaded design (JSON design file, or CSV material,thickness_nm[,locked]); nothing is stored",
+      tag: TAG,
+      access: ["designer"],
+      multipart: true,
+      before: [singleFile],
+      body: z.object({
+        name: z.string().trim().max(200).optional(),
+        referenceWavelength: z.coerce.number().positive().max(100000).optional(),
+        substrate: z.string().trim().max(100).optional(),
+        substrateThicknessMm: z.coerce.number().min(0).max(1000).optional(),
+        incident: z.string().trim().max(100).optional(),
+      }),
+      response: z.object({ stack: z.unknown(), warnings: z.array(z.string()) }),
+      errors: { 413: "File over 1 MB", 415: "Binary (non-text) file", 422: "CSV with wrong columns or bad cells (details: row, column, message)" },
+    },
+    ({ req, body }) => {
+      const auth = getAuth(req);
+      const file = uploadedText(req);
+      const warnings: string[] = [];
+      const trimmed = file.text.trimStart();
+      if (trimmed.startsWith("{")) {
+        let json: unknown;
+        try {
+          json = JSON.parse(file.text);
+        } catch (err) {
+          throw new HttpError(400, "malformed_json", `${file.name} is not valid JSON: ${err instanceof Error ? err.message : String(err)}`);
+        }
+        return { stack: resolveDesign(ctx.db, auth.workspaceId, json), warnings };
+      }
+      const ws = workspaceMaterials(ctx.db, auth.workspaceId);
+      const known = (id: string) => MATERIAL_LIBRARY.some((m) => m.id === id) || ws.some((m) => m.id === id);
+      const layers = parseLayerCsv(file.text, known);
+      const name = body.name || file.name.replace(/\.[^.]+$/, "") || "Imported design";
+      let referenceWavelength = body.referenceWavelength;
+      if (referenceWavelength === undefined) {
+        referenceWavelength = 550;
+        warnings.push("No reference wavelength given; 550 nm was used.");
+      }
+      let substrate = body.substrate;
+      if (!substrate) {
+        substrate = "boro-crown";
+        warnings.push("No substrate given; borosilicate crown glass (boro-crown), 1 mm, back surface counted, was used.");
+      } else if (!known(substrate)) {
+        throw new HttpError(400, "invalid_design", `Unknown substrate material id "${substrate}".`);
+      }
+      warnings.push("Layers were read in deposition order: the first row is the layer next to the substrate.");
+      const stack = resolveDesign(ctx.db, auth.workspaceId, {
+        format: DESIGN_FORMAT,
+        name,
+        referenceWavelength,
+        incident: body.incident || "air",
+        layers,
+        substrate: { material: substrate, thicknessMm: body.substrateThicknessMm ?? 1, backside: true },
+        exit: "air",
+      });
+      return { stack, warnings };
+    },
+  );
+}

@@ -1,0 +1,239 @@
+// Materials (built-in library + uploaded n,k tables) and measured spectra of revisions.
+import type { Router } from "express";
+import { and, asc, desc, eq } from "drizzle-orm";
+import { z } from "zod";
+import { MATERIAL_LIBRARY, MaterialSchema } from "@stackproof/optics";
+import type { AppContext } from "../../context.ts";
+import { getAuth } from "../../auth/guards.ts";
+import { materials, measurements } from "../../db/schema.ts";
+import { recordAudit } from "../../lib/audit.ts";
+import { conflict } from "../../lib/errors.ts";
+import { route } from "../../lib/route.ts";
+import { newId } from "../../domain/canonical.ts";
+import { loadRevision } from "../../domain/load.ts";
+import { isBuiltIn } from "../../domain/materials.ts";
+import { parseIndexTable, parseSpectrumCsv } from "../../uploads/csv.ts";
+import { singleFile, uploadedText } from "../../uploads/index.ts";
+import { IdParams } from "./schemas.ts";
+
+const TAG = "Materials and measurements";
+
+const MaterialOut = z.object({
+  id: z.string(),
+  name: z.string(),
+  role: z.string(),
+  source: z.string(),
+  builtIn: z.boolean(),
+  model: z.unknown(),
+  createdAt: z.string().nullable(),
+});
+
+const MeasurementOut = z.object({
+  id: z.string(),
+  revisionId: z.string(),
+  label: z.string(),
+  quantity: z.enum(["R", "T"]),
+  angleDeg: z.number(),
+  polarization: z.enum(["s", "p", "u"]),
+  wavelengths: z.array(z.number()),
+  values: z.array(z.number()),
+  createdAt: z.string(),
+});
+
+function measurementView(m: typeof measurements.$inferSelect) {
+  return {
+    id: m.id,
+    revisionId: m.revisionId,
+    label: m.label,
+    quantity: m.quantity,
+    angleDeg: m.angleDeg,
+    polarization: m.polarization,
+    wavelengths: m.wavelengths,
+    values: m.values,
+    createdAt: m.createdAt.toISOString(),
+  };
+}
+
+export function materialRoutes(ctx: AppContext, router: Router): void {
+  route(
+    router,
+    {
+      method: "get",
+      path: "/materials",
+      summary: "Built-in library and workspace materials",
+      tag: TAG,
+      access: "member",
+      response: z.object({ items: z.array(MaterialOut) }),
+    },
+    ({ req }) => {
+      const auth = getAuth(req);
+      const own = ctx.db.select().from(materials).where(eq(materials.workspaceId, auth.workspaceId)).orderBy(asc(materials.materialId)).all();
+      return {
+        items: [
+          ...MATERIAL_LIBRARY.map((m) => ({ id: m.id, name: m.name, role: m.role, source: m.source, builtIn: true, model: m.model, createdAt: null })),
+          ...own.map((m) => ({
+            id: m.materialId,
+            name: m.name,
+            role: m.role,
+            source: m.source,
+            builtIn: false,
+            model: m.model,
+            createdAt: m.createdAt.toISOString(),
+          })),
+        ],
+      };
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "post",
+      path: "/materials",
+      summary: "Upload a workspace material as an n,k table (CSV wavelength_nm|wavelength_um, n[, k])",
+      tag: TAG,
+      access: ["designer", "admin"],
+      multipart: true,
+      before: [singleFile],
+      body: z.object({
+        id: z
+          .string()
+          .trim()
+          .regex(/^[A-Za-z0-9][A-Za-z0-9_.+-]{0,63}$/, { message: "use 1-64 letters, digits, _ . + - (starting with a letter or digit)" }),
+        name: z.string().trim().min(1).max(200),
+        role: z.enum(["layer", "substrate", "medium", "metal"]).default("layer"),
+        source: z.string().trim().max(500).optional(),
+      }),
+      status: 201,
+      response: MaterialOut,
+      errors: { 409: "The id is taken (built-in or workspace material)", 413: "File over 1 MB", 415: "Binary (non-text) file", 422: "Bad CSV (details: row, column, message)" },
+    },
+    ({ req, body }) => {
+      const auth = getAuth(req);
+      if (isBuiltIn(body.id)) throw conflict(`"${body.id}" is a built-in material id; choose another id.`);
+      const file = uploadedText(req);
+      const points = parseIndexTable(file.text);
+      const material = MaterialSchema.parse({
+        id: body.id,
+        name: body.name,
+        role: body.role,
+        source: body.source || `uploaded n,k table ${file.name} (${points.length} points, ${points[0]?.[0]}–${points[points.length - 1]?.[0]} nm)`,
+        model: { kind: "table", points },
+      });
+      const id = newId();
+      ctx.db.transaction((tx) => {
+        const taken = tx
+          .select({ id: materials.id })
+          .from(materials)
+          .where(and(eq(materials.workspaceId, auth.workspaceId), eq(materials.materialId, material.id)))
+          .get();
+        if (taken) throw conflict(`The workspace already has a material "${material.id}"; materials are not replaced, choose another id.`);
+        tx.insert(materials)
+          .values({
+            id,
+            workspaceId: auth.workspaceId,
+            materialId: material.id,
+            name: material.name,
+            role: material.role,
+            source: material.source,
+            model: material.model,
+            createdBy: auth.user.id,
+          })
+          .run();
+        recordAudit(tx, {
+          workspaceId: auth.workspaceId,
+          actorId: auth.user.id,
+          action: "material.created",
+          subjectType: "material",
+          subjectId: id,
+          summary: `${auth.user.name} uploaded the material ${material.id} (${material.name})`,
+        });
+      });
+      const row = ctx.db.select().from(materials).where(eq(materials.id, id)).get();
+      return {
+        id: material.id,
+        name: material.name,
+        role: material.role,
+        source: material.source,
+        builtIn: false,
+        model: material.model,
+        createdAt: row ? row.createdAt.toISOString() : new Date().toISOString(),
+      };
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "post",
+      path: "/revisions/:id/measurements",
+      summary: "Attach a measured spectrum (CSV wavelength_nm and R or T in percent)",
+      tag: TAG,
+      access: ["designer"],
+      params: IdParams,
+      multipart: true,
+      before: [singleFile],
+      body: z.object({
+        label: z.string().trim().max(200).optional(),
+        angleDeg: z.coerce.number().min(0).lt(90).default(0),
+        polarization: z.enum(["s", "p", "u"]).default("u"),
+      }),
+      status: 201,
+      response: MeasurementOut,
+      errors: { 404: "No such revision", 413: "File over 1 MB", 415: "Binary (non-text) file", 422: "Bad CSV (details: row, column, message)" },
+    },
+    ({ req, params, body }) => {
+      const auth = getAuth(req);
+      const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
+      const file = uploadedText(req);
+      const spectrum = parseSpectrumCsv(file.text);
+      const id = newId();
+      ctx.db.transaction((tx) => {
+        tx.insert(measurements)
+          .values({
+            id,
+            revisionId: rc.revision.id,
+            label: body.label || file.name,
+            quantity: spectrum.quantity,
+            angleDeg: body.angleDeg,
+            polarization: body.polarization,
+            wavelengths: spectrum.wavelengths,
+            values: spectrum.values,
+            createdBy: auth.user.id,
+          })
+          .run();
+        recordAudit(tx, {
+          workspaceId: auth.workspaceId,
+          actorId: auth.user.id,
+          action: "measurement.added",
+          subjectType: "revision",
+          subjectId: rc.revision.id,
+          summary: `${auth.user.name} attached a measured ${spectrum.quantity} spectrum to ${rc.design.name} rev ${rc.revision.number}`,
+        });
+      });
+      const row = ctx.db.select().from(measurements).where(eq(measurements.id, id)).get();
+      if (!row) throw new Error("measurement not stored");
+      return measurementView(row);
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "get",
+      path: "/revisions/:id/measurements",
+      summary: "Measured spectra of a revision, with their data points",
+      tag: TAG,
+      access: "member",
+      params: IdParams,
+      response: z.object({ items: z.array(MeasurementOut) }),
+      errors: { 404: "No such revision" },
+    },
+    ({ req, params }) => {
+      const auth = getAuth(req);
+      const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
+      const rows = ctx.db.select().from(measurements).where(eq(measurements.revisionId, rc.revision.id)).orderBy(desc(measurements.createdAt)).all();
+      return { items: rows.map(measurementView) };
+    },
+  );
+}

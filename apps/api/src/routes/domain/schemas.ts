@@ -1,0 +1,181 @@
+// Request and response schemas shared by the domain routes (also the OpenAPI document's source).
+import { z } from "zod";
+import { ErrorModelSchema, MAX_TRIALS, SpecMaskSchema } from "@stackproof/optics";
+
+export const IdParams = z.object({ id: z.string().min(1).max(100) });
+
+export const StudyDefaultsSchema = z.object({
+  trials: z.number().int().min(1).max(MAX_TRIALS),
+  seed: z.string().min(1).max(200),
+});
+
+const text = (maxLen: number) => z.string().trim().max(maxLen);
+
+export const ProgramCreateBody = z.object({
+  name: text(200).min(1),
+  customer: text(200).default(""),
+  description: text(5000).default(""),
+  application: text(200).default(""),
+  protective: z.boolean().default(false),
+  targetYield: z.number().min(0).max(1),
+  specMask: SpecMaskSchema,
+  errorModel: ErrorModelSchema,
+  studyDefaults: StudyDefaultsSchema.default({ trials: 2000, seed: "stackproof" }),
+});
+
+export const ProgramPatchBody = z
+  .object({
+    name: text(200).min(1),
+    customer: text(200),
+    description: text(5000),
+    application: text(200),
+    protective: z.boolean(),
+    targetYield: z.number().min(0).max(1),
+    specMask: SpecMaskSchema,
+    errorModel: ErrorModelSchema,
+    studyDefaults: StudyDefaultsSchema,
+  })
+  .partial()
+  .refine((b) => Object.keys(b).length > 0, { message: "give at least one field to change" });
+
+export const ProgramSchema = z.object({
+  id: z.string(),
+  name: z.string(),
+  customer: z.string(),
+  description: z.string(),
+  application: z.string(),
+  protective: z.boolean(),
+  targetYield: z.number(),
+  specMask: z.unknown(),
+  errorModel: z.unknown(),
+  studyDefaults: StudyDefaultsSchema,
+  createdAt: z.string(),
+});
+
+export const PersonSchema = z.object({ id: z.string(), name: z.string() }).nullable();
+
+export const RevisionStatusSchema = z.enum(["draft", "in_review", "changes_requested", "approved", "released", "withdrawn"]);
+
+export const RevisionSummarySchema = z.object({
+  id: z.string(),
+  number: z.number(),
+  status: RevisionStatusSchema,
+  note: z.string(),
+  hash: z.string(),
+  author: z.object({ id: z.string(), name: z.string() }),
+  authorName: z.string(),
+  createdAt: z.string(),
+  statusChangedAt: z.string().nullable(),
+  designId: z.string(),
+  designName: z.string(),
+  programId: z.string(),
+  programName: z.string(),
+});
+
+export const RevisionSchema = z.object({
+  id: z.string(),
+  designId: z.string(),
+  designName: z.string(),
+  programId: z.string(),
+  programName: z.string(),
+  number: z.number(),
+  status: RevisionStatusSchema,
+  stack: z.unknown(),
+  specMask: z.unknown(),
+  note: z.string(),
+  author: PersonSchema,
+  hash: z.string(),
+  createdAt: z.string(),
+  statusChangedAt: z.string().nullable(),
+  nominal: z.object({ pass: z.boolean(), bands: z.array(z.unknown()), merit: z.number(), cautions: z.array(z.string()) }),
+});
+
+export const DesignSchemaOut = z.object({
+  id: z.string(),
+  name: z.string(),
+  createdAt: z.string(),
+  program: z.object({ id: z.string(), name: z.string(), targetYield: z.number(), protective: z.boolean() }),
+  revisions: z.array(RevisionSummarySchema),
+});
+
+export const NewDesignBody = z.object({
+  name: text(200).min(1),
+  stack: z.unknown(),
+  note: text(5000).default(""),
+  specMask: z.unknown().optional(),
+});
+
+export const NewRevisionBody = z.object({
+  stack: z.unknown(),
+  note: text(5000).default(""),
+  specMask: z.unknown().optional(),
+});
+
+export const AnchorSchema = z.discriminatedUnion("kind", [
+  z.object({ kind: z.literal("band"), bandId: z.string().min(1) }),
+  z
+    .object({ kind: z.literal("range"), start: z.number().positive().finite(), stop: z.number().positive().finite() })
+    .refine((a) => a.stop >= a.start, { message: "stop must be ≥ start", path: ["stop"] }),
+  z.object({ kind: z.literal("layer"), index: z.number().int().min(0) }),
+  z.object({ kind: z.literal("design") }),
+]);
+
+export const CommentBodySchema = z.string().trim().min(1, { message: "write something" }).max(10000);
+
+export const ThreadSchema = z.object({
+  id: z.string(),
+  revisionId: z.string(),
+  revisionNumber: z.number(),
+  anchor: AnchorSchema,
+  severity: z.enum(["blocking", "advisory"]),
+  status: z.enum(["open", "resolved"]),
+  author: PersonSchema,
+  createdAt: z.string(),
+  resolvedAt: z.string().nullable(),
+  resolvedBy: PersonSchema,
+  comments: z.array(
+    z.object({ id: z.string(), author: PersonSchema, body: z.string(), mentions: z.array(z.object({ id: z.string(), name: z.string() })), createdAt: z.string() }),
+  ),
+  anchorPasses: z.boolean().nullable(),
+});
+
+export const YieldRunSchema = z.object({
+  id: z.string(),
+  revisionId: z.string(),
+  status: z.enum(["queued", "running", "done", "failed", "cancelled"]),
+  progress: z.object({ done: z.number(), total: z.number() }),
+  trials: z.number(),
+  seed: z.string(),
+  errorModel: z.unknown(),
+  result: z.unknown().nullable(),
+  verified: z.boolean().nullable(),
+  clientSubmitted: z.boolean(),
+  mismatch: z.string().nullable(),
+  engineVersion: z.string(),
+  error: z.string().nullable(),
+  requestedBy: PersonSchema,
+  createdAt: z.string(),
+  startedAt: z.string().nullable(),
+  finishedAt: z.string().nullable(),
+});
+
+export const DecisionSchema = z.object({
+  id: z.string(),
+  action: z.enum(["submit", "request_changes", "approve", "release", "withdraw"]),
+  fromStatus: RevisionStatusSchema,
+  toStatus: RevisionStatusSchema,
+  actor: z.object({ id: z.string(), name: z.string() }),
+  at: z.string(),
+  revisionHash: z.string(),
+  yieldRunId: z.string().nullable(),
+  note: z.string(),
+});
+
+export const GateSchema = z.object({
+  checks: z.array(
+    z.object({ id: z.enum(["verified_yield", "blocking_threads", "independent_approver", "state"]), ok: z.boolean(), message: z.string() }),
+  ),
+  canApprove: z.boolean(),
+  canRelease: z.boolean(),
+  yieldRunId: z.string().nullable(),
+});
