@@ -86,7 +86,19 @@ export async function runMonteCarloBench(trials = 2000): Promise<MonteCarloBench
   };
 }
 
+/** Printable summary followed by the figures as JSON. */
+export function formatMonteCarloBench(b: MonteCarloBench): string {
+  return [
+    `Monte Carlo yield, ${b.layers} layers, ${b.bands} bands, ${b.wavelengthsPerTrial} wavelengths per trial, ${b.trials} trials`,
+    `  in process        ${String(b.inProcess.trialsPerSecond).padStart(7)} trials/s`,
+    `  pool, 1 worker    ${String(b.workers1.trialsPerSecond).padStart(7)} trials/s`,
+    `  pool, 2 workers   ${String(b.workers2.trialsPerSecond).padStart(7)} trials/s   speed-up ${b.speedup1to2}× (target ≥ 1.8× on 2 idle cores)`,
+    `  identical results across worker counts: ${b.identicalAcrossWorkerCounts ? "yes" : "NO"}`,
+    JSON.stringify(b),
+  ].join("\n");
+}
+
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
   const trials = Number(process.argv[2] ?? 2000);
-  console.log(JSON.stringify(await runMonteCarloBench(trials), null, 2));
+  process.stdout.write(formatMonteCarloBench(await runMonteCarloBench(trials)) + "\n");
 }

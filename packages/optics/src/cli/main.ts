@@ -106,15 +106,11 @@ async function yieldCommand(args: string[], io: CliIo): Promise<void> {
 }
 
 async function benchCommand(io: CliIo): Promise<void> {
-  // Kernel comparison from the core bench (bench/compare.ts); loaded by path so a missing file is reported, not a crash.
-  const comparePath = "../../bench/compare.ts";
-  const compare = (await import(comparePath).catch(() => ({}))) as { runComparison?: () => unknown };
-  if (typeof compare.runComparison === "function") {
-    const kernel = await compare.runComparison();
-    if (kernel !== undefined) io.out(JSON.stringify({ kernel: toPlain(kernel) }));
-  }
-  const { runMonteCarloBench } = await import("../../bench/montecarlo.ts");
-  io.out(JSON.stringify({ montecarlo: await runMonteCarloBench() }));
+  // Loaded on demand: the benches are heavy and only this command needs them.
+  const { runComparison } = await import("../../bench/compare.ts");
+  io.out(await runComparison());
+  const { runMonteCarloBench, formatMonteCarloBench } = await import("../../bench/montecarlo.ts");
+  io.out(formatMonteCarloBench(await runMonteCarloBench()));
 }
 
 /** Run the CLI with `args` (without node and script); resolves to the exit code. */
