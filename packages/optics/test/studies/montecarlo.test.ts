@@ -1,3 +1,4 @@
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import {
   evaluateSpec,
@@ -143,5 +144,22 @@ describe("Monte Carlo result shape", () => {
     const chunk = runYieldChunk(study({ trials: 40 }), 0, 40);
     expect(JSON.parse(JSON.stringify(chunk))).toEqual(chunk);
     expect(chunk.envelopeSamples).toHaveLength(40);
+  });
+});
+
+describe("Monte Carlo chunking (property)", () => {
+  it("any split of the trials into chunks, merged in any order, gives the same result", () => {
+    const s = study({ trials: 64 });
+    const reference = JSON.stringify(mergeYieldChunks(s, [runYieldChunk(s, 0, 64)]));
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: 1, max: 63 }), { maxLength: 8 }), fc.integer(), (cuts, shuffleSeed) => {
+        const edges = [...new Set([0, ...cuts, 64])].sort((a, b) => a - b);
+        const chunks = edges.slice(1).map((end, k) => runYieldChunk(s, edges[k] as number, end - (edges[k] as number)));
+        // deterministic shuffle of the merge order
+        const order = chunks.map((c, k) => ({ c, key: Math.sin(shuffleSeed + k * 7.1) })).sort((a, b) => a.key - b.key).map((x) => x.c);
+        expect(JSON.stringify(mergeYieldChunks(s, order))).toBe(reference);
+      }),
+      { numRuns: 12, seed: 20261201 },
+    );
   });
 });
