@@ -62,7 +62,7 @@ describe("SignInForm", () => {
     await user.type(screen.getByLabelText("E-mail"), "designer@halvorsen.example");
     await user.type(screen.getByLabelText("Password"), "x");
     await user.click(screen.getByRole("button", { name: "Sign in" }));
-    expect(await screen.findByRole("alert")).toHaveTextContent("Too many sign-in attempts for now. Try again in 5 minutes.");
+    expect(await screen.findByRole("alert")).toHaveTextContent("Too many attempts. Try again in 5 minutes.");
   });
 
   it("signs in and hands over the session", async () => {

@@ -12,8 +12,11 @@ import { signInSchema, type SignInValues } from "../schemas.ts";
 export function signInErrorText(error: unknown): string {
   if (error instanceof ApiError) {
     if (error.status === 429) {
+      const own = error.code !== "http_error" ? error.message : "Too many sign-in attempts for now.";
+      // The server usually says how long to wait; add it from Retry-After when it does not.
+      if (/\d/.test(own)) return own;
       const wait = error.retryAfter ? ` Try again in ${formatWait(error.retryAfter)}.` : " Wait a while before trying again.";
-      return `Too many sign-in attempts for now.${wait}`;
+      return `${own}${wait}`;
     }
     return error.message;
   }
