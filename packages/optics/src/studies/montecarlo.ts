@@ -101,7 +101,28 @@ export interface YieldResult {
   nominal: { pass: boolean; merit: number };
   errorModel: ErrorModel;
   cautions: string[];
+  /**
+   * Things a reviewer should know: material ids named in the error model that no layer uses (a typo
+   * there silently removes an error term), and notes from material tabulation.
+   */
+  warnings: string[];
   engineVersion: string;
+}
+
+/** Material ids named in per-material error-model records that no layer of the design uses. */
+export function unusedErrorModelMaterials(model: ErrorModel, layerMaterials: readonly string[]): string[] {
+  const used = new Set(layerMaterials);
+  const out: string[] = [];
+  for (const [field, value] of [
+    ["systematicPct", model.systematicPct],
+    ["indexDriftPct", model.indexDriftPct],
+  ] as const) {
+    if (value === undefined || typeof value === "number") continue;
+    for (const id of Object.keys(value)) {
+      if (!used.has(id)) out.push(`errorModel.${field} names material ${JSON.stringify(id)}, which no layer uses`);
+    }
+  }
+  return out;
 }
 
 interface EnvelopePlan {
@@ -390,6 +411,7 @@ export function mergeYieldChunks(studyInput: YieldStudy, chunks: readonly YieldC
     nominal: { pass: nominalBands.every((b) => b.pass), merit: meritOf(evaluator, evaluator.nominalThicknesses) },
     errorModel: study.errorModel,
     cautions: study.mask.protective ? [PROTECTIVE_CAUTION] : [],
+    warnings: [...unusedErrorModelMaterials(study.errorModel, design.layers.map((l) => l.material)), ...evaluator.warnings],
     engineVersion: ENGINE_VERSION,
   };
 }

@@ -96,6 +96,8 @@ export interface SpecResult {
   /** Merit: Σ over bands of the mean squared violation (see {@link createSpecEvaluator}); 0 = all pass. */
   merit: number;
   cautions: string[];
+  /** Notes from material tabulation (for example n, k held beyond the end of a table). */
+  warnings: string[];
 }
 
 /**
@@ -172,6 +174,8 @@ export interface SpecEvaluator {
   readonly groups: readonly GroupPlan[];
   /** Total residual count of {@link SpecEvaluator.residuals}. */
   readonly residualCount: number;
+  /** Notes from the core evaluators (for example clamped table values), without duplicates. */
+  readonly warnings: readonly string[];
   /** Compute all group spectra for the given thicknesses (nm, deposition order) and per-layer N factors. */
   compute(thicknesses: Float64Array, indexScale?: Float64Array): void;
   /** Full band outcomes (allocates only the result). */
@@ -264,6 +268,7 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
   const layerCount = first.layerCount;
   const nominalThicknesses = Float64Array.from(first.nominalThicknesses);
   const residualCount = bands.reduce((s, b) => s + b.residualCount, 0);
+  const warnings = [...new Set(evaluators.flatMap((e) => e.warnings))];
 
   const compute = (thicknesses: Float64Array, indexScale?: Float64Array): void => {
     if (thicknesses.length !== layerCount) {
@@ -317,6 +322,7 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
     bands,
     groups,
     residualCount,
+    warnings,
     compute,
     evaluate(thicknesses, indexScale) {
       compute(thicknesses, indexScale);
@@ -413,5 +419,6 @@ export function evaluateSpec(design: Design, maskInput: SpecMask): SpecResult {
     bands,
     merit,
     cautions: maskInput.protective ? [PROTECTIVE_CAUTION] : [],
+    warnings: [...evaluator.warnings],
   };
 }

@@ -163,3 +163,14 @@ describe("Monte Carlo chunking (property)", () => {
     );
   });
 });
+
+describe("Monte Carlo warnings", () => {
+  it("names error-model materials that no layer uses (a typo would silently drop an error term)", () => {
+    const s = study({
+      trials: 5,
+      errorModel: { thickness: { relativePct: 1, absoluteNm: 0, distribution: "normal" }, systematicPct: { H230: 0.5, H203: 0.5 } },
+    });
+    const res = mergeYieldChunks(s, [runYieldChunk(s, 0, 5)]);
+    expect(res.warnings).toEqual(['errorModel.systematicPct names material "H203", which no layer uses']);
+  });
+});
