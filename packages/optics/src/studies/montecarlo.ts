@@ -5,7 +5,7 @@ import { ENGINE_VERSION } from "../index.ts";
 import { createTrialSampler, ErrorModelSchema, scaleErrorModel } from "./error-model.ts";
 import type { ErrorModel } from "./error-model.ts";
 import { TrialRandom } from "./random.ts";
-import { createSpecEvaluator, meritOf, PROTECTIVE_CAUTION, SpecMaskSchema } from "./spec.ts";
+import { createSpecEvaluator, meritOf, PROTECTIVE_CAUTION, quantityValue, SpecMaskSchema } from "./spec.ts";
 import type { GroupPlan, Polarization, SpecEvaluator, SpecQuantity } from "./spec.ts";
 import { parseWith } from "./validate.ts";
 import { wilsonInterval } from "./wilson.ts";
@@ -152,21 +152,6 @@ function planEnvelopes(evaluator: SpecEvaluator): EnvelopePlan[] {
   return plans;
 }
 
-function valueOf(q: SpecQuantity, g: GroupPlan, i: number): number {
-  const R = g.R[i] as number;
-  const T = g.T[i] as number;
-  switch (q) {
-    case "R":
-      return R * 100;
-    case "T":
-      return T * 100;
-    case "A":
-      return (g.A[i] as number) * 100;
-    case "OD":
-      return -Math.log10(T > 1e-30 ? T : 1e-30);
-  }
-}
-
 /** A prepared study: compiled evaluator, sampler and buffers, reused across chunks. */
 export interface YieldRunner {
   readonly study: ParsedStudy;
@@ -246,7 +231,7 @@ export function createYieldRunner(studyInput: YieldStudy): YieldRunner {
             trial,
             values: envelopes.map((env) => {
               const g = evaluator.groups[env.group] as GroupPlan;
-              return Array.from(env.indices, (i) => valueOf(env.quantity, g, i));
+              return Array.from(env.indices, (i) => quantityValue(env.quantity, g.R[i] as number, g.T[i] as number, g.A[i] as number));
             }),
           });
         }
