@@ -72,8 +72,14 @@ export function createStackEvaluator(design: Design, options: StackEvaluatorOpti
     if (out.R.length < W || out.T.length < W || out.A.length < W) {
       throw new RangeError(`out: expected arrays of at least ${W} wavelengths`);
     }
-    if (scale && scale.length !== L) {
-      throw new RangeError(`indexScale: expected ${L} factors, got ${scale.length}`);
+    if (scale) {
+      if (scale.length !== L) throw new RangeError(`indexScale: expected ${L} factors, got ${scale.length}`);
+      for (let j = 0; j < L; j++) {
+        const f = scale[j]!;
+        if (!(f > 0) || !Number.isFinite(f)) {
+          throw new RangeError(`indexScale[${j}]: expected a finite factor > 0, got ${String(f)}`);
+        }
+      }
     }
   };
   const evaluate = (d: Float64Array, out: RTA, indexScale?: Float64Array): void => {

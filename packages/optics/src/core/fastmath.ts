@@ -25,7 +25,7 @@ export const C6 = -1.13596475577881948265e-11;
 /** first 33 bits of π/2 and the remainder */
 export const PIO2_1 = 1.57079632673412561417;
 export const PIO2_1T = 6.07710050650619224932e-11;
-export const TWO_OVER_PI = 0.63661977236758134308;
+export const TWO_OVER_PI = 0.6366197723675814;
 /** 1.5·2^52: adding and subtracting it rounds a double to the nearest integer */
 export const RND = 6755399441055744;
 /** cos(qπ/2), sin(qπ/2) for quadrant q = 0..3 */

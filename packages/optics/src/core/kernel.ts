@@ -36,7 +36,7 @@ const C5 = 2.0875723212981748279e-9;
 const C6 = -1.13596475577881948265e-11;
 const PIO2_1 = 1.57079632673412561417;
 const PIO2_1T = 6.07710050650619224932e-11;
-const TWO_OVER_PI = 0.63661977236758134308;
+const TWO_OVER_PI = 0.6366197723675814;
 const RND = 6755399441055744;
 const LOG2E = 1.4426950408889634;
 const LN2_HI = 6.93147180369123816490e-1;
@@ -65,9 +65,9 @@ const POW2 = (() => {
 /** Polarization: "s" (TE), "p" (TM) or "u" (unpolarized = mean of s and p intensities). */
 export type Polarization = "s" | "p" | "u";
 
-/** Rescale step for complex paths: entries are multiplied by 1e-65 (= e^−149.668). */
+/** Rescale step for complex paths: entries are multiplied by 1e-65 (= e^−149.668), RESCALE_LOG = ln(1e65). */
 const RESCALE = 1e-65;
-const RESCALE_LOG = 149.66822000238394;
+const RESCALE_LOG = 65 * Math.LN10;
 /** Largest |Im δ| per layer kept; beyond it a layer is opaque to well below 1e-130. */
 const MAX_DECAY = 150;
 
@@ -264,6 +264,12 @@ export interface PolTables {
   Rb: Float64Array;
   Tb: Float64Array;
   tau: Float64Array;
+  /** packed per (w, j): [β, η, 1/η] for the real path (stride 3) */
+  packR: Float64Array;
+  /** packed per (w, j): [βr, βi, ηr, ηi, (1/η)r, (1/η)i] for the complex path (stride 6) */
+  packC: Float64Array;
+  /** packed per (w, j): [Re N², Im N²] (stride 2) */
+  packN2: Float64Array;
   /** all layers lossless and propagating (real β and η): real fast path */
   real: boolean;
   /** lossless layers (index scaling may still allow the real path) */
@@ -383,7 +389,27 @@ export function tabulate(prep: PreparedStack, angleDeg: number, pol: "s" | "p"):
       tau[w] = Math.exp(2 * kw * qsi * prep.substrateNm);
     }
   }
+  // interleaved copies: one memory stream per layer step in the hot loops
+  const packR = new Float64Array(real ? 3 * size : 0);
+  const packC = new Float64Array(6 * size);
+  const packN2 = new Float64Array(2 * size);
+  for (let i = 0; i < size; i++) {
+    if (real) {
+      packR[3 * i] = betaR[i]!;
+      packR[3 * i + 1] = etaR[i]!;
+      packR[3 * i + 2] = ietaR[i]!;
+    }
+    packC[6 * i] = betaR[i]!;
+    packC[6 * i + 1] = betaI[i]!;
+    packC[6 * i + 2] = etaR[i]!;
+    packC[6 * i + 3] = etaI[i]!;
+    packC[6 * i + 4] = ietaR[i]!;
+    packC[6 * i + 5] = ietaI[i]!;
+    packN2[2 * i] = n2R[i]!;
+    packN2[2 * i + 1] = n2I[i]!;
+  }
   return {
+    packR, packC, packN2,
     W, L, pol, betaR, betaI, etaR, etaI, ietaR, ietaI, n2R, n2I, s2, k0, eta0, etaSR, etaSI,
     backside: prep.backside, Rb, Tb, tau, real, lossless: prep.lossless, maxS2, minN2: prep.minN2,
   };
@@ -414,7 +440,6 @@ export class PolKernel {
   private readonly dR: Float64Array;
   private readonly dI: Float64Array;
   private readonly sc: Int32Array;
-  private readonly q2 = new Float64Array(2);
 
   constructor(tables: PolTables) {
     this.t = tables;
@@ -477,9 +502,7 @@ export class PolKernel {
     const t = this.t;
     const L = t.L;
     const W = this.W;
-    const bt = t.betaR;
-    const et = t.etaR;
-    const it = t.ietaR;
+    const pk = t.packR;
     const esR = t.etaSR;
     const esI = t.etaSI;
     const oBr = this.aR, oBi = this.aI, oCr = this.cR, oCi = this.cI, osc = this.sc;
@@ -488,10 +511,9 @@ export class PolKernel {
       let Bi = 0;
       let Cr = esR[w]!;
       let Ci = esI[w]!;
-      const base = w * L;
-      for (let j = 0; j < L; j++) {
-        const i = base + j;
-        const x = bt[i]! * d[j]!;
+      let k = 3 * w * L;
+      for (let j = 0; j < L; j++, k += 3) {
+        const x = pk[k]! * d[j]!;
         const nq = x * TWO_OVER_PI + RND - RND;
         const r = x - nq * PIO2_1 - nq * PIO2_1T;
         const z = r * r;
@@ -502,8 +524,8 @@ export class PolKernel {
         const qs = QUAD_S[qd]!;
         const s = sp * qc + cp * qs;
         const c = cp * qc - sp * qs;
-        const a = s * it[i]!;
-        const b = s * et[i]!;
+        const a = s * pk[k + 2]!;
+        const b = s * pk[k + 1]!;
         const nBr = c * Br - a * Ci;
         const nBi = c * Bi + a * Cr;
         const nCr = c * Cr - b * Bi;
@@ -525,7 +547,7 @@ export class PolKernel {
     const t = this.t;
     const L = t.L;
     const W = this.W;
-    const n2 = t.n2R;
+    const n2 = t.packN2;
     const p = t.pol === "p";
     const oBr = this.aR, oBi = this.aI, oCr = this.cR, oCi = this.cI, osc = this.sc;
     for (let w = 0; w < W; w++) {
@@ -539,7 +561,7 @@ export class PolKernel {
       for (let j = 0; j < L; j++) {
         const i = base + j;
         const f = scale[j]!;
-        const N2 = n2[i]! * f * f;
+        const N2 = n2[2 * i]! * f * f;
         const qv = Math.sqrt(N2 - ss);
         const eta = p ? N2 / qv : qv;
         const x = kw * qv * d[j]!;
@@ -576,7 +598,7 @@ export class PolKernel {
     const t = this.t;
     const L = t.L;
     const W = this.W;
-    const bRt = t.betaR, bIt = t.betaI, eRt = t.etaR, eIt = t.etaI, iRt = t.ietaR, iIt = t.ietaI;
+    const pk = t.packC;
     const oBr = this.aR, oBi = this.aI, oCr = this.cR, oCi = this.cI, osc = this.sc;
     for (let w = 0; w < W; w++) {
       let Br = 1;
@@ -585,12 +607,11 @@ export class PolKernel {
       let Ci = t.etaSI[w]!;
       let acc = 0;
       let nsc = 0;
-      const base = w * L;
-      for (let j = 0; j < L; j++) {
-        const i = base + j;
+      let k = 6 * w * L;
+      for (let j = 0; j < L; j++, k += 6) {
         const dj = d[j]!;
-        const x = bRt[i]! * dj;
-        let y = bIt[i]! * dj;
+        const x = pk[k]! * dj;
+        let y = pk[k + 1]! * dj;
         if (y < -MAX_DECAY) y = -MAX_DECAY;
         // sin, cos of x
         const nq = x * TWO_OVER_PI + RND - RND;
@@ -619,7 +640,7 @@ export class PolKernel {
         const csi = -sa * sh;
         const isr = -ca * sh;
         const isi = sa * ch;
-        const er = eRt[i]!, ei = eIt[i]!, ir = iRt[i]!, ii = iIt[i]!;
+        const er = pk[k + 2]!, ei = pk[k + 3]!, ir = pk[k + 4]!, ii = pk[k + 5]!;
         const m12r = isr * ir - isi * ii;
         const m12i = isr * ii + isi * ir;
         const m21r = isr * er - isi * ei;
@@ -654,7 +675,7 @@ export class PolKernel {
     const t = this.t;
     const L = t.L;
     const W = this.W;
-    const n2R = t.n2R, n2I = t.n2I;
+    const n2 = t.packN2;
     const p = t.pol === "p";
     const oBr = this.aR, oBi = this.aI, oCr = this.cR, oCi = this.cI, osc = this.sc;
     for (let w = 0; w < W; w++) {
@@ -670,42 +691,36 @@ export class PolKernel {
       for (let j = 0; j < L; j++) {
         const i = base + j;
         const f2 = scale[j]! * scale[j]!;
-        const Nr = n2R[i]! * f2;
-        const Ni = n2I[i]! * f2;
-        // q = forward √(N² − s²)
+        const Nr = n2[2 * i]! * f2;
+        const Ni = n2[2 * i + 1]! * f2;
+        // q = forward √(N² − s²). Im N² = −2nk ≤ 0 (n > 0, k ≥ 0, scale > 0), so the principal
+        // root already decays (Im q ≤ 0) when Re(N² − s²) ≥ 0; otherwise take (−Im/2u, −u).
+        // u is floored so that q → 0 gives the correct limit sin δ / η → k0 d.
         const zr = Nr - ss;
         const rr = Math.sqrt(zr * zr + Ni * Ni);
-        const u = Math.sqrt(0.5 * (rr + Math.abs(zr)));
-        let qr: number;
-        let qi: number;
-        if (u === 0) {
-          qr = 0;
-          qi = 0;
-        } else if (zr >= 0) {
-          qr = u;
-          qi = Ni / (2 * u);
-        } else {
-          qr = Math.abs(Ni) / (2 * u);
-          qi = Ni >= 0 ? u : -u;
-        }
-        const tol = 1e-13 * (Math.abs(qr) + Math.abs(qi));
-        if (qi > tol || (Math.abs(qi) <= tol && qr < 0)) {
-          qr = -qr;
-          qi = -qi;
-        }
+        let u = Math.sqrt(0.5 * (rr + Math.abs(zr)));
+        if (u < 1e-150) u = 1e-150;
+        const h = (0.5 * Ni) / u;
+        const qr = zr >= 0 ? u : -h;
+        const qi = zr >= 0 ? h : -u;
+        const iq2 = 1 / (qr * qr + qi * qi);
         let er: number;
         let ei: number;
+        let ir: number;
+        let ii: number;
         if (p) {
-          const dq = qr * qr + qi * qi;
-          er = (Nr * qr + Ni * qi) / dq;
-          ei = (Ni * qr - Nr * qi) / dq;
+          // η = N²/q = N² q̄ /|q|², 1/η = q/N² = q N̄² / |N²|²
+          er = (Nr * qr + Ni * qi) * iq2;
+          ei = (Ni * qr - Nr * qi) * iq2;
+          const iN4 = 1 / (Nr * Nr + Ni * Ni);
+          ir = (qr * Nr + qi * Ni) * iN4;
+          ii = (qi * Nr - qr * Ni) * iN4;
         } else {
           er = qr;
           ei = qi;
+          ir = qr * iq2;
+          ii = -qi * iq2;
         }
-        const de = er * er + ei * ei;
-        const ir = er / de;
-        const ii = -ei / de;
         const kd = kw * d[j]!;
         const x = qr * kd;
         let y = qi * kd;
@@ -797,19 +812,16 @@ export class PolKernel {
     const t = this.t;
     const L = t.L;
     const W = this.W;
-    const bt = t.betaR;
-    const et = t.etaR;
-    const it = t.ietaR;
+    const pk = t.packR;
     for (let w = 0; w < W; w++) {
       // M = [[A, iB], [iC, D]] with A, B, C, D real (product of lossless layer matrices)
       let mA = 1;
       let mB = 0;
       let mC = 0;
       let mD = 1;
-      const base = w * L;
-      for (let j = 0; j < L; j++) {
-        const i = base + j;
-        const x = bt[i]! * d[j]!;
+      let k = 3 * w * L;
+      for (let j = 0; j < L; j++, k += 3) {
+        const x = pk[k]! * d[j]!;
         const nq = x * TWO_OVER_PI + RND - RND;
         const r = x - nq * PIO2_1 - nq * PIO2_1T;
         const z = r * r;
@@ -820,8 +832,8 @@ export class PolKernel {
         const qs = QUAD_S[qd]!;
         const s = sp * qc + cp * qs;
         const c = cp * qc - sp * qs;
-        const a = s * it[i]!;
-        const b = s * et[i]!;
+        const a = s * pk[k + 2]!;
+        const b = s * pk[k + 1]!;
         const nA = c * mA - a * mC;
         const nB = c * mB + a * mD;
         const nC = b * mA + c * mC;
@@ -847,7 +859,7 @@ export class PolKernel {
     const t = this.t;
     const L = t.L;
     const W = this.W;
-    const n2 = t.n2R;
+    const n2 = t.packN2;
     const p = t.pol === "p";
     for (let w = 0; w < W; w++) {
       let mA = 1;
@@ -860,7 +872,7 @@ export class PolKernel {
       for (let j = 0; j < L; j++) {
         const i = base + j;
         const f = scale[j]!;
-        const N2 = n2[i]! * f * f;
+        const N2 = n2[2 * i]! * f * f;
         const qv = Math.sqrt(N2 - ss);
         const eta = p ? N2 / qv : qv;
         const x = kw * qv * d[j]!;
@@ -911,7 +923,8 @@ export class PolKernel {
     const L = t.L;
     const W = this.W;
     const p = t.pol === "p";
-    const q = this.q2;
+    const pk = t.packC;
+    const n2 = t.packN2;
     for (let w = 0; w < W; w++) {
       let aR = 1, aI = 0, bR = 0, bI = 0, cR = 0, cI = 0, dR = 1, dI = 0;
       const ss = t.s2[w]!;
@@ -923,32 +936,41 @@ export class PolKernel {
         const i = base + j;
         let xr: number, yr: number, er: number, ei: number, ir: number, ii: number;
         if (scale) {
+          // same forward-branch recomputation as vecScaled
           const f2 = scale[j]! * scale[j]!;
-          const Nr = t.n2R[i]! * f2;
-          const Ni = t.n2I[i]! * f2;
-          forwardSqrt(Nr - ss, Ni, q);
-          const qr = q[0]!;
-          const qi = q[1]!;
+          const Nr = n2[2 * i]! * f2;
+          const Ni = n2[2 * i + 1]! * f2;
+          const zr = Nr - ss;
+          const rr = Math.sqrt(zr * zr + Ni * Ni);
+          let u = Math.sqrt(0.5 * (rr + Math.abs(zr)));
+          if (u < 1e-150) u = 1e-150;
+          const h = (0.5 * Ni) / u;
+          const qr = zr >= 0 ? u : -h;
+          const qi = zr >= 0 ? h : -u;
+          const iq2 = 1 / (qr * qr + qi * qi);
           if (p) {
-            const dq = qr * qr + qi * qi;
-            er = (Nr * qr + Ni * qi) / dq;
-            ei = (Ni * qr - Nr * qi) / dq;
+            er = (Nr * qr + Ni * qi) * iq2;
+            ei = (Ni * qr - Nr * qi) * iq2;
+            const iN4 = 1 / (Nr * Nr + Ni * Ni);
+            ir = (qr * Nr + qi * Ni) * iN4;
+            ii = (qi * Nr - qr * Ni) * iN4;
           } else {
             er = qr;
             ei = qi;
+            ir = qr * iq2;
+            ii = -qi * iq2;
           }
-          const de = er * er + ei * ei;
-          ir = er / de;
-          ii = -ei / de;
-          xr = kw * qr * d[j]!;
-          yr = kw * qi * d[j]!;
+          const kd = kw * d[j]!;
+          xr = qr * kd;
+          yr = qi * kd;
         } else {
-          er = t.etaR[i]!;
-          ei = t.etaI[i]!;
-          ir = t.ietaR[i]!;
-          ii = t.ietaI[i]!;
-          xr = t.betaR[i]! * d[j]!;
-          yr = t.betaI[i]! * d[j]!;
+          const k = 6 * i;
+          xr = pk[k]! * d[j]!;
+          yr = pk[k + 1]! * d[j]!;
+          er = pk[k + 2]!;
+          ei = pk[k + 3]!;
+          ir = pk[k + 4]!;
+          ii = pk[k + 5]!;
         }
         if (yr < -MAX_DECAY) yr = -MAX_DECAY;
         const nq = xr * TWO_OVER_PI + RND - RND;
