@@ -1,6 +1,6 @@
 // The design workspace of one revision: live spectrum against the spec mask, review threads beside it,
 // the layer editor, and tabs for tolerance studies, refinement, as-built data, history and sign-off.
-import { useCallback, useMemo, useReducer, useState } from "react";
+import { useCallback, useDeferredValue, useMemo, useReducer, useState } from "react";
 import type { ReactNode } from "react";
 import { Link, useNavigate, useParams } from "react-router";
 import type { LoaderFunctionArgs } from "react-router";
@@ -94,7 +94,17 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
 
   const mask = revision.specMask ?? program.specMask;
   const current = useMemo(() => withWorkspaceMaterials(state.present, materials), [state.present, materials]);
+  // Panels other than the chart and the table follow the edits at lower priority, so a keystroke redraws the
+  // curve first and the study, refinement and as-built panels catch up in a later render.
+  const deferred = useDeferredValue(current);
   const dirty = !sameDesign(state.present, revision.stack);
+  const range = useMemo(() => ({ start: view.settings.start, stop: view.settings.stop }), [view.settings.start, view.settings.stop]);
+  const savedStack = useMemo(() => withWorkspaceMaterials(revision.stack, materials), [revision.stack, materials]);
+  const threadLayers = useMemo(() => openLayerThreads(threads.data ?? []), [threads.data]);
+  const onTransition = useCallback(() => void qc.invalidateQueries({ queryKey: ["designs", design.id] }), [qc, design.id]);
+  const focusThread = useCallback((t: { anchor: ThreadAnchor }) => {
+    if (t.anchor.kind === "layer") setSelected(t.anchor.index);
+  }, []);
   const status = design.revisions.find((r) => r.id === revision.id)?.status ?? revision.status;
   const isDesigner = hasRole(session, "designer");
   const changedLayers = useMemo(() => {
@@ -132,19 +142,12 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
     });
   }
   const envelopes: ChartEnvelope[] = [];
-  if (studyResult && !dirty) {
-    for (const env of studyResult.envelopes) {
-      const lo = env.percentiles.find((p) => p.p === 5) ?? env.percentiles[0];
-      const hi = env.percentiles.find((p) => p.p === 95) ?? env.percentiles[env.percentiles.length - 1];
-      if (!lo || !hi) continue;
-      envelopes.push({ id: `env-${env.quantity}-${env.angleDeg}-${env.polarization}`, label: `${env.quantity} 5–95 %`, quantity: env.quantity, wavelengths: env.wavelengths, lower: lo.values, upper: hi.values, color: "#7cc6c0" });
-    }
-  } else if (studyResult) {
-    for (const env of studyResult.envelopes) {
-      const lo = env.percentiles[0];
-      const hi = env.percentiles[env.percentiles.length - 1];
-      if (lo && hi) envelopes.push({ id: `env-${env.quantity}-${env.angleDeg}`, label: `${env.quantity} envelope`, quantity: env.quantity, wavelengths: env.wavelengths, lower: lo.values, upper: hi.values, color: "#7cc6c0" });
-    }
+  // The study ran on the stack as it was when started; its 5–95 % envelope is drawn over the live curve.
+  for (const env of studyResult?.envelopes ?? []) {
+    const lo = env.percentiles.find((p) => p.p === 5) ?? env.percentiles[0];
+    const hi = env.percentiles.find((p) => p.p === 95) ?? env.percentiles[env.percentiles.length - 1];
+    if (!lo || !hi) continue;
+    envelopes.push({ id: `env-${env.quantity}-${env.angleDeg}-${env.polarization}`, label: `${env.quantity} 5–95 %`, quantity: env.quantity, wavelengths: env.wavelengths, lower: lo.values, upper: hi.values, color: "#7cc6c0" });
   }
   const markers: ChartMarker[] = [];
   for (const t of threads.data ?? []) {
@@ -160,14 +163,14 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
       content: (
         <StudiesPanel
           revisionId={revision.id}
-          design={current}
+          design={deferred}
           mask={mask}
           errorModel={program.errorModel}
           defaults={program.studyDefaults}
           targetYield={program.targetYield}
           dirty={dirty}
           canVerify={hasRole(session, "designer", "reviewer", "approver")}
-          range={{ start: view.settings.start, stop: view.settings.stop }}
+          range={range}
           onResult={setStudyResult}
         />
       ),
@@ -177,7 +180,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
       label: "Refine",
       content: (
         <RefinementPanel
-          design={current}
+          design={deferred}
           mask={mask}
           errorModel={program.errorModel}
           defaults={program.studyDefaults}
@@ -192,7 +195,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
     {
       id: "asbuilt",
       label: "As built",
-      content: <AsBuiltPanel revisionId={revision.id} design={withWorkspaceMaterials(revision.stack, materials)} canUpload={isDesigner} width={tabsWidth} onOverlay={setMeasured} />,
+      content: <AsBuiltPanel revisionId={revision.id} design={savedStack} canUpload={isDesigner} width={tabsWidth} onOverlay={setMeasured} />,
     },
     { id: "history", label: `Revisions (${design.revisions.length})`, content: <RevisionHistory designId={design.id} revisions={design.revisions} currentId={revision.id} /> },
   ];
@@ -264,7 +267,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
                 materials={materials}
                 selected={selected}
                 onSelect={setSelected}
-                threadLayers={openLayerThreads(threads.data ?? [])}
+                threadLayers={threadLayers}
                 changedLayers={changedLayers}
               />
             </section>
@@ -310,7 +313,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
             designId={design.id}
             status={status}
             authorId={revision.author.id}
-            onTransition={() => void qc.invalidateQueries({ queryKey: ["designs", design.id] })}
+            onTransition={onTransition}
           />
           <ReviewPanel
             revisionId={revision.id}
@@ -322,9 +325,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
             canStart={hasRole(session, "reviewer", "approver", "designer")}
             canModerate={hasRole(session, "reviewer", "approver")}
             currentUserId={session?.user.id ?? null}
-            onFocusThread={(t) => {
-              if (t.anchor.kind === "layer") setSelected(t.anchor.index);
-            }}
+            onFocusThread={focusThread}
           />
         </aside>
       </div>

@@ -1,6 +1,6 @@
 // As-built: measured spectra of built coatings against the revision's curve, their difference, and a fit
 // (in a worker) that estimates each layer's thickness error.
-import { useMemo, useState } from "react";
+import { useMemo, useState, memo } from "react";
 import type { FormEvent } from "react";
 import { createStackEvaluator } from "@stackproof/optics";
 import type { Design, FitResult } from "@stackproof/optics";
@@ -44,7 +44,7 @@ function modelValues(design: Design, m: MeasuredSpectrum): number[] | string {
   }
 }
 
-export function AsBuiltPanel(props: AsBuiltPanelProps) {
+export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps) {
   const list = useMeasurements(props.revisionId);
   const upload = useUploadMeasurement(props.revisionId);
   const [selected, setSelected] = useState<string | null>(null);
@@ -159,7 +159,7 @@ export function AsBuiltPanel(props: AsBuiltPanelProps) {
       ) : null}
     </section>
   );
-}
+});
 
 function DifferenceChart({ m, model, fitted, width }: { m: MeasuredSpectrum; model: number[]; fitted: number[] | null; width: number }) {
   const mg = { top: 8, right: 10, bottom: 34, left: 44 };

@@ -1,6 +1,6 @@
 // Refinement from the workspace: nominal (merit of the mask) or yield-centred, in a worker. The result is a
 // preview — changed layers before/after and the new curve on the chart — until it is kept as a new revision.
-import { useRef, useState } from "react";
+import { useRef, useState, memo } from "react";
 import type { Design, ErrorModel, RefineForYieldResult, RefineResult, SpecMask } from "@stackproof/optics";
 import { runEngineJob } from "../../../workers/pool.ts";
 
@@ -20,7 +20,7 @@ type Outcome = { mode: "nominal"; r: RefineResult } | { mode: "yield"; r: Refine
 
 const field = "mt-0.5 w-full rounded border border-ink-300 bg-white px-2 py-1 text-sm tabular";
 
-export function RefinementPanel(props: RefinementPanelProps) {
+export const RefinementPanel = memo(function RefinementPanel(props: RefinementPanelProps) {
   const [mode, setMode] = useState<"nominal" | "yield">("nominal");
   const [marginGoal, setMarginGoal] = useState("0.1");
   const [iterations, setIterations] = useState("30");
@@ -158,4 +158,4 @@ export function RefinementPanel(props: RefinementPanelProps) {
       ) : null}
     </section>
   );
-}
+});

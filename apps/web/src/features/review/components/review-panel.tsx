@@ -1,6 +1,6 @@
 // Review threads beside the chart: start a thread on a band, a wavelength range, a layer or the whole design;
 // reply with @mentions; resolve and reopen. Each thread says whether its anchor passes on this revision.
-import { useState } from "react";
+import { useState, memo } from "react";
 import type { FormEvent } from "react";
 import type { SpecBand } from "@stackproof/optics";
 import { useAddComment, useCreateThread, useSetThreadState, useThreads } from "../api/threads.ts";
@@ -25,7 +25,7 @@ export interface ReviewPanelProps {
 
 const fieldCls = "mt-0.5 w-full rounded border border-ink-300 bg-white px-2 py-1 text-sm";
 
-export function ReviewPanel(props: ReviewPanelProps) {
+export const ReviewPanel = memo(function ReviewPanel(props: ReviewPanelProps) {
   const threads = useThreads(props.revisionId);
   const [filter, setFilter] = useState<"open" | "all">("open");
   const list = (threads.data ?? []).filter((t) => filter === "all" || t.status === "open");
@@ -67,7 +67,7 @@ export function ReviewPanel(props: ReviewPanelProps) {
       </ol>
     </section>
   );
-}
+});
 
 function NewThread(props: ReviewPanelProps) {
   const create = useCreateThread(props.revisionId);

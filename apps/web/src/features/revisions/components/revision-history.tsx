@@ -1,4 +1,4 @@
-import { useState } from "react";
+import { useState, memo } from "react";
 import { Link, useNavigate } from "react-router";
 import { paths } from "../../../config/paths.ts";
 import { StatusPill } from "../../../components/ui/index.ts";
@@ -15,7 +15,7 @@ export interface HistoryEntry {
 }
 
 /** Revisions of a design, newest first, with a picker to compare any two. */
-export function RevisionHistory({ designId, revisions, currentId }: { designId: string; revisions: readonly HistoryEntry[]; currentId: string }) {
+export const RevisionHistory = memo(function RevisionHistory({ designId, revisions, currentId }: { designId: string; revisions: readonly HistoryEntry[]; currentId: string }) {
   const sorted = [...revisions].sort((a, b) => b.number - a.number);
   const navigate = useNavigate();
   const [against, setAgainst] = useState(sorted.find((r) => r.id !== currentId)?.id ?? "");
@@ -65,4 +65,4 @@ export function RevisionHistory({ designId, revisions, currentId }: { designId: 
       ) : null}
     </section>
   );
-}
+});

@@ -25,12 +25,12 @@ describe("spectrum chart", () => {
     expect(drawn.map((g) => g.getAttribute("data-region"))).toEqual(["pass", "block"]); // the OD band belongs to the OD scale
     const pass = container.querySelector('[data-region="pass"] rect') as SVGRectElement;
     const block = container.querySelector('[data-region="block"] rect') as SVGRectElement;
-    // plot area: 300 − 14 − 38 = 248 px tall, y = 0 % at 248 px. min band: shaded from the limit down to 0 %.
-    expect(Number(pass.getAttribute("y"))).toBeCloseTo(248 * (1 - 0.9), 5);
-    expect(Number(pass.getAttribute("y")) + Number(pass.getAttribute("height"))).toBeCloseTo(248, 5);
+    // plot area: 300 − 14 − 42 = 244 px tall, y = 0 % at 244 px. min band: shaded from the limit down to 0 %.
+    expect(Number(pass.getAttribute("y"))).toBeCloseTo(244 * (1 - 0.9), 5);
+    expect(Number(pass.getAttribute("y")) + Number(pass.getAttribute("height"))).toBeCloseTo(244, 5);
     // max band with tolerance: limit 1 + 0.5 = 1.5 %, shaded from the top (100 %) down to the limit.
     expect(Number(block.getAttribute("y"))).toBe(0);
-    expect(Number(block.getAttribute("height"))).toBeCloseTo(248 * (1 - 0.015), 5);
+    expect(Number(block.getAttribute("height"))).toBeCloseTo(244 * (1 - 0.015), 5);
     // x extent: 736 px wide over 450–750 nm
     expect(Number(pass.getAttribute("x"))).toBeCloseTo((736 * 50) / 300, 5);
     expect(Number(pass.getAttribute("width"))).toBeCloseTo((736 * 100) / 300, 5);

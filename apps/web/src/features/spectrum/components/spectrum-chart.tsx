@@ -56,7 +56,7 @@ export interface SpectrumChartProps {
   onSelectRange?: (start: number, stop: number) => void;
 }
 
-const MARGIN = { top: 14, right: 16, bottom: 38, left: 48 };
+const MARGIN = { top: 14, right: 16, bottom: 42, left: 48 };
 
 function fmt(v: number, digits = 2): string {
   return Number.isFinite(v) ? v.toFixed(digits) : "—";
@@ -273,7 +273,7 @@ export function SpectrumChart(props: SpectrumChartProps) {
           ) : null}
           {cursorW !== null ? <line x1={x(cursorW)} x2={x(cursorW)} y1={0} y2={innerH} stroke="#13233a" strokeDasharray="2 2" /> : null}
           <AxisLeft scale={y} numTicks={5} label={yLabel} labelOffset={30} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "end", dx: -2, dy: 3 }} stroke="#5a708f" tickStroke="#5a708f" labelProps={{ fontSize: 11, fill: "#2c4669", textAnchor: "middle" }} />
-          <AxisBottom top={innerH} scale={x} numTicks={Math.max(3, Math.floor(innerW / 90))} label="Wavelength (nm)" labelOffset={14} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" tickStroke="#5a708f" labelProps={{ fontSize: 11, fill: "#2c4669", textAnchor: "middle" }} />
+          <AxisBottom top={innerH} scale={x} numTicks={Math.max(3, Math.floor(innerW / 90))} label="Wavelength (nm)" labelOffset={10} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" tickStroke="#5a708f" labelProps={{ fontSize: 11, fill: "#2c4669", textAnchor: "middle" }} />
         </Group>
       </svg>
       {readout ? (

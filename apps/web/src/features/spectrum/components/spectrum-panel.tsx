@@ -1,4 +1,4 @@
-import { useId } from "react";
+import { useDeferredValue, useId } from "react";
 import type { Design, SpecMask } from "@stackproof/optics";
 import { SpectrumChart } from "./spectrum-chart.tsx";
 import type { ChartCurve, ChartEnvelope, ChartMarker } from "./spectrum-chart.tsx";
@@ -35,7 +35,8 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
   const { design, mask, view, onViewChange } = props;
   const [ref, width] = useElementWidth<HTMLDivElement>();
   const live = useLiveSpectrum(design, view.settings);
-  const verdicts = useVerdicts(design, mask);
+  // Band verdicts (each band at its own angle and polarization) may trail the curve by a render.
+  const verdicts = useVerdicts(useDeferredValue(design), mask);
   const verdictMap = new Map<string, boolean>(verdicts?.ok ? verdicts.bands.map((b) => [b.id, b.pass]) : []);
   const regions = forbiddenRegions(mask?.bands ?? [], verdictMap);
   const hasOD = (mask?.bands ?? []).some((b) => b.quantity === "OD");

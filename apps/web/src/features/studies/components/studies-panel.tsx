@@ -1,6 +1,6 @@
 // Tolerance studies: error-model form, Monte Carlo yield in a pool of Web Workers, results, sweep,
 // sensitivity map, and verification of the browser result on the server.
-import { useRef, useState } from "react";
+import { useRef, useState, memo } from "react";
 import type { Design, ErrorModel, SensitivityMap, SpecMask, SweepPoint, YieldResult, YieldStudy } from "@stackproof/optics";
 import { runEngineJob, runSweepInPool, runYieldInPool } from "../../../workers/pool.ts";
 import type { PoolProgress } from "../../../workers/pool.ts";
@@ -42,7 +42,7 @@ function duration(ms: number): string {
   return s < 90 ? `${s.toFixed(1)} s` : `${Math.floor(s / 60)} min ${Math.round(s % 60)} s`;
 }
 
-export function StudiesPanel(props: StudiesPanelProps) {
+export const StudiesPanel = memo(function StudiesPanel(props: StudiesPanelProps) {
   const [run, setRun] = useState<Run>({ state: "idle" });
   const [sweep, setSweep] = useState<{ state: "idle" } | { state: "running"; done: number; total: number } | { state: "done"; points: SweepPoint[] } | { state: "error"; message: string }>({ state: "idle" });
   const [sens, setSens] = useState<{ state: "idle" } | { state: "running" } | { state: "done"; map: SensitivityMap } | { state: "error"; message: string }>({ state: "idle" });
@@ -109,6 +109,9 @@ export function StudiesPanel(props: StudiesPanelProps) {
   const progress = run.state === "running" ? run.progress : null;
   const result = run.state === "done" ? run.result : null;
   const meetsTarget = result ? result.interval.low >= props.targetYield : false;
+  // Two result columns only when the panel itself is wide enough (it sits in a tab beside or below the editor).
+  const twoCols = width >= 900;
+  const colW = Math.max(240, Math.min(560, (twoCols ? width / 2 : width) - 16));
 
   return (
     <section aria-labelledby="studies-h" className="space-y-4" ref={ref}>
@@ -178,10 +181,10 @@ export function StudiesPanel(props: StudiesPanelProps) {
             clientResult={result}
             disabledReason={props.dirty ? "The stack has unsaved edits: save it as a revision, then run and verify the study on that revision." : !props.canVerify ? "Your role cannot start server runs." : null}
           />
-          <div className="grid gap-4 lg:grid-cols-2">
+          <div className={`grid gap-4 ${twoCols ? "grid-cols-2" : "grid-cols-1"}`}>
             <div>
               <h3 className="mb-1 text-sm font-semibold">Worst margin of each build</h3>
-              <MarginHistogram histogram={result.marginHistogram} width={Math.min(560, width / (width > 900 ? 2 : 1) - 8)} unit={unit} />
+              <MarginHistogram histogram={result.marginHistogram} width={colW} unit={unit} />
             </div>
             <div>
               <h3 className="mb-1 text-sm font-semibold">Failures per band</h3>
@@ -208,10 +211,14 @@ export function StudiesPanel(props: StudiesPanelProps) {
               </table>
               <h3 className="mb-1 mt-4 text-sm font-semibold">Layer criticality</h3>
               <p className="mb-1 text-xs text-ink-500">Correlation of each layer’s thickness error with failure (largest of signed and absolute).</p>
-              <CriticalLayers layers={result.criticalLayers} width={Math.min(520, width / (width > 900 ? 2 : 1) - 8)} materials={materials} />
+              {result.passCount === 0 || result.passCount === result.trials ? (
+                <p className="text-xs text-ink-500">{result.passCount === 0 ? "Every build fails, so no single layer stands out: the nominal design itself needs work." : "Every build passes: no layer drives failures at this process quality."}</p>
+              ) : (
+                <CriticalLayers layers={result.criticalLayers} width={colW} materials={materials} />
+              )}
             </div>
           </div>
-          <div className="grid gap-4 lg:grid-cols-2">
+          <div className={`grid gap-4 ${twoCols ? "grid-cols-2" : "grid-cols-1"}`}>
             <div>
               <div className="mb-1 flex items-center gap-2">
                 <h3 className="text-sm font-semibold">Yield against process quality</h3>
@@ -225,7 +232,7 @@ export function StudiesPanel(props: StudiesPanelProps) {
                   </span>
                 )}
               </div>
-              {sweep.state === "done" ? <SweepChart points={sweep.points} target={props.targetYield} width={Math.min(560, width / (width > 900 ? 2 : 1) - 8)} /> : null}
+              {sweep.state === "done" ? <SweepChart points={sweep.points} target={props.targetYield} width={colW} /> : null}
               {sweep.state === "error" ? <p role="alert" className="text-xs text-verdict-fail">{sweep.message}</p> : null}
               {sweep.state === "idle" ? <p className="text-xs text-ink-500">Yield with every σ of the error model scaled from ×0.25 to ×2.5 (up to 1000 trials per point, same draws at every scale).</p> : null}
             </div>
@@ -244,7 +251,7 @@ export function StudiesPanel(props: StudiesPanelProps) {
       </div>
     </section>
   );
-}
+});
 
 function YieldBar({ result, target }: { result: YieldResult; target: number }) {
   return (

@@ -1,4 +1,5 @@
-import { useState } from "react";
+import { useEffect, useState } from "react";
+import { useQueryClient } from "@tanstack/react-query";
 import type { YieldResult, YieldStudy } from "@stackproof/optics";
 import { useCreateYieldRun, useYieldRun } from "../api/yield-runs.ts";
 
@@ -22,6 +23,15 @@ export function VerifyOnServer({
   const [runId, setRunId] = useState<string | null>(null);
   const run = useYieldRun(runId);
   const r = run.data;
+  const qc = useQueryClient();
+  const finishedStatus = r?.status === "done" || r?.status === "failed" ? r.status : null;
+  useEffect(() => {
+    // A finished server run changes what the sign-off gate and the overview show.
+    if (!finishedStatus) return;
+    void qc.invalidateQueries({ queryKey: ["revisions", revisionId, "gate"] });
+    void qc.invalidateQueries({ queryKey: ["revisions", revisionId, "yield-runs"] });
+    void qc.invalidateQueries({ queryKey: ["overview"] });
+  }, [finishedStatus, qc, revisionId]);
   const verify = () =>
     create.mutate(
       { revisionId, trials: study.trials, seed: study.seed, errorModel: clientResult.errorModel, clientResult },

@@ -1,0 +1,98 @@
+// The designer's path through the workspace, against the built product: open a design, edit a layer and see the
+// curve change, run a tolerance study in the browser's worker pool, verify it on the server.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DEMO, openBrowser, signInAs, startProduct, type BrowserSession, type Product } from "./support/harness.ts";
+
+let product: Product;
+let browser: BrowserSession;
+
+beforeAll(async () => {
+  product = await startProduct();
+  browser = await openBrowser({ width: 1280, height: 900 });
+  await signInAs(browser.page, product.url, DEMO.designer);
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await product?.stop();
+});
+
+const curve = '[data-curve="nominal-T"]';
+
+describe("design workspace (designer)", () => {
+  it("opens a design at its latest revision", async () => {
+    const { page } = browser;
+    await page.goto(product.url);
+    await page.getByRole("link", { name: "Kestrel receiver bandpass" }).first().click();
+    await page.waitForURL(/\/designs\/[^/]+\/revisions\/[^/]+$/);
+    await page.getByTestId("spectrum-chart").waitFor();
+    await page.locator(curve).waitFor();
+    await page.getByRole("grid", { name: /Layers/ }).waitFor();
+    await browser.screenshot("workspace-1-open");
+    expect(browser.consoleErrors).toEqual([]);
+  });
+
+  it("edits a layer from the keyboard and redraws the curve; undo restores it", async () => {
+    const { page } = browser;
+    const before = await page.locator(curve).getAttribute("d");
+    const cell = page.locator('[data-cell="3:2"]');
+    const old = (await cell.innerText()).trim();
+    await cell.click();
+    // Time from the key that commits the edit to the new path, measured inside the page.
+    await page.evaluate((sel) => {
+      const w = window as unknown as { __edit?: { start: number; end: number } };
+      const path = document.querySelector(sel) as SVGPathElement;
+      w.__edit = { start: 0, end: 0 };
+      document.addEventListener("keydown", (e) => { if (e.key === "Enter" && w.__edit && w.__edit.start === 0 && document.activeElement?.tagName === "INPUT") w.__edit.start = performance.now(); }, { capture: true });
+      new MutationObserver(() => { if (w.__edit && w.__edit.end === 0 && w.__edit.start > 0) w.__edit.end = performance.now(); }).observe(path, { attributes: true, attributeFilter: ["d"] });
+    }, curve);
+    await page.keyboard.press("Enter");
+    const input = page.getByRole("textbox", { name: "Thickness of layer 4 in nm" });
+    await input.fill(String(Number(old) * 1.15));
+    await page.keyboard.press("Enter");
+    await page.waitForFunction(([sel, b]) => document.querySelector(sel as string)?.getAttribute("d") !== b, [curve, before]);
+    const after = await page.locator(curve).getAttribute("d");
+    expect(after).not.toBe(before);
+    const ms = await page.evaluate(() => {
+      const e = (window as unknown as { __edit: { start: number; end: number } }).__edit;
+      return e.end - e.start;
+    });
+    console.log(`edit → new curve in the page: ${ms.toFixed(1)} ms`);
+    await page.getByTestId("unsaved").waitFor();
+    await browser.screenshot("workspace-2-edited");
+
+    await page.locator('[data-cell="3:2"]').focus();
+    await page.keyboard.press("Control+z");
+    await page.waitForFunction(([sel, b]) => document.querySelector(sel as string)?.getAttribute("d") === b, [curve, before]);
+    await page.getByTestId("unsaved").waitFor({ state: "detached" });
+  });
+
+  it("runs a tolerance study in the browser and shows the yield with its interval", async () => {
+    const { page } = browser;
+    await page.getByRole("tab", { name: "Tolerance study" }).click();
+    await page.getByLabel("Trials").fill("300");
+    await page.getByLabel("Seed").fill("browser-check");
+    await page.getByRole("button", { name: "Run study in the browser" }).click();
+    const yieldBox = page.getByTestId("browser-yield");
+    await yieldBox.waitFor({ timeout: 60_000 });
+    const text = await yieldBox.innerText();
+    expect(text).toMatch(/\d+\.\d %/);
+    expect(text).toMatch(/of 300 builds pass/);
+    await page.getByTestId("margin-histogram").waitFor();
+    await page.locator("[data-envelope]").first().waitFor();
+    await browser.screenshot("workspace-3-study");
+  });
+
+  it("verifies the browser result on the server and shows the match", async () => {
+    const { page } = browser;
+    await page.getByRole("button", { name: "Verify on server" }).click();
+    const server = page.getByTestId("server-result");
+    await server.waitFor({ timeout: 90_000 });
+    await page.locator('[data-verdict="match"]').waitFor();
+    const browserYield = (await page.getByTestId("browser-yield").innerText()).match(/(\d+\.\d) %/)?.[1];
+    expect(await server.innerText()).toContain(`${browserYield} %`);
+    await server.scrollIntoViewIfNeeded();
+    await browser.screenshot("workspace-4-verified");
+    expect(browser.consoleErrors).toEqual([]);
+  });
+});
