@@ -140,4 +140,16 @@ describe("invitations", () => {
       .send({ email: "x@halvorsen-thinfilm.test", roles: ["designer", "designer"] })
       .expect(400);
   });
+
+  it("lets only one of two simultaneous accepts of the same link through", async () => {
+    await invite(admin.agent, "race@halvorsen-thinfilm.test", ["designer"]);
+    const token = tokenIn(await lastMailTo(server, "race@halvorsen-thinfilm.test"), "/accept-invitation");
+    const accept = (name: string) =>
+      withOrigin(request(server.app).post("/api/v1/invitations/accept")).send({ token, name, password: "a long enough password" });
+    const results = await Promise.all([accept("Racer One"), accept("Racer Two")]);
+    expect(results.map((r) => r.status).sort()).toEqual([200, 404].sort());
+    const members = await admin.agent.get("/api/v1/members").expect(200);
+    const racers = members.body.items.filter((m: { user: { email: string } }) => m.user.email === "race@halvorsen-thinfilm.test");
+    expect(racers).toHaveLength(1);
+  });
 });

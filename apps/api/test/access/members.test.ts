@@ -92,4 +92,18 @@ describe("members and roles", () => {
     await stranger.agent.patch(`/api/v1/members/${admin.user.id}`).send({ roles: ["designer"] }).expect(404);
     await stranger.agent.delete(`/api/v1/members/${admin.user.id}`).expect(404);
   });
+
+  it("keeps one admin when two admins demote each other at the same moment", async () => {
+    const a = await signedInMember(server, { roles: ["admin"] });
+    const b = await signedInMember(server, { roles: ["admin"], workspaceId: a.workspaceId });
+    const results = await Promise.all([
+      a.agent.patch(`/api/v1/members/${b.user.id}`).send({ roles: ["reviewer"] }),
+      b.agent.patch(`/api/v1/members/${a.user.id}`).send({ roles: ["reviewer"] }),
+    ]);
+    // The second request finds its caller no longer admin (403) or the last admin (409).
+    expect(results.filter((r) => r.status === 200)).toHaveLength(1);
+    expect(results.filter((r) => r.status === 403 || r.status === 409)).toHaveLength(1);
+    const list = await a.agent.get("/api/v1/members").expect(200);
+    expect(list.body.items.filter((m: { roles: string[] }) => m.roles.includes("admin"))).toHaveLength(1);
+  });
 });

@@ -279,6 +279,9 @@ export function invitationRoutes(ctx: AppContext, router: Router): void {
       const result = ctx.db.transaction((tx) => {
         const now = new Date();
         const userId = account?.id ?? newId();
+        // Another accept of the same link may have finished while the password was being hashed.
+        const still = tx.select({ id: invitations.id }).from(invitations).where(and(eq(invitations.id, inv.id), pending(now))).get();
+        if (!still) throw invalidInvitation();
         if (!account) {
           const taken = tx.select({ id: users.id }).from(users).where(eq(users.email, inv.email)).get();
           if (taken) throw conflict("An account for this address was just created; sign in instead.");
