@@ -23,12 +23,43 @@ export function benchStudy(trials: number): YieldStudy {
     design,
     mask: {
       bands: [
-        { id: "block", start: 520, stop: 580, quantity: "R", polarization: "u", angleDeg: 0, requirement: "min", value: 99 },
-        { id: "pass-blue", start: 420, stop: 460, quantity: "T", polarization: "u", angleDeg: 0, requirement: "avgMin", value: 80 },
-        { id: "block-45s", start: 540, stop: 560, quantity: "OD", polarization: "s", angleDeg: 45, requirement: "min", value: 1 },
+        {
+          id: "block",
+          start: 520,
+          stop: 580,
+          quantity: "R",
+          polarization: "u",
+          angleDeg: 0,
+          requirement: "min",
+          value: 99,
+        },
+        {
+          id: "pass-blue",
+          start: 420,
+          stop: 460,
+          quantity: "T",
+          polarization: "u",
+          angleDeg: 0,
+          requirement: "avgMin",
+          value: 80,
+        },
+        {
+          id: "block-45s",
+          start: 540,
+          stop: 560,
+          quantity: "OD",
+          polarization: "s",
+          angleDeg: 45,
+          requirement: "min",
+          value: 1,
+        },
       ],
     },
-    errorModel: { thickness: { relativePct: 1, absoluteNm: 0.3, distribution: "normal" }, systematicPct: 0.5, indexDriftPct: 0.3 },
+    errorModel: {
+      thickness: { relativePct: 1, absoluteNm: 0.3, distribution: "normal" },
+      systematicPct: 0.5,
+      indexDriftPct: 0.3,
+    },
     trials,
     seed: "HTW-bench",
   };
@@ -72,7 +103,10 @@ export async function runMonteCarloBench(trials = 2000): Promise<MonteCarloBench
   };
   const { seconds: w1, result: one } = await timedPool(1);
   const { seconds: w2, result: two } = await timedPool(2);
-  const rate = (seconds: number) => ({ seconds: Number(seconds.toFixed(3)), trialsPerSecond: Math.round(trials / seconds) });
+  const rate = (seconds: number) => ({
+    seconds: Number(seconds.toFixed(3)),
+    trialsPerSecond: Math.round(trials / seconds),
+  });
   return {
     layers: runner.evaluator.layerCount,
     bands: runner.evaluator.bands.length,

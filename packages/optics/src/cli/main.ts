@@ -21,14 +21,20 @@ const USAGE =
 /** A user error: printed as one line, exit code 1. */
 class CliError extends Error {}
 
-function parseFlags(args: string[], allowed: readonly string[]): { positional: string[]; flags: Record<string, string> } {
+function parseFlags(
+  args: string[],
+  allowed: readonly string[],
+): { positional: string[]; flags: Record<string, string> } {
   const positional: string[] = [];
   const flags: Record<string, string> = {};
   for (let i = 0; i < args.length; i++) {
     const a = args[i] as string;
     if (a.startsWith("--")) {
       const [name, inline] = a.slice(2).split("=", 2) as [string, string | undefined];
-      if (!allowed.includes(name)) throw new CliError(`unknown option --${name} (expected ${allowed.map((f) => `--${f}`).join(", ") || "none"})`);
+      if (!allowed.includes(name))
+        throw new CliError(
+          `unknown option --${name} (expected ${allowed.map((f) => `--${f}`).join(", ") || "none"})`,
+        );
       const value = inline ?? args[++i];
       if (value === undefined) throw new CliError(`option --${name} needs a value`);
       flags[name] = value;
@@ -41,7 +47,8 @@ function numberFlag(flags: Record<string, string>, name: string, fallback: numbe
   const raw = flags[name];
   if (raw === undefined) return fallback;
   const v = Number(raw);
-  if (raw.trim() === "" || !Number.isFinite(v)) throw new CliError(`--${name}: expected a number, got ${JSON.stringify(raw)}`);
+  if (raw.trim() === "" || !Number.isFinite(v))
+    throw new CliError(`--${name}: expected a number, got ${JSON.stringify(raw)}`);
   return v;
 }
 
@@ -53,7 +60,11 @@ async function readJson(file: string | undefined, what: string, cwd: string): Pr
     text = await readFile(path, "utf8");
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code;
-    throw new CliError(code === "ENOENT" ? `${what} file not found: ${path}` : `cannot read ${what} file ${path}: ${code ?? String(error)}`);
+    throw new CliError(
+      code === "ENOENT"
+        ? `${what} file not found: ${path}`
+        : `cannot read ${what} file ${path}: ${code ?? String(error)}`,
+    );
   }
   try {
     return JSON.parse(text) as unknown;
@@ -79,8 +90,10 @@ async function spectrumCommand(args: string[], io: CliIo): Promise<void> {
   if (!(from > 0)) throw new CliError(`--from: expected a wavelength > 0 nm, got ${from}`);
   if (!(to >= from)) throw new CliError(`--to: expected a wavelength ≥ --from (${from} nm), got ${to}`);
   if (!(step > 0)) throw new CliError(`--step: expected a step > 0 nm, got ${step}`);
-  if ((to - from) / step > 100000) throw new CliError(`--step: ${step} nm gives more than 100001 wavelengths`);
-  if (!(angle >= 0 && angle < 90)) throw new CliError(`--angle: expected 0 ≤ angle < 90 degrees, got ${angle}`);
+  if ((to - from) / step > 100000)
+    throw new CliError(`--step: ${step} nm gives more than 100001 wavelengths`);
+  if (!(angle >= 0 && angle < 90))
+    throw new CliError(`--angle: expected 0 ≤ angle < 90 degrees, got ${angle}`);
   const wavelengths: number[] = [];
   const n = Math.floor((to - from) / step + 1e-9);
   for (let k = 0; k <= n; k++) wavelengths.push(from + k * step);
@@ -90,9 +103,11 @@ async function spectrumCommand(args: string[], io: CliIo): Promise<void> {
 
 /** Typed arrays to number[] so that JSON.stringify writes arrays. */
 function toPlain(value: unknown): unknown {
-  if (ArrayBuffer.isView(value) && !(value instanceof DataView)) return Array.from(value as unknown as ArrayLike<number>);
+  if (ArrayBuffer.isView(value) && !(value instanceof DataView))
+    return Array.from(value as unknown as ArrayLike<number>);
   if (Array.isArray(value)) return value.map(toPlain);
-  if (value && typeof value === "object") return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, toPlain(v)]));
+  if (value && typeof value === "object")
+    return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, toPlain(v)]));
   return value;
 }
 
@@ -100,7 +115,8 @@ async function yieldCommand(args: string[], io: CliIo): Promise<void> {
   const { positional, flags } = parseFlags(args, ["workers"]);
   const study = parseYieldStudy(await readJson(positional[0], "study", io.cwd));
   const workers = numberFlag(flags, "workers", 1);
-  if (!Number.isInteger(workers) || workers < 1 || workers > 64) throw new CliError(`--workers: expected an integer in 1..64, got ${flags.workers}`);
+  if (!Number.isInteger(workers) || workers < 1 || workers > 64)
+    throw new CliError(`--workers: expected an integer in 1..64, got ${flags.workers}`);
   const result = workers === 1 ? await runYield(study) : await runYieldWithWorkers(study, { workers });
   io.out(JSON.stringify(result));
 }
@@ -140,7 +156,9 @@ export async function runCli(args: string[], io: CliIo): Promise<number> {
       io.err(`optics ${command ?? ""}: ${error.message.split("\n").join(" ")}`);
       return 1;
     }
-    io.err(`optics ${command ?? ""}: unexpected failure: ${error instanceof Error ? error.message.split("\n")[0] : String(error)}`);
+    io.err(
+      `optics ${command ?? ""}: unexpected failure: ${error instanceof Error ? error.message.split("\n")[0] : String(error)}`,
+    );
     return 1;
   }
 }

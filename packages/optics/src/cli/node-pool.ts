@@ -10,7 +10,8 @@ export type WorkerRequest =
   | { type: "run"; id: number; start: number; count: number }
   | { type: "release"; id: number };
 /** Messages from a yield worker. */
-export type WorkerReply = { type: "chunk"; id: number; chunk: YieldChunk } | { type: "error"; id: number; message: string };
+export type WorkerReply =
+  { type: "chunk"; id: number; chunk: YieldChunk } | { type: "error"; id: number; message: string };
 
 /** Options of one pooled run. */
 export interface PoolRunOptions {
@@ -48,16 +49,33 @@ interface Slot {
   studies: Set<number>;
   onReply: ((reply: WorkerReply) => void) | null;
   onFailure: ((error: Error) => void) | null;
+  /** The thread has exited or failed; it is replaced before the next run. */
+  dead: boolean;
 }
 
 /** Start `size` worker threads. Close the pool when done (the threads keep the process alive). */
 export function createYieldPool(size: number): YieldPool {
-  if (!Number.isInteger(size) || size < 1 || size > 64) throw new RangeError(`workers must be an integer in 1..64, got ${size}`);
+  if (!Number.isInteger(size) || size < 1 || size > 64)
+    throw new RangeError(`workers must be an integer in 1..64, got ${size}`);
+  let closing = false;
+  const attach = (slot: Slot): void => {
+    const worker = startWorker();
+    slot.worker = worker;
+    slot.studies = new Set();
+    slot.dead = false;
+    worker.on("message", (reply: WorkerReply) => slot.onReply?.(reply));
+    worker.on("error", (error) => {
+      slot.dead = true;
+      slot.onFailure?.(error);
+    });
+    worker.on("exit", (code) => {
+      slot.dead = true;
+      if (!closing) slot.onFailure?.(new Error(`yield worker exited with code ${code}`));
+    });
+  };
   const slots: Slot[] = Array.from({ length: size }, () => {
-    const slot: Slot = { worker: startWorker(), studies: new Set(), onReply: null, onFailure: null };
-    slot.worker.on("message", (reply: WorkerReply) => slot.onReply?.(reply));
-    slot.worker.on("error", (error) => slot.onFailure?.(error));
-    slot.worker.on("exit", (code) => slot.onFailure?.(new Error(`yield worker exited with code ${code}`)));
+    const slot = { studies: new Set(), onReply: null, onFailure: null, dead: false } as unknown as Slot;
+    attach(slot);
     return slot;
   });
   let nextId = 1;
@@ -65,52 +83,67 @@ export function createYieldPool(size: number): YieldPool {
 
   const runOnce = async (studyInput: YieldStudy, options: PoolRunOptions): Promise<YieldResult> => {
     const study = parseYieldStudy(studyInput);
+    for (const slot of slots) if (slot.dead) attach(slot);
     const id = nextId++;
     const chunkSize = options.chunkSize ?? Math.min(1000, Math.max(25, Math.ceil(study.trials / (size * 8))));
     const pending = planChunks(study.trials, chunkSize);
     const chunks: YieldChunk[] = [];
     let done = 0;
-    await new Promise<void>((resolve, reject) => {
-      let active = 0;
-      let failed = false;
-      const fail = (error: Error): void => {
-        if (failed) return;
-        failed = true;
-        reject(error);
-      };
-      const feed = (slot: Slot): void => {
-        if (failed) return;
-        if (options.signal?.aborted) return fail(options.signal.reason instanceof Error ? options.signal.reason : new Error("aborted"));
-        const next = pending.shift();
-        if (!next) {
-          slot.onReply = null;
-          slot.onFailure = null;
-          active--;
-          if (active === 0) resolve();
-          return;
-        }
-        if (!slot.studies.has(id)) {
-          slot.worker.postMessage({ type: "study", id, study } satisfies WorkerRequest);
-          slot.studies.add(id);
-        }
-        slot.worker.postMessage({ type: "run", id, start: next[0], count: next[1] } satisfies WorkerRequest);
-      };
-      for (const slot of slots.slice(0, Math.min(size, pending.length))) {
-        active++;
-        slot.onFailure = fail;
-        slot.onReply = (reply) => {
-          if (reply.id !== id) return;
-          if (reply.type === "error") return fail(new RangeError(reply.message));
-          chunks.push(reply.chunk);
-          done += reply.chunk.count;
-          options.onProgress?.(done, study.trials);
-          feed(slot);
+    try {
+      await new Promise<void>((resolve, reject) => {
+        let active = 0;
+        let failed = false;
+        const fail = (error: Error): void => {
+          if (failed) return;
+          failed = true;
+          reject(error);
         };
-        feed(slot);
+        const feed = (slot: Slot): void => {
+          if (failed) return;
+          if (options.signal?.aborted)
+            return fail(
+              options.signal.reason instanceof Error ? options.signal.reason : new Error("aborted"),
+            );
+          const next = pending.shift();
+          if (!next) {
+            slot.onReply = null;
+            slot.onFailure = null;
+            active--;
+            if (active === 0) resolve();
+            return;
+          }
+          if (!slot.studies.has(id)) {
+            slot.worker.postMessage({ type: "study", id, study } satisfies WorkerRequest);
+            slot.studies.add(id);
+          }
+          slot.worker.postMessage({
+            type: "run",
+            id,
+            start: next[0],
+            count: next[1],
+          } satisfies WorkerRequest);
+        };
+        for (const slot of slots.slice(0, Math.min(size, pending.length))) {
+          active++;
+          slot.onFailure = fail;
+          slot.onReply = (reply) => {
+            if (reply.id !== id) return;
+            if (reply.type === "error") return fail(new RangeError(reply.message));
+            chunks.push(reply.chunk);
+            done += reply.chunk.count;
+            options.onProgress?.(done, study.trials);
+            feed(slot);
+          };
+          feed(slot);
+        }
+      });
+    } finally {
+      for (const slot of slots) {
+        slot.onReply = null;
+        slot.onFailure = null;
+        if (slot.studies.delete(id) && !slot.dead)
+          slot.worker.postMessage({ type: "release", id } satisfies WorkerRequest);
       }
-    });
-    for (const slot of slots) {
-      if (slot.studies.delete(id)) slot.worker.postMessage({ type: "release", id } satisfies WorkerRequest);
     }
     return mergeYieldChunks(study, chunks);
   };
@@ -123,6 +156,7 @@ export function createYieldPool(size: number): YieldPool {
       return result;
     },
     async close() {
+      closing = true;
       for (const slot of slots) slot.onFailure = null;
       await Promise.all(slots.map((s) => s.worker.terminate()));
     },
@@ -130,7 +164,10 @@ export function createYieldPool(size: number): YieldPool {
 }
 
 /** One-off pooled run: start `workers` threads, run the study, stop the threads. */
-export async function runYieldWithWorkers(study: YieldStudy, options: PoolRunOptions & { workers: number }): Promise<YieldResult> {
+export async function runYieldWithWorkers(
+  study: YieldStudy,
+  options: PoolRunOptions & { workers: number },
+): Promise<YieldResult> {
   const pool = createYieldPool(options.workers);
   try {
     return await pool.run(study, options);

@@ -33,9 +33,14 @@ export function parseErrorModel(input: unknown): ErrorModel {
 
 /** Multiply every σ of an error model by `scale` (truncation stays in σ units). */
 export function scaleErrorModel(model: ErrorModel, scale: number): ErrorModel {
-  if (!(scale >= 0) || !Number.isFinite(scale)) throw new RangeError(`scale must be a finite number ≥ 0, got ${scale}`);
+  if (!(scale >= 0) || !Number.isFinite(scale))
+    throw new RangeError(`scale must be a finite number ≥ 0, got ${scale}`);
   const scaleMap = (v: ErrorModel["systematicPct"]): ErrorModel["systematicPct"] =>
-    v === undefined ? undefined : typeof v === "number" ? v * scale : Object.fromEntries(Object.entries(v).map(([k, x]) => [k, x * scale]));
+    v === undefined
+      ? undefined
+      : typeof v === "number"
+        ? v * scale
+        : Object.fromEntries(Object.entries(v).map(([k, x]) => [k, x * scale]));
   const out: ErrorModel = {
     thickness: {
       ...model.thickness,
@@ -65,7 +70,14 @@ export interface TrialSampler {
    * Draw trial `index` of `seed` applied to `nominal` thicknesses (nm) into `thicknessOut` (nm, clamped at 0)
    * and `indexScaleOut` (per-layer factor on N).
    */
-  sample(rng: TrialRandom, seed: string, index: number, nominal: Float64Array, thicknessOut: Float64Array, indexScaleOut: Float64Array): void;
+  sample(
+    rng: TrialRandom,
+    seed: string,
+    index: number,
+    nominal: Float64Array,
+    thicknessOut: Float64Array,
+    indexScaleOut: Float64Array,
+  ): void;
 }
 
 /** Build a sampler for layers made of `layerMaterials` (deposition order). */

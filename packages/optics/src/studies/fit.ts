@@ -41,18 +41,25 @@ export interface FitResult {
 
 function validateMeasurement(m: Measurement): void {
   if (!Array.isArray(m.wavelengths) || m.wavelengths.length < 2) {
-    throw new RangeError(`measurement.wavelengths: expected at least 2 wavelengths, got ${Array.isArray(m.wavelengths) ? m.wavelengths.length : typeof m.wavelengths}`);
+    throw new RangeError(
+      `measurement.wavelengths: expected at least 2 wavelengths, got ${Array.isArray(m.wavelengths) ? m.wavelengths.length : typeof m.wavelengths}`,
+    );
   }
   if (!Array.isArray(m.values) || m.values.length !== m.wavelengths.length) {
-    throw new RangeError(`measurement.values: expected ${m.wavelengths.length} values, got ${Array.isArray(m.values) ? m.values.length : typeof m.values}`);
+    throw new RangeError(
+      `measurement.values: expected ${m.wavelengths.length} values, got ${Array.isArray(m.values) ? m.values.length : typeof m.values}`,
+    );
   }
   m.wavelengths.forEach((w, i) => {
-    if (!(w > 0) || !Number.isFinite(w)) throw new RangeError(`measurement.wavelengths[${i}]: expected a positive wavelength in nm, got ${w}`);
+    if (!(w > 0) || !Number.isFinite(w))
+      throw new RangeError(`measurement.wavelengths[${i}]: expected a positive wavelength in nm, got ${w}`);
   });
   m.values.forEach((v, i) => {
-    if (!Number.isFinite(v)) throw new RangeError(`measurement.values[${i}]: expected a finite percentage, got ${v}`);
+    if (!Number.isFinite(v))
+      throw new RangeError(`measurement.values[${i}]: expected a finite percentage, got ${v}`);
   });
-  if (m.quantity !== "R" && m.quantity !== "T") throw new RangeError(`measurement.quantity: expected "R" or "T", got ${String(m.quantity)}`);
+  if (m.quantity !== "R" && m.quantity !== "T")
+    throw new RangeError(`measurement.quantity: expected "R" or "T", got ${String(m.quantity)}`);
 }
 
 /**
@@ -85,14 +92,19 @@ export function fitAsBuilt(design: Design, measurement: Measurement, options: Fi
   }
   const thick = Float64Array.from(nominal);
   const scale = new Float64Array(L).fill(1);
-  const out = { R: new Float64Array(measurement.wavelengths.length), T: new Float64Array(measurement.wavelengths.length), A: new Float64Array(measurement.wavelengths.length) };
+  const out = {
+    R: new Float64Array(measurement.wavelengths.length),
+    T: new Float64Array(measurement.wavelengths.length),
+    A: new Float64Array(measurement.wavelengths.length),
+  };
   const target = Float64Array.from(measurement.values);
   const model = (x: Float64Array): Float64Array => {
     for (let k = 0; k < nT; k++) {
       const j = layerIdx[k] as number;
       thick[j] = (nominal[j] as number) * (x[k] as number);
     }
-    if (materials.length > 0) for (let j = 0; j < L; j++) scale[j] = x[nT + (materialOf[j] as number)] as number;
+    if (materials.length > 0)
+      for (let j = 0; j < L; j++) scale[j] = x[nT + (materialOf[j] as number)] as number;
     evaluator.evaluate(thick, out, materials.length > 0 ? scale : undefined);
     return measurement.quantity === "R" ? out.R : out.T;
   };

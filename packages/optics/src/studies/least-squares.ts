@@ -72,7 +72,11 @@ export function choleskySolve(A: Float64Array, b: Float64Array, n: number): bool
  * parameters held at a bound by the gradient are frozen for that iteration. λ shrinks ×1/3 on success
  * and grows ×4 on failure. Deterministic: no random restarts.
  */
-export function levenbergMarquardt(problem: LeastSquaresProblem, x0: ArrayLike<number>, options: LeastSquaresOptions = {}): LeastSquaresResult {
+export function levenbergMarquardt(
+  problem: LeastSquaresProblem,
+  x0: ArrayLike<number>,
+  options: LeastSquaresOptions = {},
+): LeastSquaresResult {
   const n = problem.parameterCount;
   const m = problem.residualCount;
   const maxIterations = options.maxIterations ?? 100;

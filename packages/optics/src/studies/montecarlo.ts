@@ -119,7 +119,8 @@ export function unusedErrorModelMaterials(model: ErrorModel, layerMaterials: rea
   ] as const) {
     if (value === undefined || typeof value === "number") continue;
     for (const id of Object.keys(value)) {
-      if (!used.has(id)) out.push(`errorModel.${field} names material ${JSON.stringify(id)}, which no layer uses`);
+      if (!used.has(id))
+        out.push(`errorModel.${field} names material ${JSON.stringify(id)}, which no layer uses`);
     }
   }
   return out;
@@ -147,7 +148,12 @@ function planEnvelopes(evaluator: SpecEvaluator): EnvelopePlan[] {
   for (const entry of keyed.values()) {
     const indices = Int32Array.from([...entry.idx].sort((a, b) => a - b));
     const group = evaluator.groups[entry.group] as GroupPlan;
-    plans.push({ quantity: entry.quantity, group: entry.group, indices, wavelengths: Array.from(indices, (i) => group.wavelengths[i] as number) });
+    plans.push({
+      quantity: entry.quantity,
+      group: entry.group,
+      indices,
+      wavelengths: Array.from(indices, (i) => group.wavelengths[i] as number),
+    });
   }
   return plans;
 }
@@ -164,7 +170,10 @@ export function createYieldRunner(studyInput: YieldStudy): YieldRunner {
   const study = parseYieldStudy(studyInput);
   const design = study.design as Design;
   const evaluator = createSpecEvaluator(design, study.mask);
-  const sampler = createTrialSampler(study.errorModel, design.layers.map((l) => l.material));
+  const sampler = createTrialSampler(
+    study.errorModel,
+    design.layers.map((l) => l.material),
+  );
   const envelopes = planEnvelopes(evaluator);
   const envelopeSamples = Math.min(study.trials, study.envelopeSamples ?? DEFAULT_ENVELOPE_SAMPLES);
   const nominal = evaluator.nominalThicknesses;
@@ -231,12 +240,22 @@ export function createYieldRunner(studyInput: YieldStudy): YieldRunner {
             trial,
             values: envelopes.map((env) => {
               const g = evaluator.groups[env.group] as GroupPlan;
-              return Array.from(env.indices, (i) => quantityValue(env.quantity, g.R[i] as number, g.T[i] as number, g.A[i] as number));
+              return Array.from(env.indices, (i) =>
+                quantityValue(env.quantity, g.R[i] as number, g.T[i] as number, g.A[i] as number),
+              );
             }),
           });
         }
       }
-      return { startTrial, count, passCount, bandFailures, worstMargins, errorSums: sums, envelopeSamples: samples };
+      return {
+        startTrial,
+        count,
+        passCount,
+        bandFailures,
+        worstMargins,
+        errorSums: sums,
+        envelopeSamples: samples,
+      };
     },
   };
 }
@@ -287,8 +306,14 @@ export function mergeYieldChunks(studyInput: YieldStudy, chunks: readonly YieldC
     if (c.startTrial !== next) {
       throw new RangeError(`chunks: expected a chunk starting at trial ${next}, got ${c.startTrial}`);
     }
-    if (c.bandFailures.length !== bandsN || c.errorSums.q.length !== layers || c.worstMargins.length !== c.count) {
-      throw new RangeError(`chunks: chunk at trial ${c.startTrial} does not match this study's bands or layers`);
+    if (
+      c.bandFailures.length !== bandsN ||
+      c.errorSums.q.length !== layers ||
+      c.worstMargins.length !== c.count
+    ) {
+      throw new RangeError(
+        `chunks: chunk at trial ${c.startTrial} does not match this study's bands or layers`,
+      );
     }
     next += c.count;
   }
@@ -306,7 +331,8 @@ export function mergeYieldChunks(studyInput: YieldStudy, chunks: readonly YieldC
   const samples: YieldChunk["envelopeSamples"] = [];
   for (const c of ordered) {
     passCount += c.passCount;
-    for (let b = 0; b < bandsN; b++) bandFailures[b] = (bandFailures[b] as number) + (c.bandFailures[b] as number);
+    for (let b = 0; b < bandsN; b++)
+      bandFailures[b] = (bandFailures[b] as number) + (c.bandFailures[b] as number);
     for (let j = 0; j < layers; j++) {
       sq[j] = (sq[j] as number) + (c.errorSums.q[j] as number);
       sq2[j] = (sq2[j] as number) + (c.errorSums.q2[j] as number);
@@ -393,17 +419,27 @@ export function mergeYieldChunks(studyInput: YieldStudy, chunks: readonly YieldC
     marginHistogram: { edges, counts },
     envelopes,
     criticalLayers,
-    nominal: { pass: nominalBands.every((b) => b.pass), merit: meritOf(evaluator, evaluator.nominalThicknesses) },
+    nominal: {
+      pass: nominalBands.every((b) => b.pass),
+      merit: meritOf(evaluator, evaluator.nominalThicknesses),
+    },
     errorModel: study.errorModel,
     cautions: study.mask.protective ? [PROTECTIVE_CAUTION] : [],
-    warnings: [...unusedErrorModelMaterials(study.errorModel, design.layers.map((l) => l.material)), ...evaluator.warnings],
+    warnings: [
+      ...unusedErrorModelMaterials(
+        study.errorModel,
+        design.layers.map((l) => l.material),
+      ),
+      ...evaluator.warnings,
+    ],
     engineVersion: ENGINE_VERSION,
   };
 }
 
 /** Split trials 0 … trials − 1 into consecutive [start, count] pieces of at most `chunkSize`. */
 export function planChunks(trials: number, chunkSize: number): [number, number][] {
-  if (!Number.isInteger(chunkSize) || chunkSize < 1) throw new RangeError(`chunkSize must be a positive integer, got ${chunkSize}`);
+  if (!Number.isInteger(chunkSize) || chunkSize < 1)
+    throw new RangeError(`chunkSize must be a positive integer, got ${chunkSize}`);
   const out: [number, number][] = [];
   for (let s = 0; s < trials; s += chunkSize) out.push([s, Math.min(chunkSize, trials - s)]);
   return out;
@@ -451,10 +487,20 @@ export interface SweepPoint {
 export function yieldSweep(studyInput: YieldStudy, scales: readonly number[]): SweepPoint[] {
   const study = parseYieldStudy(studyInput);
   return scales.map((scale) => {
-    const runner = createYieldRunner({ ...study, errorModel: scaleErrorModel(study.errorModel, scale), envelopeSamples: 0 });
+    const runner = createYieldRunner({
+      ...study,
+      errorModel: scaleErrorModel(study.errorModel, scale),
+      envelopeSamples: 0,
+    });
     let passCount = 0;
-    for (const [start, count] of planChunks(study.trials, 1000)) passCount += runner.runChunk(start, count).passCount;
-    return { scale, passCount, yield: passCount / study.trials, interval: wilsonInterval(passCount, study.trials) };
+    for (const [start, count] of planChunks(study.trials, 1000))
+      passCount += runner.runChunk(start, count).passCount;
+    return {
+      scale,
+      passCount,
+      yield: passCount / study.trials,
+      interval: wilsonInterval(passCount, study.trials),
+    };
   });
 }
 
@@ -463,7 +509,10 @@ export function yieldSweep(studyInput: YieldStudy, scales: readonly number[]): S
  * that reaches it (null when none does), `interpolated` the linear crossing between it and the next larger scale
  * (equal to `scale` when the largest sampled scale still reaches the target).
  */
-export function largestScaleForYield(points: readonly SweepPoint[], target: number): { scale: number | null; interpolated: number | null } {
+export function largestScaleForYield(
+  points: readonly SweepPoint[],
+  target: number,
+): { scale: number | null; interpolated: number | null } {
   if (!(target >= 0 && target <= 1)) throw new RangeError(`target yield must be in 0..1, got ${target}`);
   const sorted = [...points].sort((a, b) => a.scale - b.scale);
   let best = -1;

@@ -51,7 +51,8 @@ export function resolveFreeLayers(design: Design, options: RefineBoundsOptions):
   const count = design.layers.length;
   const locked = new Set<number>();
   for (const i of options.lockedLayers ?? []) {
-    if (!Number.isInteger(i) || i < 0 || i >= count) throw new RangeError(`lockedLayers: layer index must be in 0..${count - 1}, got ${i}`);
+    if (!Number.isInteger(i) || i < 0 || i >= count)
+      throw new RangeError(`lockedLayers: layer index must be in 0..${count - 1}, got ${i}`);
     locked.add(i);
   }
   design.layers.forEach((l, i) => {
@@ -70,7 +71,9 @@ export function resolveFreeLayers(design: Design, options: RefineBoundsOptions):
     if (b.min !== undefined) lo[b.index] = b.min;
     if (b.max !== undefined) hi[b.index] = b.max;
     if (!((lo[b.index] as number) >= 0) || !((hi[b.index] as number) >= (lo[b.index] as number))) {
-      throw new RangeError(`layerBounds[${b.index}]: need 0 ≤ min ≤ max, got min ${lo[b.index]} max ${hi[b.index]}`);
+      throw new RangeError(
+        `layerBounds[${b.index}]: need 0 ≤ min ≤ max, got min ${lo[b.index]} max ${hi[b.index]}`,
+      );
     }
   }
   const indices = design.layers.map((_, i) => i).filter((i) => !locked.has(i));
@@ -134,7 +137,8 @@ export function refineDesign(design: Design, maskInput: SpecMask, options: Refin
   free.indices.forEach((layer, k) => (after[layer] = fit.x[k] as number));
   const meritAfter = meritOf(evaluator, after);
   // Never hand back a design that is worse on the real merit than the start.
-  if (meritAfter > meritBefore) return { design, meritBefore, meritAfter: meritBefore, iterations: fit.iterations, changedLayers: [] };
+  if (meritAfter > meritBefore)
+    return { design, meritBefore, meritAfter: meritBefore, iterations: fit.iterations, changedLayers: [] };
   return {
     design: withThicknesses(design, after),
     meritBefore,
@@ -171,18 +175,25 @@ export interface RefineForYieldResult extends RefineResult {
  * thickness errors scale with the layer being refined. Yield before and after is then measured with the
  * study's own seed (trials independent of the refinement set).
  */
-export function refineForYield(studyInput: YieldStudy, options: RefineForYieldOptions = {}): RefineForYieldResult {
+export function refineForYield(
+  studyInput: YieldStudy,
+  options: RefineForYieldOptions = {},
+): RefineForYieldResult {
   const study = parseYieldStudy(studyInput);
   const design = study.design as Design;
   const evaluator = createSpecEvaluator(design, study.mask);
   const free = resolveFreeLayers(design, options);
   const K = options.crnTrials ?? 48;
-  if (!Number.isInteger(K) || K < 1 || K > 2000) throw new RangeError(`crnTrials must be an integer in 1..2000, got ${K}`);
+  if (!Number.isInteger(K) || K < 1 || K > 2000)
+    throw new RangeError(`crnTrials must be an integer in 1..2000, got ${K}`);
   const evalTrials = options.evaluationTrials ?? study.trials;
   if (!Number.isInteger(evalTrials) || evalTrials < 1 || evalTrials > 200000) {
     throw new RangeError(`evaluationTrials must be an integer in 1..200000, got ${evalTrials}`);
   }
-  const sampler = createTrialSampler(study.errorModel, design.layers.map((l) => l.material));
+  const sampler = createTrialSampler(
+    study.errorModel,
+    design.layers.map((l) => l.material),
+  );
   const rng = new TrialRandom();
   const crnSeed = `${study.seed}/refine`;
   const L = evaluator.layerCount;

@@ -36,10 +36,15 @@ export interface SpecSensitivity {
  * factor on N with relative step {@link SENSITIVITY_INDEX_STEP}, reported per 1 % change). Margins are
  * piecewise smooth (the worst sample can move), so derivatives are local.
  */
-export function specSensitivity(design: Design, maskInput: SpecMask, options: { stepNm?: number } = {}): SpecSensitivity {
+export function specSensitivity(
+  design: Design,
+  maskInput: SpecMask,
+  options: { stepNm?: number } = {},
+): SpecSensitivity {
   const mask = parseSpecMask(maskInput);
   const h = options.stepNm ?? SENSITIVITY_STEP_NM;
-  if (!(h > 0) || !Number.isFinite(h)) throw new RangeError(`stepNm must be a positive number of nm, got ${h}`);
+  if (!(h > 0) || !Number.isFinite(h))
+    throw new RangeError(`stepNm must be a positive number of nm, got ${h}`);
   const ev = createSpecEvaluator(design, mask);
   const L = ev.layerCount;
   const B = ev.bands.length;
@@ -62,7 +67,8 @@ export function specSensitivity(design: Design, maskInput: SpecMask, options: { 
     }
     work[j] = d;
     const span = d >= h ? 2 * h : h;
-    for (let b = 0; b < B; b++) (dThick[b] as number[])[j] = ((plus[b] as number) - (minus[b] as number)) / span;
+    for (let b = 0; b < B; b++)
+      (dThick[b] as number[])[j] = ((plus[b] as number) - (minus[b] as number)) / span;
   }
   const materials = [...new Set(design.layers.map((l) => l.material))].sort();
   const e = SENSITIVITY_INDEX_STEP;
@@ -73,7 +79,8 @@ export function specSensitivity(design: Design, maskInput: SpecMask, options: { 
     ev.margins(nominal, plus, scale);
     design.layers.forEach((l, j) => (scale[j] = l.material === m ? 1 - e : 1));
     ev.margins(nominal, minus, scale);
-    for (let b = 0; b < B; b++) (dIndex[b] as Record<string, number>)[m] = (((plus[b] as number) - (minus[b] as number)) / (2 * e)) / 100;
+    for (let b = 0; b < B; b++)
+      (dIndex[b] as Record<string, number>)[m] = ((plus[b] as number) - (minus[b] as number)) / (2 * e) / 100;
   }
   const bands = ev.bands.map((plan, b) => ({
     id: plan.id,
@@ -85,7 +92,9 @@ export function specSensitivity(design: Design, maskInput: SpecMask, options: { 
     .map((l, j) => ({
       layer: j,
       material: l.material,
-      score: bands.reduce((s, band) => s + Math.abs(band.thickness[j] as number), 0) * ((nominal[j] as number) / 100),
+      score:
+        bands.reduce((s, band) => s + Math.abs(band.thickness[j] as number), 0) *
+        ((nominal[j] as number) / 100),
     }))
     .sort((a, b) => b.score - a.score || a.layer - b.layer);
   return { bands, criticalLayers, stepNm: h, indexStep: e };
@@ -116,13 +125,19 @@ export interface SensitivityMap {
  */
 export function sensitivityMap(design: Design, options: SensitivityMapOptions): SensitivityMap {
   const h = options.stepNm ?? SENSITIVITY_STEP_NM;
-  if (!(h > 0) || !Number.isFinite(h)) throw new RangeError(`stepNm must be a positive number of nm, got ${h}`);
+  if (!(h > 0) || !Number.isFinite(h))
+    throw new RangeError(`stepNm must be a positive number of nm, got ${h}`);
   if (!Array.isArray(options.wavelengths) || options.wavelengths.length === 0) {
     throw new RangeError("wavelengths: expected at least one wavelength in nm, got none");
   }
-  if (options.quantity !== "R" && options.quantity !== "T") throw new RangeError(`quantity: expected "R" or "T", got ${String(options.quantity)}`);
+  if (options.quantity !== "R" && options.quantity !== "T")
+    throw new RangeError(`quantity: expected "R" or "T", got ${String(options.quantity)}`);
   const wl = Float64Array.from(options.wavelengths);
-  const ev = createStackEvaluator(design, { wavelengths: wl, angleDeg: options.angleDeg, polarization: options.polarization });
+  const ev = createStackEvaluator(design, {
+    wavelengths: wl,
+    angleDeg: options.angleDeg,
+    polarization: options.polarization,
+  });
   const n = wl.length;
   const mk = () => ({ R: new Float64Array(n), T: new Float64Array(n), A: new Float64Array(n) });
   const p = mk();
@@ -142,5 +157,12 @@ export function sensitivityMap(design: Design, options: SensitivityMapOptions): 
     const qm = options.quantity === "R" ? m.R : m.T;
     matrix.push(Array.from(qp, (v, i) => ((v - (qm[i] as number)) * 100) / span));
   }
-  return { wavelengths: options.wavelengths.slice(), quantity: options.quantity, angleDeg: options.angleDeg, polarization: options.polarization, matrix, stepNm: h };
+  return {
+    wavelengths: options.wavelengths.slice(),
+    quantity: options.quantity,
+    angleDeg: options.angleDeg,
+    polarization: options.polarization,
+    matrix,
+    stepNm: h,
+  };
 }

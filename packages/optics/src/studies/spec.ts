@@ -38,7 +38,12 @@ export const SpecBandSchema = z
   })
   .superRefine((band, ctx) => {
     if (band.stop < band.start) {
-      ctx.addIssue({ code: "custom", path: ["stop"], input: band.stop, message: `stop must be ≥ start (${band.start} nm)` });
+      ctx.addIssue({
+        code: "custom",
+        path: ["stop"],
+        input: band.stop,
+        message: `stop must be ≥ start (${band.start} nm)`,
+      });
     }
     if (band.step !== undefined && (band.stop - band.start) / band.step + 1 > MAX_BAND_POINTS) {
       ctx.addIssue({
@@ -61,7 +66,12 @@ export const SpecMaskSchema = z
     const seen = new Set<string>();
     mask.bands.forEach((band, i) => {
       if (seen.has(band.id)) {
-        ctx.addIssue({ code: "custom", path: ["bands", i, "id"], input: band.id, message: "duplicate band id" });
+        ctx.addIssue({
+          code: "custom",
+          path: ["bands", i, "id"],
+          input: band.id,
+          message: "duplicate band id",
+        });
       }
       seen.add(band.id);
     });
@@ -112,7 +122,9 @@ export function bandWavelengths(band: Pick<SpecBand, "start" | "stop" | "step">)
   if (band.step === undefined) {
     const points = Math.min(DEFAULT_BAND_MAX_POINTS, Math.floor(span / DEFAULT_BAND_STEP_NM + 1e-9) + 1);
     if (points === DEFAULT_BAND_MAX_POINTS) {
-      return Array.from({ length: points }, (_, k) => (k === points - 1 ? stop : start + (span * k) / (points - 1)));
+      return Array.from({ length: points }, (_, k) =>
+        k === points - 1 ? stop : start + (span * k) / (points - 1),
+      );
     }
   }
   const step = band.step ?? DEFAULT_BAND_STEP_NM;
@@ -186,7 +198,13 @@ export interface SpecEvaluator {
    * Residuals whose sum of squares is the merit (no allocation). Limits are moved inward by
    * `marginGoal` (band units) so that refinement aims for that much margin.
    */
-  residuals(thicknesses: Float64Array, out: Float64Array, marginGoal?: number, indexScale?: Float64Array, offset?: number): void;
+  residuals(
+    thicknesses: Float64Array,
+    out: Float64Array,
+    marginGoal?: number,
+    indexScale?: Float64Array,
+    offset?: number,
+  ): void;
   /** Values of band `b` (band units) at its samples from the last {@link SpecEvaluator.compute}, into `out`. */
   bandValues(b: number, out: Float64Array): void;
 }
@@ -228,7 +246,9 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
     const first = mask.bands[members[0] ?? 0];
     if (!first) return;
     const unique = new Map<number, number>();
-    for (const b of members) for (const w of bandSamples[b] ?? []) if (!unique.has(wavelengthKey(w))) unique.set(wavelengthKey(w), w);
+    for (const b of members)
+      for (const w of bandSamples[b] ?? [])
+        if (!unique.has(wavelengthKey(w))) unique.set(wavelengthKey(w), w);
     const wl = Float64Array.from([...unique.values()].sort((a, c) => a - c));
     const position = new Map<number, number>();
     wl.forEach((w, i) => position.set(wavelengthKey(w), i));
@@ -385,7 +405,12 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
       const idx = plan.indices;
       for (let k = 0; k < idx.length; k++) {
         const i = idx[k] as number;
-        out[k] = quantityValue(plan.band.quantity, group.R[i] as number, group.T[i] as number, group.A[i] as number);
+        out[k] = quantityValue(
+          plan.band.quantity,
+          group.R[i] as number,
+          group.T[i] as number,
+          group.A[i] as number,
+        );
       }
     },
   };
@@ -399,7 +424,11 @@ export function sumOfSquares(r: Float64Array): number {
 }
 
 /** Merit of the last-evaluable state for given thicknesses (allocates one residual buffer). */
-export function meritOf(evaluator: SpecEvaluator, thicknesses: Float64Array, indexScale?: Float64Array): number {
+export function meritOf(
+  evaluator: SpecEvaluator,
+  thicknesses: Float64Array,
+  indexScale?: Float64Array,
+): number {
   const r = new Float64Array(evaluator.residualCount);
   evaluator.residuals(thicknesses, r, 0, indexScale);
   return sumOfSquares(r);

@@ -3,7 +3,8 @@ import type { z } from "zod";
 /** Short, JSON-like rendering of an offending value for error messages. */
 export function describeValue(value: unknown): string {
   if (value === undefined) return "undefined (missing)";
-  if (typeof value === "string") return JSON.stringify(value.length > 60 ? `${value.slice(0, 57)}...` : value);
+  if (typeof value === "string")
+    return JSON.stringify(value.length > 60 ? `${value.slice(0, 57)}...` : value);
   if (typeof value === "number" || typeof value === "boolean" || value === null) return String(value);
   if (Array.isArray(value)) return `an array of ${value.length}`;
   return "an object";

@@ -17,11 +17,13 @@ export interface ProportionInterval {
  * `confidence` is reported as 0.95 for the default z; for another z it is 2Φ(z) − 1.
  */
 export function wilsonInterval(successes: number, n: number, z: number = Z_95): ProportionInterval {
-  if (!Number.isInteger(n) || n < 1) throw new RangeError(`wilsonInterval: n must be a positive integer, got ${n}`);
+  if (!Number.isInteger(n) || n < 1)
+    throw new RangeError(`wilsonInterval: n must be a positive integer, got ${n}`);
   if (!Number.isInteger(successes) || successes < 0 || successes > n) {
     throw new RangeError(`wilsonInterval: successes must be an integer in 0..${n}, got ${successes}`);
   }
-  if (!(z > 0) || !Number.isFinite(z)) throw new RangeError(`wilsonInterval: z must be a positive number, got ${z}`);
+  if (!(z > 0) || !Number.isFinite(z))
+    throw new RangeError(`wilsonInterval: z must be a positive number, got ${z}`);
   const p = successes / n;
   const z2 = z * z;
   const denom = 1 + z2 / n;
@@ -38,7 +40,9 @@ export function wilsonInterval(successes: number, n: number, z: number = Z_95): 
 function normalCdf(x: number): number {
   const t = 1 / (1 + 0.3275911 * (Math.abs(x) / Math.SQRT2));
   const y =
-    1 - ((((1.061405429 * t - 1.453152027) * t + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t *
+    1 -
+    ((((1.061405429 * t - 1.453152027) * t + 1.421413741) * t - 0.284496736) * t + 0.254829592) *
+      t *
       Math.exp(-(x * x) / 2);
   return x >= 0 ? 0.5 * (1 + y) : 0.5 * (1 - y);
 }

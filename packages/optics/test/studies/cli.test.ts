@@ -24,10 +24,12 @@ function cli(args: string[], cwd = dir): Promise<{ code: number; stdout: string;
 
 beforeAll(async () => {
   dir = await mkdtemp(join(tmpdir(), "optics-cli-"));
-  const study = JSON.parse(await readFile(example, "utf8")) as Record<string, unknown> & { errorModel: { thickness: Record<string, unknown> } };
+  const study = JSON.parse(await readFile(example, "utf8")) as Record<string, unknown> & {
+    errorModel: { thickness: Record<string, unknown> };
+  };
   await writeFile(join(dir, "small.json"), JSON.stringify({ ...study, trials: 120 }));
   await writeFile(join(dir, "design.json"), JSON.stringify(study.design));
-  await writeFile(join(dir, "broken.json"), "{ \"trials\": ");
+  await writeFile(join(dir, "broken.json"), '{ "trials": ');
   study.errorModel.thickness.relativePct = -2;
   await writeFile(join(dir, "negative.json"), JSON.stringify(study));
 });
@@ -37,18 +39,38 @@ afterAll(async () => {
 
 describe("optics CLI", { timeout: 60_000 }, () => {
   it("spectrum prints R, T, A per polarization and complex r, resolving files against INIT_CWD", async () => {
-    const res = await cli(["spectrum", "design.json", "--from", "500", "--to", "510", "--step", "5", "--angle", "20"]);
+    const res = await cli([
+      "spectrum",
+      "design.json",
+      "--from",
+      "500",
+      "--to",
+      "510",
+      "--step",
+      "5",
+      "--angle",
+      "20",
+    ]);
     expect(res.code).toBe(0);
-    const out = JSON.parse(res.stdout) as { wavelengths: number[]; s: { R: number[]; T: number[]; rRe: number[]; rIm: number[] }; u: { R: number[] } };
+    const out = JSON.parse(res.stdout) as {
+      wavelengths: number[];
+      s: { R: number[]; T: number[]; rRe: number[]; rIm: number[] };
+      u: { R: number[] };
+    };
     expect(out.wavelengths).toEqual([500, 505, 510]);
     // Lossless stack: R + T = 1 (energy conservation, Macleod)
     out.s.R.forEach((r, i) => expect(r + (out.s.T[i] as number)).toBeCloseTo(1, 9));
     // R = |r|²
-    out.s.R.forEach((r, i) => expect(r).toBeCloseTo((out.s.rRe[i] as number) ** 2 + (out.s.rIm[i] as number) ** 2, 12));
+    out.s.R.forEach((r, i) =>
+      expect(r).toBeCloseTo((out.s.rRe[i] as number) ** 2 + (out.s.rIm[i] as number) ** 2, 12),
+    );
   });
 
   it("yield with 2 worker threads prints exactly the single-thread result", async () => {
-    const [one, two] = [await cli(["yield", "small.json"]), await cli(["yield", "small.json", "--workers", "2"])];
+    const [one, two] = [
+      await cli(["yield", "small.json"]),
+      await cli(["yield", "small.json", "--workers", "2"]),
+    ];
     expect(one.code).toBe(0);
     expect(two.code).toBe(0);
     expect(two.stdout).toBe(one.stdout);
@@ -74,8 +96,14 @@ describe("optics CLI", { timeout: 60_000 }, () => {
 
   // In process (same runCli the entry point calls), to keep the suite fast.
   it.each([
-    [["yield", "small.json", "--workers", "0"], /^optics yield: --workers: expected an integer in 1\.\.64, got 0$/],
-    [["spectrum", "design.json", "--step", "-1"], /^optics spectrum: --step: expected a step > 0 nm, got -1$/],
+    [
+      ["yield", "small.json", "--workers", "0"],
+      /^optics yield: --workers: expected an integer in 1\.\.64, got 0$/,
+    ],
+    [
+      ["spectrum", "design.json", "--step", "-1"],
+      /^optics spectrum: --step: expected a step > 0 nm, got -1$/,
+    ],
     [["spectrum", "small.json"], /^optics spectrum: design\.format: /],
     [["frobnicate"], /^optics frobnicate: unknown command/],
     [["spectrum", "design.json", "--colour", "red"], /^optics spectrum: unknown option --colour/],

@@ -48,7 +48,10 @@ describe("error model", () => {
   });
 
   it("zero model leaves thicknesses and indices nominal", () => {
-    const s = createTrialSampler({ thickness: { relativePct: 0, absoluteNm: 0, distribution: "normal" } }, ["a", "b"]);
+    const s = createTrialSampler({ thickness: { relativePct: 0, absoluteNm: 0, distribution: "normal" } }, [
+      "a",
+      "b",
+    ]);
     const out = new Float64Array(2);
     const scale = new Float64Array(2);
     s.sample(new TrialRandom(), "z", 0, Float64Array.of(10, 20), out, scale);
@@ -66,12 +69,17 @@ describe("error model", () => {
   });
 
   it("rejects bad input with a RangeError naming field and value", () => {
-    expect(() => parseErrorModel({ thickness: { relativePct: -1, absoluteNm: 0, distribution: "normal" } })).toThrow(
-      /errorModel\.thickness\.relativePct: .*got -1/,
-    );
-    expect(() => parseErrorModel({ thickness: { relativePct: 1, absoluteNm: 0, distribution: "gauss" } })).toThrow(/distribution.*"gauss"/);
-    expect(() => parseErrorModel({ thickness: { relativePct: 1, absoluteNm: 0, distribution: "normal" }, systematicPct: { SiO2: -2 } })).toThrow(
-      /systematicPct.*-2|systematicPct/,
-    );
+    expect(() =>
+      parseErrorModel({ thickness: { relativePct: -1, absoluteNm: 0, distribution: "normal" } }),
+    ).toThrow(/errorModel\.thickness\.relativePct: .*got -1/);
+    expect(() =>
+      parseErrorModel({ thickness: { relativePct: 1, absoluteNm: 0, distribution: "gauss" } }),
+    ).toThrow(/distribution.*"gauss"/);
+    expect(() =>
+      parseErrorModel({
+        thickness: { relativePct: 1, absoluteNm: 0, distribution: "normal" },
+        systematicPct: { SiO2: -2 },
+      }),
+    ).toThrow(/systematicPct.*-2|systematicPct/);
   });
 });

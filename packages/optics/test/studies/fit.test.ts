@@ -22,7 +22,10 @@ const wavelengths = Array.from({ length: 161 }, (_, i) => 400 + i * 2.5);
 const wide = Array.from({ length: 161 }, (_, i) => 400 + i * 5);
 
 function measured(d: Design, scaleOf?: (material: string) => number, grid = wavelengths): number[] {
-  const built = withThicknesses(d, d.layers.map((l, i) => l.thickness * (1 + (injected[i] as number) / 100)));
+  const built = withThicknesses(
+    d,
+    d.layers.map((l, i) => l.thickness * (1 + (injected[i] as number) / 100)),
+  );
   if (scaleOf && built.materials) {
     built.materials = built.materials.map((m) =>
       m.model.kind === "constant" ? { ...m, model: { ...m.model, n: m.model.n * scaleOf(m.id) } } : m,
@@ -43,7 +46,11 @@ describe("fitAsBuilt", () => {
 
   it("with fitIndexScale also recovers a 1 % index error of the high-index material (400–1200 nm)", () => {
     const values = measured(design, (id) => (id === "H230" ? 1.01 : 1), wide);
-    const fit = fitAsBuilt(design, { wavelengths: wide, values, quantity: "T", angleDeg: 0, polarization: "u" }, { fitIndexScale: true });
+    const fit = fitAsBuilt(
+      design,
+      { wavelengths: wide, values, quantity: "T", angleDeg: 0, polarization: "u" },
+      { fitIndexScale: true },
+    );
     expect(fit.residualRms).toBeLessThan(1e-6);
     expect(fit.indexScale.H230).toBeCloseTo(1.01, 6);
     expect(fit.indexScale.L138).toBeCloseTo(1, 6);
@@ -51,11 +58,23 @@ describe("fitAsBuilt", () => {
   });
 
   it("rejects bad measurements with a RangeError naming the value", () => {
-    expect(() => fitAsBuilt(design, { wavelengths: [500, 600], values: [1], quantity: "T", angleDeg: 0, polarization: "u" })).toThrow(
-      /measurement\.values: expected 2 values, got 1/,
-    );
-    expect(() => fitAsBuilt(design, { wavelengths: [500, -600], values: [1, 2], quantity: "T", angleDeg: 0, polarization: "u" })).toThrow(
-      /measurement\.wavelengths\[1\].*got -600/,
-    );
+    expect(() =>
+      fitAsBuilt(design, {
+        wavelengths: [500, 600],
+        values: [1],
+        quantity: "T",
+        angleDeg: 0,
+        polarization: "u",
+      }),
+    ).toThrow(/measurement\.values: expected 2 values, got 1/);
+    expect(() =>
+      fitAsBuilt(design, {
+        wavelengths: [500, -600],
+        values: [1, 2],
+        quantity: "T",
+        angleDeg: 0,
+        polarization: "u",
+      }),
+    ).toThrow(/measurement\.wavelengths\[1\].*got -600/);
   });
 });

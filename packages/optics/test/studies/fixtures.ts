@@ -10,7 +10,12 @@ const constant = (id: string, n: number, k = 0) => ({
 });
 
 /** Materials: glass n = 1.52, L n = 1.38, M n = 1.70, H n = 2.30 (all lossless, dispersion-free). */
-export const TEST_MATERIALS = [constant("glass152", 1.52), constant("L138", 1.38), constant("M170", 1.7), constant("H230", 2.3)];
+export const TEST_MATERIALS = [
+  constant("glass152", 1.52),
+  constant("L138", 1.38),
+  constant("M170", 1.7),
+  constant("H230", 2.3),
+];
 
 const index: Record<string, number> = { glass152: 1.52, L138: 1.38, M170: 1.7, H230: 2.3 };
 
@@ -22,7 +27,10 @@ export function qwotDesign(layers: [string, number][], referenceWavelength = 550
     referenceWavelength,
     incident: "air",
     exit: "air",
-    layers: layers.map(([material, q]) => ({ material, thickness: (q * referenceWavelength) / (4 * (index[material] as number)) })),
+    layers: layers.map(([material, q]) => ({
+      material,
+      thickness: (q * referenceWavelength) / (4 * (index[material] as number)),
+    })),
     substrate: { material: "glass152", thicknessMm: 1, backside },
     materials: TEST_MATERIALS,
   };

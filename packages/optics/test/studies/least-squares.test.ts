@@ -49,7 +49,11 @@ describe("levenbergMarquardt", () => {
         parameterCount: 3,
         residualCount: t.length,
         residuals(x, out) {
-          t.forEach((ti, i) => (out[i] = (x[0] as number) * Math.exp(-(x[1] as number) * ti) + (x[2] as number) - (y[i] as number)));
+          t.forEach(
+            (ti, i) =>
+              (out[i] =
+                (x[0] as number) * Math.exp(-(x[1] as number) * ti) + (x[2] as number) - (y[i] as number)),
+          );
         },
       },
       [1, 0.5, 0],

@@ -21,12 +21,46 @@ const study = (over: Partial<YieldStudy> = {}): YieldStudy => ({
   ]),
   mask: {
     bands: [
-      { id: "ar", start: 480, stop: 620, step: 5, quantity: "R", polarization: "u", angleDeg: 0, requirement: "max", value: 0.3 },
-      { id: "avg", start: 450, stop: 650, step: 10, quantity: "R", polarization: "u", angleDeg: 0, requirement: "avgMax", value: 0.12 },
-      { id: "oblique", start: 500, stop: 600, step: 10, quantity: "T", polarization: "s", angleDeg: 30, requirement: "min", value: 99.7 },
+      {
+        id: "ar",
+        start: 480,
+        stop: 620,
+        step: 5,
+        quantity: "R",
+        polarization: "u",
+        angleDeg: 0,
+        requirement: "max",
+        value: 0.3,
+      },
+      {
+        id: "avg",
+        start: 450,
+        stop: 650,
+        step: 10,
+        quantity: "R",
+        polarization: "u",
+        angleDeg: 0,
+        requirement: "avgMax",
+        value: 0.12,
+      },
+      {
+        id: "oblique",
+        start: 500,
+        stop: 600,
+        step: 10,
+        quantity: "T",
+        polarization: "s",
+        angleDeg: 30,
+        requirement: "min",
+        value: 99.7,
+      },
     ],
   },
-  errorModel: { thickness: { relativePct: 2, absoluteNm: 0.5, distribution: "normal" }, systematicPct: 0.5, indexDriftPct: 0.5 },
+  errorModel: {
+    thickness: { relativePct: 2, absoluteNm: 0.5, distribution: "normal" },
+    systematicPct: 0.5,
+    indexDriftPct: 0.5,
+  },
   trials: 301,
   seed: "HTW-test-7",
   ...over,
@@ -94,7 +128,11 @@ describe("Monte Carlo yield", () => {
     expect(res.yield).toBe(nominal.pass ? 1 : 0);
     expect(res.nominal.pass).toBe(nominal.pass);
     // A mask the nominal design fails: yield 0.
-    const failing = study({ errorModel: zero, trials: 20, mask: { bands: [{ ...s.mask.bands[0]!, value: 0.01 }] } });
+    const failing = study({
+      errorModel: zero,
+      trials: 20,
+      mask: { bands: [{ ...s.mask.bands[0]!, value: 0.01 }] },
+    });
     expect(mergeYieldChunks(failing, [runYieldChunk(failing, 0, 20)]).yield).toBe(0);
   });
 
@@ -115,9 +153,11 @@ describe("Monte Carlo yield", () => {
 
   it("ranks layers by the correlation of their errors with failure, strongest first", () => {
     const res = mergeYieldChunks(study(), [runYieldChunk(study(), 0, 301)]);
-    const score = (l: (typeof res.criticalLayers)[number]) => Math.max(Math.abs(l.correlation), Math.abs(l.absErrorCorrelation));
+    const score = (l: (typeof res.criticalLayers)[number]) =>
+      Math.max(Math.abs(l.correlation), Math.abs(l.absErrorCorrelation));
     expect(score(res.criticalLayers[0]!)).toBeGreaterThan(0.2);
-    for (let i = 1; i < res.criticalLayers.length; i++) expect(score(res.criticalLayers[i]!)).toBeLessThanOrEqual(score(res.criticalLayers[i - 1]!));
+    for (let i = 1; i < res.criticalLayers.length; i++)
+      expect(score(res.criticalLayers[i]!)).toBeLessThanOrEqual(score(res.criticalLayers[i - 1]!));
     res.criticalLayers.forEach((l) => expect(Math.abs(l.correlation)).toBeLessThanOrEqual(1));
   });
 
@@ -128,10 +168,15 @@ describe("Monte Carlo yield", () => {
     expect(() => runYieldChunk(study({ seed: "" }), 0, 1)).toThrow(/study\.seed/);
     const s = study({ trials: 10 });
     expect(() => mergeYieldChunks(s, [runYieldChunk(s, 0, 5)])).toThrow(/cover 5 trials, study has 10/);
-    expect(() => mergeYieldChunks(s, [runYieldChunk(s, 0, 5), runYieldChunk(s, 4, 6)])).toThrow(/starting at trial 5, got 4/);
+    expect(() => mergeYieldChunks(s, [runYieldChunk(s, 0, 5), runYieldChunk(s, 4, 6)])).toThrow(
+      /starting at trial 5, got 4/,
+    );
     const badMaterial = study();
-    (badMaterial.design as { layers: { material: string; thickness: number }[] }).layers[0]!.material = "unobtainium";
-    expect(() => runYieldChunk(badMaterial, 0, 1)).toThrow(/study\.design\.layers\[0\]\.material.*"unobtainium"/);
+    (badMaterial.design as { layers: { material: string; thickness: number }[] }).layers[0]!.material =
+      "unobtainium";
+    expect(() => runYieldChunk(badMaterial, 0, 1)).toThrow(
+      /study\.design\.layers\[0\]\.material.*"unobtainium"/,
+    );
   });
 });
 
@@ -152,13 +197,22 @@ describe("Monte Carlo chunking (property)", () => {
     const s = study({ trials: 64 });
     const reference = JSON.stringify(mergeYieldChunks(s, [runYieldChunk(s, 0, 64)]));
     fc.assert(
-      fc.property(fc.array(fc.integer({ min: 1, max: 63 }), { maxLength: 8 }), fc.integer(), (cuts, shuffleSeed) => {
-        const edges = [...new Set([0, ...cuts, 64])].sort((a, b) => a - b);
-        const chunks = edges.slice(1).map((end, k) => runYieldChunk(s, edges[k] as number, end - (edges[k] as number)));
-        // deterministic shuffle of the merge order
-        const order = chunks.map((c, k) => ({ c, key: Math.sin(shuffleSeed + k * 7.1) })).sort((a, b) => a.key - b.key).map((x) => x.c);
-        expect(JSON.stringify(mergeYieldChunks(s, order))).toBe(reference);
-      }),
+      fc.property(
+        fc.array(fc.integer({ min: 1, max: 63 }), { maxLength: 8 }),
+        fc.integer(),
+        (cuts, shuffleSeed) => {
+          const edges = [...new Set([0, ...cuts, 64])].sort((a, b) => a - b);
+          const chunks = edges
+            .slice(1)
+            .map((end, k) => runYieldChunk(s, edges[k] as number, end - (edges[k] as number)));
+          // deterministic shuffle of the merge order
+          const order = chunks
+            .map((c, k) => ({ c, key: Math.sin(shuffleSeed + k * 7.1) }))
+            .sort((a, b) => a.key - b.key)
+            .map((x) => x.c);
+          expect(JSON.stringify(mergeYieldChunks(s, order))).toBe(reference);
+        },
+      ),
       { numRuns: 12, seed: 20261201 },
     );
   });
@@ -168,7 +222,10 @@ describe("Monte Carlo warnings", () => {
   it("names error-model materials that no layer uses (a typo would silently drop an error term)", () => {
     const s = study({
       trials: 5,
-      errorModel: { thickness: { relativePct: 1, absoluteNm: 0, distribution: "normal" }, systematicPct: { H230: 0.5, H203: 0.5 } },
+      errorModel: {
+        thickness: { relativePct: 1, absoluteNm: 0, distribution: "normal" },
+        systematicPct: { H230: 0.5, H203: 0.5 },
+      },
     });
     const res = mergeYieldChunks(s, [runYieldChunk(s, 0, 5)]);
     expect(res.warnings).toEqual(['errorModel.systematicPct names material "H203", which no layer uses']);

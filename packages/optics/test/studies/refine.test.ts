@@ -1,5 +1,11 @@
 import { describe, expect, it } from "vitest";
-import { evaluateSpec, fitAsBuilt, refineDesign, refineForYield, withThicknesses } from "../../src/studies/index.ts";
+import {
+  evaluateSpec,
+  fitAsBuilt,
+  refineDesign,
+  refineForYield,
+  withThicknesses,
+} from "../../src/studies/index.ts";
 import type { SpecMask, YieldStudy } from "../../src/studies/index.ts";
 import { computeSpectrum } from "../../src/core/index.ts";
 import { htwAr4 } from "./fixtures.ts";
@@ -7,15 +13,49 @@ import { htwAr4 } from "./fixtures.ts";
 // The mask of docs/examples/study-htw-ar4.json.
 const mask: SpecMask = {
   bands: [
-    { id: "vis-max", start: 430, stop: 670, step: 2, quantity: "R", polarization: "u", angleDeg: 0, requirement: "max", value: 0.6 },
-    { id: "vis-avg", start: 450, stop: 650, step: 5, quantity: "R", polarization: "u", angleDeg: 0, requirement: "avgMax", value: 0.3 },
-    { id: "oblique-30", start: 450, stop: 650, step: 10, quantity: "R", polarization: "s", angleDeg: 30, requirement: "max", value: 1.2, tolerance: 0.1 },
+    {
+      id: "vis-max",
+      start: 430,
+      stop: 670,
+      step: 2,
+      quantity: "R",
+      polarization: "u",
+      angleDeg: 0,
+      requirement: "max",
+      value: 0.6,
+    },
+    {
+      id: "vis-avg",
+      start: 450,
+      stop: 650,
+      step: 5,
+      quantity: "R",
+      polarization: "u",
+      angleDeg: 0,
+      requirement: "avgMax",
+      value: 0.3,
+    },
+    {
+      id: "oblique-30",
+      start: 450,
+      stop: 650,
+      step: 10,
+      quantity: "R",
+      polarization: "s",
+      angleDeg: 30,
+      requirement: "max",
+      value: 1.2,
+      tolerance: 0.1,
+    },
   ],
 };
 const perturb = [1.08, 0.92, 1.08, 0.92];
 const perturbed = () => {
   const d = htwAr4();
-  return withThicknesses(d, d.layers.map((l, i) => l.thickness * (perturb[i] as number)));
+  return withThicknesses(
+    d,
+    d.layers.map((l, i) => l.thickness * (perturb[i] as number)),
+  );
 };
 
 describe("refineDesign", () => {
@@ -35,7 +75,10 @@ describe("refineDesign", () => {
   it("keeps locked layers and bounds", () => {
     const start = perturbed();
     start.layers[3] = { ...start.layers[3]!, locked: true };
-    const res = refineDesign(start, mask, { lockedLayers: [0], layerBounds: [{ index: 1, min: 40, max: 50 }] });
+    const res = refineDesign(start, mask, {
+      lockedLayers: [0],
+      layerBounds: [{ index: 1, min: 40, max: 50 }],
+    });
     expect(res.design.layers[3]?.thickness).toBe(start.layers[3]?.thickness);
     expect(res.design.layers[0]?.thickness).toBe(start.layers[0]?.thickness);
     expect(res.design.layers[1]?.thickness).toBeGreaterThanOrEqual(40);
@@ -45,8 +88,12 @@ describe("refineDesign", () => {
   });
 
   it("rejects bad options with a RangeError naming the value", () => {
-    expect(() => refineDesign(htwAr4(), mask, { lockedLayers: [7] })).toThrow(/lockedLayers: layer index must be in 0\.\.3, got 7/);
-    expect(() => refineDesign(htwAr4(), mask, { minThickness: -1 })).toThrow(/minThickness must be ≥ 0 nm, got -1/);
+    expect(() => refineDesign(htwAr4(), mask, { lockedLayers: [7] })).toThrow(
+      /lockedLayers: layer index must be in 0\.\.3, got 7/,
+    );
+    expect(() => refineDesign(htwAr4(), mask, { minThickness: -1 })).toThrow(
+      /minThickness must be ≥ 0 nm, got -1/,
+    );
   });
 });
 

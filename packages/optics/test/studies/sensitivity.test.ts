@@ -14,7 +14,7 @@ function singleFilmDRdd(n0: number, n1: number, ns: number, d: number, lambda: n
   const num = r1 * r1 + r2 * r2 + 2 * r1 * r2 * c;
   const den = 1 + r1 * r1 * r2 * r2 + 2 * r1 * r2 * c;
   const dc = (-s * 4 * Math.PI * n1) / lambda;
-  return ((2 * r1 * r2 * dc) * den - num * (2 * r1 * r2 * dc)) / (den * den);
+  return (2 * r1 * r2 * dc * den - num * (2 * r1 * r2 * dc)) / (den * den);
 }
 
 describe("sensitivityMap", () => {
@@ -31,22 +31,50 @@ describe("sensitivityMap", () => {
   });
 
   it("is zero at λ0 for a quarter-wave layer: R is stationary there (Macleod, quarter-wave layer)", () => {
-    const map = sensitivityMap(qwotDesign([["L138", 1]]), { wavelengths: [550], angleDeg: 0, polarization: "u", quantity: "T" });
+    const map = sensitivityMap(qwotDesign([["L138", 1]]), {
+      wavelengths: [550],
+      angleDeg: 0,
+      polarization: "u",
+      quantity: "T",
+    });
     expect(Math.abs(map.matrix[0]![0]!)).toBeLessThan(1e-6);
   });
 
   it("rejects bad options with a RangeError naming the value", () => {
-    expect(() => sensitivityMap(qwotDesign([["L138", 1]]), { wavelengths: [550], angleDeg: 0, polarization: "u", quantity: "A" as "R" })).toThrow(
-      /quantity: expected "R" or "T", got A/,
-    );
+    expect(() =>
+      sensitivityMap(qwotDesign([["L138", 1]]), {
+        wavelengths: [550],
+        angleDeg: 0,
+        polarization: "u",
+        quantity: "A" as "R",
+      }),
+    ).toThrow(/quantity: expected "R" or "T", got A/);
   });
 });
 
 describe("specSensitivity", () => {
   const mask: SpecMask = {
     bands: [
-      { id: "r600", start: 600, stop: 600, quantity: "R", polarization: "u", angleDeg: 0, requirement: "max", value: 5 },
-      { id: "t450", start: 450, stop: 450, quantity: "T", polarization: "u", angleDeg: 0, requirement: "min", value: 90 },
+      {
+        id: "r600",
+        start: 600,
+        stop: 600,
+        quantity: "R",
+        polarization: "u",
+        angleDeg: 0,
+        requirement: "max",
+        value: 5,
+      },
+      {
+        id: "t450",
+        start: 450,
+        stop: 450,
+        quantity: "T",
+        polarization: "u",
+        angleDeg: 0,
+        requirement: "min",
+        value: 90,
+      },
     ],
   };
   const design = qwotDesign([
@@ -67,10 +95,12 @@ describe("specSensitivity", () => {
     const base = evaluateSpec(design, mask).bands[0]!.margin;
     const raised = {
       ...design,
-      materials: TEST_MATERIALS.map((m) => (m.id === "H230" ? { ...m, model: { ...m.model, n: 2.3 * 1.001 } } : m)),
+      materials: TEST_MATERIALS.map((m) =>
+        m.id === "H230" ? { ...m, model: { ...m.model, n: 2.3 * 1.001 } } : m,
+      ),
     };
     const shifted = evaluateSpec(raised, mask).bands[0]!.margin;
     // forward difference over 0.1 %, expressed per 1 %
-    expect(sens.bands[0]!.index.H230).toBeCloseTo(((shifted - base) / 0.1), 2);
+    expect(sens.bands[0]!.index.H230).toBeCloseTo((shifted - base) / 0.1, 2);
   });
 });

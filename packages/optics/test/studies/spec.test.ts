@@ -65,7 +65,9 @@ describe("evaluateSpec on hand-checked designs", () => {
     // merit = mean squared violation (one sample) = (R − 4)²
     expect(bad.merit).toBeCloseTo((R_GLASS - 4) ** 2, 6);
     // T min on bare glass: T = 1 − R (lossless, single surface; energy conservation)
-    const t = evaluateSpec(design, { bands: [band({ id: "t", quantity: "T", requirement: "min", value: 95 })] });
+    const t = evaluateSpec(design, {
+      bands: [band({ id: "t", quantity: "T", requirement: "min", value: 95 })],
+    });
     expect(t.bands[0]?.margin).toBeCloseTo(100 - R_GLASS - 95, 6);
   });
 
@@ -86,7 +88,9 @@ describe("evaluateSpec on hand-checked designs", () => {
   });
 
   it("half-wave layer is absent at λ0: R equals bare glass (Macleod, absentee layer)", () => {
-    const res = evaluateSpec(qwotDesign([["H230", 2]]), { bands: [band({ id: "hw", requirement: "avgMax", value: 4.3 })] });
+    const res = evaluateSpec(qwotDesign([["H230", 2]]), {
+      bands: [band({ id: "hw", requirement: "avgMax", value: 4.3 })],
+    });
     expect(res.bands[0]?.average).toBeCloseTo(R_GLASS, 6);
     expect(res.bands[0]?.margin).toBeCloseTo(4.3 - R_GLASS, 6);
   });
@@ -128,21 +132,32 @@ describe("evaluateSpec on hand-checked designs", () => {
     const c = Math.cos(Math.PI / 4);
     const root = Math.sqrt(1.52 ** 2 - 0.5);
     const rs = ((c - root) / (c + root)) ** 2 * 100;
-    const res = evaluateSpec(qwotDesign([]), { bands: [band({ id: "s45", polarization: "s", angleDeg: 45, value: 10 })] });
+    const res = evaluateSpec(qwotDesign([]), {
+      bands: [band({ id: "s45", polarization: "s", angleDeg: 45, value: 10 })],
+    });
     expect(res.bands[0]?.worst.value).toBeCloseTo(rs, 6);
   });
 
   it("protective masks carry the certification caution", () => {
-    const res = evaluateSpec(qwotDesign([]), { protective: true, bands: [band({ quantity: "OD", requirement: "min", value: 0.01 })] });
+    const res = evaluateSpec(qwotDesign([]), {
+      protective: true,
+      bands: [band({ quantity: "OD", requirement: "min", value: 0.01 })],
+    });
     expect(res.cautions).toEqual([PROTECTIVE_CAUTION]);
     expect(res.bands[0]?.worst.value).toBeCloseTo(-Math.log10(1 - R_GLASS / 100), 6);
   });
 
   it("rejects bad masks with a RangeError naming the field and value", () => {
-    expect(() => parseSpecMask({ bands: [band({ start: 600, stop: 500 })] })).toThrow(/mask\.bands\[0\]\.stop: stop must be ≥ start.*got 500/);
-    expect(() => parseSpecMask({ bands: [{ ...band({}), quantity: "X" }] })).toThrow(/mask\.bands\[0\]\.quantity.*"X"/);
+    expect(() => parseSpecMask({ bands: [band({ start: 600, stop: 500 })] })).toThrow(
+      /mask\.bands\[0\]\.stop: stop must be ≥ start.*got 500/,
+    );
+    expect(() => parseSpecMask({ bands: [{ ...band({}), quantity: "X" }] })).toThrow(
+      /mask\.bands\[0\]\.quantity.*"X"/,
+    );
     expect(() => parseSpecMask({ bands: [band({ angleDeg: 95 })] })).toThrow(/angleDeg.*got 95/);
-    expect(() => parseSpecMask({ bands: [band({ id: "x" }), band({ id: "x" })] })).toThrow(/bands\[1\]\.id: duplicate band id, got "x"/);
+    expect(() => parseSpecMask({ bands: [band({ id: "x" }), band({ id: "x" })] })).toThrow(
+      /bands\[1\]\.id: duplicate band id, got "x"/,
+    );
     expect(() => parseSpecMask({ bands: [] })).toThrow(/mask\.bands/);
     expect(() => evaluateSpec(qwotDesign([]), { bands: [band({ step: -1 })] })).toThrow(RangeError);
   });
