@@ -223,22 +223,21 @@ export function SpectrumChart(props: SpectrumChartProps) {
           })}
           {envelopes
             .filter((e) => shown.has(e.quantity))
-            .map((e) => {
-              const idx = e.wavelengths.map((_, i) => i);
-              return (
+            .flatMap((e) =>
+              segments(e.wavelengths).map(([a, b], k) => (
                 <Area<number>
-                  key={e.id}
-                  data={idx}
+                  key={`${e.id}-${k}`}
+                  data={range(a, b)}
                   x={(i) => x(e.wavelengths[i] as number)}
                   y0={(i) => y(e.lower[i] as number)}
                   y1={(i) => y(e.upper[i] as number)}
                   fill={e.color}
-                  fillOpacity={0.22}
+                  fillOpacity={0.35}
                   stroke="none"
                   data-envelope={e.id}
                 />
-              );
-            })}
+              )),
+            )}
           {visibleCurves.map((c) => (
             <CurvePath key={c.id} curve={c} x={x} y={y} />
           ))}
@@ -313,6 +312,26 @@ function nearestIndexFor(c: ChartCurve, w: number): number {
     else hi = mid;
   }
   return Math.abs((wl[hi] as number) - w) < Math.abs((wl[lo] as number) - w) ? hi : lo;
+}
+
+/** Index runs of a sampled wavelength list, split where the spacing jumps (envelopes cover only the bands). */
+export function segments(wl: readonly number[]): [number, number][] {
+  if (wl.length === 0) return [];
+  let step = Infinity;
+  for (let i = 1; i < wl.length; i++) {
+    const d = (wl[i] as number) - (wl[i - 1] as number);
+    if (d > 0 && d < step) step = d;
+  }
+  const out: [number, number][] = [];
+  let start = 0;
+  for (let i = 1; i < wl.length; i++) {
+    if ((wl[i] as number) - (wl[i - 1] as number) > 2.5 * step) {
+      out.push([start, i - 1]);
+      start = i;
+    }
+  }
+  out.push([start, wl.length - 1]);
+  return out;
 }
 
 function range(a: number, b: number): number[] {

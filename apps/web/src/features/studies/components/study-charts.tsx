@@ -11,8 +11,8 @@ import type { SensitivityMap, SweepPoint, YieldResult } from "@stackproof/optics
 const tick = { fontSize: 10, fill: "#2c4669" } as const;
 const label = { fontSize: 11, fill: "#2c4669", textAnchor: "middle" } as const;
 
-export function MarginHistogram({ histogram, width, height = 180, unit }: { histogram: YieldResult["marginHistogram"]; width: number; height?: number; unit: string }) {
-  const m = { top: 8, right: 10, bottom: 36, left: 40 };
+export function MarginHistogram({ histogram, width, height = 190, unit }: { histogram: YieldResult["marginHistogram"]; width: number; height?: number; unit: string }) {
+  const m = { top: 8, right: 10, bottom: 44, left: 40 };
   const iw = Math.max(10, width - m.left - m.right);
   const ih = height - m.top - m.bottom;
   const lo = histogram.edges[0] ?? 0;
@@ -31,7 +31,7 @@ export function MarginHistogram({ histogram, width, height = 180, unit }: { hist
         })}
         {lo < 0 && hi > 0 ? <Line from={{ x: x(0), y: 0 }} to={{ x: x(0), y: ih }} stroke="#13233a" strokeDasharray="3 2" /> : null}
         <AxisLeft scale={y} numTicks={4} tickLabelProps={{ ...tick, textAnchor: "end", dx: -2, dy: 3 }} stroke="#5a708f" />
-        <AxisBottom top={ih} scale={x} numTicks={6} label={`Worst band margin (${unit})`} labelOffset={10} tickLabelProps={{ ...tick, textAnchor: "middle" }} labelProps={label} stroke="#5a708f" />
+        <AxisBottom top={ih} scale={x} numTicks={6} label={`Worst band margin (${unit})`} labelOffset={8} tickLabelProps={{ ...tick, textAnchor: "middle" }} labelProps={label} stroke="#5a708f" />
       </Group>
     </svg>
   );
@@ -67,7 +67,7 @@ export function CriticalLayers({ layers, width, materials, top = 10 }: { layers:
 }
 
 export function SweepChart({ points, target, width, height = 200 }: { points: readonly SweepPoint[]; target: number; width: number; height?: number }) {
-  const m = { top: 10, right: 12, bottom: 36, left: 44 };
+  const m = { top: 10, right: 12, bottom: 44, left: 44 };
   const iw = Math.max(10, width - m.left - m.right);
   const ih = height - m.top - m.bottom;
   const xs = points.map((p) => p.scale);
@@ -104,7 +104,7 @@ interface HeatColumn {
 export function SensitivityHeatmap({ map, width, materials }: { map: SensitivityMap; width: number; materials: readonly string[] }) {
   const layers = map.matrix.length;
   const cols = map.wavelengths.length;
-  const m = { top: 8, right: 12, bottom: 36, left: 52 };
+  const m = { top: 8, right: 12, bottom: 44, left: 52 };
   const iw = Math.max(10, width - m.left - m.right);
   const rowH = Math.max(4, Math.min(14, Math.floor(300 / Math.max(1, layers))));
   const ih = rowH * layers;
