@@ -52,6 +52,9 @@ export function parseYieldStudy(input: unknown): ParsedStudy {
 
 /** Partial result of trials [startTrial, startTrial + count). Plain JSON; merged exactly by {@link mergeYieldChunks}. */
 export interface YieldChunk {
+  /** Seed and trial count of the study the chunk belongs to (checked when merging). */
+  seed: string;
+  trials: number;
   startTrial: number;
   count: number;
   passCount: number;
@@ -248,6 +251,8 @@ export function createYieldRunner(studyInput: YieldStudy): YieldRunner {
         }
       }
       return {
+        seed: study.seed,
+        trials: study.trials,
         startTrial,
         count,
         passCount,
@@ -303,6 +308,11 @@ export function mergeYieldChunks(studyInput: YieldStudy, chunks: readonly YieldC
   const ordered = [...chunks].sort((a, b) => a.startTrial - b.startTrial);
   let next = 0;
   for (const c of ordered) {
+    if (c.seed !== study.seed || c.trials !== study.trials) {
+      throw new RangeError(
+        `chunks: chunk at trial ${c.startTrial} belongs to seed ${JSON.stringify(c.seed)} with ${c.trials} trials, not this study`,
+      );
+    }
     if (c.startTrial !== next) {
       throw new RangeError(`chunks: expected a chunk starting at trial ${next}, got ${c.startTrial}`);
     }

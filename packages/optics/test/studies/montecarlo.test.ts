@@ -171,6 +171,8 @@ describe("Monte Carlo yield", () => {
     expect(() => mergeYieldChunks(s, [runYieldChunk(s, 0, 5), runYieldChunk(s, 4, 6)])).toThrow(
       /starting at trial 5, got 4/,
     );
+    const other = study({ trials: 10, seed: "HTW-other" });
+    expect(() => mergeYieldChunks(s, [runYieldChunk(other, 0, 10)])).toThrow(/belongs to seed "HTW-other"/);
     const badMaterial = study();
     (badMaterial.design as { layers: { material: string; thickness: number }[] }).layers[0]!.material =
       "unobtainium";
