@@ -57,8 +57,10 @@ export function createStackEvaluator(design: Design, options: StackEvaluatorOpti
   const prep = prepareStack(design, options.wavelengths);
   const W = prep.W;
   const L = prep.L;
+  // at normal incidence η_p = N²/q = N = η_s, so "u" needs one polarization only
+  const single = polarization === "u" && angleDeg === 0;
   const ks = polarization === "p" ? undefined : new PolKernel(tabulate(prep, angleDeg, "s"));
-  const kp = polarization === "s" ? undefined : new PolKernel(tabulate(prep, angleDeg, "p"));
+  const kp = polarization === "s" || single ? undefined : new PolKernel(tabulate(prep, angleDeg, "p"));
   const sR = new Float64Array(W);
   const sT = new Float64Array(W);
   const sA = new Float64Array(W);

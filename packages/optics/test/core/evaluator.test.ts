@@ -25,7 +25,7 @@ describe("createStackEvaluator", () => {
     fc.assert(
       fc.property(
         fc.array(layer, { maxLength: 10 }),
-        fc.double({ min: 0, max: 85, noNaN: true }),
+        fc.oneof(fc.constant(0), fc.double({ min: 0, max: 85, noNaN: true })),
         fc.constantFrom("s" as const, "p" as const, "u" as const),
         fc.boolean(),
         (layers, a, pol, back) => {
