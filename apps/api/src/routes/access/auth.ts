@@ -131,9 +131,10 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       if (!user || resetMails.retryAfter(user.id) > 0) return undefined;
       resetMails.fail(user.id);
       const { token, hash } = newToken();
+      const now = new Date();
       ctx.db
         .insert(passwordResets)
-        .values({ id: newId(), userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + RESET_LIFETIME_MS) })
+        .values({ id: newId(), userId: user.id, tokenHash: hash, createdAt: now, expiresAt: new Date(now.getTime() + RESET_LIFETIME_MS) })
         .run();
       // Not awaited: the answer must not take longer when the account exists.
       void ctx.mail.send({
