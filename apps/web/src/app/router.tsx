@@ -3,6 +3,8 @@ import { AppShell } from "../components/layout/app-shell.tsx";
 import { RouteError } from "./routes/route-error.tsx";
 import { requireSession } from "../lib/session.ts";
 import { PageSpinner } from "../components/ui/spinner.tsx";
+import { queryClient } from "../lib/query-client.ts";
+import { outboxAvailableQueryOptions } from "../features/outbox/api/get-outbox.ts";
 
 export function createRouter() {
   return createBrowserRouter([
@@ -18,20 +20,30 @@ export function createRouter() {
       errorElement: <RouteError />,
       hydrateFallbackElement: <PageSpinner label="Opening Stackproof…" />,
       // Signed-out people are sent to /sign-in?next=<where they were going>.
-      loader: ({ request }) => requireSession(request),
+      // The outbox check runs alongside, so the navigation does not grow a link after the page has shown.
+      loader: async ({ request }) => {
+        const [session] = await Promise.all([requireSession(request), queryClient.ensureQueryData(outboxAvailableQueryOptions())]);
+        return session;
+      },
       children: [
-        { index: true, lazy: () => import("./routes/home.tsx") },
-        { path: "programs/:programId", lazy: () => import("./routes/program.tsx") },
-        { path: "materials", lazy: () => import("./routes/materials.tsx") },
-        { path: "people", lazy: () => import("./routes/people.tsx") },
-        { path: "audit", lazy: () => import("./routes/audit.tsx") },
-        { path: "outbox", lazy: () => import("./routes/outbox.tsx") },
-        // The design workspace.
-        { path: "designs/new", lazy: () => import("./routes/designs/new-design.tsx") },
-        { path: "designs/:designId", lazy: () => import("./routes/designs/design.tsx") },
-        { path: "designs/:designId/revisions/:revisionId", lazy: () => import("./routes/designs/revision.tsx") },
-        { path: "designs/:designId/compare", lazy: () => import("./routes/designs/compare.tsx") },
-        { path: "*", lazy: () => import("./routes/not-found.tsx") },
+        {
+          // Errors of a page show inside the shell, so the navigation stays.
+          errorElement: <RouteError />,
+          children: [
+            { index: true, lazy: () => import("./routes/home.tsx") },
+            { path: "programs/:programId", lazy: () => import("./routes/program.tsx") },
+            { path: "materials", lazy: () => import("./routes/materials.tsx") },
+            { path: "people", lazy: () => import("./routes/people.tsx") },
+            { path: "audit", lazy: () => import("./routes/audit.tsx") },
+            { path: "outbox", lazy: () => import("./routes/outbox.tsx") },
+            // The design workspace.
+            { path: "designs/new", lazy: () => import("./routes/designs/new-design.tsx") },
+            { path: "designs/:designId", lazy: () => import("./routes/designs/design.tsx") },
+            { path: "designs/:designId/revisions/:revisionId", lazy: () => import("./routes/designs/revision.tsx") },
+            { path: "designs/:designId/compare", lazy: () => import("./routes/designs/compare.tsx") },
+            { path: "*", lazy: () => import("./routes/not-found.tsx") },
+          ],
+        },
       ],
     },
   ]);

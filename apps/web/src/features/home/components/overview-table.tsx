@@ -39,7 +39,7 @@ const columns = [
     id: "design",
     header: "Design",
     cell: (c) => (
-      <Link to={paths.design(c.row.original.design.id)} className="font-medium text-ink-900 underline-offset-2 hover:text-film-teal hover:underline">
+      <Link to={paths.design(c.row.original.design.id)} className="font-medium text-ink-900 underline decoration-ink-300 underline-offset-3 hover:text-film-teal hover:decoration-film-teal">
         {c.getValue()}
       </Link>
     ),
@@ -86,7 +86,7 @@ const columns = [
       const r = c.row.original;
       if (r.openThreads === 0) return <span className="text-sm text-ink-300">none</span>;
       return (
-        <span className="inline-flex items-center gap-1.5 text-sm">
+        <span className="inline-flex items-center gap-1.5 text-sm whitespace-nowrap">
           {r.openBlockingThreads > 0 && <Badge tone="fail">{r.openBlockingThreads} blocking</Badge>}
           <span className="font-mono text-xs text-ink-500 tabular">{r.openThreads} open</span>
         </span>
@@ -170,7 +170,7 @@ export function OverviewTable({ rows }: OverviewTableProps) {
                         <button
                           type="button"
                           onClick={h.column.getToggleSortingHandler()}
-                          className="inline-flex items-center gap-1 uppercase hover:text-ink-900"
+                          className="inline-flex items-center gap-1 whitespace-nowrap uppercase hover:text-ink-900"
                         >
                           {flexRender(h.column.columnDef.header, h.getContext())}
                           <span aria-hidden className={cx("font-mono", dir ? "text-film-amber" : "text-ink-300")}>
