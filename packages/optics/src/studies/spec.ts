@@ -451,3 +451,72 @@ export function evaluateSpec(design: Design, maskInput: SpecMask): SpecResult {
     warnings: [...evaluator.warnings],
   };
 }
+
+/**
+ * Evaluate one band on a tabulated spectrum (for example a measurement): `wavelengths` in nm, strictly
+ * increasing; `values` in the band's units (percent for R/T/A, OD for OD). The spectrum is interpolated
+ * linearly onto the band's samples; a band reaching outside the table is refused (RangeError), never
+ * extrapolated. Margin and worst point as in {@link createSpecEvaluator}.
+ */
+export function evaluateBandOnArrays(
+  bandInput: SpecBand,
+  wavelengths: ArrayLike<number>,
+  values: ArrayLike<number>,
+): BandOutcome {
+  const band = parseWith(SpecBandSchema, bandInput, "band");
+  const n = wavelengths.length;
+  if (n < 1 || values.length !== n) {
+    throw new RangeError(`values: expected ${n} values matching the wavelengths, got ${values.length}`);
+  }
+  for (let i = 0; i < n; i++) {
+    const w = wavelengths[i] as number;
+    if (!Number.isFinite(w) || (i > 0 && !(w > (wavelengths[i - 1] as number)))) {
+      throw new RangeError(`wavelengths[${i}]: expected strictly increasing wavelengths in nm, got ${w}`);
+    }
+    if (!Number.isFinite(values[i] as number))
+      throw new RangeError(`values[${i}]: expected a finite number, got ${values[i]}`);
+  }
+  const lo = wavelengths[0] as number;
+  const hi = wavelengths[n - 1] as number;
+  if (band.start < lo || band.stop > hi) {
+    throw new RangeError(
+      `band ${band.id}: ${band.start}–${band.stop} nm reaches outside the spectrum (${lo}–${hi} nm); not extrapolated`,
+    );
+  }
+  const samples = bandWavelengths(band);
+  const limit = bandLimit(band);
+  const wantLow = band.requirement === "min" || band.requirement === "avgMin";
+  let j = 0;
+  let sum = 0;
+  let worst = wantLow ? Infinity : -Infinity;
+  let worstAt = samples[0] as number;
+  for (const w of samples) {
+    while (j < n - 2 && (wavelengths[j + 1] as number) < w) j++;
+    const w0 = wavelengths[j] as number;
+    const w1 = n > 1 ? (wavelengths[j + 1] as number) : w0;
+    const v0 = values[j] as number;
+    const v1 = n > 1 ? (values[j + 1] as number) : v0;
+    const v = w1 === w0 ? v0 : v0 + ((v1 - v0) * (w - w0)) / (w1 - w0);
+    sum += v;
+    if (wantLow ? v < worst : v > worst) {
+      worst = v;
+      worstAt = w;
+    }
+  }
+  const mean = sum / samples.length;
+  const margin =
+    band.requirement === "min"
+      ? worst - limit
+      : band.requirement === "max"
+        ? limit - worst
+        : band.requirement === "avgMin"
+          ? mean - limit
+          : limit - mean;
+  return {
+    id: band.id,
+    pass: margin >= 0,
+    worst: { wavelength: worstAt, value: worst },
+    margin,
+    average: mean,
+  };
+}

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import {
   bandLimit,
+  evaluateBandOnArrays,
   bandWavelengths,
   createSpecEvaluator,
   evaluateSpec,
@@ -160,5 +161,36 @@ describe("evaluateSpec on hand-checked designs", () => {
     );
     expect(() => parseSpecMask({ bands: [] })).toThrow(/mask\.bands/);
     expect(() => evaluateSpec(qwotDesign([]), { bands: [band({ step: -1 })] })).toThrow(RangeError);
+  });
+});
+
+describe("evaluateBandOnArrays (tabulated or measured spectra)", () => {
+  // A straight line R = 1 + (λ − 500)/100 % is reproduced exactly by linear interpolation (by construction).
+  const wl = [480, 500, 550, 600, 650];
+  const R = wl.map((w) => 1 + (w - 500) / 100);
+
+  it("interpolates linearly onto the band samples and applies the requirement", () => {
+    const max = evaluateBandOnArrays(band({ id: "m", start: 510, stop: 590, step: 10, value: 2 }), wl, R);
+    expect(max.worst.wavelength).toBe(590);
+    expect(max.worst.value).toBeCloseTo(1.9, 12);
+    expect(max.margin).toBeCloseTo(0.1, 12);
+    const avg = evaluateBandOnArrays(
+      band({ id: "a", start: 500, stop: 600, step: 25, requirement: "avgMin", value: 1.4 }),
+      wl,
+      R,
+    );
+    expect(avg.average).toBeCloseTo(1.5, 12);
+    expect(avg.margin).toBeCloseTo(0.1, 12);
+    expect(avg.pass).toBe(true);
+  });
+
+  it("refuses to extrapolate and rejects unsorted wavelengths", () => {
+    expect(() => evaluateBandOnArrays(band({ start: 450, stop: 600 }), wl, R)).toThrow(
+      /reaches outside the spectrum \(480–650 nm\)/,
+    );
+    expect(() => evaluateBandOnArrays(band({}), [500, 490, 600], [1, 1, 1])).toThrow(
+      /wavelengths\[1\].*got 490/,
+    );
+    expect(() => evaluateBandOnArrays(band({}), wl, [1, 2])).toThrow(/expected 5 values/);
   });
 });
