@@ -10,6 +10,8 @@ import { execFileSync } from "node:child_process";
 import { existsSync } from "node:fs";
 import { dirname, resolve } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
+import { readFileSync } from "node:fs";
+import { computeSpectrum, parseDesign, type Material } from "../src/core/index.ts";
 import { runKernelBenchmark, type KernelBenchRow } from "./kernel.ts";
 
 /** Options of {@link runComparison}. */
@@ -33,6 +35,63 @@ export interface ComparisonRow {
   tsEvalsPerSecond: number;
   /** TS / C throughput */
   ratio: number | undefined;
+  /** largest |R_TS − R_C| and |T_TS − T_C| over trial 0 of the C run (both polarizations) */
+  maxDeviation: number | undefined;
+}
+
+/**
+ * Recompute the cases the C kernel dumps (trial 0 of every mode: layer constants, thicknesses,
+ * R and T per wavelength) with computeSpectrum and return the largest deviation per mode.
+ */
+export function checkAgainstDump(text: string): Map<string, number> {
+  const lines = text.split("\n");
+  const out = new Map<string, number>();
+  let i = 0;
+  while (i < lines.length) {
+    const head = lines[i]!.split(" ");
+    i++;
+    if (head[0] !== "case") continue;
+    const [, name, Ls, Ws, th, pol, nInc, nSub] = head as [string, string, string, string, string, string, string, string];
+    const L = Number(Ls);
+    const W = Number(Ws);
+    const materials: Material[] = [
+      { id: "inc", name: "inc", model: { kind: "constant", n: Number(nInc), k: 0 }, role: "medium", source: "C dump" },
+      { id: "sub", name: "sub", model: { kind: "constant", n: Number(nSub), k: 0 }, role: "substrate", source: "C dump" },
+    ];
+    const layers: { material: string; thickness: number }[] = [];
+    for (let j = 0; j < L; j++, i++) {
+      const [, A, B, k, d] = lines[i]!.split(" ").map(Number) as [number, number, number, number, number];
+      materials.push({ id: `c${j}`, name: `c${j}`, model: { kind: "cauchy", A, B, C: 0, k }, role: "layer", source: "C dump" });
+      layers.push({ material: `c${j}`, thickness: d });
+    }
+    const wl: number[] = [];
+    const R: number[] = [];
+    const T: number[] = [];
+    for (let w = 0; w < W; w++, i++) {
+      const [, lam, r, t] = lines[i]!.split(" ").map(Number) as [number, number, number, number];
+      wl.push(lam);
+      R.push(r);
+      T.push(t);
+    }
+    const design = parseDesign({
+      format: "stackproof.design/v1",
+      name: `C case ${name}`,
+      referenceWavelength: 550,
+      incident: "inc",
+      layers: layers.reverse(), // the C kernel lists layers from the incident side
+      substrate: { material: "sub", thicknessMm: 1, backside: false },
+      exit: "inc",
+      materials,
+    });
+    const sp = computeSpectrum(design, { wavelengths: wl, angleDeg: Number(th) });
+    const resp = pol === "p" ? sp.p : sp.s;
+    let dev = out.get(name) ?? 0;
+    for (let w = 0; w < W; w++) {
+      dev = Math.max(dev, Math.abs(resp.R[w]! - R[w]!), Math.abs(resp.T[w]! - T[w]!));
+    }
+    out.set(name, dev);
+  }
+  return out;
 }
 
 const here = dirname(fileURLToPath(import.meta.url));
@@ -70,9 +129,14 @@ export function compareKernels(options: ComparisonOptions = {}): { rows: Compari
   }
   const bestC = new Map<string, number>();
   const bestTs = new Map<string, number>();
+  let deviation = new Map<string, number>();
   for (let r = 0; r < rounds; r++) {
     if (cBin) {
-      const text = execFileSync(cBin, [String(M), String(L), String(W), String(reps)], { encoding: "utf8" });
+      const args = [String(M), String(L), String(W), String(reps)];
+      const dumpFile = resolve(buildDir, "dump.txt");
+      if (r === 0) args.push("--dump", dumpFile);
+      const text = execFileSync(cBin, args, { encoding: "utf8" });
+      if (r === 0) deviation = checkAgainstDump(readFileSync(dumpFile, "utf8"));
       for (const [mode, v] of parseC(text)) bestC.set(mode, Math.max(bestC.get(mode) ?? 0, v));
     }
     const ts: KernelBenchRow[] = runKernelBenchmark({ trials: M, layers: L, wavelengths: W, reps });
@@ -80,7 +144,7 @@ export function compareKernels(options: ComparisonOptions = {}): { rows: Compari
   }
   const rows: ComparisonRow[] = [...bestTs].map(([mode, tsv]) => {
     const c = bestC.get(mode);
-    return { mode, cEvalsPerSecond: c, tsEvalsPerSecond: tsv, ratio: c ? tsv / c : undefined };
+    return { mode, cEvalsPerSecond: c, tsEvalsPerSecond: tsv, ratio: c ? tsv / c : undefined, maxDeviation: deviation.get(mode) };
   });
   return { rows, note };
 }
@@ -94,10 +158,10 @@ export async function runComparison(options: ComparisonOptions = {}): Promise<st
   const fmt = (v: number | undefined): string => (v === undefined ? "—" : v.toExponential(3));
   const lines = [
     `kernel throughput, ${M} trials × ${L} layers × ${W} wavelengths, layer-wavelength evaluations per second (best round)`,
-    `${"mode".padEnd(18)} ${"C (gcc -O3)".padStart(12)} ${"TypeScript".padStart(12)} ${"TS/C".padStart(6)}`,
+    `${"mode".padEnd(18)} ${"C (gcc -O3)".padStart(12)} ${"TypeScript".padStart(12)} ${"TS/C".padStart(6)} ${"max |ΔR|,|ΔT|".padStart(15)}`,
     ...rows.map(
       (r) =>
-        `${r.mode.padEnd(18)} ${fmt(r.cEvalsPerSecond).padStart(12)} ${fmt(r.tsEvalsPerSecond).padStart(12)} ${(r.ratio === undefined ? "—" : r.ratio.toFixed(2)).padStart(6)}`,
+        `${r.mode.padEnd(18)} ${fmt(r.cEvalsPerSecond).padStart(12)} ${fmt(r.tsEvalsPerSecond).padStart(12)} ${(r.ratio === undefined ? "—" : r.ratio.toFixed(2)).padStart(6)} ${(r.maxDeviation === undefined ? "—" : r.maxDeviation.toExponential(1)).padStart(15)}`,
     ),
   ];
   if (note) lines.push(note);
