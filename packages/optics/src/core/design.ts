@@ -26,6 +26,7 @@ export const LayerSchema = z.object({
   locked: z.boolean({ error: "expected true or false" }).optional(),
   label: z.string({ error: "expected a string" }).optional(),
 });
+/** One validated layer (thickness in nm). */
 export type Layer = z.output<typeof LayerSchema>;
 
 /** Substrate: material id, thickness in mm, and whether its back surface is counted (incoherently). */
@@ -36,6 +37,7 @@ export const SubstrateSchema = z.object({
     .min(0, { error: "expected a number ≥ 0" }),
   backside: z.boolean({ error: "expected true or false" }),
 });
+/** The validated substrate (thickness in mm). */
 export type Substrate = z.output<typeof SubstrateSchema>;
 
 /** Zod schema of a design file. */
@@ -54,6 +56,15 @@ export const DesignSchema = z.object({
 export type Design = z.output<typeof DesignSchema>;
 /** A design as written in JSON (incident/exit may be omitted). */
 export type DesignInput = z.input<typeof DesignSchema>;
+
+/**
+ * JSON Schema (draft 2020-12) of the design file as written (input side: `incident` and `exit`
+ * optional), generated from {@link DesignSchema}; for API documentation and editors.
+ * Cross-field checks (material ids resolve, table points sorted) are only done by parseDesign.
+ */
+export function designJsonSchema(): Record<string, unknown> {
+  return z.toJSONSchema(DesignSchema, { io: "input" }) as Record<string, unknown>;
+}
 
 function formatPath(path: readonly PropertyKey[]): string {
   let out = "";

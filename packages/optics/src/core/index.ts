@@ -33,6 +33,7 @@ export {
   thicknessToQwot,
   designFromQwots,
   layerQwots,
+  designJsonSchema,
 } from "./design.ts";
 export type { Layer, Substrate, Design, DesignInput, QwotLayer, QwotDesignSpec } from "./design.ts";
 // named StackPolarization here so the studies half may keep its own identical alias

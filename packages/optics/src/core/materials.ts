@@ -77,6 +77,7 @@ export type MaterialModelInput = z.input<typeof MaterialModelSchema>;
 
 /** What a material is normally used for; informative only, the engine accepts any role anywhere. */
 export const MaterialRoleSchema = z.enum(["layer", "substrate", "medium", "metal"]);
+/** Informative material role. */
 export type MaterialRole = z.output<typeof MaterialRoleSchema>;
 
 /**
@@ -93,6 +94,7 @@ export const MaterialSchema = z.object({
 
 /** A material (output type of {@link MaterialSchema}). */
 export type Material = z.output<typeof MaterialSchema>;
+/** A material as written in JSON (model defaults not yet applied). */
 export type MaterialInput = z.input<typeof MaterialSchema>;
 
 /** Complex index N = n − ik at one wavelength; `extrapolated` is set when a table was clamped. */

@@ -6,6 +6,7 @@ import { describe, expect, it } from "vitest";
 import {
   computeSpectrum,
   designFromQwots,
+  designJsonSchema,
   getMaterial,
   layerQwots,
   parseDesign,
@@ -101,4 +102,13 @@ describe("example files", () => {
       for (const v of sp.u.R) expect(v).toBeGreaterThanOrEqual(0);
     });
   }
+});
+
+describe("designJsonSchema", () => {
+  it("describes the file format for documentation", () => {
+    const s = designJsonSchema() as { properties: Record<string, unknown>; required: string[] };
+    expect(Object.keys(s.properties)).toContain("layers");
+    expect(s.required).toContain("format");
+    expect(s.required).not.toContain("incident");
+  });
 });
