@@ -44,6 +44,18 @@ describe("programs", () => {
     await team.members.approver.agent.post(`${API}/programs`).send(programBody({ specMask: { bands: [] } })).expect(400);
   });
 
+  it("pages the program list newest first", async () => {
+    await createProgram(team, { name: "Page A" });
+    await createProgram(team, { name: "Page B" });
+    const first = await team.members.reviewer.agent.get(`${API}/programs?limit=1`).expect(200);
+    expect(first.body.items).toHaveLength(1);
+    expect(first.body.items[0].name).toBe("Page B");
+    expect(first.body.nextCursor).toEqual(expect.any(String));
+    const second = await team.members.reviewer.agent.get(`${API}/programs?limit=1&cursor=${first.body.nextCursor}`).expect(200);
+    expect(second.body.items[0].name).toBe("Page A");
+    await team.members.reviewer.agent.get(`${API}/programs?cursor=garbage`).expect(400);
+  });
+
   it("hides programs of another workspace (404)", async () => {
     const program = await createProgram(team);
     const outsider = await signedInMember(server, { roles: ["approver"] });

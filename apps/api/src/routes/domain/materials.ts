@@ -8,6 +8,7 @@ import { getAuth } from "../../auth/guards.ts";
 import { materials, measurements } from "../../db/schema.ts";
 import { recordAudit } from "../../lib/audit.ts";
 import { conflict } from "../../lib/errors.ts";
+import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { newId } from "../../domain/canonical.ts";
 import { loadRevision } from "../../domain/load.ts";
@@ -200,6 +201,7 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
             wavelengths: spectrum.wavelengths,
             values: spectrum.values,
             createdBy: auth.user.id,
+            createdAt: new Date(),
           })
           .run();
         recordAudit(tx, {
@@ -226,14 +228,21 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({ items: z.array(MeasurementOut) }),
+      query: pageQuery,
+      response: pageSchema(MeasurementOut),
       errors: { 404: "No such revision" },
     },
-    ({ req, params }) => {
+    ({ req, params, query }) => {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
-      const rows = ctx.db.select().from(measurements).where(eq(measurements.revisionId, rc.revision.id)).orderBy(desc(measurements.createdAt)).all();
-      return { items: rows.map(measurementView) };
+      const rows = ctx.db
+        .select()
+        .from(measurements)
+        .where(and(eq(measurements.revisionId, rc.revision.id), keysetWhere([measurements.createdAt, measurements.id], query.cursor, "desc")))
+        .orderBy(desc(measurements.createdAt), desc(measurements.id))
+        .limit(query.limit + 1)
+        .all();
+      return toPage(rows, query.limit, (r) => [r.createdAt, r.id], measurementView);
     },
   );
 }

@@ -1,11 +1,12 @@
 // Programs and the designs in them.
 import type { Router } from "express";
-import { desc, eq } from "drizzle-orm";
+import { and, desc, eq } from "drizzle-orm";
 import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { designs, programs } from "../../db/schema.ts";
 import { recordAudit } from "../../lib/audit.ts";
+import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { newId } from "../../domain/canonical.ts";
 import { loadProgram } from "../../domain/load.ts";
@@ -17,11 +18,17 @@ const TAG = "Programs";
 export function programRoutes(ctx: AppContext, router: Router): void {
   route(
     router,
-    { method: "get", path: "/programs", summary: "Programs of the workspace", tag: TAG, access: "member", response: z.object({ items: z.array(ProgramSchema) }) },
-    ({ req }) => {
+    { method: "get", path: "/programs", summary: "Programs of the workspace, newest first", tag: TAG, access: "member", query: pageQuery, response: pageSchema(ProgramSchema) },
+    ({ req, query }) => {
       const auth = getAuth(req);
-      const rows = ctx.db.select().from(programs).where(eq(programs.workspaceId, auth.workspaceId)).orderBy(desc(programs.createdAt), desc(programs.id)).all();
-      return { items: rows.map(programView) };
+      const rows = ctx.db
+        .select()
+        .from(programs)
+        .where(and(eq(programs.workspaceId, auth.workspaceId), keysetWhere([programs.createdAt, programs.id], query.cursor, "desc")))
+        .orderBy(desc(programs.createdAt), desc(programs.id))
+        .limit(query.limit + 1)
+        .all();
+      return toPage(rows, query.limit, (r) => [r.createdAt, r.id], programView);
     },
   );
 
@@ -56,6 +63,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
             errorModel: body.errorModel,
             studyDefaults: body.studyDefaults,
             createdBy: auth.user.id,
+            createdAt: new Date(),
           })
           .run();
         recordAudit(tx, {

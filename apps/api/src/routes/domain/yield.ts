@@ -8,6 +8,7 @@ import { getAuth } from "../../auth/guards.ts";
 import { yieldRuns } from "../../db/schema.ts";
 import { recordAudit, type DbOrTx } from "../../lib/audit.ts";
 import { HttpError, conflict, forbidden } from "../../lib/errors.ts";
+import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { newId } from "../../domain/canonical.ts";
 import { loadRevision, loadYieldRun, maskOf, person, stackOf, userNames, type YieldRunRow } from "../../domain/load.ts";
@@ -84,6 +85,7 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
             errorModel,
             clientResult: body.clientResult ?? null,
             engineVersion: ENGINE_VERSION,
+            createdAt: new Date(),
           })
           .run();
         recordAudit(tx, {
@@ -110,14 +112,21 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({ items: z.array(YieldRunSchema) }),
+      query: pageQuery,
+      response: pageSchema(YieldRunSchema),
       errors: { 404: "No such revision" },
     },
-    ({ req, params }) => {
+    ({ req, params, query }) => {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
-      const rows = ctx.db.select().from(yieldRuns).where(eq(yieldRuns.revisionId, rc.revision.id)).orderBy(desc(yieldRuns.createdAt), desc(yieldRuns.id)).all();
-      return { items: rows.map((r) => yieldRunView(ctx.db, r)) };
+      const rows = ctx.db
+        .select()
+        .from(yieldRuns)
+        .where(and(eq(yieldRuns.revisionId, rc.revision.id), keysetWhere([yieldRuns.createdAt, yieldRuns.id], query.cursor, "desc")))
+        .orderBy(desc(yieldRuns.createdAt), desc(yieldRuns.id))
+        .limit(query.limit + 1)
+        .all();
+      return toPage(rows, query.limit, (r) => [r.createdAt, r.id], (r) => yieldRunView(ctx.db, r));
     },
   );
 
