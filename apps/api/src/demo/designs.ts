@@ -68,6 +68,16 @@ function qhqAr(name: string, h = 2, m = 1, l = 1): Design {
   });
 }
 
+/** Single quarter-wave MgF2 layer (Macleod, single-layer AR: about 1.3 % on crown glass at λ0). */
+function singleMgF2(name: string): Design {
+  return designFromQwots({
+    name,
+    referenceWavelength: 550,
+    layers: [H("MgF2")],
+    substrate: { material: "boro-crown", thicknessMm: 2, backside: false },
+  });
+}
+
 /** Quarter-wave reflector notch: (HL)^n H at 532 nm. */
 function notch532(pairs: number, name: string): Design {
   return designFromQwots({
@@ -155,6 +165,7 @@ export function demoPrograms(): DemoProgram[] {
       trials: 400,
       designName: "Wren window AR",
       revisions: [
+        { stack: singleMgF2("Wren window AR"), note: "Baseline: one MgF2 quarter wave at 550 nm." },
         { stack: qhqAr("Wren window AR", 2, 1, 1), note: "Al2O3 / ZrO2 / MgF2 quarter-half-quarter at 530 nm." },
       ],
     },

@@ -90,7 +90,7 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
   const studies = {
     kestrel: study(spec("kestrel"), 1),
     aster: study(spec("aster"), 1),
-    wren: study(spec("wren"), 0),
+    wren: study(spec("wren"), 1),
   };
   const results = { kestrel: compute(studies.kestrel), aster: compute(studies.aster), wren: compute(studies.wren) };
 
@@ -139,7 +139,7 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
           hash: revisionHash(r.stack, d.mask),
           status: "draft" as RevisionStatus,
           statusChangedAt: null,
-          createdAt: at(day - 1 - 3 * i),
+          createdAt: at(day - 1 - 5 * i),
         };
         tx.insert(revisions).values(row).run();
         revisionCount++;
@@ -237,16 +237,16 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
     // Kestrel: rev 1 sent back (blocking thread on the short-side blocking, resolved by rev 2); rev 2 in review,
     // verified yield above target, one advisory thread: the approver can approve it.
     const k1 = rev("kestrel", 1);
-    decide(k1, "submit", "in_review", designer, at(17), "Ready for a first look.");
-    thread(k1, { kind: "band", bandId: "block-short" }, "blocking", reviewer, at(16), [
+    decide(k1, "submit", "in_review", designer, at(19), "Ready for a first look.");
+    thread(k1, { kind: "band", bandId: "block-short" }, "blocking", reviewer, at(18), [
       { by: reviewer, body: "Short-side blocking fails nominally (T ≈ 1.9 % at 850 nm). Four mirror pairs are not enough." },
       { by: designer, body: "Agreed, adding a pair on each side in rev 2." },
-    ], { by: reviewer, when: at(12) });
-    decide(k1, "request_changes", "changes_requested", reviewer, at(16), "Blocking bands fail nominally.");
+    ], { by: reviewer, when: at(13) });
+    decide(k1, "request_changes", "changes_requested", reviewer, at(18, 4), "Blocking bands fail nominally.");
     const k2 = rev("kestrel", 2);
-    decide(k2, "submit", "in_review", designer, at(11), "Five pairs; verified yield attached.");
-    storeRun(k2, studies.kestrel, results.kestrel, designer, at(11, 1));
-    thread(k2, { kind: "range", start: 903, stop: 907 }, "advisory", reviewer, at(10), [
+    storeRun(k2, studies.kestrel, results.kestrel, designer, at(14));
+    decide(k2, "submit", "in_review", designer, at(14, 2), "Five pairs; verified yield attached.");
+    thread(k2, { kind: "range", start: 903, stop: 907 }, "advisory", reviewer, at(13), [
       {
         by: reviewer,
         body: `Most failures are peak shift out of 904–906 nm. Fine for the target, but @${approver.name} may want the cavity flagged as critical in the run sheet.`,
@@ -256,19 +256,21 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
 
     // Aster: rev 2 in review with a verified yield below target and an advisory thread on the emission band.
     const a2 = rev("aster", 2);
-    decide(a2, "submit", "in_review", designer, at(8), "Ten periods; ripple in the emission band is still high.");
-    storeRun(a2, studies.aster, results.aster, designer, at(8, 1));
+    storeRun(a2, studies.aster, results.aster, designer, at(10));
+    decide(a2, "submit", "in_review", designer, at(10, 2), "Ten periods; ripple in the emission band is still high.");
     thread(a2, { kind: "band", bandId: "transmit" }, "advisory", reviewer, at(7), [
       { by: reviewer, body: "Emission average sits just under 75 % at 45°. Matching layers against the substrate and the air side would flatten the ripple." },
     ]);
 
-    // Wren: released with its decisions and release record.
-    const w1 = rev("wren", 1);
-    decide(w1, "submit", "in_review", designer, at(9), "Standard QHQ recipe for the window.");
-    const wrenRun = storeRun(w1, studies.wren, results.wren, designer, at(9, 1));
-    thread(w1, { kind: "layer", index: 1 }, "advisory", reviewer, at(8), [
+    // Wren: the single-layer baseline was withdrawn; rev 2 is released with its decisions and release record.
+    const w0 = rev("wren", 1);
+    decide(w0, "withdraw", "withdrawn", designer, at(8), "Baseline only; the single layer cannot reach 0.5 % average.");
+    const w1 = rev("wren", 2);
+    const wrenRun = storeRun(w1, studies.wren, results.wren, designer, at(7, 1));
+    decide(w1, "submit", "in_review", designer, at(7, 2), "Standard QHQ recipe for the window.");
+    thread(w1, { kind: "layer", index: 1 }, "advisory", reviewer, at(7, 6), [
       { by: reviewer, body: "The half-wave ZrO2 layer dominates the critical-layer ranking; keep its monitoring chip fresh." },
-    ], { by: designer, when: at(7) });
+    ], { by: designer, when: at(6, 2) });
     decide(w1, "approve", "approved", approver, at(6), "Yield well above target.", wrenRun);
     decide(w1, "release", "released", approver, at(5), "Released for the spring lot.", wrenRun);
     const releaseId = newId();
@@ -296,15 +298,15 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
 
     // Merlin (protective): rev 1 sent back with a blocking thread still open; rev 2 is a draft it carries forward to.
     const m1 = rev("merlin", 1);
-    decide(m1, "submit", "in_review", designer, at(4), "First notch candidate.");
-    thread(m1, { kind: "band", bandId: "od" }, "blocking", reviewer, at(3), [
+    decide(m1, "submit", "in_review", designer, at(7), "First notch candidate.");
+    thread(m1, { kind: "band", bandId: "od" }, "blocking", reviewer, at(6), [
       {
         by: reviewer,
         body: `OD margin at 528 and 536 nm is under 0.5. For an eye-protection window I want at least 1 OD of margin before we go further. @${designer.name.split(" ")[0]}`,
         mentions: [designer.id],
       },
     ]);
-    decide(m1, "request_changes", "changes_requested", reviewer, at(3), "OD margin too thin for a protective part.");
+    decide(m1, "request_changes", "changes_requested", reviewer, at(6, 2), "OD margin too thin for a protective part.");
   });
   return { workspaceId, programs: specs.size, revisions: revisionCount, yieldRuns: runCount, releases: releaseCount, ms: Math.round(performance.now() - t0) };
 }
