@@ -68,6 +68,8 @@ export type Polarization = "s" | "p" | "u";
 /** Rescale step for complex paths: entries are multiplied by 1e-65 (= e^−149.668), RESCALE_LOG = ln(1e65). */
 const RESCALE = 1e-65;
 const RESCALE_LOG = 65 * Math.LN10;
+/** Largest layers × wavelengths table (about 90 bytes per entry and polarization). */
+export const MAX_TABLE = 2_000_000;
 /** Largest |Im δ| per layer kept; beyond it a layer is opaque to well below 1e-130. */
 const MAX_DECAY = 150;
 
@@ -240,16 +242,6 @@ export interface PolTables {
   W: number;
   L: number;
   pol: "s" | "p";
-  /** β = 2π q / λ (nm⁻¹) */
-  betaR: Float64Array;
-  betaI: Float64Array;
-  etaR: Float64Array;
-  etaI: Float64Array;
-  ietaR: Float64Array;
-  ietaI: Float64Array;
-  /** N² per layer (for index-scaled recomputation) */
-  n2R: Float64Array;
-  n2I: Float64Array;
   /** s² = (n0 sin θ0)² and 2π/λ per wavelength */
   s2: Float64Array;
   k0: Float64Array;
@@ -258,7 +250,7 @@ export interface PolTables {
   /** substrate admittance */
   etaSR: Float64Array;
   etaSI: Float64Array;
-  /** cos θ in the incident medium and substrate cos θ (complex) for amplitude conversion */
+  /** back surface counted (incoherent combination, full 2×2 product) */
   backside: boolean;
   /** back-surface reflectance and transmittance (substrate → exit), one-pass internal transmittance */
   Rb: Float64Array;
@@ -266,10 +258,15 @@ export interface PolTables {
   tau: Float64Array;
   /** packed per (w, j): [β, η, 1/η] for the real path (stride 3) */
   packR: Float64Array;
-  /** packed per (w, j): [βr, βi, ηr, ηi, (1/η)r, (1/η)i] for the complex path (stride 6) */
+  /**
+   * packed per (w, j): [βr, βi, ηr, ηi, (1/η)r, (1/η)i] (stride 6), β = 2π q / λ in nm⁻¹;
+   * the complex path's only table
+   */
   packC: Float64Array;
   /** packed per (w, j): [Re N², Im N²] (stride 2) */
   packN2: Float64Array;
+  /** per layer: 1 when lossless and propagating at every wavelength (real layer step) */
+  realLayer: Uint8Array;
   /** all layers lossless and propagating (real β and η): real fast path */
   real: boolean;
   /** lossless layers (index scaling may still allow the real path) */
@@ -285,14 +282,14 @@ export function tabulate(prep: PreparedStack, angleDeg: number, pol: "s" | "p"):
   }
   const { W, L } = prep;
   const size = W * L;
-  const betaR = new Float64Array(size);
-  const betaI = new Float64Array(size);
-  const etaR = new Float64Array(size);
-  const etaI = new Float64Array(size);
-  const ietaR = new Float64Array(size);
-  const ietaI = new Float64Array(size);
-  const n2R = new Float64Array(size);
-  const n2I = new Float64Array(size);
+  if (size > MAX_TABLE) {
+    throw new RangeError(
+      `design × grid too large: ${L} layers × ${W} wavelengths = ${size} (limit ${MAX_TABLE}); use fewer wavelengths`,
+    );
+  }
+  const packC = new Float64Array(6 * size);
+  const packN2 = new Float64Array(2 * size);
+  const realLayer = new Uint8Array(L).fill(1);
   const s2 = new Float64Array(W);
   const k0 = new Float64Array(W);
   const eta0 = new Float64Array(W);
@@ -320,8 +317,8 @@ export function tabulate(prep: PreparedStack, angleDeg: number, pol: "s" | "p"):
       const ni = prep.nIm[i]!;
       const Nr = nr * nr - ni * ni;
       const Ni = 2 * nr * ni;
-      n2R[i] = Nr;
-      n2I[i] = Ni;
+      packN2[2 * i] = Nr;
+      packN2[2 * i + 1] = Ni;
       forwardSqrt(Nr - ss, Ni, q);
       const qr = q[0]!;
       const qi = q[1]!;
@@ -336,13 +333,17 @@ export function tabulate(prep: PreparedStack, angleDeg: number, pol: "s" | "p"):
         ei = (Ni * qr - Nr * qi) / dd;
       }
       const de = er * er + ei * ei;
-      betaR[i] = kw * qr;
-      betaI[i] = kw * qi;
-      etaR[i] = er;
-      etaI[i] = ei;
-      ietaR[i] = er / de;
-      ietaI[i] = -ei / de;
-      if (qi !== 0 || ei !== 0) real = false;
+      const k = 6 * i;
+      packC[k] = kw * qr;
+      packC[k + 1] = kw * qi;
+      packC[k + 2] = er;
+      packC[k + 3] = ei;
+      packC[k + 4] = er / de;
+      packC[k + 5] = -ei / de;
+      if (qi !== 0 || ei !== 0) {
+        real = false;
+        realLayer[j] = 0;
+      }
     }
     const q0 = Math.sqrt(n0 * n0 - ss);
     eta0[w] = pol === "s" ? q0 : (n0 * n0) / q0;
@@ -389,28 +390,18 @@ export function tabulate(prep: PreparedStack, angleDeg: number, pol: "s" | "p"):
       tau[w] = Math.exp(2 * kw * qsi * prep.substrateNm);
     }
   }
-  // interleaved copies: one memory stream per layer step in the hot loops
+  // real path table [β, η, 1/η]: half the memory traffic of the complex one
   const packR = new Float64Array(real ? 3 * size : 0);
-  const packC = new Float64Array(6 * size);
-  const packN2 = new Float64Array(2 * size);
-  for (let i = 0; i < size; i++) {
-    if (real) {
-      packR[3 * i] = betaR[i]!;
-      packR[3 * i + 1] = etaR[i]!;
-      packR[3 * i + 2] = ietaR[i]!;
+  if (real) {
+    for (let i = 0; i < size; i++) {
+      packR[3 * i] = packC[6 * i]!;
+      packR[3 * i + 1] = packC[6 * i + 2]!;
+      packR[3 * i + 2] = packC[6 * i + 4]!;
     }
-    packC[6 * i] = betaR[i]!;
-    packC[6 * i + 1] = betaI[i]!;
-    packC[6 * i + 2] = etaR[i]!;
-    packC[6 * i + 3] = etaI[i]!;
-    packC[6 * i + 4] = ietaR[i]!;
-    packC[6 * i + 5] = ietaI[i]!;
-    packN2[2 * i] = n2R[i]!;
-    packN2[2 * i + 1] = n2I[i]!;
   }
   return {
-    packR, packC, packN2,
-    W, L, pol, betaR, betaI, etaR, etaI, ietaR, ietaI, n2R, n2I, s2, k0, eta0, etaSR, etaSI,
+    packR, packC, packN2, realLayer,
+    W, L, pol, s2, k0, eta0, etaSR, etaSI,
     backside: prep.backside, Rb, Tb, tau, real, lossless: prep.lossless, maxS2, minN2: prep.minN2,
   };
 }
@@ -599,6 +590,7 @@ export class PolKernel {
     const L = t.L;
     const W = this.W;
     const pk = t.packC;
+    const rl = t.realLayer;
     const oBr = this.aR, oBi = this.aI, oCr = this.cR, oCi = this.cI, osc = this.sc;
     for (let w = 0; w < W; w++) {
       let Br = 1;
@@ -624,6 +616,20 @@ export class PolKernel {
         const qs = QUAD_S[qd]!;
         const sa = sp * qc + cp * qs;
         const ca = cp * qc - sp * qs;
+        if (rl[j] === 1) {
+          // lossless, propagating layer inside an absorbing stack: real matrix elements
+          const a = sa * pk[k + 4]!;
+          const b = sa * pk[k + 2]!;
+          const rBr = ca * Br - a * Ci;
+          const rBi = ca * Bi + a * Cr;
+          const rCr = ca * Cr - b * Bi;
+          const rCi = ca * Ci + b * Br;
+          Br = rBr;
+          Bi = rBi;
+          Cr = rCr;
+          Ci = rCi;
+          continue;
+        }
         // cosh, sinh of y
         const nn = y * LOG2E + RND - RND;
         const ry = y - nn * LN2_HI - nn * LN2_LO;
@@ -925,6 +931,7 @@ export class PolKernel {
     const p = t.pol === "p";
     const pk = t.packC;
     const n2 = t.packN2;
+    const rl = t.realLayer;
     for (let w = 0; w < W; w++) {
       let aR = 1, aI = 0, bR = 0, bI = 0, cR = 0, cI = 0, dR = 1, dI = 0;
       const ss = t.s2[w]!;
@@ -983,6 +990,21 @@ export class PolKernel {
         const qs = QUAD_S[qd]!;
         const sa = sp * qc + cp * qs;
         const ca = cp * qc - sp * qs;
+        if (!scale && rl[j] === 1) {
+          // lossless, propagating layer: [[c, i a], [i b, c]] × M with real c, a, b
+          const a = sa * ir;
+          const b = sa * er;
+          const xaR = ca * aR - a * cI;
+          const xaI = ca * aI + a * cR;
+          const xbR = ca * bR - a * dI;
+          const xbI = ca * bI + a * dR;
+          const xcR = ca * cR - b * aI;
+          const xcI = ca * cI + b * aR;
+          const xdR = ca * dR - b * bI;
+          const xdI = ca * dI + b * bR;
+          aR = xaR; aI = xaI; bR = xbR; bI = xbI; cR = xcR; cI = xcI; dR = xdR; dI = xdI;
+          continue;
+        }
         const nn = yr * LOG2E + RND - RND;
         const ry = yr - nn * LN2_HI - nn * LN2_LO;
         const zy = ry * ry;

@@ -87,12 +87,16 @@ export class Cx {
   abs2(): number {
     return this.re * this.re + this.im * this.im;
   }
-  /** principal square root (Re ≥ 0) */
+  /** principal square root (Re ≥ 0), in the cancellation-free form */
   sqrt(): Cx {
     const r = Math.hypot(this.re, this.im);
-    const a = Math.sqrt((r + this.re) / 2);
-    const b = Math.sqrt(Math.max(0, (r - this.re) / 2));
-    return new Cx(a, this.im < 0 ? -b : b);
+    if (r === 0) return new Cx(0, 0);
+    if (this.re >= 0) {
+      const a = Math.sqrt((r + this.re) / 2);
+      return new Cx(a, this.im / (2 * a));
+    }
+    const b = Math.sqrt((r - this.re) / 2) * (this.im < 0 ? -1 : 1);
+    return new Cx(this.im / (2 * b), b);
   }
   exp(): Cx {
     const e = Math.exp(this.re);
@@ -101,4 +105,71 @@ export class Cx {
   neg(): Cx {
     return new Cx(-this.re, -this.im);
   }
+}
+
+/**
+ * Straightforward characteristic-matrix computation with object complex numbers, written
+ * independently of the engine's kernel (Macleod, Thin-Film Optical Filters): layers in
+ * deposition order, N = n − ik, forward branch Im q ≤ 0, incoherent back surface when asked.
+ */
+export function referenceRT(
+  spec: Required<Pick<TestStack, "layers">> & TestStack,
+  lambda: number,
+  angleDeg: number,
+  pol: "s" | "p",
+): { R: number; T: number } {
+  const n0 = (spec.incident ?? [1, 0])[0];
+  const sub = spec.substrate ?? [1.52, 0];
+  const ne = (spec.exit ?? [1, 0])[0];
+  const s = n0 * Math.sin((angleDeg * Math.PI) / 180);
+  const q = (N: Cx): Cx => {
+    let r = N.mul(N).sub(Cx.of(s * s)).sqrt();
+    if (r.im > 0 || (r.im === 0 && r.re < 0)) r = r.neg();
+    return r;
+  };
+  const eta = (N: Cx): Cx => (pol === "s" ? q(N) : N.mul(N).div(q(N)));
+  const layerM = (N: Cx, d: number): [Cx, Cx, Cx, Cx] => {
+    const delta = q(N).mul(Cx.of((2 * Math.PI * d) / lambda));
+    const ep = delta.mul(Cx.of(0, 1)).exp();
+    const em = delta.mul(Cx.of(0, -1)).exp();
+    const cos = ep.add(em).mul(Cx.of(0.5));
+    const sin = ep.sub(em).div(Cx.of(0, 2));
+    const e = eta(N);
+    const i = Cx.of(0, 1);
+    return [cos, i.mul(sin).div(e), i.mul(e).mul(sin), cos];
+  };
+  const mul = (A: [Cx, Cx, Cx, Cx], B: [Cx, Cx, Cx, Cx]): [Cx, Cx, Cx, Cx] => [
+    A[0].mul(B[0]).add(A[1].mul(B[2])),
+    A[0].mul(B[1]).add(A[1].mul(B[3])),
+    A[2].mul(B[0]).add(A[3].mul(B[2])),
+    A[2].mul(B[1]).add(A[3].mul(B[3])),
+  ];
+  const product = (order: [number, number, number][]): [Cx, Cx, Cx, Cx] => {
+    let M: [Cx, Cx, Cx, Cx] = [Cx.of(1), Cx.of(0), Cx.of(0), Cx.of(1)];
+    for (const [n, k, d] of order) M = mul(M, layerM(Cx.of(n, -k), d));
+    return M;
+  };
+  const fromIncident = [...spec.layers].reverse();
+  const Ns = Cx.of(sub[0], -sub[1]);
+  const e0 = eta(Cx.of(n0));
+  const es = eta(Ns);
+  const respond = (M: [Cx, Cx, Cx, Cx], ein: Cx, eout: Cx) => {
+    const B = M[0].add(M[1].mul(eout));
+    const C = M[2].add(M[3].mul(eout));
+    const den = ein.mul(B).add(C);
+    return {
+      R: ein.mul(B).sub(C).div(den).abs2(),
+      T: (4 * ein.re * eout.re) / den.abs2(),
+    };
+  };
+  const front = respond(product(fromIncident), e0, es);
+  if (!spec.backside) return front;
+  const back = respond(product(spec.layers), es, e0); // seen from inside the substrate
+  const ee = eta(Cx.of(ne));
+  const Rb = es.sub(ee).div(es.add(ee)).abs2();
+  const Tb = (4 * es.re * ee.re) / es.add(ee).abs2();
+  const dNm = (spec.thicknessMm ?? 1) * 1e6;
+  const tau = Math.exp((4 * Math.PI * q(Ns).im * dNm) / lambda);
+  const den = 1 - back.R * Rb * tau * tau;
+  return { R: front.R + (front.T * front.T * tau * tau * Rb) / den, T: (front.T * tau * Tb) / den };
 }
