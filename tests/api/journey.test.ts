@@ -6,7 +6,13 @@ import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { designFromQwots, mergeYieldChunks, planChunks, runYieldChunk, type YieldStudy } from "@stackproof/optics";
+import {
+  designFromQwots,
+  mergeYieldChunks,
+  planChunks,
+  runYieldChunk,
+  type YieldStudy,
+} from "@stackproof/optics";
 import { createApp, createContext, loadEnv, type AppContext } from "@stackproof/api";
 
 const HOST = "stackproof.test";
@@ -37,7 +43,9 @@ async function waitForRun(agent: ReturnType<typeof request.agent>, id: string) {
 
 beforeAll(async () => {
   dir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-journey-"));
-  ctx = await createContext(loadEnv({ NODE_ENV: "test", DATA_DIR: dir, DEMO_DATA: "true", YIELD_WORKERS: "1" }));
+  ctx = await createContext(
+    loadEnv({ NODE_ENV: "test", DATA_DIR: dir, DEMO_DATA: "true", YIELD_WORKERS: "1" }),
+  );
   app = createApp(ctx);
 });
 afterAll(async () => {
@@ -51,9 +59,13 @@ describe("review journey", () => {
     const approver = await signIn("approver@halvorsen.example");
     const overview = await approver.get(`${API}/overview`).expect(200);
     expect(overview.body.items).toHaveLength(4);
-    expect(overview.body.items.some((r: { openBlockingThreads: number }) => r.openBlockingThreads > 0)).toBe(true);
+    expect(overview.body.items.some((r: { openBlockingThreads: number }) => r.openBlockingThreads > 0)).toBe(
+      true,
+    );
     const queue = await approver.get(`${API}/queue`).expect(200);
-    expect(queue.body.readyForDecision.map((r: { designName: string }) => r.designName)).toContain("Kestrel receiver bandpass");
+    expect(queue.body.readyForDecision.map((r: { designName: string }) => r.designName)).toContain(
+      "Kestrel receiver bandpass",
+    );
     const releases = await approver.get(`${API}/releases`).expect(200);
     expect(releases.body.items).toHaveLength(1);
     const programs = await approver.get(`${API}/programs`).expect(200);
@@ -67,26 +79,61 @@ describe("review journey", () => {
 
     // The program manager sets up a program: visible AR on a lens, average R ≤ 1 % over 450–650 nm.
     const mask = {
-      bands: [{ id: "visible", label: "Visible average", start: 450, stop: 650, step: 5, quantity: "R", polarization: "u", angleDeg: 0, requirement: "avgMax", value: 1 }],
+      bands: [
+        {
+          id: "visible",
+          label: "Visible average",
+          start: 450,
+          stop: 650,
+          step: 5,
+          quantity: "R",
+          polarization: "u",
+          angleDeg: 0,
+          requirement: "avgMax",
+          value: 1,
+        },
+      ],
     };
     const errorModel = { thickness: { relativePct: 1, absoluteNm: 0.3, distribution: "normal" } };
     const program = await approver
       .post(`${API}/programs`)
-      .send({ name: "Pipit lens — visible AR", customer: "Pipit optics", targetYield: 0.9, specMask: mask, errorModel, studyDefaults: { trials: 200, seed: "pipit" } })
+      .send({
+        name: "Pipit lens — visible AR",
+        customer: "Pipit optics",
+        targetYield: 0.9,
+        specMask: mask,
+        errorModel,
+        studyDefaults: { trials: 200, seed: "pipit" },
+      })
       .expect(201);
 
     // Revision 1: a single MgF2 quarter wave (about 1.3 % at 550 nm, Macleod single-layer AR) fails the average.
-    const single = designFromQwots({ name: "Pipit AR", referenceWavelength: 550, layers: [{ material: "MgF2", qwot: 1 }], substrate: { material: "boro-crown", thicknessMm: 3, backside: false } });
-    const created = await designer.post(`${API}/programs/${program.body.id}/designs`).send({ name: "Pipit AR", stack: single, note: "single layer" }).expect(201);
+    const single = designFromQwots({
+      name: "Pipit AR",
+      referenceWavelength: 550,
+      layers: [{ material: "MgF2", qwot: 1 }],
+      substrate: { material: "boro-crown", thicknessMm: 3, backside: false },
+    });
+    const created = await designer
+      .post(`${API}/programs/${program.body.id}/designs`)
+      .send({ name: "Pipit AR", stack: single, note: "single layer" })
+      .expect(201);
     const r1 = created.body.revision;
     expect(r1.nominal.pass).toBe(false);
     await designer.post(`${API}/revisions/${r1.id}/transitions`).send({ action: "submit" }).expect(200);
     const thread = await reviewer
       .post(`${API}/revisions/${r1.id}/threads`)
-      .send({ anchor: { kind: "band", bandId: "visible" }, severity: "blocking", body: "@Ilse Varga the visible average fails; use a quarter-half-quarter design." })
+      .send({
+        anchor: { kind: "band", bandId: "visible" },
+        severity: "blocking",
+        body: "@Ilse Varga the visible average fails; use a quarter-half-quarter design.",
+      })
       .expect(201);
     expect(thread.body.anchorPasses).toBe(false);
-    await reviewer.post(`${API}/revisions/${r1.id}/transitions`).send({ action: "request_changes", note: "See the blocking thread." }).expect(200);
+    await reviewer
+      .post(`${API}/revisions/${r1.id}/transitions`)
+      .send({ action: "request_changes", note: "See the blocking thread." })
+      .expect(200);
 
     // Revision 2: quarter-half-quarter Al2O3 / ZrO2 / MgF2 (Macleod, three-layer AR).
     const qhq = designFromQwots({
@@ -99,33 +146,63 @@ describe("review journey", () => {
       ],
       substrate: { material: "boro-crown", thicknessMm: 3, backside: false },
     });
-    const r2 = await designer.post(`${API}/designs/${created.body.design.id}/revisions`).send({ stack: qhq, note: "QHQ" }).expect(201);
+    const r2 = await designer
+      .post(`${API}/designs/${created.body.design.id}/revisions`)
+      .send({ stack: qhq, note: "QHQ" })
+      .expect(201);
     expect(r2.body.number).toBe(2);
     expect(r2.body.nominal.pass).toBe(true);
     const diff = await reviewer.get(`${API}/revisions/${r2.body.id}/diff?against=${r1.id}`).expect(200);
     expect(diff.body.added).toHaveLength(2);
 
     // The browser computes the study and submits its result; the server re-runs it and verifies it.
-    const study: YieldStudy = { design: r2.body.stack, mask: r2.body.specMask, errorModel: errorModel as YieldStudy["errorModel"], trials: 200, seed: "pipit-r2" };
-    const browser = mergeYieldChunks(study, planChunks(200, 64).map(([s, n]) => runYieldChunk(study, s, n)));
-    const started = await designer.post(`${API}/revisions/${r2.body.id}/yield-runs`).send({ trials: 200, seed: "pipit-r2", clientResult: browser }).expect(202);
+    const study: YieldStudy = {
+      design: r2.body.stack,
+      mask: r2.body.specMask,
+      errorModel: errorModel as YieldStudy["errorModel"],
+      trials: 200,
+      seed: "pipit-r2",
+    };
+    const browser = mergeYieldChunks(
+      study,
+      planChunks(200, 64).map(([s, n]) => runYieldChunk(study, s, n)),
+    );
+    const started = await designer
+      .post(`${API}/revisions/${r2.body.id}/yield-runs`)
+      .send({ trials: 200, seed: "pipit-r2", clientResult: browser })
+      .expect(202);
     const run = await waitForRun(designer, started.body.run.id);
     expect(run).toMatchObject({ status: "done", verified: true, clientSubmitted: true });
     expect(run.result.yield).toBeGreaterThanOrEqual(0.9);
-    await designer.post(`${API}/revisions/${r2.body.id}/transitions`).send({ action: "submit", note: "QHQ, verified yield attached" }).expect(200);
+    await designer
+      .post(`${API}/revisions/${r2.body.id}/transitions`)
+      .send({ action: "submit", note: "QHQ, verified yield attached" })
+      .expect(200);
 
     // The thread from revision 1 carries forward and now passes; until resolved it blocks approval.
     const threads = await reviewer.get(`${API}/revisions/${r2.body.id}/threads`).expect(200);
     expect(threads.body.items).toHaveLength(1);
     expect(threads.body.items[0]).toMatchObject({ revisionNumber: 1, status: "open", anchorPasses: true });
-    const blocked = await approver.post(`${API}/revisions/${r2.body.id}/transitions`).send({ action: "approve" }).expect(422);
+    const blocked = await approver
+      .post(`${API}/revisions/${r2.body.id}/transitions`)
+      .send({ action: "approve" })
+      .expect(422);
     expect(blocked.body.error.details.checks.map((c: { id: string }) => c.id)).toEqual(["blocking_threads"]);
-    await reviewer.post(`${API}/threads/${thread.body.id}/resolve`).send({ note: "Passes on rev 2." }).expect(200);
+    await reviewer
+      .post(`${API}/threads/${thread.body.id}/resolve`)
+      .send({ note: "Passes on rev 2." })
+      .expect(200);
 
     const gate = await approver.get(`${API}/revisions/${r2.body.id}/gate`).expect(200);
     expect(gate.body).toMatchObject({ canApprove: true, yieldRunId: run.id });
-    await approver.post(`${API}/revisions/${r2.body.id}/transitions`).send({ action: "approve", note: "Verified yield above target." }).expect(200);
-    const released = await approver.post(`${API}/revisions/${r2.body.id}/transitions`).send({ action: "release", note: "First lot." }).expect(200);
+    await approver
+      .post(`${API}/revisions/${r2.body.id}/transitions`)
+      .send({ action: "approve", note: "Verified yield above target." })
+      .expect(200);
+    const released = await approver
+      .post(`${API}/revisions/${r2.body.id}/transitions`)
+      .send({ action: "release", note: "First lot." })
+      .expect(200);
     expect(released.body.revision.status).toBe("released");
 
     const record = await reviewer.get(`${API}/releases/${released.body.releaseId}`).expect(200);
@@ -136,11 +213,11 @@ describe("review journey", () => {
       threads: { total: 1, open: 0, resolved: 1 },
       caution: null,
     });
-    expect(record.body.decisions.map((d: { action: string; actor: { name: string } }) => `${d.action}:${d.actor.name}`)).toEqual([
-      "submit:Ilse Varga",
-      "approve:Sunniva Achterberg",
-      "release:Sunniva Achterberg",
-    ]);
+    expect(
+      record.body.decisions.map(
+        (d: { action: string; actor: { name: string } }) => `${d.action}:${d.actor.name}`,
+      ),
+    ).toEqual(["submit:Ilse Varga", "approve:Sunniva Achterberg", "release:Sunniva Achterberg"]);
     const print = await reviewer.get(`${API}/releases/${released.body.releaseId}/print`).expect(200);
     expect(print.text).toContain("Release record — Pipit AR rev 2");
     expect(print.text).toContain(r2.body.hash);
@@ -159,6 +236,13 @@ describe("review journey", () => {
     );
     const audit = await approver.get(`${API}/audit?limit=200`).expect(200);
     const actions = audit.body.items.map((a: { action: string }) => a.action);
-    expect(actions).toEqual(expect.arrayContaining(["revision.approved", "revision.released", "thread.resolved", "yield_run.started"]));
+    expect(actions).toEqual(
+      expect.arrayContaining([
+        "revision.approved",
+        "revision.released",
+        "thread.resolved",
+        "yield_run.started",
+      ]),
+    );
   });
 });

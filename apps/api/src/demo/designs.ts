@@ -1,9 +1,16 @@
 // Demo designs of the fictional Halvorsen Thinfilm Works, built with the optics package from QWOT recipes.
 // Textbook structures (Macleod, Thin-Film Optical Filters: quarter-wave stacks, Fabry-Perot cavities,
 // quarter-half-quarter AR); the specs are invented for the demo and chosen so the nominal designs pass.
-import { designFromQwots, type Design, type ErrorModel, type QwotLayer, type SpecMask } from "@stackproof/optics";
+import {
+  designFromQwots,
+  type Design,
+  type ErrorModel,
+  type QwotLayer,
+  type SpecMask,
+} from "@stackproof/optics";
 
-const repeat = (n: number, unit: QwotLayer[]): QwotLayer[] => Array.from({ length: n }, () => unit.map((l) => ({ ...l }))).flat();
+const repeat = (n: number, unit: QwotLayer[]): QwotLayer[] =>
+  Array.from({ length: n }, () => unit.map((l) => ({ ...l }))).flat();
 const H = (material: string, qwot = 1): QwotLayer => ({ material, qwot });
 
 export interface DemoProgram {
@@ -107,7 +114,8 @@ export function demoPrograms(): DemoProgram[] {
       name: "Kestrel range sensor — 905 nm NIR bandpass",
       customer: "Halvorsen sensing group (internal)",
       application: "Receiver filter of a pulsed 905 nm range finder",
-      description: "Pass the 905 nm laser return; block ambient light on both sides inside the mirror stop band.",
+      description:
+        "Pass the 905 nm laser return; block ambient light on both sides inside the mirror stop band.",
       protective: false,
       targetYield: 0.85,
       mask: {
@@ -121,8 +129,14 @@ export function demoPrograms(): DemoProgram[] {
       trials: 400,
       designName: "Kestrel receiver bandpass",
       revisions: [
-        { stack: bandpass905(4, 2, "Kestrel receiver bandpass"), note: "First cut: 4-pair Ta2O5/SiO2 mirrors around a half-wave Ta2O5 cavity." },
-        { stack: bandpass905(5, 2, "Kestrel receiver bandpass"), note: "Fifth mirror pair on each side for the blocking bands." },
+        {
+          stack: bandpass905(4, 2, "Kestrel receiver bandpass"),
+          note: "First cut: 4-pair Ta2O5/SiO2 mirrors around a half-wave Ta2O5 cavity.",
+        },
+        {
+          stack: bandpass905(5, 2, "Kestrel receiver bandpass"),
+          note: "Fifth mirror pair on each side for the blocking bands.",
+        },
       ],
     },
     {
@@ -143,8 +157,14 @@ export function demoPrograms(): DemoProgram[] {
       trials: 300,
       designName: "Aster 505 long-pass dichroic",
       revisions: [
-        { stack: dichroic(8, 450, "Aster 505 long-pass dichroic"), note: "Eight (0.5L H 0.5L) periods of TiO2/SiO2 centred at 450 nm." },
-        { stack: dichroic(10, 452, "Aster 505 long-pass dichroic"), note: "Ten periods, centre moved to 452 nm for a steeper edge." },
+        {
+          stack: dichroic(8, 450, "Aster 505 long-pass dichroic"),
+          note: "Eight (0.5L H 0.5L) periods of TiO2/SiO2 centred at 450 nm.",
+        },
+        {
+          stack: dichroic(10, 452, "Aster 505 long-pass dichroic"),
+          note: "Ten periods, centre moved to 452 nm for a steeper edge.",
+        },
       ],
     },
     {
@@ -166,7 +186,10 @@ export function demoPrograms(): DemoProgram[] {
       designName: "Wren window AR",
       revisions: [
         { stack: singleMgF2("Wren window AR"), note: "Baseline: one MgF2 quarter wave at 550 nm." },
-        { stack: qhqAr("Wren window AR", 2, 1, 1), note: "Al2O3 / ZrO2 / MgF2 quarter-half-quarter at 530 nm." },
+        {
+          stack: qhqAr("Wren window AR", 2, 1, 1),
+          note: "Al2O3 / ZrO2 / MgF2 quarter-half-quarter at 530 nm.",
+        },
       ],
     },
     {
@@ -174,7 +197,8 @@ export function demoPrograms(): DemoProgram[] {
       name: "Merlin laser shield — 532 nm notch, OD ≥ 4",
       customer: "Merlin lab safety",
       application: "Eye-protection viewing window against 532 nm laser light",
-      description: "Block 528–536 nm with OD ≥ 4 while keeping blue and red visible. Protective: computed results are no certification.",
+      description:
+        "Block 528–536 nm with OD ≥ 4 while keeping blue and red visible. Protective: computed results are no certification.",
       protective: true,
       targetYield: 0.95,
       mask: {
@@ -188,7 +212,10 @@ export function demoPrograms(): DemoProgram[] {
       trials: 300,
       designName: "Merlin 532 notch",
       revisions: [
-        { stack: notch532(14, "Merlin 532 notch"), note: "(HL)^14 H Ta2O5/SiO2 quarter-wave reflector at 532 nm." },
+        {
+          stack: notch532(14, "Merlin 532 notch"),
+          note: "(HL)^14 H Ta2O5/SiO2 quarter-wave reflector at 532 nm.",
+        },
         { stack: notch532(16, "Merlin 532 notch"), note: "Two more pairs for OD margin at the band edges." },
       ],
     },

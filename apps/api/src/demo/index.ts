@@ -1,7 +1,13 @@
 // Demo data: the fictional Halvorsen Thinfilm Works, loaded into a new database when DEMO_DATA is on.
 // Yield runs are computed here synchronously with the same optics functions the workers use (small trial counts).
 import { eq } from "drizzle-orm";
-import { ENGINE_VERSION, mergeYieldChunks, planChunks, runYieldChunk, type YieldStudy } from "@stackproof/optics";
+import {
+  ENGINE_VERSION,
+  mergeYieldChunks,
+  planChunks,
+  runYieldChunk,
+  type YieldStudy,
+} from "@stackproof/optics";
 import { hashPassword } from "../auth/password.ts";
 import type { Db } from "../db/client.ts";
 import {
@@ -33,10 +39,34 @@ export const DEMO_PASSWORD = "stackproof-demo";
 export const DEMO_WORKSPACE = "Halvorsen Thinfilm Works";
 
 export const DEMO_ACCOUNTS: { key: string; name: string; email: string; roles: Role[]; title: string }[] = [
-  { key: "admin", name: "Maren Kolstad", email: "admin@halvorsen.example", roles: ["admin"], title: "administrator" },
-  { key: "designer", name: "Ilse Varga", email: "designer@halvorsen.example", roles: ["designer"], title: "filter designer" },
-  { key: "reviewer", name: "Tobiah Renwick", email: "reviewer@halvorsen.example", roles: ["reviewer"], title: "peer reviewer" },
-  { key: "approver", name: "Sunniva Achterberg", email: "approver@halvorsen.example", roles: ["approver"], title: "program manager (approver)" },
+  {
+    key: "admin",
+    name: "Maren Kolstad",
+    email: "admin@halvorsen.example",
+    roles: ["admin"],
+    title: "administrator",
+  },
+  {
+    key: "designer",
+    name: "Ilse Varga",
+    email: "designer@halvorsen.example",
+    roles: ["designer"],
+    title: "filter designer",
+  },
+  {
+    key: "reviewer",
+    name: "Tobiah Renwick",
+    email: "reviewer@halvorsen.example",
+    roles: ["reviewer"],
+    title: "peer reviewer",
+  },
+  {
+    key: "approver",
+    name: "Sunniva Achterberg",
+    email: "approver@halvorsen.example",
+    roles: ["approver"],
+    title: "program manager (approver)",
+  },
 ];
 
 /** True when the database has no workspace yet (a new database). */
@@ -84,24 +114,44 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
   const study = (d: DemoProgram, revisionIndex: number): YieldStudy => {
     const rev = d.revisions[revisionIndex];
     if (!rev) throw new Error(`demo revision ${d.key}/${revisionIndex}`);
-    return { design: rev.stack, mask: { ...d.mask, protective: d.protective }, errorModel: d.errorModel, trials: d.trials, seed: `${d.key}-r${revisionIndex + 1}` };
+    return {
+      design: rev.stack,
+      mask: { ...d.mask, protective: d.protective },
+      errorModel: d.errorModel,
+      trials: d.trials,
+      seed: `${d.key}-r${revisionIndex + 1}`,
+    };
   };
-  const compute = (s: YieldStudy) => mergeYieldChunks(s, planChunks(s.trials, 100).map(([start, count]) => runYieldChunk(s, start, count)));
+  const compute = (s: YieldStudy) =>
+    mergeYieldChunks(
+      s,
+      planChunks(s.trials, 100).map(([start, count]) => runYieldChunk(s, start, count)),
+    );
   const studies = {
     kestrel: study(spec("kestrel"), 1),
     aster: study(spec("aster"), 1),
     wren: study(spec("wren"), 1),
   };
-  const results = { kestrel: compute(studies.kestrel), aster: compute(studies.aster), wren: compute(studies.wren) };
+  const results = {
+    kestrel: compute(studies.kestrel),
+    aster: compute(studies.aster),
+    wren: compute(studies.wren),
+  };
 
   let revisionCount = 0;
   let runCount = 0;
   let releaseCount = 0;
   db.transaction((tx) => {
-    tx.insert(workspaces).values({ id: workspaceId, name: DEMO_WORKSPACE, createdAt: at(30) }).run();
+    tx.insert(workspaces)
+      .values({ id: workspaceId, name: DEMO_WORKSPACE, createdAt: at(30) })
+      .run();
     for (const person of Object.values(people)) {
-      tx.insert(users).values({ id: person.id, email: person.email, name: person.name, passwordHash, createdAt: at(30) }).run();
-      tx.insert(memberships).values({ workspaceId, userId: person.id, roles: person.roles, createdAt: at(30) }).run();
+      tx.insert(users)
+        .values({ id: person.id, email: person.email, name: person.name, passwordHash, createdAt: at(30) })
+        .run();
+      tx.insert(memberships)
+        .values({ workspaceId, userId: person.id, roles: person.roles, createdAt: at(30) })
+        .run();
     }
 
     const contexts = new Map<string, RevisionContext[]>();
@@ -124,7 +174,13 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
         createdAt: at(day),
       };
       tx.insert(programs).values(program).run();
-      const design = { id: newId(), programId, name: d.designName, createdBy: designer.id, createdAt: at(day - 1) };
+      const design = {
+        id: newId(),
+        programId,
+        name: d.designName,
+        createdBy: designer.id,
+        createdAt: at(day - 1),
+      };
       tx.insert(designs).values(design).run();
       const list: RevisionContext[] = [];
       d.revisions.forEach((r, i) => {
@@ -155,10 +211,30 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
       return r;
     };
 
-    const decide = (rc: RevisionContext, action: DecisionAction, to: RevisionStatus, by: { id: string; name: string }, when: Date, note = "", yieldRunId: string | null = null) => {
+    const decide = (
+      rc: RevisionContext,
+      action: DecisionAction,
+      to: RevisionStatus,
+      by: { id: string; name: string },
+      when: Date,
+      note = "",
+      yieldRunId: string | null = null,
+    ) => {
       const from = rc.revision.status;
       tx.insert(decisions)
-        .values({ id: newId(), revisionId: rc.revision.id, action, fromStatus: from, toStatus: to, actorId: by.id, actorName: by.name, revisionHash: rc.revision.hash, yieldRunId, note, at: when })
+        .values({
+          id: newId(),
+          revisionId: rc.revision.id,
+          action,
+          fromStatus: from,
+          toStatus: to,
+          actorId: by.id,
+          actorName: by.name,
+          revisionHash: rc.revision.hash,
+          yieldRunId,
+          note,
+          at: when,
+        })
         .run();
       tx.update(revisions).set({ status: to, statusChangedAt: when }).where(eqId(rc.revision.id)).run();
       rc.revision = { ...rc.revision, status: to, statusChangedAt: when };
@@ -200,13 +276,26 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
         .run();
       talk.forEach((c, i) => {
         tx.insert(comments)
-          .values({ id: newId(), threadId: id, authorId: c.by.id, body: c.body, mentions: c.mentions ?? [], createdAt: new Date(when.getTime() + i * 3600 * 1000) })
+          .values({
+            id: newId(),
+            threadId: id,
+            authorId: c.by.id,
+            body: c.body,
+            mentions: c.mentions ?? [],
+            createdAt: new Date(when.getTime() + i * 3600 * 1000),
+          })
           .run();
       });
       return id;
     };
 
-    const storeRun = (rc: RevisionContext, s: YieldStudy, result: ReturnType<typeof compute>, by: { id: string }, when: Date) => {
+    const storeRun = (
+      rc: RevisionContext,
+      s: YieldStudy,
+      result: ReturnType<typeof compute>,
+      by: { id: string },
+      when: Date,
+    ) => {
       const id = newId();
       const base = {
         id,
@@ -229,7 +318,9 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
       };
       // A server-only run: verified, since the server computed it itself.
       const done = finishedRunValues(base, result);
-      tx.insert(yieldRuns).values({ ...base, ...done, finishedAt: new Date(when.getTime() + 60_000) }).run();
+      tx.insert(yieldRuns)
+        .values({ ...base, ...done, finishedAt: new Date(when.getTime() + 60_000) })
+        .run();
       runCount++;
       return id;
     };
@@ -238,10 +329,21 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
     // verified yield above target, one advisory thread: the approver can approve it.
     const k1 = rev("kestrel", 1);
     decide(k1, "submit", "in_review", designer, at(19), "Ready for a first look.");
-    thread(k1, { kind: "band", bandId: "block-short" }, "blocking", reviewer, at(18), [
-      { by: reviewer, body: "Short-side blocking fails nominally (T ≈ 1.9 % at 850 nm). Four mirror pairs are not enough." },
-      { by: designer, body: "Agreed, adding a pair on each side in rev 2." },
-    ], { by: reviewer, when: at(13) });
+    thread(
+      k1,
+      { kind: "band", bandId: "block-short" },
+      "blocking",
+      reviewer,
+      at(18),
+      [
+        {
+          by: reviewer,
+          body: "Short-side blocking fails nominally (T ≈ 1.9 % at 850 nm). Four mirror pairs are not enough.",
+        },
+        { by: designer, body: "Agreed, adding a pair on each side in rev 2." },
+      ],
+      { by: reviewer, when: at(13) },
+    );
     decide(k1, "request_changes", "changes_requested", reviewer, at(18, 4), "Blocking bands fail nominally.");
     const k2 = rev("kestrel", 2);
     storeRun(k2, studies.kestrel, results.kestrel, designer, at(14));
@@ -257,20 +359,48 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
     // Aster: rev 2 in review with a verified yield below target and an advisory thread on the emission band.
     const a2 = rev("aster", 2);
     storeRun(a2, studies.aster, results.aster, designer, at(10));
-    decide(a2, "submit", "in_review", designer, at(10, 2), "Ten periods; ripple in the emission band is still high.");
+    decide(
+      a2,
+      "submit",
+      "in_review",
+      designer,
+      at(10, 2),
+      "Ten periods; ripple in the emission band is still high.",
+    );
     thread(a2, { kind: "band", bandId: "transmit" }, "advisory", reviewer, at(7), [
-      { by: reviewer, body: "Emission average sits just under 75 % at 45°. Matching layers against the substrate and the air side would flatten the ripple." },
+      {
+        by: reviewer,
+        body: "Emission average sits just under 75 % at 45°. Matching layers against the substrate and the air side would flatten the ripple.",
+      },
     ]);
 
     // Wren: the single-layer baseline was withdrawn; rev 2 is released with its decisions and release record.
     const w0 = rev("wren", 1);
-    decide(w0, "withdraw", "withdrawn", designer, at(8), "Baseline only; the single layer cannot reach 0.5 % average.");
+    decide(
+      w0,
+      "withdraw",
+      "withdrawn",
+      designer,
+      at(8),
+      "Baseline only; the single layer cannot reach 0.5 % average.",
+    );
     const w1 = rev("wren", 2);
     const wrenRun = storeRun(w1, studies.wren, results.wren, designer, at(7, 1));
     decide(w1, "submit", "in_review", designer, at(7, 2), "Standard QHQ recipe for the window.");
-    thread(w1, { kind: "layer", index: 1 }, "advisory", reviewer, at(7, 6), [
-      { by: reviewer, body: "The half-wave ZrO2 layer dominates the critical-layer ranking; keep its monitoring chip fresh." },
-    ], { by: designer, when: at(6, 2) });
+    thread(
+      w1,
+      { kind: "layer", index: 1 },
+      "advisory",
+      reviewer,
+      at(7, 6),
+      [
+        {
+          by: reviewer,
+          body: "The half-wave ZrO2 layer dominates the critical-layer ranking; keep its monitoring chip fresh.",
+        },
+      ],
+      { by: designer, when: at(6, 2) },
+    );
     decide(w1, "approve", "approved", approver, at(6), "Yield well above target.", wrenRun);
     decide(w1, "release", "released", approver, at(5), "Released for the spring lot.", wrenRun);
     const releaseId = newId();
@@ -306,14 +436,35 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
         mentions: [designer.id],
       },
     ]);
-    decide(m1, "request_changes", "changes_requested", reviewer, at(6, 2), "OD margin too thin for a protective part.");
+    decide(
+      m1,
+      "request_changes",
+      "changes_requested",
+      reviewer,
+      at(6, 2),
+      "OD margin too thin for a protective part.",
+    );
   });
-  return { workspaceId, programs: specs.size, revisions: revisionCount, yieldRuns: runCount, releases: releaseCount, ms: Math.round(performance.now() - t0) };
+  return {
+    workspaceId,
+    programs: specs.size,
+    revisions: revisionCount,
+    yieldRuns: runCount,
+    releases: releaseCount,
+    ms: Math.round(performance.now() - t0),
+  };
 }
 
 const eqId = (id: string) => eq(revisions.id, id);
 
 /** Whether the demo accounts exist in this database (they are printed at start-up only then). */
 export function isDemoWorkspacePresent(db: Db): boolean {
-  return db.select({ id: users.id }).from(users).where(eq(users.email, DEMO_ACCOUNTS[0]?.email ?? "")).limit(1).all().length > 0;
+  return (
+    db
+      .select({ id: users.id })
+      .from(users)
+      .where(eq(users.email, DEMO_ACCOUNTS[0]?.email ?? ""))
+      .limit(1)
+      .all().length > 0
+  );
 }

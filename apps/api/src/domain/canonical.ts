@@ -7,10 +7,12 @@ import { createHash, randomBytes } from "node:crypto";
  */
 export function canonicalJson(value: unknown): string {
   if (value === null || typeof value !== "object") {
-    if (typeof value === "number" && !Number.isFinite(value)) throw new RangeError(`canonicalJson: non-finite number ${value}`);
+    if (typeof value === "number" && !Number.isFinite(value))
+      throw new RangeError(`canonicalJson: non-finite number ${value}`);
     return JSON.stringify(value) ?? "null";
   }
-  if (Array.isArray(value)) return `[${value.map((v) => (v === undefined ? "null" : canonicalJson(v))).join(",")}]`;
+  if (Array.isArray(value))
+    return `[${value.map((v) => (v === undefined ? "null" : canonicalJson(v))).join(",")}]`;
   const entries = Object.entries(value as Record<string, unknown>)
     .filter(([, v]) => v !== undefined)
     .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));

@@ -47,8 +47,10 @@ export function diffStacks(before: Design, after: Design): StackDiff {
   if (before.substrate.thicknessMm !== after.substrate.thicknessMm) {
     other.push(`substrate thickness ${before.substrate.thicknessMm} mm → ${after.substrate.thicknessMm} mm`);
   }
-  if (before.substrate.backside !== after.substrate.backside) other.push(`substrate back surface ${after.substrate.backside ? "counted" : "not counted"}`);
-  if (before.incident !== after.incident) other.push(`incident medium ${before.incident} → ${after.incident}`);
+  if (before.substrate.backside !== after.substrate.backside)
+    other.push(`substrate back surface ${after.substrate.backside ? "counted" : "not counted"}`);
+  if (before.incident !== after.incident)
+    other.push(`incident medium ${before.incident} → ${after.incident}`);
   if (before.exit !== after.exit) other.push(`exit medium ${before.exit} → ${after.exit}`);
   if (before.referenceWavelength !== after.referenceWavelength) {
     other.push(`reference wavelength ${before.referenceWavelength} nm → ${after.referenceWavelength} nm`);

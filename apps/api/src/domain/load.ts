@@ -22,7 +22,11 @@ export function loadProgram(db: DbOrTx, workspaceId: string, id: string): Progra
   return row;
 }
 
-export function loadDesign(db: DbOrTx, workspaceId: string, id: string): { design: DesignRow; program: ProgramRow } {
+export function loadDesign(
+  db: DbOrTx,
+  workspaceId: string,
+  id: string,
+): { design: DesignRow; program: ProgramRow } {
   const row = db
     .select({ design: designs, program: programs })
     .from(designs)
@@ -51,7 +55,11 @@ export function loadRevision(db: DbOrTx, workspaceId: string, id: string): Revis
   return row;
 }
 
-export function loadYieldRun(db: DbOrTx, workspaceId: string, id: string): RevisionContext & { run: YieldRunRow } {
+export function loadYieldRun(
+  db: DbOrTx,
+  workspaceId: string,
+  id: string,
+): RevisionContext & { run: YieldRunRow } {
   const row = db
     .select({ run: yieldRuns, revision: revisions, design: designs, program: programs })
     .from(yieldRuns)
@@ -64,7 +72,11 @@ export function loadYieldRun(db: DbOrTx, workspaceId: string, id: string): Revis
   return row;
 }
 
-export function loadThread(db: DbOrTx, workspaceId: string, id: string): { thread: ThreadRow; design: DesignRow; program: ProgramRow } {
+export function loadThread(
+  db: DbOrTx,
+  workspaceId: string,
+  id: string,
+): { thread: ThreadRow; design: DesignRow; program: ProgramRow } {
   const row = db
     .select({ thread: threads, design: designs, program: programs })
     .from(threads)
@@ -87,17 +99,27 @@ export function maskOf(revision: RevisionRow, program: ProgramRow): SpecMask {
 }
 
 /** id → {id, name} for the given user ids (unknown ids are left out). */
-export function userNames(db: Db | DbOrTx, ids: Iterable<string | null | undefined>): Map<string, { id: string; name: string }> {
+export function userNames(
+  db: Db | DbOrTx,
+  ids: Iterable<string | null | undefined>,
+): Map<string, { id: string; name: string }> {
   const wanted = [...new Set([...ids].filter((x): x is string => typeof x === "string"))];
   const out = new Map<string, { id: string; name: string }>();
   if (wanted.length === 0) return out;
-  for (const u of db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, wanted)).all()) {
+  for (const u of db
+    .select({ id: users.id, name: users.name })
+    .from(users)
+    .where(inArray(users.id, wanted))
+    .all()) {
     out.set(u.id, u);
   }
   return out;
 }
 
-export function person(map: Map<string, { id: string; name: string }>, id: string | null | undefined): { id: string; name: string } | null {
+export function person(
+  map: Map<string, { id: string; name: string }>,
+  id: string | null | undefined,
+): { id: string; name: string } | null {
   if (!id) return null;
   return map.get(id) ?? { id, name: "(former member)" };
 }

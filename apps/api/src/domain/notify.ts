@@ -40,10 +40,19 @@ function send(ctx: AppContext, to: Recipient, content: { subject: string; text: 
   void ctx.mail.send({ to: to.email, subject: content.subject, text: content.text, html: content.html });
 }
 
-export function mailReviewRequested(ctx: AppContext, rc: RevisionContext, author: { id: string; name: string }, note: string) {
+export function mailReviewRequested(
+  ctx: AppContext,
+  rc: RevisionContext,
+  author: { id: string; name: string },
+  note: string,
+) {
   for (const r of membersWithRoles(ctx, rc.program.workspaceId)) {
     if (r.id === author.id || !r.roles.includes("reviewer")) continue;
-    send(ctx, r, templates.reviewRequested({ ...base(ctx, rc, r), authorName: author.name, note: note || undefined }));
+    send(
+      ctx,
+      r,
+      templates.reviewRequested({ ...base(ctx, rc, r), authorName: author.name, note: note || undefined }),
+    );
   }
 }
 
@@ -51,16 +60,38 @@ function authorOf(ctx: AppContext, rc: RevisionContext): Recipient | undefined {
   return membersWithRoles(ctx, rc.program.workspaceId).find((m) => m.id === rc.revision.authorId);
 }
 
-export function mailChangesRequested(ctx: AppContext, rc: RevisionContext, reviewer: { id: string; name: string }, note: string) {
+export function mailChangesRequested(
+  ctx: AppContext,
+  rc: RevisionContext,
+  reviewer: { id: string; name: string },
+  note: string,
+) {
   const author = authorOf(ctx, rc);
   if (!author || author.id === reviewer.id) return;
-  send(ctx, author, templates.changesRequested({ ...base(ctx, rc, author), reviewerName: reviewer.name, note: note || undefined }));
+  send(
+    ctx,
+    author,
+    templates.changesRequested({
+      ...base(ctx, rc, author),
+      reviewerName: reviewer.name,
+      note: note || undefined,
+    }),
+  );
 }
 
-export function mailApproved(ctx: AppContext, rc: RevisionContext, approver: { id: string; name: string }, note: string) {
+export function mailApproved(
+  ctx: AppContext,
+  rc: RevisionContext,
+  approver: { id: string; name: string },
+  note: string,
+) {
   const author = authorOf(ctx, rc);
   if (!author || author.id === approver.id) return;
-  send(ctx, author, templates.approved({ ...base(ctx, rc, author), approverName: approver.name, note: note || undefined }));
+  send(
+    ctx,
+    author,
+    templates.approved({ ...base(ctx, rc, author), approverName: approver.name, note: note || undefined }),
+  );
 }
 
 /** To the author and the other approvers of the workspace. */
@@ -75,7 +106,17 @@ export function mailReleased(
   for (const r of membersWithRoles(ctx, rc.program.workspaceId)) {
     if (r.id === approver.id) continue;
     if (r.id !== rc.revision.authorId && !r.roles.includes("approver")) continue;
-    send(ctx, r, templates.released({ ...base(ctx, rc, r), link, approverName: approver.name, yieldText, protective: rc.program.protective }));
+    send(
+      ctx,
+      r,
+      templates.released({
+        ...base(ctx, rc, r),
+        link,
+        approverName: approver.name,
+        yieldText,
+        protective: rc.program.protective,
+      }),
+    );
   }
 }
 

@@ -3,10 +3,18 @@ import type { BandOutcome, Design, SpecMask } from "@stackproof/optics";
 import type { ReleaseSnapshot } from "./workflow.ts";
 
 const esc = (s: unknown): string =>
-  String(s ?? "").replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] ?? c);
+  String(s ?? "").replace(
+    /[&<>"']/g,
+    (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] ?? c,
+  );
 
 const pct = (x: number, digits = 1) => `${(x * 100).toFixed(digits)} %`;
-const REQUIREMENT: Record<string, string> = { min: "every point ≥", max: "every point ≤", avgMin: "average ≥", avgMax: "average ≤" };
+const REQUIREMENT: Record<string, string> = {
+  min: "every point ≥",
+  max: "every point ≤",
+  avgMin: "average ≥",
+  avgMax: "average ≤",
+};
 const ACTION: Record<string, string> = {
   submit: "Submitted for review",
   request_changes: "Changes requested",
@@ -26,7 +34,8 @@ export function releasePrintHtml(r: ReleaseSnapshot, status: string): string {
   const y = r.yieldRun;
   const failures = new Map((y?.bandFailures ?? []).map((b) => [b.id, b.count]));
   const title = `Release record — ${r.design.name} rev ${r.revision.number}`;
-  const rows = (cells: string[][]) => cells.map((c) => `<tr>${c.map((x) => `<td>${x}</td>`).join("")}</tr>`).join("");
+  const rows = (cells: string[][]) =>
+    cells.map((c) => `<tr>${c.map((x) => `<td>${x}</td>`).join("")}</tr>`).join("");
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><title>${esc(title)}</title>
 <meta name="viewport" content="width=device-width, initial-scale=1">

@@ -7,14 +7,28 @@ import { HttpError } from "../lib/errors.ts";
 import { zodDetails } from "../lib/errors.ts";
 import { newId, revisionHash } from "./canonical.ts";
 import { resolveDesign } from "./materials.ts";
-import { maskOf, person, stackOf, userNames, type DesignRow, type ProgramRow, type RevisionContext, type RevisionRow } from "./load.ts";
+import {
+  maskOf,
+  person,
+  stackOf,
+  userNames,
+  type DesignRow,
+  type ProgramRow,
+  type RevisionContext,
+  type RevisionRow,
+} from "./load.ts";
 
 export function parseMask(input: unknown): SpecMask {
   const parsed = SpecMaskSchema.safeParse(input);
   if (!parsed.success) {
     const details = zodDetails(parsed.error);
     const first = details[0];
-    throw new HttpError(400, "invalid_spec_mask", `Spec mask: ${first ? `${first.path || "mask"}: ${first.message}` : "invalid"}`, details);
+    throw new HttpError(
+      400,
+      "invalid_spec_mask",
+      `Spec mask: ${first ? `${first.path || "mask"}: ${first.message}` : "invalid"}`,
+      details,
+    );
   }
   return parsed.data;
 }
@@ -41,10 +55,19 @@ export function createRevision(tx: DbOrTx, input: NewRevision): RevisionRow {
   try {
     evaluateSpec(stack, { ...storedMask, protective: input.program.protective });
   } catch (err) {
-    if (err instanceof RangeError) throw new HttpError(400, "not_computable", `The design cannot be evaluated against the spec mask: ${err.message}`);
+    if (err instanceof RangeError)
+      throw new HttpError(
+        400,
+        "not_computable",
+        `The design cannot be evaluated against the spec mask: ${err.message}`,
+      );
     throw err;
   }
-  const last = tx.select({ n: max(revisions.number) }).from(revisions).where(eq(revisions.designId, input.design.id)).get();
+  const last = tx
+    .select({ n: max(revisions.number) })
+    .from(revisions)
+    .where(eq(revisions.designId, input.design.id))
+    .get();
   const row = {
     id: newId(),
     designId: input.design.id,
@@ -79,7 +102,10 @@ export function programView(p: ProgramRow) {
 
 /** Compact revision for lists and queues. */
 export function revisionSummary(db: DbOrTx, rows: readonly RevisionContext[]) {
-  const names = userNames(db, rows.map((r) => r.revision.authorId));
+  const names = userNames(
+    db,
+    rows.map((r) => r.revision.authorId),
+  );
   return rows.map(({ revision: r, design, program }) => {
     const author = person(names, r.authorId) ?? { id: r.authorId, name: "" };
     return {
@@ -142,7 +168,12 @@ export function designView(db: DbOrTx, design: DesignRow, program: ProgramRow) {
     id: design.id,
     name: design.name,
     createdAt: design.createdAt.toISOString(),
-    program: { id: program.id, name: program.name, targetYield: program.targetYield, protective: program.protective },
+    program: {
+      id: program.id,
+      name: program.name,
+      targetYield: program.targetYield,
+      protective: program.protective,
+    },
     revisions: revisionSummary(db, designRevisions(db, design, program)),
   };
 }
@@ -152,7 +183,9 @@ export function latestVerifiedRun(db: DbOrTx, revisionId: string) {
   const run = db
     .select()
     .from(yieldRuns)
-    .where(and(eq(yieldRuns.revisionId, revisionId), eq(yieldRuns.status, "done"), eq(yieldRuns.verified, true)))
+    .where(
+      and(eq(yieldRuns.revisionId, revisionId), eq(yieldRuns.status, "done"), eq(yieldRuns.verified, true)),
+    )
     .orderBy(desc(yieldRuns.finishedAt), desc(yieldRuns.id))
     .get();
   return run ?? null;
@@ -160,14 +193,28 @@ export function latestVerifiedRun(db: DbOrTx, revisionId: string) {
 
 /** One row of the home table for a design. */
 export function overviewRow(db: DbOrTx, design: DesignRow, program: ProgramRow) {
-  const latest = db.select().from(revisions).where(eq(revisions.designId, design.id)).orderBy(desc(revisions.number)).get();
-  const open = db.select({ severity: threads.severity }).from(threads).where(and(eq(threads.designId, design.id), eq(threads.status, "open"))).all();
+  const latest = db
+    .select()
+    .from(revisions)
+    .where(eq(revisions.designId, design.id))
+    .orderBy(desc(revisions.number))
+    .get();
+  const open = db
+    .select({ severity: threads.severity })
+    .from(threads)
+    .where(and(eq(threads.designId, design.id), eq(threads.status, "open")))
+    .all();
   const run = latest ? latestVerifiedRun(db, latest.id) : null;
   const result = run?.result as YieldResult | undefined;
   const names = userNames(db, latest ? [latest.authorId] : []);
   return {
     design: { id: design.id, name: design.name },
-    program: { id: program.id, name: program.name, targetYield: program.targetYield, protective: program.protective },
+    program: {
+      id: program.id,
+      name: program.name,
+      targetYield: program.targetYield,
+      protective: program.protective,
+    },
     latestRevision: latest
       ? {
           id: latest.id,
@@ -177,12 +224,19 @@ export function overviewRow(db: DbOrTx, design: DesignRow, program: ProgramRow) 
           createdAt: latest.createdAt.toISOString(),
         }
       : null,
-    latestVerifiedYield: result ? { yield: result.yield, low: result.interval.low, high: result.interval.high, runId: run?.id ?? null } : null,
+    latestVerifiedYield: result
+      ? { yield: result.yield, low: result.interval.low, high: result.interval.high, runId: run?.id ?? null }
+      : null,
     openBlockingThreads: open.filter((t) => t.severity === "blocking").length,
     openThreads: open.length,
   };
 }
 
 export function programDesigns(db: DbOrTx, program: ProgramRow): DesignRow[] {
-  return db.select().from(designs).where(eq(designs.programId, program.id)).orderBy(desc(designs.createdAt), desc(designs.id)).all();
+  return db
+    .select()
+    .from(designs)
+    .where(eq(designs.programId, program.id))
+    .orderBy(desc(designs.createdAt), desc(designs.id))
+    .all();
 }

@@ -18,7 +18,9 @@ export function anchorPasses(anchor: ThreadAnchor, mask: SpecMask, nominal: Spec
     case "band":
       return nominal.bands.find((b) => b.id === anchor.bandId)?.pass ?? null;
     case "range": {
-      const ids = new Set(mask.bands.filter((b) => b.start <= anchor.stop && b.stop >= anchor.start).map((b) => b.id));
+      const ids = new Set(
+        mask.bands.filter((b) => b.start <= anchor.stop && b.stop >= anchor.start).map((b) => b.id),
+      );
       if (ids.size === 0) return null;
       return nominal.bands.filter((b) => ids.has(b.id)).every((b) => b.pass);
     }
@@ -89,7 +91,11 @@ export function findMentions(body: string, members: readonly Member[]): Member[]
       const candidates = [m.email.toLowerCase(), m.name.trim().toLowerCase()];
       const first = firstOf(m);
       if (first && firstCount.get(first) === 1) candidates.push(first);
-      if (candidates.some((c) => c.length > 0 && text.startsWith(c, at + 1) && endsMention(text, at + 1 + c.length))) {
+      if (
+        candidates.some(
+          (c) => c.length > 0 && text.startsWith(c, at + 1) && endsMention(text, at + 1 + c.length),
+        )
+      ) {
         found.set(m.id, m);
       }
     }
@@ -108,12 +114,22 @@ export interface ThreadView {
   createdAt: string;
   resolvedAt: string | null;
   resolvedBy: { id: string; name: string } | null;
-  comments: { id: string; author: { id: string; name: string } | null; body: string; mentions: { id: string; name: string }[]; createdAt: string }[];
+  comments: {
+    id: string;
+    author: { id: string; name: string } | null;
+    body: string;
+    mentions: { id: string; name: string }[];
+    createdAt: string;
+  }[];
   anchorPasses: boolean | null;
 }
 
 /** Threads with their comments; `anchorPasses` evaluated on `on` (the requested revision). */
-export function threadViews(db: Db | DbOrTx, rows: readonly ThreadRow[], on: RevisionContext | null): ThreadView[] {
+export function threadViews(
+  db: Db | DbOrTx,
+  rows: readonly ThreadRow[],
+  on: RevisionContext | null,
+): ThreadView[] {
   if (rows.length === 0) return [];
   const nominal = on ? nominalOf(on) : null;
   const mask = on ? maskOf(on.revision, on.program) : null;
@@ -121,7 +137,12 @@ export function threadViews(db: Db | DbOrTx, rows: readonly ThreadRow[], on: Rev
   for (const t of rows) {
     byThread.set(
       t.id,
-      db.select().from(comments).where(eq(comments.threadId, t.id)).orderBy(asc(comments.createdAt), asc(comments.id)).all(),
+      db
+        .select()
+        .from(comments)
+        .where(eq(comments.threadId, t.id))
+        .orderBy(asc(comments.createdAt), asc(comments.id))
+        .all(),
     );
   }
   const ids: string[] = [];
@@ -146,7 +167,9 @@ export function threadViews(db: Db | DbOrTx, rows: readonly ThreadRow[], on: Rev
       id: c.id,
       author: person(names, c.authorId),
       body: c.body,
-      mentions: c.mentions.map((id) => person(names, id)).filter((p): p is { id: string; name: string } => p !== null),
+      mentions: c.mentions
+        .map((id) => person(names, id))
+        .filter((p): p is { id: string; name: string } => p !== null),
       createdAt: c.createdAt.toISOString(),
     })),
     anchorPasses: nominal && mask ? anchorPasses(t.anchor, mask, nominal) : null,

@@ -12,11 +12,26 @@ import { and, asc, desc, eq } from "drizzle-orm";
 import { PROTECTIVE_CAUTION, evaluateSpec, type YieldResult } from "@stackproof/optics";
 import type { AuthContext } from "../auth/types.ts";
 import type { AppContext } from "../context.ts";
-import { decisions, releases, revisions, yieldRuns, type DecisionAction, type RevisionStatus } from "../db/schema.ts";
+import {
+  decisions,
+  releases,
+  revisions,
+  yieldRuns,
+  type DecisionAction,
+  type RevisionStatus,
+} from "../db/schema.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError, conflict, forbidden } from "../lib/errors.ts";
 import { newId } from "./canonical.ts";
-import { loadRevision, maskOf, person, stackOf, userNames, type RevisionContext, type YieldRunRow } from "./load.ts";
+import {
+  loadRevision,
+  maskOf,
+  person,
+  stackOf,
+  userNames,
+  type RevisionContext,
+  type YieldRunRow,
+} from "./load.ts";
 import { mailApproved, mailChangesRequested, mailReleased, mailReviewRequested } from "./notify.ts";
 import { openBlockingThreads, threadsForRevision } from "./threads.ts";
 
@@ -49,15 +64,32 @@ export function evaluateGate(db: DbOrTx, rc: RevisionContext, auth: AuthContext,
     .orderBy(desc(yieldRuns.createdAt), desc(yieldRuns.id))
     .all();
   const qualifies = (r: YieldRunRow) =>
-    r.status === "done" && r.verified === true && (r.result as YieldResult | null)?.yield !== undefined && (r.result as YieldResult).yield >= target;
+    r.status === "done" &&
+    r.verified === true &&
+    (r.result as YieldResult | null)?.yield !== undefined &&
+    (r.result as YieldResult).yield >= target;
   let yieldCheck: GateCheck;
   let yieldRun: YieldRunRow | null = null;
   if (yieldRunId !== undefined) {
     const run = runs.find((r) => r.id === yieldRunId);
-    if (!run) yieldCheck = { id: "verified_yield", ok: false, message: `Yield run ${yieldRunId} is not a run of revision ${revision.number}.` };
-    else if (run.status !== "done") yieldCheck = { id: "verified_yield", ok: false, message: `Yield run ${run.id} is ${run.status}, not done.` };
+    if (!run)
+      yieldCheck = {
+        id: "verified_yield",
+        ok: false,
+        message: `Yield run ${yieldRunId} is not a run of revision ${revision.number}.`,
+      };
+    else if (run.status !== "done")
+      yieldCheck = {
+        id: "verified_yield",
+        ok: false,
+        message: `Yield run ${run.id} is ${run.status}, not done.`,
+      };
     else if (run.verified !== true) {
-      yieldCheck = { id: "verified_yield", ok: false, message: `Yield run ${run.id} is not verified${run.mismatch ? `: ${run.mismatch}` : ""}.` };
+      yieldCheck = {
+        id: "verified_yield",
+        ok: false,
+        message: `Yield run ${run.id} is not verified${run.mismatch ? `: ${run.mismatch}` : ""}.`,
+      };
     } else if (!qualifies(run)) {
       yieldCheck = {
         id: "verified_yield",
@@ -66,7 +98,11 @@ export function evaluateGate(db: DbOrTx, rc: RevisionContext, auth: AuthContext,
       };
     } else {
       yieldRun = run;
-      yieldCheck = { id: "verified_yield", ok: true, message: `Verified yield ${pct((run.result as YieldResult).yield)} ≥ target ${pct(target)} (run ${run.id}).` };
+      yieldCheck = {
+        id: "verified_yield",
+        ok: true,
+        message: `Verified yield ${pct((run.result as YieldResult).yield)} ≥ target ${pct(target)} (run ${run.id}).`,
+      };
     }
   } else {
     yieldRun = runs.find(qualifies) ?? null;
@@ -78,7 +114,10 @@ export function evaluateGate(db: DbOrTx, rc: RevisionContext, auth: AuthContext,
       };
     } else {
       const verified = runs.filter((r) => r.status === "done" && r.verified === true);
-      const best = verified.reduce<number | null>((m, r) => Math.max(m ?? 0, (r.result as YieldResult).yield), null);
+      const best = verified.reduce<number | null>(
+        (m, r) => Math.max(m ?? 0, (r.result as YieldResult).yield),
+        null,
+      );
       yieldCheck = {
         id: "verified_yield",
         ok: false,
@@ -105,13 +144,25 @@ export function evaluateGate(db: DbOrTx, rc: RevisionContext, auth: AuthContext,
   const approverCheck: GateCheck = !isApprover
     ? { id: "independent_approver", ok: false, message: "You do not hold the approver role." }
     : isAuthor
-      ? { id: "independent_approver", ok: false, message: "You are the author of this revision; another approver must approve it." }
-      : { id: "independent_approver", ok: true, message: "You are an approver and not the author of this revision." };
+      ? {
+          id: "independent_approver",
+          ok: false,
+          message: "You are the author of this revision; another approver must approve it.",
+        }
+      : {
+          id: "independent_approver",
+          ok: true,
+          message: "You are an approver and not the author of this revision.",
+        };
 
   const stateCheck: GateCheck =
     revision.status === "in_review"
       ? { id: "state", ok: true, message: "The revision is in review." }
-      : { id: "state", ok: false, message: `The revision is ${revision.status.replace("_", " ")}; only a revision in review can be approved.` };
+      : {
+          id: "state",
+          ok: false,
+          message: `The revision is ${revision.status.replace("_", " ")}; only a revision in review can be approved.`,
+        };
 
   const checks = [yieldCheck, blockingCheck, approverCheck, stateCheck];
   return {
@@ -162,16 +213,19 @@ function checkRole(action: DecisionAction, auth: AuthContext, rc: RevisionContex
       if (!has("designer")) throw forbidden("Submitting for review needs the designer role.");
       return;
     case "request_changes":
-      if (!has("reviewer") && !has("approver")) throw forbidden("Requesting changes needs the reviewer or approver role.");
+      if (!has("reviewer") && !has("approver"))
+        throw forbidden("Requesting changes needs the reviewer or approver role.");
       return;
     case "approve":
     case "release":
-      if (!has("approver")) throw forbidden(`${action === "approve" ? "Approving" : "Releasing"} needs the approver role.`);
+      if (!has("approver"))
+        throw forbidden(`${action === "approve" ? "Approving" : "Releasing"} needs the approver role.`);
       return;
     case "withdraw":
       if (has("approver")) return;
       if (!has("designer")) throw forbidden("Withdrawing needs the designer (author) or approver role.");
-      if (auth.user.id !== rc.revision.authorId) throw forbidden("Only the author or an approver may withdraw a revision.");
+      if (auth.user.id !== rc.revision.authorId)
+        throw forbidden("Only the author or an approver may withdraw a revision.");
       if (!["draft", "in_review", "changes_requested"].includes(rc.revision.status)) {
         throw forbidden("A designer may withdraw only a draft or a revision in review; ask an approver.");
       }
@@ -191,7 +245,12 @@ export interface TransitionOutcome {
   releaseId: string | null;
 }
 
-export function applyTransition(ctx: AppContext, auth: AuthContext, revisionId: string, input: TransitionInput): TransitionOutcome {
+export function applyTransition(
+  ctx: AppContext,
+  auth: AuthContext,
+  revisionId: string,
+  input: TransitionInput,
+): TransitionOutcome {
   const note = input.note?.trim() ?? "";
   const outcome = ctx.db.transaction((tx) => {
     const rc = loadRevision(tx, auth.workspaceId, revisionId);
@@ -199,14 +258,21 @@ export function applyTransition(ctx: AppContext, auth: AuthContext, revisionId: 
     const from = rc.revision.status;
     const rule = NEXT[input.action];
     if (!rule.from.includes(from)) {
-      throw conflict(`A revision that is ${from.replace("_", " ")} cannot be ${AUDIT_VERB[input.action]}.`, { status: from });
+      throw conflict(`A revision that is ${from.replace("_", " ")} cannot be ${AUDIT_VERB[input.action]}.`, {
+        status: from,
+      });
     }
     let yieldRunId: string | null = null;
     if (input.action === "approve") {
       const gate = evaluateGate(tx, rc, auth, input.yieldRunId);
       const failed = gate.checks.filter((c) => !c.ok);
       if (failed.length > 0) {
-        throw new HttpError(422, "gate_failed", `Approval refused: ${failed.map((c) => c.message).join(" ")}`, { checks: failed });
+        throw new HttpError(
+          422,
+          "gate_failed",
+          `Approval refused: ${failed.map((c) => c.message).join(" ")}`,
+          { checks: failed },
+        );
       }
       yieldRunId = gate.yieldRun?.id ?? null;
     }
@@ -277,7 +343,11 @@ export function applyTransition(ctx: AppContext, auth: AuthContext, revisionId: 
   if (input.action === "request_changes") mailChangesRequested(ctx, rc, actor, note);
   if (input.action === "approve") mailApproved(ctx, rc, actor, note);
   if (input.action === "release" && outcome.releaseId) {
-    const run = ctx.db.select().from(yieldRuns).where(eq(yieldRuns.id, outcome.decision.yieldRunId ?? "")).get();
+    const run = ctx.db
+      .select()
+      .from(yieldRuns)
+      .where(eq(yieldRuns.id, outcome.decision.yieldRunId ?? ""))
+      .get();
     const result = run?.result as YieldResult | undefined;
     const yieldText = result
       ? `${pct(result.yield)} (95 % interval ${pct(result.interval.low)}–${pct(result.interval.high)}, ${result.trials} trials)`
@@ -309,7 +379,14 @@ export function decisionViews(db: DbOrTx, revisionId: string) {
 }
 
 /** What the release record shows; stored with the release so that it reads the same later. */
-export function releaseSnapshot(db: DbOrTx, rc: RevisionContext, yieldRunId: string, releaseId: string, auth: AuthContext, at: Date) {
+export function releaseSnapshot(
+  db: DbOrTx,
+  rc: RevisionContext,
+  yieldRunId: string,
+  releaseId: string,
+  auth: AuthContext,
+  at: Date,
+) {
   const run = db.select().from(yieldRuns).where(eq(yieldRuns.id, yieldRunId)).get();
   const result = run?.result as YieldResult | undefined;
   const mask = maskOf(rc.revision, rc.program);
@@ -342,23 +419,24 @@ export function releaseSnapshot(db: DbOrTx, rc: RevisionContext, yieldRunId: str
       specMask: mask,
     },
     nominal: { pass: nominal.pass, bands: nominal.bands },
-    yieldRun: run && result
-      ? {
-          id: run.id,
-          trials: run.trials,
-          seed: run.seed,
-          errorModel: run.errorModel,
-          yield: result.yield,
-          passCount: result.passCount,
-          interval: result.interval,
-          bandFailures: result.bandFailures,
-          criticalLayers: result.criticalLayers.slice(0, 5),
-          engineVersion: run.engineVersion,
-          verified: run.verified,
-          clientVerified: run.clientResult !== null && run.clientResult !== undefined,
-          finishedAt: run.finishedAt ? run.finishedAt.toISOString() : null,
-        }
-      : null,
+    yieldRun:
+      run && result
+        ? {
+            id: run.id,
+            trials: run.trials,
+            seed: run.seed,
+            errorModel: run.errorModel,
+            yield: result.yield,
+            passCount: result.passCount,
+            interval: result.interval,
+            bandFailures: result.bandFailures,
+            criticalLayers: result.criticalLayers.slice(0, 5),
+            engineVersion: run.engineVersion,
+            verified: run.verified,
+            clientVerified: run.clientResult !== null && run.clientResult !== undefined,
+            finishedAt: run.finishedAt ? run.finishedAt.toISOString() : null,
+          }
+        : null,
     decisions: decisionViews(db, rc.revision.id),
     threads: {
       total: threads.length,

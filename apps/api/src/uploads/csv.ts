@@ -18,7 +18,9 @@ export const MAX_ROWS = 20000;
 export class CsvProblems extends HttpError {
   constructor(what: string, problems: CellProblem[]) {
     const first = problems[0];
-    const where = first ? ` (row ${first.row}, column ${first.column}: ${first.message}${problems.length > 1 ? `; ${problems.length - 1} more` : ""})` : "";
+    const where = first
+      ? ` (row ${first.row}, column ${first.column}: ${first.message}${problems.length > 1 ? `; ${problems.length - 1} more` : ""})`
+      : "";
     super(422, "invalid_csv", `The ${what} file has errors${where}.`, problems.slice(0, MAX_PROBLEMS));
   }
 }
@@ -54,7 +56,9 @@ function readTable(text: string, what: string): Table {
   const [head, ...rest] = records;
   if (!head) throw new CsvProblems(what, [{ row: 1, column: "-", message: "the file has no header row" }]);
   if (rest.length > MAX_ROWS) {
-    throw new CsvProblems(what, [{ row: MAX_ROWS + 2, column: "-", message: `more than ${MAX_ROWS} data rows` }]);
+    throw new CsvProblems(what, [
+      { row: MAX_ROWS + 2, column: "-", message: `more than ${MAX_ROWS} data rows` },
+    ]);
   }
   return {
     header: head.record.map((h) => h.toLowerCase()),
@@ -76,24 +80,47 @@ function columns(
   const pos = new Map<string, number>();
   table.header.forEach((h, i) => {
     if (!allowed.has(h)) {
-      problems.push({ row: 1, column: h || `#${i + 1}`, message: `unexpected column "${h}"; expected ${describeHeader(spec)}` });
+      problems.push({
+        row: 1,
+        column: h || `#${i + 1}`,
+        message: `unexpected column "${h}"; expected ${describeHeader(spec)}`,
+      });
     } else if (pos.has(h)) problems.push({ row: 1, column: h, message: `column "${h}" appears twice` });
     else pos.set(h, i);
   });
   for (const r of spec.required) {
-    if (!pos.has(r)) problems.push({ row: 1, column: r, message: `missing column "${r}"; expected ${describeHeader(spec)}` });
+    if (!pos.has(r))
+      problems.push({
+        row: 1,
+        column: r,
+        message: `missing column "${r}"; expected ${describeHeader(spec)}`,
+      });
   }
   for (const group of spec.oneOf ?? []) {
     const present = group.filter((g) => pos.has(g));
-    if (present.length === 0) problems.push({ row: 1, column: group.join("|"), message: `missing column: one of ${group.join(", ")}` });
-    if (present.length > 1) problems.push({ row: 1, column: present.join("|"), message: `only one of ${group.join(", ")} may be given` });
+    if (present.length === 0)
+      problems.push({
+        row: 1,
+        column: group.join("|"),
+        message: `missing column: one of ${group.join(", ")}`,
+      });
+    if (present.length > 1)
+      problems.push({
+        row: 1,
+        column: present.join("|"),
+        message: `only one of ${group.join(", ")} may be given`,
+      });
   }
   if (problems.length > 0) throw new CsvProblems(what, problems);
   return pos;
 }
 
 function describeHeader(spec: { required: string[]; oneOf?: string[][]; optional?: string[] }): string {
-  const parts = [...(spec.oneOf ?? []).map((g) => g.join(" or ")), ...spec.required, ...(spec.optional ?? []).map((o) => `[${o}]`)];
+  const parts = [
+    ...(spec.oneOf ?? []).map((g) => g.join(" or ")),
+    ...spec.required,
+    ...(spec.optional ?? []).map((o) => `[${o}]`),
+  ];
   return parts.join(", ");
 }
 
@@ -114,7 +141,11 @@ class RowReader {
     }
     const v = Number(raw);
     if (!Number.isFinite(v) || !/^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(raw)) {
-      this.problems.push({ row: row.line, column, message: `expected a number, got "${raw.length > 40 ? raw.slice(0, 37) + "..." : raw}"` });
+      this.problems.push({
+        row: row.line,
+        column,
+        message: `expected a number, got "${raw.length > 40 ? raw.slice(0, 37) + "..." : raw}"`,
+      });
       return Number.NaN;
     }
     const bad = check?.(v);
@@ -127,7 +158,11 @@ class RowReader {
 
   width(row: Row, expected: number) {
     if (row.cells.length !== expected) {
-      this.problems.push({ row: row.line, column: "-", message: `expected ${expected} cells, got ${row.cells.length}` });
+      this.problems.push({
+        row: row.line,
+        column: "-",
+        message: `expected ${expected} cells, got ${row.cells.length}`,
+      });
       return false;
     }
     return true;
@@ -136,7 +171,9 @@ class RowReader {
 
 function requireRows(table: Table, what: string, min: number) {
   if (table.rows.length < min) {
-    throw new CsvProblems(what, [{ row: 2, column: "-", message: `expected at least ${min} data row${min === 1 ? "" : "s"}` }]);
+    throw new CsvProblems(what, [
+      { row: 2, column: "-", message: `expected at least ${min} data row${min === 1 ? "" : "s"}` },
+    ]);
   }
 }
 
@@ -145,7 +182,11 @@ function increasing(rows: Row[], values: number[], column: string, reader: RowRe
     const a = values[i - 1] as number;
     const b = values[i] as number;
     if (Number.isFinite(a) && Number.isFinite(b) && !(b > a)) {
-      reader.problems.push({ row: (rows[i] as Row).line, column, message: `wavelengths must increase from row to row (${b} after ${a})` });
+      reader.problems.push({
+        row: (rows[i] as Row).line,
+        column,
+        message: `wavelengths must increase from row to row (${b} after ${a})`,
+      });
     }
   }
 }
@@ -157,7 +198,11 @@ const nonNegative = (v: number) => (v >= 0 ? null : `expected a number ≥ 0, go
 export function parseIndexTable(text: string): [number, number, number][] {
   const what = "n,k table";
   const table = readTable(text, what);
-  const pos = columns(table, what, { required: ["n"], oneOf: [["wavelength_nm", "wavelength_um"]], optional: ["k"] });
+  const pos = columns(table, what, {
+    required: ["n"],
+    oneOf: [["wavelength_nm", "wavelength_um"]],
+    optional: ["k"],
+  });
   requireRows(table, what, 2);
   const reader = new RowReader(pos);
   const wlColumn = pos.has("wavelength_um") ? "wavelength_um" : "wavelength_nm";
@@ -173,7 +218,12 @@ export function parseIndexTable(text: string): [number, number, number][] {
     const k = pos.has("k") ? reader.number(row, "k", nonNegative) : 0;
     points.push([w * scale, n, k]);
   }
-  increasing(table.rows, points.map((p) => p[0]), wlColumn, reader);
+  increasing(
+    table.rows,
+    points.map((p) => p[0]),
+    wlColumn,
+    reader,
+  );
   if (reader.problems.length > 0) throw new CsvProblems(what, reader.problems);
   return points;
 }
@@ -201,15 +251,26 @@ export function parseLayerCsv(text: string, known: (id: string) => boolean): Csv
   for (const row of table.rows) {
     if (!reader.width(row, table.header.length)) continue;
     const material = reader.cell(row, "material") ?? "";
-    if (material === "") reader.problems.push({ row: row.line, column: "material", message: "missing material id" });
-    else if (!known(material)) reader.problems.push({ row: row.line, column: "material", message: `unknown material id "${material}"` });
+    if (material === "")
+      reader.problems.push({ row: row.line, column: "material", message: "missing material id" });
+    else if (!known(material))
+      reader.problems.push({
+        row: row.line,
+        column: "material",
+        message: `unknown material id "${material}"`,
+      });
     const thickness = reader.number(row, "thickness_nm", nonNegative);
     const layer: CsvLayer = { material, thickness };
     if (pos.has("locked")) {
       const raw = (reader.cell(row, "locked") ?? "").toLowerCase();
       if (TRUE.has(raw)) layer.locked = true;
       else if (FALSE.has(raw)) layer.locked = false;
-      else reader.problems.push({ row: row.line, column: "locked", message: `expected true or false, got "${raw}"` });
+      else
+        reader.problems.push({
+          row: row.line,
+          column: "locked",
+          message: `expected true or false, got "${raw}"`,
+        });
     }
     layers.push(layer);
   }
@@ -218,7 +279,11 @@ export function parseLayerCsv(text: string, known: (id: string) => boolean): Csv
 }
 
 /** Measured spectrum: header `wavelength_nm` and one of `R` or `T` (percent, −1..101 to allow for noise). */
-export function parseSpectrumCsv(text: string): { quantity: "R" | "T"; wavelengths: number[]; values: number[] } {
+export function parseSpectrumCsv(text: string): {
+  quantity: "R" | "T";
+  wavelengths: number[];
+  values: number[];
+} {
   const what = "measured spectrum";
   const table = readTable(text, what);
   const pos = columns(table, what, { required: ["wavelength_nm"], oneOf: [["r", "t"]] });
@@ -234,9 +299,20 @@ export function parseSpectrumCsv(text: string): { quantity: "R" | "T"; wavelengt
       continue;
     }
     wavelengths.push(reader.number(row, "wavelength_nm", positive));
-    values.push(reader.number(row, column, (v) => (v >= -1 && v <= 101 ? null : `expected a percentage between 0 and 100, got ${v}`)));
+    values.push(
+      reader.number(row, column, (v) =>
+        v >= -1 && v <= 101 ? null : `expected a percentage between 0 and 100, got ${v}`,
+      ),
+    );
   }
   increasing(table.rows, wavelengths, "wavelength_nm", reader);
-  if (reader.problems.length > 0) throw new CsvProblems(what, reader.problems.map((p) => ({ ...p, column: p.column === "r" ? "R" : p.column === "t" ? "T" : p.column })));
+  if (reader.problems.length > 0)
+    throw new CsvProblems(
+      what,
+      reader.problems.map((p) => ({
+        ...p,
+        column: p.column === "r" ? "R" : p.column === "t" ? "T" : p.column,
+      })),
+    );
   return { quantity: column === "r" ? "R" : "T", wavelengths, values };
 }

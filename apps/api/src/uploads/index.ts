@@ -17,14 +17,28 @@ export const singleFile: RequestHandler = (req, res, next) => {
     if (!err) return next();
     if (err instanceof multer.MulterError) {
       if (err.code === "LIMIT_FILE_SIZE") {
-        return next(new HttpError(413, "payload_too_large", `The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB.`));
+        return next(
+          new HttpError(
+            413,
+            "payload_too_large",
+            `The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB.`,
+          ),
+        );
       }
       if (err.code === "LIMIT_UNEXPECTED_FILE") {
-        return next(new HttpError(400, "bad_upload", `Send the file in the multipart field "file" (got "${err.field ?? ""}").`));
+        return next(
+          new HttpError(
+            400,
+            "bad_upload",
+            `Send the file in the multipart field "file" (got "${err.field ?? ""}").`,
+          ),
+        );
       }
       return next(new HttpError(400, "bad_upload", `Upload refused: ${err.message}.`));
     }
-    return next(new HttpError(400, "bad_upload", "The request is not a readable multipart/form-data upload."));
+    return next(
+      new HttpError(400, "bad_upload", "The request is not a readable multipart/form-data upload."),
+    );
   });
 };
 
@@ -43,13 +57,21 @@ export function uploadedText(req: Request): UploadedText {
   const bytes = file.buffer;
   if (bytes.length === 0) throw new HttpError(400, "file_empty", "The file is empty.");
   if (bytes.includes(0)) {
-    throw new HttpError(415, "binary_file", `${file.originalname || "The file"} is a binary file (it contains NUL bytes); upload a text CSV or JSON file.`);
+    throw new HttpError(
+      415,
+      "binary_file",
+      `${file.originalname || "The file"} is a binary file (it contains NUL bytes); upload a text CSV or JSON file.`,
+    );
   }
   let text: string;
   try {
     text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
   } catch {
-    throw new HttpError(415, "binary_file", `${file.originalname || "The file"} is not UTF-8 text; upload a text CSV or JSON file.`);
+    throw new HttpError(
+      415,
+      "binary_file",
+      `${file.originalname || "The file"} is not UTF-8 text; upload a text CSV or JSON file.`,
+    );
   }
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   return { name: file.originalname || "upload", text };

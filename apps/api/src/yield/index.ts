@@ -7,7 +7,13 @@
 import os from "node:os";
 import { Worker } from "node:worker_threads";
 import { and, asc, eq, inArray } from "drizzle-orm";
-import { ENGINE_VERSION, type ErrorModel, type YieldChunk, type YieldResult, type YieldStudy } from "@stackproof/optics";
+import {
+  ENGINE_VERSION,
+  type ErrorModel,
+  type YieldChunk,
+  type YieldResult,
+  type YieldStudy,
+} from "@stackproof/optics";
 import type { Env } from "../env.ts";
 import type { Db } from "../db/client.ts";
 import type { MailService } from "../mail/index.ts";
@@ -83,7 +89,11 @@ export function finishedRunValues(run: YieldRunRow, result: YieldResult) {
   };
 }
 
-type WorkerRequestBody = WorkerRequest extends infer R ? (R extends WorkerRequest ? Omit<R, "taskId"> : never) : never;
+type WorkerRequestBody = WorkerRequest extends infer R
+  ? R extends WorkerRequest
+    ? Omit<R, "taskId">
+    : never
+  : never;
 
 interface PoolWorker {
   worker: Worker;
@@ -174,7 +184,8 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
     active = null;
     if (runId) {
       const status = loadRun(runId)?.status;
-      if (status !== "queued" && status !== "running") db.delete(yieldChunks).where(eq(yieldChunks.runId, runId)).run();
+      if (status !== "queued" && status !== "running")
+        db.delete(yieldChunks).where(eq(yieldChunks.runId, runId)).run();
       release(runId);
     }
     setImmediate(pump);
@@ -198,11 +209,17 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
       return;
     }
     const chunkSize = chunkSizeFor(run.trials, size);
-    const stored = db.select({ startTrial: yieldChunks.startTrial, count: yieldChunks.count }).from(yieldChunks).where(eq(yieldChunks.runId, runId)).all();
+    const stored = db
+      .select({ startTrial: yieldChunks.startTrial, count: yieldChunks.count })
+      .from(yieldChunks)
+      .where(eq(yieldChunks.runId, runId))
+      .all();
     // Chunks stored by a previous process keep their sizes; the rest of the trials are planned afresh.
     const covered = stored.reduce((s, c) => s + c.count, 0);
     const pending: [number, number][] = [];
-    const ranges = stored.map((c) => [c.startTrial, c.startTrial + c.count] as const).sort((a, b) => a[0] - b[0]);
+    const ranges = stored
+      .map((c) => [c.startTrial, c.startTrial + c.count] as const)
+      .sort((a, b) => a[0] - b[0]);
     let cursor = 0;
     const gaps: [number, number][] = [];
     for (const [s, e] of ranges) {
@@ -210,7 +227,8 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
       cursor = Math.max(cursor, e);
     }
     if (cursor < run.trials) gaps.push([cursor, run.trials]);
-    for (const [s, e] of gaps) for (let t = s; t < e; t += chunkSize) pending.push([t, Math.min(chunkSize, e - t)]);
+    for (const [s, e] of gaps)
+      for (let t = s; t < e; t += chunkSize) pending.push([t, Math.min(chunkSize, e - t)]);
     db.update(yieldRuns)
       .set({ status: "running", progressDone: covered, startedAt: run.startedAt ?? new Date() })
       .where(and(eq(yieldRuns.id, runId), inArray(yieldRuns.status, ["queued", "running"])))
@@ -231,7 +249,9 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
       if (!pw) break;
       const [start, count] = a.pending.shift() as [number, number];
       a.inFlight++;
-      void send(pw, { type: "chunk", runId: a.run.id, study: a.study, start, count }).then((reply) => onChunk(a, reply));
+      void send(pw, { type: "chunk", runId: a.run.id, study: a.study, start, count }).then((reply) =>
+        onChunk(a, reply),
+      );
     }
     if (a.pending.length === 0 && a.inFlight === 0) void merge(a);
   }
@@ -248,10 +268,20 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
     if (!("chunk" in reply)) return dispatch();
     const chunk = reply.chunk;
     const stillRunning = db.transaction((tx) => {
-      const row = tx.select({ status: yieldRuns.status, progressDone: yieldRuns.progressDone }).from(yieldRuns).where(eq(yieldRuns.id, a.run.id)).get();
+      const row = tx
+        .select({ status: yieldRuns.status, progressDone: yieldRuns.progressDone })
+        .from(yieldRuns)
+        .where(eq(yieldRuns.id, a.run.id))
+        .get();
       if (!row || row.status !== "running") return false;
-      tx.insert(yieldChunks).values({ runId: a.run.id, startTrial: chunk.startTrial, count: chunk.count, data: chunk }).onConflictDoNothing().run();
-      tx.update(yieldRuns).set({ progressDone: row.progressDone + chunk.count }).where(eq(yieldRuns.id, a.run.id)).run();
+      tx.insert(yieldChunks)
+        .values({ runId: a.run.id, startTrial: chunk.startTrial, count: chunk.count, data: chunk })
+        .onConflictDoNothing()
+        .run();
+      tx.update(yieldRuns)
+        .set({ progressDone: row.progressDone + chunk.count })
+        .where(eq(yieldRuns.id, a.run.id))
+        .run();
       return true;
     });
     if (!stillRunning) a.stopped = true;
@@ -300,7 +330,10 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
     .all();
   for (const run of leftOver) {
     if (run.engineVersion !== ENGINE_VERSION) {
-      fail(run.id, `the server restarted with engine ${ENGINE_VERSION} while this run used ${run.engineVersion}; start a new run`);
+      fail(
+        run.id,
+        `the server restarted with engine ${ENGINE_VERSION} while this run used ${run.engineVersion}; start a new run`,
+      );
       db.delete(yieldChunks).where(eq(yieldChunks.runId, run.id)).run();
       recovered.failed.push(run.id);
     } else {

@@ -36,9 +36,12 @@ export function verifyClientResult(
 ): Verification {
   const reasons: string[] = [];
   if (client.trials !== run.trials) reasons.push(`trials: client ${client.trials}, run ${run.trials}`);
-  if (client.seed !== run.seed) reasons.push(`seed: client ${JSON.stringify(client.seed)}, run ${JSON.stringify(run.seed)}`);
-  if (canonicalJson(client.errorModel) !== canonicalJson(run.errorModel)) reasons.push("error model differs from the run's");
-  if (client.passCount !== server.passCount) reasons.push(`pass count: client ${client.passCount}, server ${server.passCount}`);
+  if (client.seed !== run.seed)
+    reasons.push(`seed: client ${JSON.stringify(client.seed)}, run ${JSON.stringify(run.seed)}`);
+  if (canonicalJson(client.errorModel) !== canonicalJson(run.errorModel))
+    reasons.push("error model differs from the run's");
+  if (client.passCount !== server.passCount)
+    reasons.push(`pass count: client ${client.passCount}, server ${server.passCount}`);
   const serverBands = server.bandFailures;
   if (
     client.bandFailures.length !== serverBands.length ||
@@ -50,7 +53,8 @@ export function verifyClientResult(
   } else {
     client.bandFailures.forEach((b, i) => {
       const s = serverBands[i];
-      if (s && s.count !== b.count) reasons.push(`failures in band ${b.id}: client ${b.count}, server ${s.count}`);
+      if (s && s.count !== b.count)
+        reasons.push(`failures in band ${b.id}: client ${b.count}, server ${s.count}`);
     });
   }
   if (client.yield !== server.yield) reasons.push(`yield: client ${client.yield}, server ${server.yield}`);
@@ -62,5 +66,7 @@ export function verifyClientResult(
   if (reasons.length > 0 && client.engineVersion && client.engineVersion !== server.engineVersion) {
     reasons.push(`engine version: client ${client.engineVersion}, server ${server.engineVersion}`);
   }
-  return reasons.length === 0 ? { verified: true, mismatch: null } : { verified: false, mismatch: reasons.join("; ") };
+  return reasons.length === 0
+    ? { verified: true, mismatch: null }
+    : { verified: false, mismatch: reasons.join("; ") };
 }

@@ -32,7 +32,11 @@ describe("demo workspace", () => {
     for (const account of DEMO_ACCOUNTS) {
       const agent = await signIn(server, account.email, DEMO_PASSWORD);
       const me = await agent.get(`${API}/auth/me`).expect(200);
-      expect(me.body).toMatchObject({ user: { name: account.name }, workspace: { name: "Halvorsen Thinfilm Works" }, roles: account.roles });
+      expect(me.body).toMatchObject({
+        user: { name: account.name },
+        workspace: { name: "Halvorsen Thinfilm Works" },
+        roles: account.roles,
+      });
     }
   });
 
@@ -55,12 +59,22 @@ describe("demo workspace", () => {
     expect(merlin?.program.protective).toBe(true);
     expect(merlin?.openBlockingThreads).toBe(1);
     expect(merlin?.latestRevision.status).toBe("draft");
-    const merlinThreads = await approver.get(`${API}/revisions/${merlin?.latestRevision.id}/threads`).expect(200);
-    expect(merlinThreads.body.items[0]).toMatchObject({ revisionNumber: 1, severity: "blocking", status: "open" });
+    const merlinThreads = await approver
+      .get(`${API}/revisions/${merlin?.latestRevision.id}/threads`)
+      .expect(200);
+    expect(merlinThreads.body.items[0]).toMatchObject({
+      revisionNumber: 1,
+      severity: "blocking",
+      status: "open",
+    });
     expect(by("Wren")?.latestRevision.status).toBe("released");
     const releases = await approver.get(`${API}/releases`).expect(200);
     const record = await approver.get(`${API}/releases/${releases.body.items[0].id}`).expect(200);
-    expect(record.body.decisions.map((d: { action: string }) => d.action)).toEqual(["submit", "approve", "release"]);
+    expect(record.body.decisions.map((d: { action: string }) => d.action)).toEqual([
+      "submit",
+      "approve",
+      "release",
+    ]);
     expect(record.body.yieldRun.verified).toBe(true);
     // the candidate passes its spec nominally
     const designer = await signIn(server, "designer@halvorsen.example", DEMO_PASSWORD);

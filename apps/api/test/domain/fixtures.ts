@@ -1,15 +1,30 @@
 // A workspace with one member per role (and a second approver and designer), plus small designs and masks.
 import { expect } from "vitest";
-import { DESIGN_FORMAT, designFromQwots, type Design, type ErrorModel, type SpecMask } from "@stackproof/optics";
+import {
+  DESIGN_FORMAT,
+  designFromQwots,
+  type Design,
+  type ErrorModel,
+  type SpecMask,
+} from "@stackproof/optics";
 import type { TestServer } from "../support/context.ts";
-import { createMember, signIn, signedInMember, type CreatedMember, type MemberAgent } from "../support/auth.ts";
+import {
+  createMember,
+  signIn,
+  signedInMember,
+  type CreatedMember,
+  type MemberAgent,
+} from "../support/auth.ts";
 import type { Role } from "../../src/db/schema.ts";
 
 export const API = "/api/v1";
 
 export interface Team {
   workspaceId: string;
-  members: Record<"admin" | "designer" | "designer2" | "reviewer" | "approver" | "approver2", CreatedMember & { agent: MemberAgent }>;
+  members: Record<
+    "admin" | "designer" | "designer2" | "reviewer" | "approver" | "approver2",
+    CreatedMember & { agent: MemberAgent }
+  >;
 }
 
 export async function createTeam(server: TestServer): Promise<Team> {
@@ -60,17 +75,53 @@ export function twoLayerAr(name = "Single-layer AR"): Design {
 /** Loose visible AR spec: average R ≤ 2 % over 500–600 nm, peak R ≤ 3 %. The single layer passes with margin. */
 export const AR_MASK: SpecMask = {
   bands: [
-    { id: "avg", label: "Average", start: 500, stop: 600, step: 5, quantity: "R", polarization: "u", angleDeg: 0, requirement: "avgMax", value: 2 },
-    { id: "peak", label: "Peak", start: 500, stop: 600, step: 5, quantity: "R", polarization: "u", angleDeg: 0, requirement: "max", value: 3 },
+    {
+      id: "avg",
+      label: "Average",
+      start: 500,
+      stop: 600,
+      step: 5,
+      quantity: "R",
+      polarization: "u",
+      angleDeg: 0,
+      requirement: "avgMax",
+      value: 2,
+    },
+    {
+      id: "peak",
+      label: "Peak",
+      start: 500,
+      stop: 600,
+      step: 5,
+      quantity: "R",
+      polarization: "u",
+      angleDeg: 0,
+      requirement: "max",
+      value: 3,
+    },
   ],
 };
 
 /** A spec the single layer cannot meet (R ≤ 0.2 % everywhere): yield 0. */
 export const IMPOSSIBLE_MASK: SpecMask = {
-  bands: [{ id: "tight", start: 450, stop: 650, step: 10, quantity: "R", polarization: "u", angleDeg: 0, requirement: "max", value: 0.2 }],
+  bands: [
+    {
+      id: "tight",
+      start: 450,
+      stop: 650,
+      step: 10,
+      quantity: "R",
+      polarization: "u",
+      angleDeg: 0,
+      requirement: "max",
+      value: 0.2,
+    },
+  ],
 };
 
-export const ERROR_MODEL: ErrorModel = { thickness: { relativePct: 1, absoluteNm: 0.5, distribution: "normal" } };
+export const ERROR_MODEL: ErrorModel = {
+  thickness: { relativePct: 1, absoluteNm: 0.5, distribution: "normal" },
+};
 
 export function programBody(overrides: Record<string, unknown> = {}) {
   return {
@@ -93,10 +144,20 @@ export async function createProgram(team: Team, overrides: Record<string, unknow
   return res.body as { id: string; name: string; targetYield: number };
 }
 
-export async function createDesign(team: Team, programId: string, stack: Design = singleLayerAr(), by = team.members.designer) {
-  const res = await by.agent.post(`${API}/programs/${programId}/designs`).send({ name: "AR window", stack, note: "first" });
+export async function createDesign(
+  team: Team,
+  programId: string,
+  stack: Design = singleLayerAr(),
+  by = team.members.designer,
+) {
+  const res = await by.agent
+    .post(`${API}/programs/${programId}/designs`)
+    .send({ name: "AR window", stack, note: "first" });
   expect(res.status, JSON.stringify(res.body)).toBe(201);
-  return res.body as { design: { id: string; name: string }; revision: { id: string; number: number; hash: string; status: string } };
+  return res.body as {
+    design: { id: string; name: string };
+    revision: { id: string; number: number; hash: string; status: string };
+  };
 }
 
 /** Polls a yield run until it is no longer queued or running. */
@@ -111,7 +172,9 @@ export async function waitForRun(agent: MemberAgent, runId: string, timeoutMs = 
 }
 
 export async function startRun(agent: MemberAgent, revisionId: string, body: Record<string, unknown> = {}) {
-  const res = await agent.post(`${API}/revisions/${revisionId}/yield-runs`).send({ trials: 120, seed: "s1", ...body });
+  const res = await agent
+    .post(`${API}/revisions/${revisionId}/yield-runs`)
+    .send({ trials: 120, seed: "s1", ...body });
   expect(res.status, JSON.stringify(res.body)).toBe(202);
   return res.body.run as { id: string; status: string };
 }

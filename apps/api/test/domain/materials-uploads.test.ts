@@ -15,7 +15,8 @@ afterAll(async () => {
   await server.close();
 });
 
-const count = (table: string) => (server.ctx.db.$client.prepare(`SELECT count(*) AS n FROM ${table}`).get() as { n: number }).n;
+const count = (table: string) =>
+  (server.ctx.db.$client.prepare(`SELECT count(*) AS n FROM ${table}`).get() as { n: number }).n;
 
 /** A dense hafnia-like film, n falling slowly with wavelength, no absorption (values invented for the test). */
 const TABLE_NM = "wavelength_nm,n,k\n400,2.02,0\n500,1.99,0\n600,1.975,0\n700,1.965,0\n800,1.96,0\n";
@@ -40,7 +41,10 @@ describe("materials", () => {
     expect(res.body).toMatchObject({ id: "HfO2-lab", builtIn: false, model: { kind: "table" } });
     expect(res.body.model.points[0]).toEqual([400, 2.02, 0]);
     const list = await team.members.reviewer.agent.get(`${API}/materials`).expect(200);
-    expect(list.body.items.find((m: { id: string }) => m.id === "HfO2-lab")).toMatchObject({ builtIn: false, name: "Hafnia, chamber 2" });
+    expect(list.body.items.find((m: { id: string }) => m.id === "HfO2-lab")).toMatchObject({
+      builtIn: false,
+      name: "Hafnia, chamber 2",
+    });
   });
 
   it("converts wavelength_um to nm and treats a missing k column as 0", async () => {
@@ -95,16 +99,35 @@ describe("materials", () => {
       .attach("file", Buffer.from(TABLE_NM), "x.csv")
       .expect(409);
     expect(builtIn.body.error.message).toContain("built-in");
-    await team.members.designer.agent.post(`${API}/materials`).field("id", "taken").field("name", "A").attach("file", Buffer.from(TABLE_NM), "a.csv").expect(201);
-    await team.members.designer.agent.post(`${API}/materials`).field("id", "taken").field("name", "B").attach("file", Buffer.from(TABLE_NM), "b.csv").expect(409);
-    await team.members.reviewer.agent.post(`${API}/materials`).field("id", "r").field("name", "r").attach("file", Buffer.from(TABLE_NM), "r.csv").expect(403);
+    await team.members.designer.agent
+      .post(`${API}/materials`)
+      .field("id", "taken")
+      .field("name", "A")
+      .attach("file", Buffer.from(TABLE_NM), "a.csv")
+      .expect(201);
+    await team.members.designer.agent
+      .post(`${API}/materials`)
+      .field("id", "taken")
+      .field("name", "B")
+      .attach("file", Buffer.from(TABLE_NM), "b.csv")
+      .expect(409);
+    await team.members.reviewer.agent
+      .post(`${API}/materials`)
+      .field("id", "r")
+      .field("name", "r")
+      .attach("file", Buffer.from(TABLE_NM), "r.csv")
+      .expect(403);
     await request(server.app).post(`${API}/materials`).expect(401);
   });
 
   it("reports bad tables with row and column, refuses binary and oversize files, and stores nothing", async () => {
     const before = count("materials");
     const post = (csv: string | Buffer, name = "bad.csv") =>
-      team.members.designer.agent.post(`${API}/materials`).field("id", "bad-one").field("name", "Bad").attach("file", Buffer.isBuffer(csv) ? csv : Buffer.from(csv), name);
+      team.members.designer.agent
+        .post(`${API}/materials`)
+        .field("id", "bad-one")
+        .field("name", "Bad")
+        .attach("file", Buffer.isBuffer(csv) ? csv : Buffer.from(csv), name);
 
     const cell = await post("wavelength_nm,n,k\n400,2.0,0\n500,two,0\n600,1.9,-0.1\n").expect(422);
     expect(cell.body.error.code).toBe("invalid_csv");
@@ -114,14 +137,21 @@ describe("materials", () => {
     ]);
     const cols = await post("lambda,n,k\n400,2,0\n500,2,0\n").expect(422);
     expect(cols.body.error.details).toEqual(
-      expect.arrayContaining([expect.objectContaining({ row: 1, column: "lambda" }), expect.objectContaining({ row: 1, column: "wavelength_nm|wavelength_um" })]),
+      expect.arrayContaining([
+        expect.objectContaining({ row: 1, column: "lambda" }),
+        expect.objectContaining({ row: 1, column: "wavelength_nm|wavelength_um" }),
+      ]),
     );
     const both = await post("wavelength_nm,wavelength_um,n\n400,0.4,2\n500,0.5,2\n").expect(422);
     expect(both.body.error.details[0].message).toContain("only one of");
     const order = await post("wavelength_nm,n\n500,2\n400,2\n").expect(422);
     expect(order.body.error.details[0]).toMatchObject({ row: 3, column: "wavelength_nm" });
     const short = await post("wavelength_nm,n,k\n400,2\n500,2,0\n").expect(422);
-    expect(short.body.error.details[0]).toMatchObject({ row: 2, column: "-", message: "expected 3 cells, got 2" });
+    expect(short.body.error.details[0]).toMatchObject({
+      row: 2,
+      column: "-",
+      message: "expected 3 cells, got 2",
+    });
     const quote = await post('wavelength_nm,n\n400,"2\n').expect(422);
     expect(quote.body.error.details[0].row).toBeGreaterThanOrEqual(2);
     await post("wavelength_nm,n\n").expect(422);
@@ -129,9 +159,18 @@ describe("materials", () => {
     expect(bin.body.error.code).toBe("binary_file");
     const big = await post(Buffer.alloc(1024 * 1024 + 1, "1"), "big.csv").expect(413);
     expect(big.body.error.code).toBe("payload_too_large");
-    const noFile = await team.members.designer.agent.post(`${API}/materials`).field("id", "nofile").field("name", "No file").expect(400);
+    const noFile = await team.members.designer.agent
+      .post(`${API}/materials`)
+      .field("id", "nofile")
+      .field("name", "No file")
+      .expect(400);
     expect(noFile.body.error.code).toBe("file_missing");
-    const badId = await team.members.designer.agent.post(`${API}/materials`).field("id", "has space").field("name", "x").attach("file", Buffer.from(TABLE_NM), "x.csv").expect(400);
+    const badId = await team.members.designer.agent
+      .post(`${API}/materials`)
+      .field("id", "has space")
+      .field("name", "x")
+      .attach("file", Buffer.from(TABLE_NM), "x.csv")
+      .expect(400);
     expect(badId.body.error.code).toBe("validation_failed");
     expect(count("materials")).toBe(before);
   });
@@ -146,10 +185,23 @@ describe("measured spectra", () => {
       .field("label", "Run 42 witness")
       .field("angleDeg", "8")
       .field("polarization", "u")
-      .attach("file", Buffer.from("# spectrophotometer export\nwavelength_nm,R\n500,1.4\n550,1.3\n600,1.45\n"), "run42.csv")
+      .attach(
+        "file",
+        Buffer.from("# spectrophotometer export\nwavelength_nm,R\n500,1.4\n550,1.3\n600,1.45\n"),
+        "run42.csv",
+      )
       .expect(201);
-    expect(res.body).toMatchObject({ label: "Run 42 witness", quantity: "R", angleDeg: 8, polarization: "u", wavelengths: [500, 550, 600], values: [1.4, 1.3, 1.45] });
-    const list = await team.members.reviewer.agent.get(`${API}/revisions/${revision.id}/measurements`).expect(200);
+    expect(res.body).toMatchObject({
+      label: "Run 42 witness",
+      quantity: "R",
+      angleDeg: 8,
+      polarization: "u",
+      wavelengths: [500, 550, 600],
+      values: [1.4, 1.3, 1.45],
+    });
+    const list = await team.members.reviewer.agent
+      .get(`${API}/revisions/${revision.id}/measurements`)
+      .expect(200);
     expect(list.body.items).toHaveLength(1);
     const t = await team.members.designer.agent
       .post(`${API}/revisions/${revision.id}/measurements`)
@@ -162,7 +214,10 @@ describe("measured spectra", () => {
     const program = await createProgram(team);
     const { revision } = await createDesign(team, program.id);
     const before = count("measurements");
-    const post = (csv: string | Buffer) => team.members.designer.agent.post(`${API}/revisions/${revision.id}/measurements`).attach("file", Buffer.isBuffer(csv) ? csv : Buffer.from(csv), "m.csv");
+    const post = (csv: string | Buffer) =>
+      team.members.designer.agent
+        .post(`${API}/revisions/${revision.id}/measurements`)
+        .attach("file", Buffer.isBuffer(csv) ? csv : Buffer.from(csv), "m.csv");
     const both = await post("wavelength_nm,R,T\n500,1,99\n600,1,99\n").expect(422);
     expect(both.body.error.details[0].message).toContain("only one of");
     const cell = await post("wavelength_nm,T\n500,98\n550,n/a\n600,140\n").expect(422);
@@ -171,12 +226,20 @@ describe("measured spectra", () => {
       { row: 4, column: "T", message: "expected a percentage between 0 and 100, got 140" },
     ]);
     const wrong = await post("nm,percent\n500,1\n600,2\n").expect(422);
-    expect(wrong.body.error.details.some((d: { row: number; column: string }) => d.row === 1 && d.column === "nm")).toBe(true);
+    expect(
+      wrong.body.error.details.some((d: { row: number; column: string }) => d.row === 1 && d.column === "nm"),
+    ).toBe(true);
     await post(Buffer.from([0xff, 0xfe, 0x00, 0x41])).expect(415);
     await post(Buffer.alloc(2 * 1024 * 1024, "9")).expect(413);
     expect(count("measurements")).toBe(before);
-    await team.members.reviewer.agent.post(`${API}/revisions/${revision.id}/measurements`).attach("file", Buffer.from("wavelength_nm,T\n500,98\n600,97\n"), "m.csv").expect(403);
-    await team.members.designer.agent.post(`${API}/revisions/nope/measurements`).attach("file", Buffer.from("wavelength_nm,T\n500,98\n600,97\n"), "m.csv").expect(404);
+    await team.members.reviewer.agent
+      .post(`${API}/revisions/${revision.id}/measurements`)
+      .attach("file", Buffer.from("wavelength_nm,T\n500,98\n600,97\n"), "m.csv")
+      .expect(403);
+    await team.members.designer.agent
+      .post(`${API}/revisions/nope/measurements`)
+      .attach("file", Buffer.from("wavelength_nm,T\n500,98\n600,97\n"), "m.csv")
+      .expect(404);
     await team.members.designer.agent.get(`${API}/revisions/nope/measurements`).expect(404);
     await request(server.app).get(`${API}/revisions/${revision.id}/measurements`).expect(401);
   });

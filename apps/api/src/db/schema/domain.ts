@@ -9,7 +9,14 @@ const createdAt = () =>
     .notNull()
     .default(sql`(unixepoch('subsec') * 1000)`);
 
-export const REVISION_STATUSES = ["draft", "in_review", "changes_requested", "approved", "released", "withdrawn"] as const;
+export const REVISION_STATUSES = [
+  "draft",
+  "in_review",
+  "changes_requested",
+  "approved",
+  "released",
+  "withdrawn",
+] as const;
 export type RevisionStatus = (typeof REVISION_STATUSES)[number];
 
 export const YIELD_RUN_STATUSES = ["queued", "running", "done", "failed", "cancelled"] as const;
@@ -85,7 +92,10 @@ export const revisions = sqliteTable(
     statusChangedAt: integer("status_changed_at", { mode: "timestamp_ms" }),
     createdAt: createdAt(),
   },
-  (t) => [uniqueIndex("revisions_design_number_unique").on(t.designId, t.number), index("revisions_status_idx").on(t.status)],
+  (t) => [
+    uniqueIndex("revisions_design_number_unique").on(t.designId, t.number),
+    index("revisions_status_idx").on(t.status),
+  ],
 );
 
 /** Workspace materials (uploaded n,k tables); usable in the workspace's designs as design-local materials. */
@@ -181,7 +191,9 @@ export const threads = sqliteTable(
     revisionNumber: integer("revision_number").notNull(),
     anchor: text("anchor", { mode: "json" }).$type<ThreadAnchor>().notNull(),
     severity: text("severity", { enum: ["blocking", "advisory"] }).notNull(),
-    status: text("status", { enum: ["open", "resolved"] }).notNull().default("open"),
+    status: text("status", { enum: ["open", "resolved"] })
+      .notNull()
+      .default("open"),
     authorId: text("author_id")
       .notNull()
       .references(() => users.id),

@@ -12,11 +12,24 @@ import { route } from "../../lib/route.ts";
 import { diffStacks } from "../../domain/diff.ts";
 import { loadDesign, loadRevision, stackOf, type RevisionContext } from "../../domain/load.ts";
 import { resolveDesign, workspaceMaterials } from "../../domain/materials.ts";
-import { createRevision, designView, overviewRow, revisionSummary, revisionView } from "../../domain/revisions.ts";
+import {
+  createRevision,
+  designView,
+  overviewRow,
+  revisionSummary,
+  revisionView,
+} from "../../domain/revisions.ts";
 import { evaluateGate } from "../../domain/workflow.ts";
 import { parseLayerCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
-import { DesignSchemaOut, IdParams, NewRevisionBody, RevisionSchema, RevisionSummarySchema } from "./schemas.ts";
+import {
+  DesignSchemaOut,
+  IdParams,
+  NewRevisionBody,
+  RevisionSchema,
+  RevisionSummarySchema,
+  fileField,
+} from "./schemas.ts";
 
 const TAG = "Designs and revisions";
 
@@ -27,7 +40,12 @@ function workspaceRevisions(ctx: AppContext, workspaceId: string, statuses: stri
     .from(revisions)
     .innerJoin(designs, eq(revisions.designId, designs.id))
     .innerJoin(programs, eq(designs.programId, programs.id))
-    .where(and(eq(programs.workspaceId, workspaceId), inArray(revisions.status, statuses as (typeof revisions.$inferSelect.status)[])))
+    .where(
+      and(
+        eq(programs.workspaceId, workspaceId),
+        inArray(revisions.status, statuses as (typeof revisions.$inferSelect.status)[]),
+      ),
+    )
     .orderBy(desc(revisions.statusChangedAt), desc(revisions.createdAt))
     .all();
 }
@@ -75,7 +93,9 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       const auth = getAuth(req);
       const has = (r: string) => auth.roles.some((x) => x === r);
       const changes = has("designer")
-        ? workspaceRevisions(ctx, auth.workspaceId, ["changes_requested"]).filter((rc) => rc.revision.authorId === auth.user.id)
+        ? workspaceRevisions(ctx, auth.workspaceId, ["changes_requested"]).filter(
+            (rc) => rc.revision.authorId === auth.user.id,
+          )
         : [];
       const inReview = workspaceRevisions(ctx, auth.workspaceId, ["in_review"]);
       const review = has("reviewer") ? inReview.filter((rc) => rc.revision.authorId !== auth.user.id) : [];
@@ -179,7 +199,8 @@ export function designRoutes(ctx: AppContext, router: Router): void {
     {
       method: "get",
       path: "/revisions/:id/diff",
-      summary: "Layer differences from revision `against` (before) to this one (after), aligned by layer index",
+      summary:
+        "Layer differences from revision `against` (before) to this one (after), aligned by layer index",
       tag: TAG,
       access: "member",
       params: IdParams,
@@ -203,7 +224,8 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       const after = loadRevision(ctx.db, auth.workspaceId, params.id);
       const before = loadRevision(ctx.db, auth.workspaceId, query.against);
       const diff = diffStacks(stackOf(before.revision), stackOf(after.revision));
-      const specMaskChanged = JSON.stringify(before.revision.specMask) !== JSON.stringify(after.revision.specMask);
+      const specMaskChanged =
+        JSON.stringify(before.revision.specMask) !== JSON.stringify(after.revision.specMask);
       return {
         ...diff,
         specMaskChanged,
@@ -219,12 +241,14 @@ export function designRoutes(ctx: AppContext, router: Router): void {
     {
       method: "post",
       path: "/imports/design",
-      summary: "Parse an uploaded design (JSON design file, or CSV material,thickness_nm[,locked]); nothing is stored",
+      summary:
+        "Parse an uploaded design (JSON design file, or CSV material,thickness_nm[,locked]); nothing is stored",
       tag: TAG,
       access: ["designer"],
       multipart: true,
       before: [singleFile],
       body: z.object({
+        file: fileField("JSON design file, or CSV material,thickness_nm[,locked] (at most 1 MB)"),
         name: z.string().trim().max(200).optional(),
         referenceWavelength: z.coerce.number().positive().max(100000).optional(),
         substrate: z.string().trim().max(100).optional(),
@@ -232,7 +256,11 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         incident: z.string().trim().max(100).optional(),
       }),
       response: z.object({ stack: z.unknown(), warnings: z.array(z.string()) }),
-      errors: { 413: "File over 1 MB", 415: "Binary (non-text) file", 422: "CSV with wrong columns or bad cells (details: row, column, message)" },
+      errors: {
+        413: "File over 1 MB",
+        415: "Binary (non-text) file",
+        422: "CSV with wrong columns or bad cells (details: row, column, message)",
+      },
     },
     ({ req, body }) => {
       const auth = getAuth(req);
@@ -244,7 +272,11 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         try {
           json = JSON.parse(file.text);
         } catch (err) {
-          throw new HttpError(400, "malformed_json", `${file.name} is not valid JSON: ${err instanceof Error ? err.message : String(err)}`);
+          throw new HttpError(
+            400,
+            "malformed_json",
+            `${file.name} is not valid JSON: ${err instanceof Error ? err.message : String(err)}`,
+          );
         }
         return { stack: resolveDesign(ctx.db, auth.workspaceId, json), warnings };
       }
@@ -260,11 +292,15 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       let substrate = body.substrate;
       if (!substrate) {
         substrate = "boro-crown";
-        warnings.push("No substrate given; borosilicate crown glass (boro-crown), 1 mm, back surface counted, was used.");
+        warnings.push(
+          "No substrate given; borosilicate crown glass (boro-crown), 1 mm, back surface counted, was used.",
+        );
       } else if (!known(substrate)) {
         throw new HttpError(400, "invalid_design", `Unknown substrate material id "${substrate}".`);
       }
-      warnings.push("Layers were read in deposition order: the first row is the layer next to the substrate.");
+      warnings.push(
+        "Layers were read in deposition order: the first row is the layer next to the substrate.",
+      );
       const stack = resolveDesign(ctx.db, auth.workspaceId, {
         format: DESIGN_FORMAT,
         name,

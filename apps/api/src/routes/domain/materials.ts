@@ -15,7 +15,7 @@ import { loadRevision } from "../../domain/load.ts";
 import { isBuiltIn } from "../../domain/materials.ts";
 import { parseIndexTable, parseSpectrumCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
-import { IdParams } from "./schemas.ts";
+import { IdParams, fileField } from "./schemas.ts";
 
 const TAG = "Materials and measurements";
 
@@ -68,10 +68,23 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
     },
     ({ req }) => {
       const auth = getAuth(req);
-      const own = ctx.db.select().from(materials).where(eq(materials.workspaceId, auth.workspaceId)).orderBy(asc(materials.materialId)).all();
+      const own = ctx.db
+        .select()
+        .from(materials)
+        .where(eq(materials.workspaceId, auth.workspaceId))
+        .orderBy(asc(materials.materialId))
+        .all();
       return {
         items: [
-          ...MATERIAL_LIBRARY.map((m) => ({ id: m.id, name: m.name, role: m.role, source: m.source, builtIn: true, model: m.model, createdAt: null })),
+          ...MATERIAL_LIBRARY.map((m) => ({
+            id: m.id,
+            name: m.name,
+            role: m.role,
+            source: m.source,
+            builtIn: true,
+            model: m.model,
+            createdAt: null,
+          })),
           ...own.map((m) => ({
             id: m.materialId,
             name: m.name,
@@ -97,17 +110,25 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
       multipart: true,
       before: [singleFile],
       body: z.object({
+        file: fileField("CSV n,k table: wavelength_nm or wavelength_um, n[, k] (at most 1 MB)"),
         id: z
           .string()
           .trim()
-          .regex(/^[A-Za-z0-9][A-Za-z0-9_.+-]{0,63}$/, { message: "use 1-64 letters, digits, _ . + - (starting with a letter or digit)" }),
+          .regex(/^[A-Za-z0-9][A-Za-z0-9_.+-]{0,63}$/, {
+            message: "use 1-64 letters, digits, _ . + - (starting with a letter or digit)",
+          }),
         name: z.string().trim().min(1).max(200),
         role: z.enum(["layer", "substrate", "medium", "metal"]).default("layer"),
         source: z.string().trim().max(500).optional(),
       }),
       status: 201,
       response: MaterialOut,
-      errors: { 409: "The id is taken (built-in or workspace material)", 413: "File over 1 MB", 415: "Binary (non-text) file", 422: "Bad CSV (details: row, column, message)" },
+      errors: {
+        409: "The id is taken (built-in or workspace material)",
+        413: "File over 1 MB",
+        415: "Binary (non-text) file",
+        422: "Bad CSV (details: row, column, message)",
+      },
     },
     ({ req, body }) => {
       const auth = getAuth(req);
@@ -118,7 +139,9 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
         id: body.id,
         name: body.name,
         role: body.role,
-        source: body.source || `uploaded n,k table ${file.name} (${points.length} points, ${points[0]?.[0]}–${points[points.length - 1]?.[0]} nm)`,
+        source:
+          body.source ||
+          `uploaded n,k table ${file.name} (${points.length} points, ${points[0]?.[0]}–${points[points.length - 1]?.[0]} nm)`,
         model: { kind: "table", points },
       });
       const id = newId();
@@ -128,7 +151,10 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
           .from(materials)
           .where(and(eq(materials.workspaceId, auth.workspaceId), eq(materials.materialId, material.id)))
           .get();
-        if (taken) throw conflict(`The workspace already has a material "${material.id}"; materials are not replaced, choose another id.`);
+        if (taken)
+          throw conflict(
+            `The workspace already has a material "${material.id}"; materials are not replaced, choose another id.`,
+          );
         tx.insert(materials)
           .values({
             id,
@@ -175,13 +201,19 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
       multipart: true,
       before: [singleFile],
       body: z.object({
+        file: fileField("CSV wavelength_nm and R or T in percent (at most 1 MB)"),
         label: z.string().trim().max(200).optional(),
         angleDeg: z.coerce.number().min(0).lt(90).default(0),
         polarization: z.enum(["s", "p", "u"]).default("u"),
       }),
       status: 201,
       response: MeasurementOut,
-      errors: { 404: "No such revision", 413: "File over 1 MB", 415: "Binary (non-text) file", 422: "Bad CSV (details: row, column, message)" },
+      errors: {
+        404: "No such revision",
+        413: "File over 1 MB",
+        415: "Binary (non-text) file",
+        422: "Bad CSV (details: row, column, message)",
+      },
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
@@ -238,7 +270,12 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
       const rows = ctx.db
         .select()
         .from(measurements)
-        .where(and(eq(measurements.revisionId, rc.revision.id), keysetWhere([measurements.createdAt, measurements.id], query.cursor, "desc")))
+        .where(
+          and(
+            eq(measurements.revisionId, rc.revision.id),
+            keysetWhere([measurements.createdAt, measurements.id], query.cursor, "desc"),
+          ),
+        )
         .orderBy(desc(measurements.createdAt), desc(measurements.id))
         .limit(query.limit + 1)
         .all();

@@ -10,21 +10,49 @@ import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination
 import { route } from "../../lib/route.ts";
 import { newId } from "../../domain/canonical.ts";
 import { loadProgram } from "../../domain/load.ts";
-import { createRevision, designView, overviewRow, programDesigns, programView, revisionView } from "../../domain/revisions.ts";
-import { DesignSchemaOut, IdParams, NewDesignBody, ProgramCreateBody, ProgramPatchBody, ProgramSchema, RevisionSchema } from "./schemas.ts";
+import {
+  createRevision,
+  designView,
+  overviewRow,
+  programDesigns,
+  programView,
+  revisionView,
+} from "../../domain/revisions.ts";
+import {
+  DesignSchemaOut,
+  IdParams,
+  NewDesignBody,
+  ProgramCreateBody,
+  ProgramPatchBody,
+  ProgramSchema,
+  RevisionSchema,
+} from "./schemas.ts";
 
 const TAG = "Programs";
 
 export function programRoutes(ctx: AppContext, router: Router): void {
   route(
     router,
-    { method: "get", path: "/programs", summary: "Programs of the workspace, newest first", tag: TAG, access: "member", query: pageQuery, response: pageSchema(ProgramSchema) },
+    {
+      method: "get",
+      path: "/programs",
+      summary: "Programs of the workspace, newest first",
+      tag: TAG,
+      access: "member",
+      query: pageQuery,
+      response: pageSchema(ProgramSchema),
+    },
     ({ req, query }) => {
       const auth = getAuth(req);
       const rows = ctx.db
         .select()
         .from(programs)
-        .where(and(eq(programs.workspaceId, auth.workspaceId), keysetWhere([programs.createdAt, programs.id], query.cursor, "desc")))
+        .where(
+          and(
+            eq(programs.workspaceId, auth.workspaceId),
+            keysetWhere([programs.createdAt, programs.id], query.cursor, "desc"),
+          ),
+        )
         .orderBy(desc(programs.createdAt), desc(programs.id))
         .limit(query.limit + 1)
         .all();
@@ -94,7 +122,10 @@ export function programRoutes(ctx: AppContext, router: Router): void {
     ({ req, params }) => {
       const auth = getAuth(req);
       const program = loadProgram(ctx.db, auth.workspaceId, params.id);
-      return { ...programView(program), designs: programDesigns(ctx.db, program).map((d) => overviewRow(ctx.db, d, program)) };
+      return {
+        ...programView(program),
+        designs: programDesigns(ctx.db, program).map((d) => overviewRow(ctx.db, d, program)),
+      };
     },
   );
 
@@ -136,7 +167,12 @@ export function programRoutes(ctx: AppContext, router: Router): void {
           subjectType: "program",
           subjectId: before.id,
           summary: `${auth.user.name} changed ${Object.keys(changes).join(", ")} of the program ${before.name}`,
-          data: { before: Object.fromEntries(Object.keys(changes).map((k) => [k, before[k as keyof typeof before]])), after: changes },
+          data: {
+            before: Object.fromEntries(
+              Object.keys(changes).map((k) => [k, before[k as keyof typeof before]]),
+            ),
+            after: changes,
+          },
         });
       });
       return programView(loadProgram(ctx.db, auth.workspaceId, before.id));
@@ -180,7 +216,13 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       const auth = getAuth(req);
       const program = loadProgram(ctx.db, auth.workspaceId, params.id);
       const { design, revision } = ctx.db.transaction((tx) => {
-        const design = { id: newId(), programId: program.id, name: body.name, createdBy: auth.user.id, createdAt: new Date() };
+        const design = {
+          id: newId(),
+          programId: program.id,
+          name: body.name,
+          createdBy: auth.user.id,
+          createdAt: new Date(),
+        };
         tx.insert(designs).values(design).run();
         const revision = createRevision(tx, {
           workspaceId: auth.workspaceId,
@@ -202,7 +244,10 @@ export function programRoutes(ctx: AppContext, router: Router): void {
         });
         return { design, revision };
       });
-      return { design: designView(ctx.db, design, program), revision: revisionView(ctx.db, { revision, design, program }) };
+      return {
+        design: designView(ctx.db, design, program),
+        revision: revisionView(ctx.db, { revision, design, program }),
+      };
     },
   );
 }

@@ -54,7 +54,14 @@ export const ProgramSchema = z.object({
 
 export const PersonSchema = z.object({ id: z.string(), name: z.string() }).nullable();
 
-export const RevisionStatusSchema = z.enum(["draft", "in_review", "changes_requested", "approved", "released", "withdrawn"]);
+export const RevisionStatusSchema = z.enum([
+  "draft",
+  "in_review",
+  "changes_requested",
+  "approved",
+  "released",
+  "withdrawn",
+]);
 
 export const RevisionSummarySchema = z.object({
   id: z.string(),
@@ -87,7 +94,12 @@ export const RevisionSchema = z.object({
   hash: z.string(),
   createdAt: z.string(),
   statusChangedAt: z.string().nullable(),
-  nominal: z.object({ pass: z.boolean(), bands: z.array(z.unknown()), merit: z.number(), cautions: z.array(z.string()) }),
+  nominal: z.object({
+    pass: z.boolean(),
+    bands: z.array(z.unknown()),
+    merit: z.number(),
+    cautions: z.array(z.string()),
+  }),
 });
 
 export const DesignSchemaOut = z.object({
@@ -114,7 +126,11 @@ export const NewRevisionBody = z.object({
 export const AnchorSchema = z.discriminatedUnion("kind", [
   z.object({ kind: z.literal("band"), bandId: z.string().min(1) }),
   z
-    .object({ kind: z.literal("range"), start: z.number().positive().finite(), stop: z.number().positive().finite() })
+    .object({
+      kind: z.literal("range"),
+      start: z.number().positive().finite(),
+      stop: z.number().positive().finite(),
+    })
     .refine((a) => a.stop >= a.start, { message: "stop must be ≥ start", path: ["stop"] }),
   z.object({ kind: z.literal("layer"), index: z.number().int().min(0) }),
   z.object({ kind: z.literal("design") }),
@@ -134,7 +150,13 @@ export const ThreadSchema = z.object({
   resolvedAt: z.string().nullable(),
   resolvedBy: PersonSchema,
   comments: z.array(
-    z.object({ id: z.string(), author: PersonSchema, body: z.string(), mentions: z.array(z.object({ id: z.string(), name: z.string() })), createdAt: z.string() }),
+    z.object({
+      id: z.string(),
+      author: PersonSchema,
+      body: z.string(),
+      mentions: z.array(z.object({ id: z.string(), name: z.string() })),
+      createdAt: z.string(),
+    }),
   ),
   anchorPasses: z.boolean().nullable(),
 });
@@ -173,9 +195,17 @@ export const DecisionSchema = z.object({
 
 export const GateSchema = z.object({
   checks: z.array(
-    z.object({ id: z.enum(["verified_yield", "blocking_threads", "independent_approver", "state"]), ok: z.boolean(), message: z.string() }),
+    z.object({
+      id: z.enum(["verified_yield", "blocking_threads", "independent_approver", "state"]),
+      ok: z.boolean(),
+      message: z.string(),
+    }),
   ),
   canApprove: z.boolean(),
   canRelease: z.boolean(),
   yieldRunId: z.string().nullable(),
 });
+
+/** The uploaded file of a multipart route, for the OpenAPI document (multer puts it in req.file, not the body). */
+export const fileField = (description: string) =>
+  z.any().optional().meta({ type: "string", format: "binary", description });

@@ -24,7 +24,14 @@ function revisionOfThread(ctx: AppContext, workspaceId: string, revisionId: stri
 function addComment(db: DbOrTx, auth: AuthContext, threadId: string, body: string) {
   const members = workspaceMembers(db, auth.workspaceId);
   const mentioned = findMentions(body, members).filter((m) => m.id !== auth.user.id);
-  const comment = { id: newId(), threadId, authorId: auth.user.id, body, mentions: mentioned.map((m) => m.id), createdAt: new Date() };
+  const comment = {
+    id: newId(),
+    threadId,
+    authorId: auth.user.id,
+    body,
+    mentions: mentioned.map((m) => m.id),
+    createdAt: new Date(),
+  };
   db.insert(comments).values(comment).run();
   return { comment, mentioned };
 }
@@ -35,7 +42,8 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
     {
       method: "get",
       path: "/revisions/:id/threads",
-      summary: "Threads opened on this revision or an earlier one of its design; anchorPasses evaluated on this revision",
+      summary:
+        "Threads opened on this revision or an earlier one of its design; anchorPasses evaluated on this revision",
       tag: TAG,
       access: "member",
       params: IdParams,
@@ -58,7 +66,11 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: ["reviewer", "approver", "designer"],
       params: IdParams,
-      body: z.object({ anchor: AnchorSchema, severity: z.enum(["blocking", "advisory"]), body: CommentBodySchema }),
+      body: z.object({
+        anchor: AnchorSchema,
+        severity: z.enum(["blocking", "advisory"]),
+        body: CommentBodySchema,
+      }),
       status: 201,
       response: ThreadSchema,
       errors: { 404: "No such revision", 422: "The anchor names a band or layer the revision does not have" },
@@ -67,11 +79,22 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
       const anchor = body.anchor;
-      if (anchor.kind === "band" && !maskOf(rc.revision, rc.program).bands.some((b) => b.id === anchor.bandId)) {
-        throw new HttpError(422, "unknown_anchor", `Revision ${rc.revision.number} has no spec band "${anchor.bandId}".`);
+      if (
+        anchor.kind === "band" &&
+        !maskOf(rc.revision, rc.program).bands.some((b) => b.id === anchor.bandId)
+      ) {
+        throw new HttpError(
+          422,
+          "unknown_anchor",
+          `Revision ${rc.revision.number} has no spec band "${anchor.bandId}".`,
+        );
       }
       if (anchor.kind === "layer" && anchor.index >= stackOf(rc.revision).layers.length) {
-        throw new HttpError(422, "unknown_anchor", `Revision ${rc.revision.number} has ${stackOf(rc.revision).layers.length} layers; there is no layer ${anchor.index}.`);
+        throw new HttpError(
+          422,
+          "unknown_anchor",
+          `Revision ${rc.revision.number} has ${stackOf(rc.revision).layers.length} layers; there is no layer ${anchor.index}.`,
+        );
       }
       const id = newId();
       const mentioned = ctx.db.transaction((tx) => {
@@ -115,11 +138,15 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
       body: z.object({ body: CommentBodySchema }),
       status: 201,
       response: ThreadSchema,
-      errors: { 403: "Members holding only the admin role do not take part in reviews", 404: "No such thread" },
+      errors: {
+        403: "Members holding only the admin role do not take part in reviews",
+        404: "No such thread",
+      },
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
-      if (!auth.roles.some((r) => r !== "admin")) throw forbidden("Commenting needs a designer, reviewer or approver role.");
+      if (!auth.roles.some((r) => r !== "admin"))
+        throw forbidden("Commenting needs a designer, reviewer or approver role.");
       const { thread } = loadThread(ctx.db, auth.workspaceId, params.id);
       const rc = revisionOfThread(ctx, auth.workspaceId, thread.revisionId);
       const mentioned = ctx.db.transaction((tx) => {
@@ -152,12 +179,20 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
         params: IdParams,
         body: z.object({ note: z.string().trim().max(10000).optional() }),
         response: ThreadSchema,
-        errors: { 403: "Not a reviewer, approver or the thread's author", 404: "No such thread", 409: `The thread is already ${action === "resolve" ? "resolved" : "open"}` },
+        errors: {
+          403: "Not a reviewer, approver or the thread's author",
+          404: "No such thread",
+          409: `The thread is already ${action === "resolve" ? "resolved" : "open"}`,
+        },
       },
       ({ req, params, body }) => {
         const auth = getAuth(req);
         const { thread } = loadThread(ctx.db, auth.workspaceId, params.id);
-        if (thread.authorId !== auth.user.id && !auth.roles.includes("reviewer") && !auth.roles.includes("approver")) {
+        if (
+          thread.authorId !== auth.user.id &&
+          !auth.roles.includes("reviewer") &&
+          !auth.roles.includes("approver")
+        ) {
           throw forbidden(`Only a reviewer, an approver or the thread's author may ${action} it.`);
         }
         const rc = revisionOfThread(ctx, auth.workspaceId, thread.revisionId);
@@ -166,7 +201,11 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
         const mentioned = ctx.db.transaction((tx) => {
           const res = tx
             .update(threads)
-            .set(to === "resolved" ? { status: to, resolvedAt: new Date(), resolvedBy: auth.user.id } : { status: to, resolvedAt: null, resolvedBy: null })
+            .set(
+              to === "resolved"
+                ? { status: to, resolvedAt: new Date(), resolvedBy: auth.user.id }
+                : { status: to, resolvedAt: null, resolvedBy: null },
+            )
             .where(and(eq(threads.id, thread.id), eq(threads.status, from)))
             .run();
           if (res.changes !== 1) throw conflict(`The thread is already ${to}.`);
@@ -184,7 +223,12 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
         });
         for (const m of mentioned) mailMention(ctx, rc, m, auth.user.name, body.note ?? "");
         // Evaluate the anchor on the design's latest revision, where the thread now matters.
-        const latest = ctx.db.select().from(revisions).where(eq(revisions.designId, thread.designId)).all().sort((a, b) => b.number - a.number)[0];
+        const latest = ctx.db
+          .select()
+          .from(revisions)
+          .where(eq(revisions.designId, thread.designId))
+          .all()
+          .sort((a, b) => b.number - a.number)[0];
         const on = latest ? { ...rc, revision: latest } : rc;
         const row = ctx.db.select().from(threads).where(eq(threads.id, thread.id)).get();
         return threadViews(ctx.db, row ? [row] : [], on)[0];

@@ -44,11 +44,20 @@ function summary(snapshot: ReleaseSnapshot, status: string) {
     releasedAt: snapshot.releasedAt,
     releasedBy: snapshot.releasedBy,
     status,
-    program: { id: snapshot.program.id, name: snapshot.program.name, protective: snapshot.program.protective },
+    program: {
+      id: snapshot.program.id,
+      name: snapshot.program.name,
+      protective: snapshot.program.protective,
+    },
     design: snapshot.design,
     revision: { id: snapshot.revision.id, number: snapshot.revision.number, hash: snapshot.revision.hash },
     yield: snapshot.yieldRun
-      ? { yield: snapshot.yieldRun.yield, low: snapshot.yieldRun.interval.low, high: snapshot.yieldRun.interval.high, trials: snapshot.yieldRun.trials }
+      ? {
+          yield: snapshot.yieldRun.yield,
+          low: snapshot.yieldRun.interval.low,
+          high: snapshot.yieldRun.interval.high,
+          trials: snapshot.yieldRun.trials,
+        }
       : null,
   };
 }
@@ -71,7 +80,12 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
       const gate = evaluateGate(ctx.db, rc, auth, query.yieldRunId);
-      return { checks: gate.checks, canApprove: gate.canApprove, canRelease: gate.canRelease, yieldRunId: gate.yieldRun?.id ?? null };
+      return {
+        checks: gate.checks,
+        canApprove: gate.canApprove,
+        canRelease: gate.canRelease,
+        yieldRunId: gate.yieldRun?.id ?? null,
+      };
     },
   );
 
@@ -89,7 +103,11 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
         note: z.string().trim().max(5000).optional(),
         yieldRunId: z.string().min(1).max(100).optional(),
       }),
-      response: z.object({ revision: RevisionSchema, decision: DecisionSchema, releaseId: z.string().nullable() }),
+      response: z.object({
+        revision: RevisionSchema,
+        decision: DecisionSchema,
+        releaseId: z.string().nullable(),
+      }),
       errors: {
         403: "The role does not allow this action",
         404: "No such revision",
@@ -142,11 +160,21 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
         .select({ release: releases, status: revisions.status })
         .from(releases)
         .innerJoin(revisions, eq(releases.revisionId, revisions.id))
-        .where(and(eq(releases.workspaceId, auth.workspaceId), keysetWhere([releases.releasedAt, releases.id], query.cursor, "desc")))
+        .where(
+          and(
+            eq(releases.workspaceId, auth.workspaceId),
+            keysetWhere([releases.releasedAt, releases.id], query.cursor, "desc"),
+          ),
+        )
         .orderBy(desc(releases.releasedAt), desc(releases.id))
         .limit(query.limit + 1)
         .all();
-      return toPage(rows, query.limit, (r) => [r.release.releasedAt, r.release.id], (r) => summary(r.release.snapshot as ReleaseSnapshot, r.status));
+      return toPage(
+        rows,
+        query.limit,
+        (r) => [r.release.releasedAt, r.release.id],
+        (r) => summary(r.release.snapshot as ReleaseSnapshot, r.status),
+      );
     },
   );
 

@@ -2,7 +2,13 @@
 import type { Router } from "express";
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { z } from "zod";
-import { ENGINE_VERSION, ErrorModelSchema, MAX_TRIALS, parseYieldStudy, type ErrorModel } from "@stackproof/optics";
+import {
+  ENGINE_VERSION,
+  ErrorModelSchema,
+  MAX_TRIALS,
+  parseYieldStudy,
+  type ErrorModel,
+} from "@stackproof/optics";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { yieldRuns } from "../../db/schema.ts";
@@ -11,7 +17,15 @@ import { HttpError, conflict, forbidden } from "../../lib/errors.ts";
 import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { newId } from "../../domain/canonical.ts";
-import { loadRevision, loadYieldRun, maskOf, person, stackOf, userNames, type YieldRunRow } from "../../domain/load.ts";
+import {
+  loadRevision,
+  loadYieldRun,
+  maskOf,
+  person,
+  stackOf,
+  userNames,
+  type YieldRunRow,
+} from "../../domain/load.ts";
 import { ClientResultSchema } from "../../yield/verify.ts";
 import { IdParams, YieldRunSchema } from "./schemas.ts";
 
@@ -67,7 +81,13 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       const seed = body.seed ?? rc.program.studyDefaults.seed;
       const errorModel = (body.errorModel ?? rc.program.errorModel) as ErrorModel;
       try {
-        parseYieldStudy({ design: stackOf(rc.revision), mask: maskOf(rc.revision, rc.program), errorModel, trials, seed });
+        parseYieldStudy({
+          design: stackOf(rc.revision),
+          mask: maskOf(rc.revision, rc.program),
+          errorModel,
+          trials,
+          seed,
+        });
       } catch (err) {
         if (err instanceof RangeError) throw new HttpError(400, "invalid_study", err.message);
         throw err;
@@ -122,11 +142,21 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       const rows = ctx.db
         .select()
         .from(yieldRuns)
-        .where(and(eq(yieldRuns.revisionId, rc.revision.id), keysetWhere([yieldRuns.createdAt, yieldRuns.id], query.cursor, "desc")))
+        .where(
+          and(
+            eq(yieldRuns.revisionId, rc.revision.id),
+            keysetWhere([yieldRuns.createdAt, yieldRuns.id], query.cursor, "desc"),
+          ),
+        )
         .orderBy(desc(yieldRuns.createdAt), desc(yieldRuns.id))
         .limit(query.limit + 1)
         .all();
-      return toPage(rows, query.limit, (r) => [r.createdAt, r.id], (r) => yieldRunView(ctx.db, r));
+      return toPage(
+        rows,
+        query.limit,
+        (r) => [r.createdAt, r.id],
+        (r) => yieldRunView(ctx.db, r),
+      );
     },
   );
 
@@ -158,7 +188,11 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       access: "member",
       params: IdParams,
       response: YieldRunSchema,
-      errors: { 403: "Neither the requester nor an approver", 404: "No such yield run", 409: "The run has already finished" },
+      errors: {
+        403: "Neither the requester nor an approver",
+        404: "No such yield run",
+        409: "The run has already finished",
+      },
     },
     ({ req, params }) => {
       const auth = getAuth(req);
@@ -185,11 +219,20 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
         return res.changes;
       });
       if (changed !== 1) {
-        const now = ctx.db.select({ status: yieldRuns.status }).from(yieldRuns).where(eq(yieldRuns.id, run.id)).get();
-        throw conflict(`The run is already ${now?.status ?? run.status}.`, { status: now?.status ?? run.status });
+        const now = ctx.db
+          .select({ status: yieldRuns.status })
+          .from(yieldRuns)
+          .where(eq(yieldRuns.id, run.id))
+          .get();
+        throw conflict(`The run is already ${now?.status ?? run.status}.`, {
+          status: now?.status ?? run.status,
+        });
       }
       ctx.jobs.cancel(run.id);
-      return yieldRunView(ctx.db, ctx.db.select().from(yieldRuns).where(eq(yieldRuns.id, run.id)).get() as YieldRunRow);
+      return yieldRunView(
+        ctx.db,
+        ctx.db.select().from(yieldRuns).where(eq(yieldRuns.id, run.id)).get() as YieldRunRow,
+      );
     },
   );
 }
