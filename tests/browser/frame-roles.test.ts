@@ -1,6 +1,13 @@
 // The frame of the app for each demo role: sign-in, the navigation the roles allow, the personal queue, sign-out.
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
-import { DEMO, openBrowser, signInAs, startProduct, type BrowserSession, type Product } from "./support/harness.ts";
+import {
+  DEMO,
+  openBrowser,
+  signInAs,
+  startProduct,
+  type BrowserSession,
+  type Product,
+} from "./support/harness.ts";
 
 let product: Product;
 let browser: BrowserSession;

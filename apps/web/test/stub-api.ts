@@ -9,8 +9,15 @@ export interface StubCall {
   body: unknown;
 }
 
-function isStatusAnswer(a: unknown): a is { status: number; body?: unknown; headers?: Record<string, string> } {
-  return typeof a === "object" && a !== null && "status" in a && typeof (a as { status: unknown }).status === "number";
+function isStatusAnswer(
+  a: unknown,
+): a is { status: number; body?: unknown; headers?: Record<string, string> } {
+  return (
+    typeof a === "object" &&
+    a !== null &&
+    "status" in a &&
+    typeof (a as { status: unknown }).status === "number"
+  );
 }
 
 /**
@@ -20,7 +27,10 @@ function isStatusAnswer(a: unknown): a is { status: number; body?: unknown; head
 export function stubApi(routes: Record<string, StubAnswer | ((call: StubCall) => StubAnswer)>) {
   const calls: StubCall[] = [];
   const fetchMock = vi.fn(async (input: RequestInfo | URL, init?: RequestInit) => {
-    const url = new URL(typeof input === "string" ? input : input instanceof URL ? input.href : input.url, "http://localhost");
+    const url = new URL(
+      typeof input === "string" ? input : input instanceof URL ? input.href : input.url,
+      "http://localhost",
+    );
     const method = (init?.method ?? "GET").toUpperCase();
     let body: unknown = undefined;
     if (typeof init?.body === "string") body = JSON.parse(init.body);
@@ -29,7 +39,10 @@ export function stubApi(routes: Record<string, StubAnswer | ((call: StubCall) =>
     calls.push(call);
     const entry = routes[`${method} ${url.pathname}${url.search}`] ?? routes[`${method} ${url.pathname}`];
     if (entry === undefined) {
-      return new Response(JSON.stringify({ error: { code: "not_found", message: `No stub for ${method} ${url.pathname}` } }), { status: 404 });
+      return new Response(
+        JSON.stringify({ error: { code: "not_found", message: `No stub for ${method} ${url.pathname}` } }),
+        { status: 404 },
+      );
     }
     const answer = typeof entry === "function" ? (entry as (c: StubCall) => StubAnswer)(call) : entry;
     if (isStatusAnswer(answer)) {
@@ -38,7 +51,10 @@ export function stubApi(routes: Record<string, StubAnswer | ((call: StubCall) =>
         headers: answer.headers,
       });
     }
-    return new Response(JSON.stringify(answer), { status: 200, headers: { "Content-Type": "application/json" } });
+    return new Response(JSON.stringify(answer), {
+      status: 200,
+      headers: { "Content-Type": "application/json" },
+    });
   });
   vi.stubGlobal("fetch", fetchMock);
   return { calls, fetchMock };

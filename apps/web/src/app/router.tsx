@@ -10,10 +10,26 @@ export function createRouter() {
   return createBrowserRouter([
     // Pages outside the shell: signing in, and the printable release record.
     { path: "sign-in", lazy: () => import("./routes/auth/sign-in.tsx"), errorElement: <RouteError /> },
-    { path: "forgot-password", lazy: () => import("./routes/auth/forgot-password.tsx"), errorElement: <RouteError /> },
-    { path: "reset-password", lazy: () => import("./routes/auth/reset-password.tsx"), errorElement: <RouteError /> },
-    { path: "accept-invitation", lazy: () => import("./routes/auth/accept-invitation.tsx"), errorElement: <RouteError /> },
-    { path: "releases/:releaseId", lazy: () => import("./routes/release-record.tsx"), errorElement: <RouteError /> },
+    {
+      path: "forgot-password",
+      lazy: () => import("./routes/auth/forgot-password.tsx"),
+      errorElement: <RouteError />,
+    },
+    {
+      path: "reset-password",
+      lazy: () => import("./routes/auth/reset-password.tsx"),
+      errorElement: <RouteError />,
+    },
+    {
+      path: "accept-invitation",
+      lazy: () => import("./routes/auth/accept-invitation.tsx"),
+      errorElement: <RouteError />,
+    },
+    {
+      path: "releases/:releaseId",
+      lazy: () => import("./routes/release-record.tsx"),
+      errorElement: <RouteError />,
+    },
     {
       id: "shell",
       element: <AppShell />,
@@ -22,7 +38,10 @@ export function createRouter() {
       // Signed-out people are sent to /sign-in?next=<where they were going>.
       // The outbox check runs alongside, so the navigation does not grow a link after the page has shown.
       loader: async ({ request }) => {
-        const [session] = await Promise.all([requireSession(request), queryClient.ensureQueryData(outboxAvailableQueryOptions())]);
+        const [session] = await Promise.all([
+          requireSession(request),
+          queryClient.ensureQueryData(outboxAvailableQueryOptions()),
+        ]);
         return session;
       },
       children: [
@@ -39,7 +58,10 @@ export function createRouter() {
             // The design workspace.
             { path: "designs/new", lazy: () => import("./routes/designs/new-design.tsx") },
             { path: "designs/:designId", lazy: () => import("./routes/designs/design.tsx") },
-            { path: "designs/:designId/revisions/:revisionId", lazy: () => import("./routes/designs/revision.tsx") },
+            {
+              path: "designs/:designId/revisions/:revisionId",
+              lazy: () => import("./routes/designs/revision.tsx"),
+            },
             { path: "designs/:designId/compare", lazy: () => import("./routes/designs/compare.tsx") },
             { path: "*", lazy: () => import("./routes/not-found.tsx") },
           ],

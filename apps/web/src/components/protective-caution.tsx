@@ -26,8 +26,21 @@ export function ProtectiveCaution({ application, compact = false, text, classNam
         className,
       )}
     >
-      <svg aria-hidden viewBox="0 0 20 20" className={cx("shrink-0 text-film-amber print:text-black", compact ? "mt-0.5 h-3.5 w-3.5" : "mt-0.5 h-5 w-5")}>
-        <path d="M10 1.5 18.5 17h-17L10 1.5Z" fill="none" stroke="currentColor" strokeWidth="1.8" strokeLinejoin="round" />
+      <svg
+        aria-hidden
+        viewBox="0 0 20 20"
+        className={cx(
+          "shrink-0 text-film-amber print:text-black",
+          compact ? "mt-0.5 h-3.5 w-3.5" : "mt-0.5 h-5 w-5",
+        )}
+      >
+        <path
+          d="M10 1.5 18.5 17h-17L10 1.5Z"
+          fill="none"
+          stroke="currentColor"
+          strokeWidth="1.8"
+          strokeLinejoin="round"
+        />
         <path d="M10 7.5v4.5M10 14.2v.3" stroke="currentColor" strokeWidth="1.8" strokeLinecap="round" />
       </svg>
       <div>
@@ -36,7 +49,9 @@ export function ProtectiveCaution({ application, compact = false, text, classNam
             Protective filter{application ? ` — ${application}` : ""}: not a certification
           </p>
         )}
-        <p className={compact ? undefined : "mt-0.5 text-ink-800 print:text-black"}>{text ?? protectiveCautionText}</p>
+        <p className={compact ? undefined : "mt-0.5 text-ink-800 print:text-black"}>
+          {text ?? protectiveCautionText}
+        </p>
       </div>
     </aside>
   );

@@ -29,20 +29,37 @@ export interface SpecMaskTableProps {
 }
 
 /** The bands of a spec mask as a table: range, quantity, angle and polarization, requirement. */
-export function SpecMaskTable({ mask, caption = "Spec mask bands", showCaption = false, className }: SpecMaskTableProps) {
+export function SpecMaskTable({
+  mask,
+  caption = "Spec mask bands",
+  showCaption = false,
+  className,
+}: SpecMaskTableProps) {
   const bands = mask?.bands ?? [];
   if (bands.length === 0) return <p className="text-sm text-ink-500">The spec mask has no bands.</p>;
   return (
     <div className={cx("overflow-x-auto", className)}>
       <table className="w-full border-collapse text-left text-sm">
-        <caption className={showCaption ? "mb-2 text-left text-sm font-semibold" : "sr-only"}>{caption}</caption>
+        <caption className={showCaption ? "mb-2 text-left text-sm font-semibold" : "sr-only"}>
+          {caption}
+        </caption>
         <thead>
           <tr className="border-b border-ink-100 text-xs tracking-wide text-ink-500 uppercase">
-            <th scope="col" className="py-2 pr-3 font-semibold">Band</th>
-            <th scope="col" className="py-2 pr-3 font-semibold">Range (nm)</th>
-            <th scope="col" className="py-2 pr-3 font-semibold">Quantity</th>
-            <th scope="col" className="py-2 pr-3 font-semibold">Incidence</th>
-            <th scope="col" className="py-2 font-semibold">Requirement</th>
+            <th scope="col" className="py-2 pr-3 font-semibold">
+              Band
+            </th>
+            <th scope="col" className="py-2 pr-3 font-semibold">
+              Range (nm)
+            </th>
+            <th scope="col" className="py-2 pr-3 font-semibold">
+              Quantity
+            </th>
+            <th scope="col" className="py-2 pr-3 font-semibold">
+              Incidence
+            </th>
+            <th scope="col" className="py-2 font-semibold">
+              Requirement
+            </th>
           </tr>
         </thead>
         <tbody>

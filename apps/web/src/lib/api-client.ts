@@ -46,11 +46,20 @@ async function request<T>(method: string, path: string, options: RequestOptions 
       credentials: "same-origin",
       signal: options.signal,
       headers: options.body === undefined || isForm ? undefined : { "Content-Type": "application/json" },
-      body: options.body === undefined ? undefined : isForm ? (options.body as FormData) : JSON.stringify(options.body),
+      body:
+        options.body === undefined
+          ? undefined
+          : isForm
+            ? (options.body as FormData)
+            : JSON.stringify(options.body),
     });
   } catch (error) {
     if (error instanceof DOMException && error.name === "AbortError") throw error;
-    throw new ApiError(0, "network_error", "The Stackproof server could not be reached. Check your connection and try again.");
+    throw new ApiError(
+      0,
+      "network_error",
+      "The Stackproof server could not be reached. Check your connection and try again.",
+    );
   }
   const text = await res.text();
   const data: unknown = text ? safeJson(text) : undefined;
@@ -78,8 +87,11 @@ function safeJson(text: string): unknown {
 
 export const api = {
   get: <T>(path: string, options?: Omit<RequestOptions, "body">) => request<T>("GET", path, options),
-  post: <T>(path: string, body?: unknown, options?: RequestOptions) => request<T>("POST", path, { ...options, body }),
-  patch: <T>(path: string, body?: unknown, options?: RequestOptions) => request<T>("PATCH", path, { ...options, body }),
-  put: <T>(path: string, body?: unknown, options?: RequestOptions) => request<T>("PUT", path, { ...options, body }),
+  post: <T>(path: string, body?: unknown, options?: RequestOptions) =>
+    request<T>("POST", path, { ...options, body }),
+  patch: <T>(path: string, body?: unknown, options?: RequestOptions) =>
+    request<T>("PATCH", path, { ...options, body }),
+  put: <T>(path: string, body?: unknown, options?: RequestOptions) =>
+    request<T>("PUT", path, { ...options, body }),
   delete: <T>(path: string, options?: RequestOptions) => request<T>("DELETE", path, options),
 };

@@ -70,7 +70,10 @@ export function signInPath(next?: string): string {
  * For route loaders: returns the session, or throws a redirect to /sign-in?next=<this page>.
  * `loader: ({ request }) => requireSession(request)`.
  */
-export async function requireSession(request: Request, client: QueryClient = defaultQueryClient): Promise<Session> {
+export async function requireSession(
+  request: Request,
+  client: QueryClient = defaultQueryClient,
+): Promise<Session> {
   const session = await client.ensureQueryData(sessionQueryOptions());
   if (!session) {
     const url = new URL(request.url);
@@ -83,7 +86,11 @@ export async function requireSession(request: Request, client: QueryClient = def
  * For route loaders of pages limited to some roles: signed-out people go to sign-in; people
  * without the role get a 403 response that the route's error element shows.
  */
-export async function requireRole(request: Request, roles: Role[], client: QueryClient = defaultQueryClient): Promise<Session> {
+export async function requireRole(
+  request: Request,
+  roles: Role[],
+  client: QueryClient = defaultQueryClient,
+): Promise<Session> {
   const session = await requireSession(request, client);
   if (!hasRole(session, ...roles)) {
     throw new Response(`This page is for: ${roles.map((r) => roleLabel[r]).join(", ")}.`, {

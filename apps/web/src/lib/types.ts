@@ -53,7 +53,12 @@ export interface SpecMask {
 
 /** Process error model (optics docs/studies.md); all spreads are 1σ. */
 export interface ErrorModel {
-  thickness?: { relativePct?: number; absoluteNm?: number; distribution?: "normal" | "uniform"; truncateSigma?: number };
+  thickness?: {
+    relativePct?: number;
+    absoluteNm?: number;
+    distribution?: "normal" | "uniform";
+    truncateSigma?: number;
+  };
   systematicPct?: number | Record<string, number>;
   indexDriftPct?: number | Record<string, number>;
   indexNoisePct?: number;

@@ -37,7 +37,9 @@ export function Component() {
     <div className="flex flex-col gap-6">
       <header>
         <h1 className="text-2xl font-semibold tracking-tight">Audit log</h1>
-        <p className="mt-1 text-sm text-ink-700">Everything that changed in the workspace, newest first. Entries cannot be edited or removed.</p>
+        <p className="mt-1 text-sm text-ink-700">
+          Everything that changed in the workspace, newest first. Entries cannot be edited or removed.
+        </p>
       </header>
       <Card
         flush
@@ -61,7 +63,12 @@ export function Component() {
           </div>
         ) : entries.length === 0 ? (
           <div className="p-5">
-            <EmptyState title="Nothing recorded" description={action ? "No entry of this kind yet." : "Nothing has happened in this workspace yet."} />
+            <EmptyState
+              title="Nothing recorded"
+              description={
+                action ? "No entry of this kind yet." : "Nothing has happened in this workspace yet."
+              }
+            />
           </div>
         ) : (
           <>
@@ -70,17 +77,29 @@ export function Component() {
                 <caption className="sr-only">Audit log entries, newest first</caption>
                 <thead>
                   <tr className="border-b border-ink-100 bg-paper/70 text-xs tracking-wide text-ink-500 uppercase">
-                    <th scope="col" className="px-4 py-2 font-semibold">When</th>
-                    <th scope="col" className="px-2 py-2 font-semibold">Who</th>
-                    <th scope="col" className="px-2 py-2 font-semibold">What</th>
-                    <th scope="col" className="px-4 py-2 font-semibold">Action</th>
+                    <th scope="col" className="px-4 py-2 font-semibold">
+                      When
+                    </th>
+                    <th scope="col" className="px-2 py-2 font-semibold">
+                      Who
+                    </th>
+                    <th scope="col" className="px-2 py-2 font-semibold">
+                      What
+                    </th>
+                    <th scope="col" className="px-4 py-2 font-semibold">
+                      Action
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
                   {entries.map((e) => (
                     <tr key={e.id} className="border-b border-ink-100 last:border-0">
-                      <td className="px-4 py-2 font-mono text-xs whitespace-nowrap text-ink-700 tabular">{formatDateTime(e.at)}</td>
-                      <td className="px-2 py-2 whitespace-nowrap">{e.actor?.name ?? <span className="text-ink-500">system</span>}</td>
+                      <td className="px-4 py-2 font-mono text-xs whitespace-nowrap text-ink-700 tabular">
+                        {formatDateTime(e.at)}
+                      </td>
+                      <td className="px-2 py-2 whitespace-nowrap">
+                        {e.actor?.name ?? <span className="text-ink-500">system</span>}
+                      </td>
                       <td className="px-2 py-2">{e.summary}</td>
                       <td className="px-4 py-2 font-mono text-xs text-ink-500">
                         {e.action}
@@ -96,7 +115,13 @@ export function Component() {
             <div className="flex items-center gap-3 border-t border-ink-100 px-4 py-3">
               <span className="text-sm text-ink-500">{entries.length} entries shown</span>
               {audit.hasNextPage ? (
-                <Button variant="secondary" size="sm" className="ml-auto" loading={audit.isFetchingNextPage} onClick={() => void audit.fetchNextPage()}>
+                <Button
+                  variant="secondary"
+                  size="sm"
+                  className="ml-auto"
+                  loading={audit.isFetchingNextPage}
+                  onClick={() => void audit.fetchNextPage()}
+                >
                   Load older entries
                 </Button>
               ) : (

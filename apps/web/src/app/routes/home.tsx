@@ -21,8 +21,8 @@ export function Component() {
       <header>
         <h1 className="text-2xl font-semibold tracking-tight">Overview</h1>
         <p className="mt-1 text-sm text-ink-700">
-          {session ? `${session.workspace.name} — ` : ""}every design, its latest revision and whether its verified yield meets the
-          program's target.
+          {session ? `${session.workspace.name} — ` : ""}every design, its latest revision and whether its
+          verified yield meets the program's target.
         </p>
       </header>
       {session && <MyQueue session={session} />}
@@ -35,7 +35,10 @@ export function Component() {
           </div>
         ) : overview.data.items.length === 0 ? (
           <div className="p-5">
-            <EmptyState title="No designs yet" description="Designs appear here once a designer starts one in a program." />
+            <EmptyState
+              title="No designs yet"
+              description="Designs appear here once a designer starts one in a program."
+            />
           </div>
         ) : (
           <OverviewTable rows={overview.data.items} />

@@ -1,6 +1,18 @@
 import { useMemo, useState } from "react";
-import { Badge, Card, EmptyState, ErrorState, PageSpinner, TextField, cx } from "../../components/ui/index.ts";
-import { materialsQueryOptions, useMaterials, type MaterialItem } from "../../features/materials/api/get-materials.ts";
+import {
+  Badge,
+  Card,
+  EmptyState,
+  ErrorState,
+  PageSpinner,
+  TextField,
+  cx,
+} from "../../components/ui/index.ts";
+import {
+  materialsQueryOptions,
+  useMaterials,
+  type MaterialItem,
+} from "../../features/materials/api/get-materials.ts";
 import { DispersionChart } from "../../features/materials/components/dispersion-chart.tsx";
 import { UploadMaterialForm } from "../../features/materials/components/upload-material-form.tsx";
 import { modelSummary, naturalRange, sampleDispersion } from "../../features/materials/lib/dispersion.ts";
@@ -17,7 +29,10 @@ function MaterialDetail({ material }: { material: MaterialItem }) {
   const [start, setStart] = useState(from);
   const [stop, setStop] = useState(to);
   const valid = Number.isFinite(start) && Number.isFinite(stop) && start > 0 && stop > start;
-  const curve = useMemo(() => (valid ? sampleDispersion(material.model, start, stop) : null), [material.model, start, stop, valid]);
+  const curve = useMemo(
+    () => (valid ? sampleDispersion(material.model, start, stop) : null),
+    [material.model, start, stop, valid],
+  );
   const at550 = useMemo(() => sampleDispersion(material.model, 550, 550, 2).points[0], [material.model]);
 
   return (
@@ -44,12 +59,15 @@ function MaterialDetail({ material }: { material: MaterialItem }) {
         />
         {at550 && (
           <p className="pb-2 font-mono text-sm text-ink-700 tabular">
-            at 550 nm: n = {at550.n.toFixed(4)}, k = {at550.k.toExponential(2)}
+            at 550 nm: n = {at550.n.toFixed(4)}, k = {at550.k === 0 ? "0" : at550.k.toExponential(2)}
           </p>
         )}
       </div>
       {curve && curve.points.length >= 2 && (
-        <DispersionChart points={curve.points} title={`n and k of ${material.name} from ${start} to ${stop} nm`} />
+        <DispersionChart
+          points={curve.points}
+          title={`n and k of ${material.name} from ${start} to ${stop} nm`}
+        />
       )}
       {curve && curve.refused > 0 && (
         <p className="text-sm text-verdict-warn" role="status">
@@ -74,10 +92,13 @@ export function Component() {
   const canUpload = hasRole(session, "designer", "admin");
 
   if (materials.isPending) return <PageSpinner label="Loading the materials library…" />;
-  if (materials.isError) return <ErrorState error={materials.error} onRetry={() => void materials.refetch()} />;
+  if (materials.isError)
+    return <ErrorState error={materials.error} onRetry={() => void materials.refetch()} />;
 
   const q = filter.trim().toLowerCase();
-  const items = materials.data.items.filter((m) => !q || m.id.toLowerCase().includes(q) || m.name.toLowerCase().includes(q));
+  const items = materials.data.items.filter(
+    (m) => !q || m.id.toLowerCase().includes(q) || m.name.toLowerCase().includes(q),
+  );
   const selected = materials.data.items.find((m) => m.id === selectedId) ?? items[0] ?? null;
 
   return (
@@ -91,7 +112,13 @@ export function Component() {
       <div className="grid gap-6 lg:grid-cols-[minmax(0,5fr)_minmax(0,7fr)]">
         <Card title="Library" description={`${materials.data.items.length} materials`} flush>
           <div className="border-b border-ink-100 px-4 py-3">
-            <TextField label="Find a material" type="search" placeholder="Formula or name" value={filter} onChange={(e) => setFilter(e.target.value)} />
+            <TextField
+              label="Find a material"
+              type="search"
+              placeholder="Formula or name"
+              value={filter}
+              onChange={(e) => setFilter(e.target.value)}
+            />
           </div>
           {items.length === 0 ? (
             <div className="p-4">
@@ -103,30 +130,49 @@ export function Component() {
                 <caption className="sr-only">Materials; choose one to plot it</caption>
                 <thead className="sticky top-0 bg-white">
                   <tr className="border-b border-ink-100 text-xs tracking-wide text-ink-500 uppercase">
-                    <th scope="col" className="px-4 py-2 font-semibold">Id</th>
-                    <th scope="col" className="px-2 py-2 font-semibold">Name</th>
-                    <th scope="col" className="px-2 py-2 font-semibold">Use</th>
-                    <th scope="col" className="px-4 py-2 font-semibold">Origin</th>
+                    <th scope="col" className="px-4 py-2 font-semibold">
+                      Id
+                    </th>
+                    <th scope="col" className="px-2 py-2 font-semibold">
+                      Name
+                    </th>
+                    <th scope="col" className="px-2 py-2 font-semibold">
+                      Use
+                    </th>
+                    <th scope="col" className="px-4 py-2 font-semibold">
+                      Origin
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
                   {items.map((m) => {
                     const active = selected?.id === m.id;
                     return (
-                      <tr key={m.id} className={cx("border-b border-ink-100 last:border-0", active ? "bg-film-teal/8" : "hover:bg-paper/70")}>
+                      <tr
+                        key={m.id}
+                        className={cx(
+                          "border-b border-ink-100 last:border-0",
+                          active ? "bg-film-teal/8" : "hover:bg-paper/70",
+                        )}
+                      >
                         <td className="px-4 py-2">
                           <button
                             type="button"
                             aria-pressed={active}
                             onClick={() => setSelectedId(m.id)}
-                            className={cx("font-mono font-medium hover:underline", active ? "text-film-teal" : "text-ink-900")}
+                            className={cx(
+                              "font-mono font-medium hover:underline",
+                              active ? "text-film-teal" : "text-ink-900",
+                            )}
                           >
                             {m.id}
                           </button>
                         </td>
                         <td className="px-2 py-2 text-ink-700">{m.name}</td>
                         <td className="px-2 py-2 text-ink-500">{m.role}</td>
-                        <td className="px-4 py-2">{m.builtIn ? <Badge>built-in</Badge> : <Badge tone="teal">workspace</Badge>}</td>
+                        <td className="px-4 py-2">
+                          {m.builtIn ? <Badge>built-in</Badge> : <Badge tone="teal">workspace</Badge>}
+                        </td>
                       </tr>
                     );
                   })}
@@ -135,16 +181,28 @@ export function Component() {
             </div>
           )}
         </Card>
-        <Card title={selected ? `${selected.name}` : "Dispersion"} description={selected ? <span className="font-mono">{selected.id}</span> : undefined}>
-          {selected ? <MaterialDetail key={selected.id} material={selected} /> : <EmptyState title="Choose a material" />}
+        <Card
+          title={selected ? `${selected.name}` : "Dispersion"}
+          description={selected ? <span className="font-mono">{selected.id}</span> : undefined}
+        >
+          {selected ? (
+            <MaterialDetail key={selected.id} material={selected} />
+          ) : (
+            <EmptyState title="Choose a material" />
+          )}
         </Card>
       </div>
       {canUpload ? (
-        <Card title="Add an n,k table" description="Workspace materials can be used in every design of the workspace.">
+        <Card
+          title="Add an n,k table"
+          description="Workspace materials can be used in every design of the workspace."
+        >
           <UploadMaterialForm onUploaded={(m) => setSelectedId(m.id)} />
         </Card>
       ) : (
-        <p className="text-sm text-ink-500">Designers and administrators can add n,k tables to the library.</p>
+        <p className="text-sm text-ink-500">
+          Designers and administrators can add n,k tables to the library.
+        </p>
       )}
     </div>
   );

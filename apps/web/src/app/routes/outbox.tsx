@@ -48,14 +48,22 @@ function MessageView({ id }: { id: string }) {
         <dt className="text-ink-500">Received</dt>
         <dd className="text-xs leading-5">{formatDateTime(m.receivedAt)}</dd>
       </dl>
-      <pre className="mt-4 rounded-lg border border-ink-100 bg-paper/60 p-4 font-sans text-sm whitespace-pre-wrap text-ink-900" data-testid="outbox-text">
+      <pre
+        className="mt-4 rounded-lg border border-ink-100 bg-paper/60 p-4 font-sans text-sm whitespace-pre-wrap text-ink-900"
+        data-testid="outbox-text"
+      >
         <Linkified text={m.text} />
       </pre>
       {m.html && (
         <details className="mt-3">
           <summary className="cursor-pointer text-sm text-ink-700">HTML version</summary>
           {/* Sandboxed: the captured HTML runs no script and reaches nothing. */}
-          <iframe title={`HTML version of ${m.subject}`} sandbox="" srcDoc={m.html} className="mt-2 h-96 w-full rounded-lg border border-ink-100 bg-white" />
+          <iframe
+            title={`HTML version of ${m.subject}`}
+            sandbox=""
+            srcDoc={m.html}
+            className="mt-2 h-96 w-full rounded-lg border border-ink-100 bg-white"
+          />
         </details>
       )}
     </article>
@@ -68,8 +76,8 @@ export function Component() {
 
   const intro = (
     <Notice tone="warning" title="Demo and development only">
-      This server has no outgoing mail host configured, so it keeps every e-mail it would send here instead of delivering it. A
-      production server sends mail and has no outbox.
+      This server has no outgoing mail host configured, so it keeps every e-mail it would send here instead of
+      delivering it. A production server sends mail and has no outbox.
     </Notice>
   );
 
@@ -99,7 +107,10 @@ export function Component() {
         {intro}
       </header>
       {items.length === 0 ? (
-        <EmptyState title="No e-mail captured yet" description="Invitations, password resets and review notifications show up here." />
+        <EmptyState
+          title="No e-mail captured yet"
+          description="Invitations, password resets and review notifications show up here."
+        />
       ) : (
         <div className="grid gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
           <Card title="Captured e-mail" description={`${items.length} messages, newest first`} flush>
@@ -110,7 +121,10 @@ export function Component() {
                     type="button"
                     aria-current={current === m.id ? "true" : undefined}
                     onClick={() => setSelected(m.id)}
-                    className={cx("block w-full px-4 py-2.5 text-left hover:bg-paper/70", current === m.id && "bg-film-teal/8")}
+                    className={cx(
+                      "block w-full px-4 py-2.5 text-left hover:bg-paper/70",
+                      current === m.id && "bg-film-teal/8",
+                    )}
                   >
                     <span className="block truncate text-sm font-medium">{m.subject}</span>
                     <span className="block truncate font-mono text-xs text-ink-500">
@@ -121,7 +135,9 @@ export function Component() {
               ))}
             </ul>
           </Card>
-          <Card>{current ? <MessageView key={current} id={current} /> : <EmptyState title="Choose a message" />}</Card>
+          <Card>
+            {current ? <MessageView key={current} id={current} /> : <EmptyState title="Choose a message" />}
+          </Card>
         </div>
       )}
     </div>

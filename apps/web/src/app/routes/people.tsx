@@ -1,8 +1,29 @@
 import { useState } from "react";
 import type { LoaderFunctionArgs } from "react-router";
-import { Badge, Button, Card, Dialog, EmptyState, ErrorState, Notice, PageSpinner, errorMessage } from "../../components/ui/index.ts";
-import { useInvitations, useRevokeInvitation, invitationsQueryOptions, type Invitation } from "../../features/admin/api/invitations.ts";
-import { membersQueryOptions, useMembers, useRemoveMember, useUpdateMemberRoles, type Member } from "../../features/admin/api/members.ts";
+import {
+  Badge,
+  Button,
+  Card,
+  Dialog,
+  EmptyState,
+  ErrorState,
+  Notice,
+  PageSpinner,
+  errorMessage,
+} from "../../components/ui/index.ts";
+import {
+  useInvitations,
+  useRevokeInvitation,
+  invitationsQueryOptions,
+  type Invitation,
+} from "../../features/admin/api/invitations.ts";
+import {
+  membersQueryOptions,
+  useMembers,
+  useRemoveMember,
+  useUpdateMemberRoles,
+  type Member,
+} from "../../features/admin/api/members.ts";
 import { InviteForm } from "../../features/admin/components/invite-form.tsx";
 import { RolePicker } from "../../features/admin/components/role-picker.tsx";
 import { queryClient } from "../../lib/query-client.ts";
@@ -42,7 +63,12 @@ function EditRolesDialog({ member, onClose }: { member: Member; onClose: () => v
     >
       <div className="flex flex-col gap-3">
         {update.isError && <Notice tone="error">{errorMessage(update.error)}</Notice>}
-        <RolePicker legend="Roles" value={roles} onChange={setRoles} error={roles.length === 0 ? "Keep at least one role, or remove the person." : undefined} />
+        <RolePicker
+          legend="Roles"
+          value={roles}
+          onChange={setRoles}
+          error={roles.length === 0 ? "Keep at least one role, or remove the person." : undefined}
+        />
       </div>
     </Dialog>
   );
@@ -61,7 +87,11 @@ function RemoveDialog({ member, onClose }: { member: Member; onClose: () => void
           <Button variant="ghost" onClick={onClose}>
             Cancel
           </Button>
-          <Button variant="danger" loading={remove.isPending} onClick={() => remove.mutate(member.user.id, { onSuccess: onClose })}>
+          <Button
+            variant="danger"
+            loading={remove.isPending}
+            onClick={() => remove.mutate(member.user.id, { onSuccess: onClose })}
+          >
             Remove
           </Button>
         </>
@@ -85,7 +115,14 @@ function InvitationRow({ inv }: { inv: Invitation }) {
       <span className="text-xs text-ink-500">
         {inv.invitedBy ? `by ${inv.invitedBy.name}, ` : ""}expires {formatDateTime(inv.expiresAt)}
       </span>
-      <Button variant="ghost" size="sm" className="ml-auto" loading={revoke.isPending} onClick={() => revoke.mutate(inv.id)} aria-label={`Revoke the invitation of ${inv.email}`}>
+      <Button
+        variant="ghost"
+        size="sm"
+        className="ml-auto"
+        loading={revoke.isPending}
+        onClick={() => revoke.mutate(inv.id)}
+        aria-label={`Revoke the invitation of ${inv.email}`}
+      >
         Revoke
       </Button>
       {revoke.isError && <p className="basis-full text-xs text-verdict-fail">{errorMessage(revoke.error)}</p>}
@@ -104,9 +141,12 @@ export function Component() {
     <div className="flex flex-col gap-6">
       <header>
         <h1 className="text-2xl font-semibold tracking-tight">People</h1>
-        <p className="mt-1 text-sm text-ink-700">Who works in {session?.workspace.name ?? "this workspace"}, with which roles. Every change is written to the audit log.</p>
+        <p className="mt-1 text-sm text-ink-700">
+          Who works in {session?.workspace.name ?? "this workspace"}, with which roles. Every change is
+          written to the audit log.
+        </p>
       </header>
-      <div className="grid gap-6 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+      <div className="grid items-start gap-6 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <Card title="Members" flush>
           {members.isPending ? (
             <PageSpinner label="Loading members…" />
@@ -124,9 +164,15 @@ export function Component() {
                 <caption className="sr-only">Members of the workspace and their roles</caption>
                 <thead>
                   <tr className="border-b border-ink-100 bg-paper/70 text-xs tracking-wide text-ink-500 uppercase">
-                    <th scope="col" className="px-4 py-2 font-semibold">Person</th>
-                    <th scope="col" className="px-2 py-2 font-semibold">Roles</th>
-                    <th scope="col" className="px-2 py-2 font-semibold">Joined</th>
+                    <th scope="col" className="px-4 py-2 font-semibold">
+                      Person
+                    </th>
+                    <th scope="col" className="px-2 py-2 font-semibold">
+                      Roles
+                    </th>
+                    <th scope="col" className="px-2 py-2 font-semibold">
+                      Joined
+                    </th>
                     <th scope="col" className="px-4 py-2 font-semibold">
                       <span className="sr-only">Actions</span>
                     </th>
@@ -139,14 +185,18 @@ export function Component() {
                       <tr key={m.user.id} className="border-b border-ink-100 last:border-0">
                         <td className="px-4 py-2.5">
                           <p className="font-medium">
-                            {m.user.name} {self && <span className="text-xs font-normal text-ink-500">(you)</span>}
+                            {m.user.name}{" "}
+                            {self && <span className="text-xs font-normal text-ink-500">(you)</span>}
                           </p>
                           <p className="font-mono text-xs text-ink-500">{m.user.email}</p>
                         </td>
                         <td className="px-2 py-2.5">
                           <span className="flex flex-wrap gap-1">
                             {m.roles.map((r) => (
-                              <Badge key={r} tone={r === "admin" ? "violet" : r === "approver" ? "amber" : "teal"}>
+                              <Badge
+                                key={r}
+                                tone={r === "admin" ? "violet" : r === "approver" ? "amber" : "teal"}
+                              >
                                 {roleLabel[r]}
                               </Badge>
                             ))}
@@ -154,11 +204,21 @@ export function Component() {
                         </td>
                         <td className="px-2 py-2.5 text-ink-500">{formatDate(m.joinedAt)}</td>
                         <td className="px-4 py-2.5 text-right whitespace-nowrap">
-                          <Button variant="secondary" size="sm" onClick={() => setEditing(m)} aria-label={`Edit the roles of ${m.user.name}`}>
+                          <Button
+                            variant="secondary"
+                            size="sm"
+                            onClick={() => setEditing(m)}
+                            aria-label={`Edit the roles of ${m.user.name}`}
+                          >
                             Roles
                           </Button>{" "}
                           {!self && (
-                            <Button variant="ghost" size="sm" onClick={() => setRemoving(m)} aria-label={`Remove ${m.user.name}`}>
+                            <Button
+                              variant="ghost"
+                              size="sm"
+                              onClick={() => setRemoving(m)}
+                              aria-label={`Remove ${m.user.name}`}
+                            >
                               Remove
                             </Button>
                           )}

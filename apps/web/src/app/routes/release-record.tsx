@@ -1,6 +1,6 @@
 import { Link, useParams, type LoaderFunctionArgs } from "react-router";
 import { Brand } from "../../components/layout/brand.tsx";
-import { Button, ErrorState, PageSpinner, buttonClasses } from "../../components/ui/index.ts";
+import { Button, ErrorState, PageSpinner } from "../../components/ui/index.ts";
 import { ReleaseDocument } from "../../features/releases/components/release-document.tsx";
 import { releasePrintUrl, releaseQueryOptions, useRelease } from "../../features/releases/api/get-release.ts";
 import { paths } from "../../config/paths.ts";
@@ -25,12 +25,20 @@ export function Component() {
             <Brand />
           </Link>
           {release.data && (
-            <Link to={paths.revision(release.data.design.id, release.data.revision.id)} className="text-sm text-ink-300 hover:text-paper">
+            <Link
+              to={paths.revision(release.data.design.id, release.data.revision.id)}
+              className="text-sm text-ink-300 hover:text-paper"
+            >
               Open the revision
             </Link>
           )}
           <div className="ml-auto flex gap-2">
-            <a href={releasePrintUrl(releaseId)} className={buttonClasses("ghost", "sm", "text-ink-100 hover:bg-ink-800")} target="_blank" rel="noreferrer">
+            <a
+              href={releasePrintUrl(releaseId)}
+              className="inline-flex h-8 items-center rounded-md px-3 text-sm text-ink-100 underline-offset-2 hover:bg-ink-800 hover:underline"
+              target="_blank"
+              rel="noreferrer"
+            >
               Server print version
             </a>
             <Button size="sm" variant="secondary" onClick={() => window.print()} disabled={!release.data}>

@@ -28,7 +28,11 @@ afterEach(() => vi.unstubAllGlobals());
 
 describe("AppShell", () => {
   it("shows the name, the navigation, who is signed in and the server's health", async () => {
-    stubApi({ "GET /api/health": healthyServer, "GET /api/v1/auth/me": demoSession, "GET /api/v1/outbox": { status: 404 } });
+    stubApi({
+      "GET /api/health": healthyServer,
+      "GET /api/v1/auth/me": demoSession,
+      "GET /api/v1/outbox": { status: 404 },
+    });
     renderShell();
     expect(await screen.findByText("inside")).toBeInTheDocument();
     expect(screen.getByText("Stackproof")).toBeInTheDocument();
@@ -45,7 +49,12 @@ describe("AppShell", () => {
   });
 
   it("sends a signed-out person to sign-in", async () => {
-    stubApi({ "GET /api/v1/auth/me": { status: 401, body: { error: { code: "unauthenticated", message: "Sign in first." } } } });
+    stubApi({
+      "GET /api/v1/auth/me": {
+        status: 401,
+        body: { error: { code: "unauthenticated", message: "Sign in first." } },
+      },
+    });
     renderShell();
     expect(await screen.findByText("sign-in page")).toBeInTheDocument();
   });

@@ -42,7 +42,10 @@ export function AppShell() {
           <NavLink to={paths.home} aria-label="Stackproof overview" className="py-1">
             <Brand />
           </NavLink>
-          <nav aria-label="Main" className="order-3 flex w-full gap-1 overflow-x-auto lg:order-none lg:w-auto">
+          <nav
+            aria-label="Main"
+            className="order-3 flex w-full gap-1 overflow-x-auto lg:order-none lg:w-auto"
+          >
             {items.map((item) => (
               <NavLink
                 key={item.to}
@@ -51,7 +54,9 @@ export function AppShell() {
                 className={({ isActive }) =>
                   cx(
                     "rounded-md px-3 py-1.5 text-sm whitespace-nowrap",
-                    isActive ? "bg-ink-700 text-paper shadow-[inset_0_-2px_0_var(--color-film-amber-soft)]" : "text-ink-300 hover:text-paper",
+                    isActive
+                      ? "bg-ink-700 text-paper shadow-[inset_0_-2px_0_var(--color-film-amber-soft)]"
+                      : "text-ink-300 hover:text-paper",
                   )
                 }
               >
@@ -73,9 +78,7 @@ export function AppShell() {
                   <span className="sr-only">Signed in as </span>
                   {session.user.name}
                 </p>
-                <p className="text-[11px] text-ink-300">
-                  {session.workspace.name}
-                </p>
+                <p className="text-[11px] text-ink-300">{session.workspace.name}</p>
               </div>
               <ul aria-label="Your roles" className="hidden gap-1 md:flex">
                 {session.roles.map((r) => (

@@ -16,14 +16,19 @@ export function AuthLayout({ title, intro, children, footer }: AuthLayoutProps) 
       <div className="relative hidden overflow-hidden bg-ink-900 px-10 py-12 text-ink-100 md:flex md:flex-col">
         <Brand />
         <div className="mt-auto max-w-sm">
-          <p className="text-2xl leading-snug font-semibold text-paper">Prove the stack before it meets the chamber.</p>
+          <p className="text-2xl leading-snug font-semibold text-paper">
+            Prove the stack before it meets the chamber.
+          </p>
           <p className="mt-3 text-sm text-ink-300">
-            Spec masks, yield under real process errors, review threads and release records for every coating your
-            team signs off.
+            Spec masks, yield under real process errors, review threads and release records for every coating
+            your team signs off.
           </p>
         </div>
         {/* The interference motif: alternating high/low layers, fading upwards. */}
-        <div aria-hidden className="pointer-events-none absolute -top-6 -right-16 flex w-72 rotate-[-8deg] flex-col gap-2 opacity-70">
+        <div
+          aria-hidden
+          className="pointer-events-none absolute -top-6 -right-16 flex w-72 rotate-[-8deg] flex-col gap-2 opacity-70"
+        >
           {Array.from({ length: 11 }, (_, i) => (
             <span
               key={i}

@@ -22,7 +22,11 @@ export interface BadgeProps extends HTMLAttributes<HTMLSpanElement> {
 export function Badge({ tone = "neutral", className, ...rest }: BadgeProps) {
   return (
     <span
-      className={cx("inline-flex items-center gap-1 rounded-full border px-2 py-0.5 text-xs font-medium whitespace-nowrap", tones[tone], className)}
+      className={cx(
+        "inline-flex items-center gap-1 rounded-full border px-2 py-0.5 text-xs font-medium whitespace-nowrap",
+        tones[tone],
+        className,
+      )}
       {...rest}
     />
   );

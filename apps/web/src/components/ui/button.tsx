@@ -22,7 +22,11 @@ const sizes: Record<ButtonSize, string> = {
   lg: "h-12 px-5 text-base",
 };
 
-export function buttonClasses(variant: ButtonVariant = "primary", size: ButtonSize = "md", className?: string) {
+export function buttonClasses(
+  variant: ButtonVariant = "primary",
+  size: ButtonSize = "md",
+  className?: string,
+) {
   return cx(base, variants[variant], sizes[size], className);
 }
 
@@ -57,7 +61,10 @@ export function Button({
       {...rest}
     >
       {loading && (
-        <span aria-hidden className="inline-block h-3.5 w-3.5 animate-spin rounded-full border-2 border-current border-r-transparent" />
+        <span
+          aria-hidden
+          className="inline-block h-3.5 w-3.5 animate-spin rounded-full border-2 border-current border-r-transparent"
+        />
       )}
       {loading && loadingLabel ? loadingLabel : children}
     </button>
@@ -71,5 +78,10 @@ export interface ButtonLinkProps extends LinkProps {
 
 /** A router link that looks like a button. */
 export function ButtonLink({ variant = "secondary", size = "md", className, ...rest }: ButtonLinkProps) {
-  return <Link className={buttonClasses(variant, size, typeof className === "string" ? className : undefined)} {...rest} />;
+  return (
+    <Link
+      className={buttonClasses(variant, size, typeof className === "string" ? className : undefined)}
+      {...rest}
+    />
+  );
 }

@@ -15,7 +15,16 @@ export interface CardProps extends Omit<HTMLAttributes<HTMLElement>, "title"> {
 }
 
 /** A white sheet on the paper background; the basic panel of every page. */
-export function Card({ title, titleAs: H = "h2", description, actions, flush, className, children, ...rest }: CardProps) {
+export function Card({
+  title,
+  titleAs: H = "h2",
+  description,
+  actions,
+  flush,
+  className,
+  children,
+  ...rest
+}: CardProps) {
   const hasHeader = title !== undefined || actions !== undefined || description !== undefined;
   return (
     <section className={cx("rounded-xl border border-ink-100 bg-white shadow-sm", className)} {...rest}>

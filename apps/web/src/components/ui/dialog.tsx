@@ -25,7 +25,16 @@ const focusable =
  * A modal dialog: focus moves into it, Tab cycles inside it, Esc closes it, focus goes back
  * to where it was when it closes. Rendered into document.body.
  */
-export function Dialog({ open, onClose, title, description, children, footer, size = "md", dismissOnBackdrop = false }: DialogProps) {
+export function Dialog({
+  open,
+  onClose,
+  title,
+  description,
+  children,
+  footer,
+  size = "md",
+  dismissOnBackdrop = false,
+}: DialogProps) {
   const panel = useRef<HTMLDivElement>(null);
   const titleId = useId();
   const descId = useId();
@@ -38,7 +47,8 @@ export function Dialog({ open, onClose, title, description, children, footer, si
     if (!open) return;
     const previous = document.activeElement as HTMLElement | null;
     const node = panel.current;
-    const first = node?.querySelector<HTMLElement>("[data-autofocus]") ?? node?.querySelector<HTMLElement>(focusable);
+    const first =
+      node?.querySelector<HTMLElement>("[data-autofocus]") ?? node?.querySelector<HTMLElement>(focusable);
     (first ?? node)?.focus();
 
     function onKey(e: KeyboardEvent) {
@@ -88,7 +98,10 @@ export function Dialog({ open, onClose, title, description, children, footer, si
         aria-labelledby={titleId}
         aria-describedby={description ? descId : undefined}
         tabIndex={-1}
-        className={cx("w-full rounded-xl border border-ink-100 bg-white shadow-2xl outline-none", sizes[size])}
+        className={cx(
+          "w-full rounded-xl border border-ink-100 bg-white shadow-2xl outline-none",
+          sizes[size],
+        )}
       >
         <div className="flex items-start gap-3 border-b border-ink-100 px-5 py-4">
           <div className="flex-1">
@@ -101,12 +114,19 @@ export function Dialog({ open, onClose, title, description, children, footer, si
               </p>
             )}
           </div>
-          <button type="button" onClick={onClose} aria-label="Close" className="rounded px-1.5 text-xl leading-none text-ink-500 hover:text-ink-900">
+          <button
+            type="button"
+            onClick={onClose}
+            aria-label="Close"
+            className="rounded px-1.5 text-xl leading-none text-ink-500 hover:text-ink-900"
+          >
             ×
           </button>
         </div>
         {children && <div className="px-5 py-4">{children}</div>}
-        {footer && <div className="flex justify-end gap-2 border-t border-ink-100 bg-paper/60 px-5 py-3">{footer}</div>}
+        {footer && (
+          <div className="flex justify-end gap-2 border-t border-ink-100 bg-paper/60 px-5 py-3">{footer}</div>
+        )}
       </div>
     </div>,
     document.body,

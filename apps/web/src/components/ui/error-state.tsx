@@ -32,7 +32,10 @@ function defaultTitle(error: unknown): string {
 /** Shown in place of content that failed to load. */
 export function ErrorState({ error, title, onRetry, className }: ErrorStateProps) {
   return (
-    <div role="alert" className={cx("rounded-lg border border-verdict-fail/30 bg-verdict-fail/5 px-5 py-4", className)}>
+    <div
+      role="alert"
+      className={cx("rounded-lg border border-verdict-fail/30 bg-verdict-fail/5 px-5 py-4", className)}
+    >
       <p className="font-semibold text-verdict-fail">{title ?? defaultTitle(error)}</p>
       <p className="mt-1 text-sm text-ink-800">{errorMessage(error)}</p>
       {error instanceof ApiError && error.code !== "http_error" && (

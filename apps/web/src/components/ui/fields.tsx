@@ -1,4 +1,11 @@
-import { useId, type InputHTMLAttributes, type ReactNode, type Ref, type SelectHTMLAttributes, type TextareaHTMLAttributes } from "react";
+import {
+  useId,
+  type InputHTMLAttributes,
+  type ReactNode,
+  type Ref,
+  type SelectHTMLAttributes,
+  type TextareaHTMLAttributes,
+} from "react";
 import { cx } from "./cx.ts";
 
 interface FieldChrome {
@@ -25,7 +32,9 @@ function useFieldIds(id: string | undefined) {
 }
 
 function describedBy(hintId: string, errorId: string, hint: unknown, error: unknown, extra?: string) {
-  return [extra, hint ? hintId : undefined, error ? errorId : undefined].filter(Boolean).join(" ") || undefined;
+  return (
+    [extra, hint ? hintId : undefined, error ? errorId : undefined].filter(Boolean).join(" ") || undefined
+  );
 }
 
 function Chrome({
@@ -39,7 +48,13 @@ function Chrome({
   wrapperClassName,
   required,
   children,
-}: FieldChrome & { id: string; hintId: string; errorId: string; required?: boolean | undefined; children: ReactNode }) {
+}: FieldChrome & {
+  id: string;
+  hintId: string;
+  errorId: string;
+  required?: boolean | undefined;
+  children: ReactNode;
+}) {
   return (
     <div className={cx("flex flex-col gap-1", wrapperClassName)}>
       <label htmlFor={id} className={cx("text-sm font-medium text-ink-800", hideLabel && "sr-only")}>
@@ -65,13 +80,31 @@ function Chrome({
   );
 }
 
-export type TextFieldProps = FieldChrome & InputHTMLAttributes<HTMLInputElement> & { ref?: Ref<HTMLInputElement> };
+export type TextFieldProps = FieldChrome &
+  InputHTMLAttributes<HTMLInputElement> & { ref?: Ref<HTMLInputElement> };
 
 /** A labelled text input with hint and error text wired through aria-describedby. Works with react-hook-form's `register`. */
-export function TextField({ label, error, hint, hideLabel, wrapperClassName, id, className, ...rest }: TextFieldProps) {
+export function TextField({
+  label,
+  error,
+  hint,
+  hideLabel,
+  wrapperClassName,
+  id,
+  className,
+  ...rest
+}: TextFieldProps) {
   const ids = useFieldIds(id);
   return (
-    <Chrome {...ids} label={label} error={error} hint={hint} hideLabel={hideLabel} wrapperClassName={wrapperClassName} required={rest.required}>
+    <Chrome
+      {...ids}
+      label={label}
+      error={error}
+      hint={hint}
+      hideLabel={hideLabel}
+      wrapperClassName={wrapperClassName}
+      required={rest.required}
+    >
       <input
         id={ids.id}
         aria-invalid={error ? true : undefined}
@@ -99,10 +132,30 @@ export type SelectFieldProps = FieldChrome &
   };
 
 /** A labelled native select. */
-export function SelectField({ label, error, hint, hideLabel, wrapperClassName, id, className, options, placeholder, children, ...rest }: SelectFieldProps) {
+export function SelectField({
+  label,
+  error,
+  hint,
+  hideLabel,
+  wrapperClassName,
+  id,
+  className,
+  options,
+  placeholder,
+  children,
+  ...rest
+}: SelectFieldProps) {
   const ids = useFieldIds(id);
   return (
-    <Chrome {...ids} label={label} error={error} hint={hint} hideLabel={hideLabel} wrapperClassName={wrapperClassName} required={rest.required}>
+    <Chrome
+      {...ids}
+      label={label}
+      error={error}
+      hint={hint}
+      hideLabel={hideLabel}
+      wrapperClassName={wrapperClassName}
+      required={rest.required}
+    >
       <select
         id={ids.id}
         aria-invalid={error ? true : undefined}
@@ -122,13 +175,32 @@ export function SelectField({ label, error, hint, hideLabel, wrapperClassName, i
   );
 }
 
-export type TextAreaProps = FieldChrome & TextareaHTMLAttributes<HTMLTextAreaElement> & { ref?: Ref<HTMLTextAreaElement> };
+export type TextAreaProps = FieldChrome &
+  TextareaHTMLAttributes<HTMLTextAreaElement> & { ref?: Ref<HTMLTextAreaElement> };
 
 /** A labelled multi-line text input. */
-export function TextArea({ label, error, hint, hideLabel, wrapperClassName, id, className, rows = 4, ...rest }: TextAreaProps) {
+export function TextArea({
+  label,
+  error,
+  hint,
+  hideLabel,
+  wrapperClassName,
+  id,
+  className,
+  rows = 4,
+  ...rest
+}: TextAreaProps) {
   const ids = useFieldIds(id);
   return (
-    <Chrome {...ids} label={label} error={error} hint={hint} hideLabel={hideLabel} wrapperClassName={wrapperClassName} required={rest.required}>
+    <Chrome
+      {...ids}
+      label={label}
+      error={error}
+      hint={hint}
+      hideLabel={hideLabel}
+      wrapperClassName={wrapperClassName}
+      required={rest.required}
+    >
       <textarea
         id={ids.id}
         rows={rows}

@@ -1,6 +1,14 @@
 // Stackproof's shared UI kit. Import from "components/ui" only.
 export { cx } from "./cx.ts";
-export { Button, ButtonLink, buttonClasses, type ButtonProps, type ButtonLinkProps, type ButtonVariant, type ButtonSize } from "./button.tsx";
+export {
+  Button,
+  ButtonLink,
+  buttonClasses,
+  type ButtonProps,
+  type ButtonLinkProps,
+  type ButtonVariant,
+  type ButtonSize,
+} from "./button.tsx";
 export {
   TextField,
   SelectField,

@@ -31,7 +31,11 @@ export function Notice({ tone = "info", title, children, onDismiss, className }:
   return (
     <div
       role={tone === "error" || tone === "warning" ? "alert" : "status"}
-      className={cx("relative flex gap-3 overflow-hidden rounded-lg border py-3 pr-4 pl-4", tones[tone], className)}
+      className={cx(
+        "relative flex gap-3 overflow-hidden rounded-lg border py-3 pr-4 pl-4",
+        tones[tone],
+        className,
+      )}
     >
       <span aria-hidden className={cx("absolute inset-y-0 left-0 w-1", bars[tone])} />
       <div className="min-w-0 flex-1 text-sm">
@@ -39,7 +43,12 @@ export function Notice({ tone = "info", title, children, onDismiss, className }:
         {children && <div className={title ? "mt-0.5 text-ink-800" : "text-ink-800"}>{children}</div>}
       </div>
       {onDismiss && (
-        <button type="button" onClick={onDismiss} aria-label="Dismiss" className="self-start rounded px-1 text-ink-500 hover:text-ink-900">
+        <button
+          type="button"
+          onClick={onDismiss}
+          aria-label="Dismiss"
+          className="self-start rounded px-1 text-ink-500 hover:text-ink-900"
+        >
           ×
         </button>
       )}

@@ -13,10 +13,17 @@ const sizes = { sm: "h-3.5 w-3.5 border-2", md: "h-5 w-5 border-2", lg: "h-8 w-8
 /** A small turning ring, announced politely as a status. */
 export function Spinner({ label = "Loading…", showLabel = false, size = "md", className }: SpinnerProps) {
   return (
-    <span role="status" aria-live="polite" className={cx("inline-flex items-center gap-2 text-ink-500", className)}>
+    <span
+      role="status"
+      aria-live="polite"
+      className={cx("inline-flex items-center gap-2 text-ink-500", className)}
+    >
       <span
         aria-hidden
-        className={cx("inline-block animate-spin rounded-full border-current border-r-transparent", sizes[size])}
+        className={cx(
+          "inline-block animate-spin rounded-full border-current border-r-transparent",
+          sizes[size],
+        )}
       />
       {showLabel ? <span className="text-sm">{label}</span> : <span className="sr-only">{label}</span>}
     </span>

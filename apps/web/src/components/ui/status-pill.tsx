@@ -1,6 +1,7 @@
 import { cx } from "./cx.ts";
 
-export type RevisionStatus = "draft" | "in_review" | "changes_requested" | "approved" | "released" | "withdrawn";
+export type RevisionStatus =
+  "draft" | "in_review" | "changes_requested" | "approved" | "released" | "withdrawn";
 
 export const revisionStatuses: readonly RevisionStatus[] = [
   "draft",
@@ -37,7 +38,10 @@ const styles: Record<RevisionStatus, { pill: string; mark: string }> = {
   changes_requested: { pill: "border-film-amber/50 bg-film-amber/15 text-[#8a5210]", mark: "bg-film-amber" },
   approved: { pill: "border-verdict-pass/40 bg-verdict-pass/10 text-verdict-pass", mark: "bg-verdict-pass" },
   released: { pill: "border-ink-900 bg-ink-900 text-paper", mark: "bg-film-amber-soft" },
-  withdrawn: { pill: "border-ink-100 bg-ink-100 text-ink-500 line-through decoration-ink-300", mark: "bg-ink-300" },
+  withdrawn: {
+    pill: "border-ink-100 bg-ink-100 text-ink-500 line-through decoration-ink-300",
+    mark: "bg-ink-300",
+  },
 };
 
 export interface StatusPillProps {
@@ -52,7 +56,11 @@ export function StatusPill({ status, className }: StatusPillProps) {
     <span
       title={revisionStatusHint[status]}
       data-status={status}
-      className={cx("inline-flex items-center gap-1.5 rounded-full border px-2.5 py-0.5 text-xs font-semibold whitespace-nowrap", s.pill, className)}
+      className={cx(
+        "inline-flex items-center gap-1.5 rounded-full border px-2.5 py-0.5 text-xs font-semibold whitespace-nowrap",
+        s.pill,
+        className,
+      )}
     >
       <span aria-hidden className={cx("h-2 w-2 rounded-full", s.mark)} />
       {revisionStatusLabel[status]}

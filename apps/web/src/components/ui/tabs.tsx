@@ -52,7 +52,12 @@ export function Tabs({ items, label, value, defaultValue, onValueChange, classNa
   const current = items.find((t) => t.id === selected) ?? items[0];
   return (
     <div className={className}>
-      <div role="tablist" aria-label={label} onKeyDown={onKeyDown} className="flex gap-1 border-b border-ink-100">
+      <div
+        role="tablist"
+        aria-label={label}
+        onKeyDown={onKeyDown}
+        className="flex gap-1 border-b border-ink-100"
+      >
         {items.map((t) => {
           const active = t.id === current?.id;
           return (
@@ -72,7 +77,9 @@ export function Tabs({ items, label, value, defaultValue, onValueChange, classNa
               onClick={() => select(t.id)}
               className={cx(
                 "-mb-px border-b-2 px-3 py-2 text-sm font-medium transition-colors disabled:opacity-50",
-                active ? "border-film-amber text-ink-900" : "border-transparent text-ink-500 hover:text-ink-900",
+                active
+                  ? "border-film-amber text-ink-900"
+                  : "border-transparent text-ink-500 hover:text-ink-900",
               )}
             >
               {t.label}
@@ -81,7 +88,13 @@ export function Tabs({ items, label, value, defaultValue, onValueChange, classNa
         })}
       </div>
       {current && (
-        <div role="tabpanel" id={`${base}-panel-${current.id}`} aria-labelledby={`${base}-tab-${current.id}`} tabIndex={0} className="pt-4 outline-none">
+        <div
+          role="tabpanel"
+          id={`${base}-panel-${current.id}`}
+          aria-labelledby={`${base}-tab-${current.id}`}
+          tabIndex={0}
+          className="pt-4 outline-none"
+        >
           {current.content}
         </div>
       )}

@@ -35,10 +35,18 @@ export function ToastProvider({ children }: { children: ReactNode }) {
   return (
     <ToastContext.Provider value={value}>
       {children}
-      <div aria-live="polite" className="no-print pointer-events-none fixed right-4 bottom-4 z-50 flex w-80 flex-col gap-2">
+      <div
+        aria-live="polite"
+        className="no-print pointer-events-none fixed right-4 bottom-4 z-50 flex w-80 flex-col gap-2"
+      >
         {items.map((t) => (
           <div key={t.id} className="pointer-events-auto shadow-lg">
-            <Notice tone={t.tone ?? "info"} title={t.title} onDismiss={() => dismiss(t.id)} className="bg-white">
+            <Notice
+              tone={t.tone ?? "info"}
+              title={t.title}
+              onDismiss={() => dismiss(t.id)}
+              className="bg-white"
+            >
               {t.description}
             </Notice>
           </div>

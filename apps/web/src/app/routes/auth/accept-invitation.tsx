@@ -2,9 +2,21 @@ import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { Link, useNavigate, useSearchParams } from "react-router";
 import { AuthLayout } from "../../../components/layout/auth-layout.tsx";
-import { Badge, Button, ErrorState, Notice, PageSpinner, TextField, errorMessage } from "../../../components/ui/index.ts";
+import {
+  Badge,
+  Button,
+  ErrorState,
+  Notice,
+  PageSpinner,
+  TextField,
+  errorMessage,
+} from "../../../components/ui/index.ts";
 import { useAcceptInvitation, useInvitationLookup } from "../../../features/auth/api/invitations.ts";
-import { acceptInvitationSchema, MIN_PASSWORD, type AcceptInvitationValues } from "../../../features/auth/schemas.ts";
+import {
+  acceptInvitationSchema,
+  MIN_PASSWORD,
+  type AcceptInvitationValues,
+} from "../../../features/auth/schemas.ts";
 import { paths } from "../../../config/paths.ts";
 import { roleLabel } from "../../../lib/session.ts";
 import { formatDateTime } from "../../../lib/format.ts";
@@ -53,7 +65,11 @@ export function Component() {
           title={gone ? "This invitation cannot be used" : undefined}
           onRetry={gone ? undefined : () => void lookup.refetch()}
         />
-        {gone && <p className="mt-3 text-sm text-ink-700">It was used already, revoked or it expired. Ask your administrator for a new one.</p>}
+        {gone && (
+          <p className="mt-3 text-sm text-ink-700">
+            It was used already, revoked or it expired. Ask your administrator for a new one.
+          </p>
+        )}
       </AuthLayout>
     );
   }
@@ -64,7 +80,8 @@ export function Component() {
       intro={
         <div className="flex flex-col gap-2">
           <p>
-            You were invited as <strong className="font-mono text-ink-900">{inv.email}</strong>. Valid until {formatDateTime(inv.expiresAt)}.
+            You were invited as <strong className="font-mono text-ink-900">{inv.email}</strong>. Valid until{" "}
+            {formatDateTime(inv.expiresAt)}.
           </p>
           <p className="flex flex-wrap gap-1">
             {inv.roles.map((r) => (
@@ -79,13 +96,26 @@ export function Component() {
     >
       <form
         onSubmit={handleSubmit((v) =>
-          accept.mutate({ token, name: v.name, password: v.password }, { onSuccess: () => navigate(paths.home, { replace: true }) }),
+          accept.mutate(
+            { token, name: v.name, password: v.password },
+            { onSuccess: () => navigate(paths.home, { replace: true }) },
+          ),
         )}
         noValidate
         className="flex flex-col gap-4"
       >
-        {accept.isError && <Notice tone="error" title="You could not join">{errorMessage(accept.error)}</Notice>}
-        <TextField label="Your name" autoComplete="name" autoFocus error={errors.name?.message} {...register("name")} />
+        {accept.isError && (
+          <Notice tone="error" title="You could not join">
+            {errorMessage(accept.error)}
+          </Notice>
+        )}
+        <TextField
+          label="Your name"
+          autoComplete="name"
+          autoFocus
+          error={errors.name?.message}
+          {...register("name")}
+        />
         <TextField
           label="Password"
           type="password"
@@ -94,7 +124,13 @@ export function Component() {
           error={errors.password?.message}
           {...register("password")}
         />
-        <TextField label="Repeat the password" type="password" autoComplete="new-password" error={errors.confirm?.message} {...register("confirm")} />
+        <TextField
+          label="Repeat the password"
+          type="password"
+          autoComplete="new-password"
+          error={errors.confirm?.message}
+          {...register("confirm")}
+        />
         <Button type="submit" size="lg" loading={accept.isPending}>
           Join and sign in
         </Button>

@@ -31,9 +31,20 @@ export function Component() {
           If an account exists for <strong>{getValues("email")}</strong>, a reset link is on its way.
         </Notice>
       ) : (
-        <form onSubmit={handleSubmit((v) => reset.mutate(v.email))} noValidate className="flex flex-col gap-4">
+        <form
+          onSubmit={handleSubmit((v) => reset.mutate(v.email))}
+          noValidate
+          className="flex flex-col gap-4"
+        >
           {reset.isError && <Notice tone="error">{errorMessage(reset.error)}</Notice>}
-          <TextField label="E-mail" type="email" autoComplete="email" autoFocus error={errors.email?.message} {...register("email")} />
+          <TextField
+            label="E-mail"
+            type="email"
+            autoComplete="email"
+            autoFocus
+            error={errors.email?.message}
+            {...register("email")}
+          />
           <Button type="submit" size="lg" loading={reset.isPending}>
             Send reset link
           </Button>

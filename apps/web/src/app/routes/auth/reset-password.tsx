@@ -38,7 +38,11 @@ export function Component() {
   }
 
   return (
-    <AuthLayout title="Choose a new password" intro={<p>The link works once. Other sessions of your account stay as they are.</p>} footer={back}>
+    <AuthLayout
+      title="Choose a new password"
+      intro={<p>The link works once. Other sessions of your account stay as they are.</p>}
+      footer={back}
+    >
       {confirm.isSuccess ? (
         <div className="flex flex-col gap-4">
           <Notice tone="success" title="Password changed">
@@ -49,7 +53,11 @@ export function Component() {
           </ButtonLink>
         </div>
       ) : (
-        <form onSubmit={handleSubmit((v) => confirm.mutate({ token, password: v.password }))} noValidate className="flex flex-col gap-4">
+        <form
+          onSubmit={handleSubmit((v) => confirm.mutate({ token, password: v.password }))}
+          noValidate
+          className="flex flex-col gap-4"
+        >
           {confirm.isError && (
             <Notice tone="error" title="The password was not changed">
               {errorMessage(confirm.error)}{" "}
@@ -67,7 +75,13 @@ export function Component() {
             error={errors.password?.message}
             {...register("password")}
           />
-          <TextField label="Repeat the new password" type="password" autoComplete="new-password" error={errors.confirm?.message} {...register("confirm")} />
+          <TextField
+            label="Repeat the new password"
+            type="password"
+            autoComplete="new-password"
+            error={errors.confirm?.message}
+            {...register("confirm")}
+          />
           <Button type="submit" size="lg" loading={confirm.isPending}>
             Set password
           </Button>

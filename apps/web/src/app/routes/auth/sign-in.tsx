@@ -11,7 +11,13 @@ export function Component() {
   return (
     <AuthLayout
       title="Sign in to Stackproof"
-      intro={next !== "/" ? <p>Sign in to continue to the page you asked for.</p> : <p>Use the account your workspace administrator set up for you.</p>}
+      intro={
+        next !== "/" ? (
+          <p>Sign in to continue to the page you asked for.</p>
+        ) : (
+          <p>Use the account your workspace administrator set up for you.</p>
+        )
+      }
     >
       <SignInForm onSignedIn={() => navigate(next, { replace: true })} />
     </AuthLayout>

@@ -15,7 +15,9 @@ export interface AuditEntry {
 export const AUDIT_PAGE = 50;
 
 export const getAudit = (cursor: string | null, action?: string) =>
-  api.get<Page<AuditEntry>>("/audit", { query: { limit: AUDIT_PAGE, cursor: cursor ?? undefined, action: action || undefined } });
+  api.get<Page<AuditEntry>>("/audit", {
+    query: { limit: AUDIT_PAGE, cursor: cursor ?? undefined, action: action || undefined },
+  });
 
 export const auditQueryOptions = (action?: string) =>
   infiniteQueryOptions({

@@ -14,11 +14,13 @@ export interface Invitation {
 
 export const getInvitations = () => api.get<Page<Invitation>>("/invitations", { query: { limit: 200 } });
 
-export const invitationsQueryOptions = () => queryOptions({ queryKey: ["invitations"], queryFn: getInvitations });
+export const invitationsQueryOptions = () =>
+  queryOptions({ queryKey: ["invitations"], queryFn: getInvitations });
 
 export const useInvitations = () => useQuery(invitationsQueryOptions());
 
-export const createInvitation = (input: { email: string; roles: Role[] }) => api.post<Invitation>("/invitations", input);
+export const createInvitation = (input: { email: string; roles: Role[] }) =>
+  api.post<Invitation>("/invitations", input);
 
 export const revokeInvitation = (id: string) => api.delete<void>(`/invitations/${encodeURIComponent(id)}`);
 
@@ -26,11 +28,18 @@ export function useCreateInvitation() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: createInvitation,
-    onSuccess: () => Promise.all([qc.invalidateQueries({ queryKey: ["invitations"] }), qc.invalidateQueries({ queryKey: ["outbox"] })]),
+    onSuccess: () =>
+      Promise.all([
+        qc.invalidateQueries({ queryKey: ["invitations"] }),
+        qc.invalidateQueries({ queryKey: ["outbox"] }),
+      ]),
   });
 }
 
 export function useRevokeInvitation() {
   const qc = useQueryClient();
-  return useMutation({ mutationFn: revokeInvitation, onSuccess: () => qc.invalidateQueries({ queryKey: ["invitations"] }) });
+  return useMutation({
+    mutationFn: revokeInvitation,
+    onSuccess: () => qc.invalidateQueries({ queryKey: ["invitations"] }),
+  });
 }

@@ -24,11 +24,18 @@ export function useUpdateMemberRoles() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: ({ userId, roles }: { userId: string; roles: Role[] }) => updateMemberRoles(userId, roles),
-    onSuccess: () => Promise.all([qc.invalidateQueries({ queryKey: ["members"] }), qc.invalidateQueries({ queryKey: ["session"] })]),
+    onSuccess: () =>
+      Promise.all([
+        qc.invalidateQueries({ queryKey: ["members"] }),
+        qc.invalidateQueries({ queryKey: ["session"] }),
+      ]),
   });
 }
 
 export function useRemoveMember() {
   const qc = useQueryClient();
-  return useMutation({ mutationFn: removeMember, onSuccess: () => qc.invalidateQueries({ queryKey: ["members"] }) });
+  return useMutation({
+    mutationFn: removeMember,
+    onSuccess: () => qc.invalidateQueries({ queryKey: ["members"] }),
+  });
 }

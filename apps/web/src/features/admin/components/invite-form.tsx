@@ -30,8 +30,19 @@ export function InviteForm() {
           Invitation sent to <strong>{create.data.email}</strong>. The link works once, for 7 days.
         </Notice>
       )}
-      {create.isError && <Notice tone="error" title="No invitation was sent">{errorMessage(create.error)}</Notice>}
-      <TextField label="E-mail" type="email" value={email} onChange={(e) => setEmail(e.target.value)} error={errors.email} autoComplete="off" />
+      {create.isError && (
+        <Notice tone="error" title="No invitation was sent">
+          {errorMessage(create.error)}
+        </Notice>
+      )}
+      <TextField
+        label="E-mail"
+        type="email"
+        value={email}
+        onChange={(e) => setEmail(e.target.value)}
+        error={errors.email}
+        autoComplete="off"
+      />
       <RolePicker legend="Roles" value={roles} onChange={setRoles} error={errors.roles} />
       <div>
         <Button type="submit" loading={create.isPending}>

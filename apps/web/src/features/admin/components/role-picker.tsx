@@ -20,7 +20,11 @@ export interface RolePickerProps {
 export function RolePicker({ legend, value, onChange, error, disabled }: RolePickerProps) {
   const errId = useId();
   return (
-    <fieldset aria-describedby={error ? errId : undefined} disabled={disabled} className="flex flex-col gap-1.5">
+    <fieldset
+      aria-describedby={error ? errId : undefined}
+      disabled={disabled}
+      className="flex flex-col gap-1.5"
+    >
       <legend className="mb-1 text-sm font-medium text-ink-800">{legend}</legend>
       {allRoles.map((r) => (
         <label key={r} className="flex items-baseline gap-2 text-sm">
@@ -28,7 +32,13 @@ export function RolePicker({ legend, value, onChange, error, disabled }: RolePic
             type="checkbox"
             className="h-4 w-4 translate-y-0.5 accent-film-teal"
             checked={value.includes(r)}
-            onChange={(e) => onChange(e.target.checked ? allRoles.filter((x) => x === r || value.includes(x)) : value.filter((x) => x !== r))}
+            onChange={(e) =>
+              onChange(
+                e.target.checked
+                  ? allRoles.filter((x) => x === r || value.includes(x))
+                  : value.filter((x) => x !== r),
+              )
+            }
           />
           <span className="font-medium">{roleLabel[r]}</span>
           <span className="text-xs text-ink-500">{roleHint[r]}</span>

@@ -15,7 +15,8 @@ export interface Gate {
   canRelease: boolean;
 }
 
-export const getGate = (revisionId: string) => api.get<Gate>(`/revisions/${encodeURIComponent(revisionId)}/gate`);
+export const getGate = (revisionId: string) =>
+  api.get<Gate>(`/revisions/${encodeURIComponent(revisionId)}/gate`);
 
 export const gateQueryOptions = (revisionId: string) =>
   queryOptions({ queryKey: ["revisions", revisionId, "gate"], queryFn: () => getGate(revisionId) });

@@ -46,7 +46,8 @@ export const actionSpecs: ActionSpec[] = [
     roles: ["approver"],
     from: ["in_review"],
     variant: "primary",
-    confirm: "Your sign-off is recorded with the revision's hash and the verified yield run. It cannot be edited later.",
+    confirm:
+      "Your sign-off is recorded with the revision's hash and the verified yield run. It cannot be edited later.",
     noteLabel: "Decision note (optional)",
   },
   {
@@ -89,19 +90,33 @@ export function availableActions(
     if (!spec.from.includes(status)) continue;
     if (!hasRole(session, ...spec.roles)) continue;
     // A designer withdraws only drafts and revisions under review; later states are the approver's.
-    if (spec.action === "withdraw" && !hasRole(session, "approver") && status !== "draft" && status !== "in_review") continue;
+    if (
+      spec.action === "withdraw" &&
+      !hasRole(session, "approver") &&
+      status !== "draft" &&
+      status !== "in_review"
+    )
+      continue;
     out.push({ spec, blockedBy: blockReason(spec.action, session, authorId, gate) });
   }
   return out;
 }
 
 function failing(gate: Gate | undefined, ...ids: string[]): string[] {
-  return (gate?.checks ?? []).filter((c) => !c.ok && (ids.length === 0 || ids.includes(c.id))).map((c) => c.message);
+  return (gate?.checks ?? [])
+    .filter((c) => !c.ok && (ids.length === 0 || ids.includes(c.id)))
+    .map((c) => c.message);
 }
 
-function blockReason(action: TransitionAction, session: Session, authorId: string, gate: Gate | undefined): string | null {
+function blockReason(
+  action: TransitionAction,
+  session: Session,
+  authorId: string,
+  gate: Gate | undefined,
+): string | null {
   if (action === "approve") {
-    if (session.user.id === authorId) return "You wrote this revision; another program manager has to sign it off.";
+    if (session.user.id === authorId)
+      return "You wrote this revision; another program manager has to sign it off.";
     if (!gate) return "Checking the sign-off conditions…";
     if (!gate.canApprove) return failing(gate).join(" ") || "The sign-off conditions are not met.";
   }

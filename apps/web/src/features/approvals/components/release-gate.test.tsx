@@ -25,7 +25,13 @@ const clearGate = {
   canRelease: false,
 };
 
-function setup(roles: Role[], status: RevisionStatus, gate: unknown, extra: Record<string, StubAnswer> = {}, userId = "u-approver") {
+function setup(
+  roles: Role[],
+  status: RevisionStatus,
+  gate: unknown,
+  extra: Record<string, StubAnswer> = {},
+  userId = "u-approver",
+) {
   const stub = stubApi({
     "GET /api/v1/auth/me": {
       user: { id: userId, email: "x@halvorsen.example", name: "Test Person" },
@@ -58,7 +64,9 @@ describe("ReleaseGate", () => {
   it("keeps sign-off disabled with the failing checks as its reason", async () => {
     setup(["approver"], "in_review", blockedGate);
     const approve = await screen.findByRole("button", { name: "Sign off" });
-    await vi.waitFor(() => expect(approve).toHaveAccessibleDescription(/below the target 95 %.*1 blocking thread is open/));
+    await vi.waitFor(() =>
+      expect(approve).toHaveAccessibleDescription(/below the target 95 %.*1 blocking thread is open/),
+    );
     expect(approve).toBeDisabled();
     // Sending back and withdrawing need no gate.
     expect(screen.getByRole("button", { name: "Send back for rework" })).toBeEnabled();
@@ -90,14 +98,18 @@ describe("ReleaseGate", () => {
     setup(["approver", "designer"], "in_review", clearGate, {}, "u-designer");
     const approve = await screen.findByRole("button", { name: "Sign off" });
     expect(approve).toBeDisabled();
-    expect(approve).toHaveAccessibleDescription("You wrote this revision; another program manager has to sign it off.");
+    expect(approve).toHaveAccessibleDescription(
+      "You wrote this revision; another program manager has to sign it off.",
+    );
   });
 
   it("shows the server's message when it refuses a transition", async () => {
     const { calls } = setup(["approver"], "in_review", clearGate, {
       "POST /api/v1/revisions/rev1/transitions": {
         status: 422,
-        body: { error: { code: "gate_failed", message: "No server-verified yield run at or above the target." } },
+        body: {
+          error: { code: "gate_failed", message: "No server-verified yield run at or above the target." },
+        },
       },
     });
     const user = userEvent.setup();
@@ -107,9 +119,14 @@ describe("ReleaseGate", () => {
     const dialog = await screen.findByRole("dialog", { name: "Sign off?" });
     await user.type(within(dialog).getByLabelText("Decision note (optional)"), "Meets the mask.");
     await user.click(within(dialog).getByRole("button", { name: "Sign off" }));
-    expect(await screen.findByText("No server-verified yield run at or above the target.")).toBeInTheDocument();
+    expect(
+      await screen.findByText("No server-verified yield run at or above the target."),
+    ).toBeInTheDocument();
     expect(screen.getByText("The server refused: a sign-off condition is not met.")).toBeInTheDocument();
-    expect(calls.find((c) => c.method === "POST")?.body).toEqual({ action: "approve", note: "Meets the mask." });
+    expect(calls.find((c) => c.method === "POST")?.body).toEqual({
+      action: "approve",
+      note: "Meets the mask.",
+    });
   });
 
   it("asks for a note before sending a revision back", async () => {

@@ -1,11 +1,24 @@
 import { useId, useState } from "react";
-import { Button, Dialog, ErrorState, Notice, Spinner, StatusPill, TextArea, cx, errorMessage } from "../../../components/ui/index.ts";
+import {
+  Button,
+  Dialog,
+  ErrorState,
+  Notice,
+  Spinner,
+  StatusPill,
+  TextArea,
+  cx,
+  errorMessage,
+} from "../../../components/ui/index.ts";
 import { ApiError } from "../../../lib/api-client.ts";
 import { useSession } from "../../../lib/session.ts";
 import type { RevisionStatus } from "../../../lib/types.ts";
 import { useGate, type GateCheck } from "../api/get-gate.ts";
 import { useTransitionRevision } from "../api/transition-revision.ts";
 import { availableActions, type ActionSpec } from "./gate-rules.ts";
+import { Link } from "react-router";
+import { paths } from "../../../config/paths.ts";
+import { useRevisionRelease } from "../api/get-revision-release.ts";
 
 export interface ReleaseGateProps {
   /** The revision the gate is for (GET /revisions/:id/gate, POST /revisions/:id/transitions). */
@@ -58,7 +71,14 @@ function CheckRow({ check }: { check: GateCheck }) {
  *
  * `<ReleaseGate revisionId={rev.id} designId={rev.designId} status={rev.status} authorId={rev.author.id} />`
  */
-export function ReleaseGate({ revisionId, designId, status, authorId, onTransition, className }: ReleaseGateProps) {
+export function ReleaseGate({
+  revisionId,
+  designId,
+  status,
+  authorId,
+  onTransition,
+  className,
+}: ReleaseGateProps) {
   const session = useSession();
   const gate = useGate(revisionId);
   const transition = useTransitionRevision(revisionId, designId);
@@ -69,6 +89,7 @@ export function ReleaseGate({ revisionId, designId, status, authorId, onTransiti
   const baseId = useId();
 
   const actions = availableActions(session, status, authorId, gate.data);
+  const release = useRevisionRelease(revisionId, status === "released" || status === "withdrawn").data;
 
   function open(spec: ActionSpec) {
     transition.reset();
@@ -99,14 +120,19 @@ export function ReleaseGate({ revisionId, designId, status, authorId, onTransiti
   }
 
   const refusal =
-    transition.error instanceof ApiError && (transition.error.status === 422 || transition.error.status === 409)
+    transition.error instanceof ApiError &&
+    (transition.error.status === 422 || transition.error.status === 409)
       ? transition.error.status === 422
         ? "The server refused: a sign-off condition is not met."
         : "The server refused: the revision's state changed meanwhile."
       : "The action did not go through.";
 
   return (
-    <section aria-labelledby={`${baseId}-title`} className={cx("rounded-xl border border-ink-100 bg-white shadow-sm", className)} data-testid="release-gate">
+    <section
+      aria-labelledby={`${baseId}-title`}
+      className={cx("rounded-xl border border-ink-100 bg-white shadow-sm", className)}
+      data-testid="release-gate"
+    >
       <header className="flex flex-wrap items-center gap-2 border-b border-ink-100 px-4 py-3">
         <h2 id={`${baseId}-title`} className="flex-1 text-base font-semibold">
           Sign-off gate
@@ -136,6 +162,16 @@ export function ReleaseGate({ revisionId, designId, status, authorId, onTransiti
           <Notice tone="success" onDismiss={() => setDone(null)}>
             {done}
           </Notice>
+        )}
+        {release && (
+          <p className="text-sm">
+            <Link
+              to={paths.release(release.id)}
+              className="font-medium text-film-teal underline underline-offset-2"
+            >
+              Open the release record
+            </Link>
+          </p>
         )}
         {actions.length === 0 ? (
           <p className="text-sm text-ink-500">
@@ -179,7 +215,11 @@ export function ReleaseGate({ revisionId, designId, status, authorId, onTransiti
             <Button variant="ghost" onClick={() => setPending(null)}>
               Cancel
             </Button>
-            <Button variant={pending?.variant === "danger" ? "danger" : "primary"} onClick={confirm} loading={transition.isPending}>
+            <Button
+              variant={pending?.variant === "danger" ? "danger" : "primary"}
+              onClick={confirm}
+              loading={transition.isPending}
+            >
               {pending?.label}
             </Button>
           </>

@@ -13,7 +13,12 @@ export const lookupInvitation = (token: string) =>
   api.get<InvitationLookup>(`/invitations/lookup/${encodeURIComponent(token)}`);
 
 export const invitationLookupQueryOptions = (token: string) =>
-  queryOptions({ queryKey: ["invitations", "lookup", token], queryFn: () => lookupInvitation(token), retry: false, enabled: token !== "" });
+  queryOptions({
+    queryKey: ["invitations", "lookup", token],
+    queryFn: () => lookupInvitation(token),
+    retry: false,
+    enabled: token !== "",
+  });
 
 export const useInvitationLookup = (token: string) => useQuery(invitationLookupQueryOptions(token));
 
@@ -25,7 +30,8 @@ export function useAcceptInvitation() {
   return useMutation({
     mutationFn: acceptInvitation,
     onSuccess: (session) => {
-      qc.removeQueries();
+      // Keep the lookup: the page still shows it, and refetching a used token would only answer 404.
+      qc.removeQueries({ predicate: (q) => q.queryKey[0] !== "invitations" });
       qc.setQueryData(sessionQueryKey, session);
     },
   });

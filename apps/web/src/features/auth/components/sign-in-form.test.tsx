@@ -38,7 +38,10 @@ describe("SignInForm", () => {
 
   it("shows the server's refusal in its own words", async () => {
     stubApi({
-      "POST /api/v1/auth/sign-in": { status: 401, body: { error: { code: "bad_credentials", message: "E-mail or password is wrong." } } },
+      "POST /api/v1/auth/sign-in": {
+        status: 401,
+        body: { error: { code: "bad_credentials", message: "E-mail or password is wrong." } },
+      },
     });
     const onSignedIn = renderForm();
     const user = userEvent.setup();

@@ -15,7 +15,9 @@ export function signInErrorText(error: unknown): string {
       const own = error.code !== "http_error" ? error.message : "Too many sign-in attempts for now.";
       // The server usually says how long to wait; add it from Retry-After when it does not.
       if (/\d/.test(own)) return own;
-      const wait = error.retryAfter ? ` Try again in ${formatWait(error.retryAfter)}.` : " Wait a while before trying again.";
+      const wait = error.retryAfter
+        ? ` Try again in ${formatWait(error.retryAfter)}.`
+        : " Wait a while before trying again.";
       return `${own}${wait}`;
     }
     return error.message;
@@ -39,18 +41,33 @@ export function SignInForm({ onSignedIn, defaultEmail = "" }: SignInFormProps) {
     register,
     handleSubmit,
     formState: { errors },
-  } = useForm<SignInValues>({ resolver: zodResolver(signInSchema), defaultValues: { email: defaultEmail, password: "" } });
+  } = useForm<SignInValues>({
+    resolver: zodResolver(signInSchema),
+    defaultValues: { email: defaultEmail, password: "" },
+  });
 
   const onSubmit = handleSubmit((values) => signIn.mutate(values, { onSuccess: onSignedIn }));
 
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Sign in">
       {signIn.isError && (
-        <Notice tone="error" title={signIn.error instanceof ApiError && signIn.error.status === 429 ? "Slow down" : "Not signed in"}>
+        <Notice
+          tone="error"
+          title={
+            signIn.error instanceof ApiError && signIn.error.status === 429 ? "Slow down" : "Not signed in"
+          }
+        >
           {signInErrorText(signIn.error)}
         </Notice>
       )}
-      <TextField label="E-mail" type="email" autoComplete="username" autoFocus error={errors.email?.message} {...register("email")} />
+      <TextField
+        label="E-mail"
+        type="email"
+        autoComplete="username"
+        autoFocus
+        error={errors.email?.message}
+        {...register("email")}
+      />
       <TextField
         label="Password"
         type="password"

@@ -5,7 +5,13 @@ import type { RevisionStatus, YieldEstimate } from "../../../lib/types.ts";
 export interface OverviewRow {
   design: { id: string; name: string };
   program: { id: string; name: string; targetYield: number; protective: boolean };
-  latestRevision: { id: string; number: number; status: RevisionStatus; authorName: string; createdAt: string };
+  latestRevision: {
+    id: string;
+    number: number;
+    status: RevisionStatus;
+    authorName: string;
+    createdAt: string;
+  };
   latestVerifiedYield: YieldEstimate | null;
   openBlockingThreads: number;
   openThreads: number;

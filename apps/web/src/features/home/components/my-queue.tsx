@@ -15,12 +15,31 @@ interface Lane {
 
 /** Which lists each role works from. */
 export const queueLanes: Lane[] = [
-  { key: "changesRequested", roles: ["designer"], title: "Sent back for rework", empty: "No revision of yours needs rework." },
-  { key: "reviewRequested", roles: ["reviewer"], title: "Waiting for your review", empty: "Nothing is waiting for review." },
-  { key: "readyForDecision", roles: ["approver"], title: "Ready for your decision", empty: "No reviewed revision is waiting for sign-off." },
-  { key: "readyForRelease", roles: ["approver"], title: "Signed off, ready to release", empty: "Nothing is waiting to be released." },
+  {
+    key: "changesRequested",
+    roles: ["designer"],
+    title: "Sent back for rework",
+    empty: "No revision of yours needs rework.",
+  },
+  {
+    key: "reviewRequested",
+    roles: ["reviewer"],
+    title: "Waiting for your review",
+    empty: "Nothing is waiting for review.",
+  },
+  {
+    key: "readyForDecision",
+    roles: ["approver"],
+    title: "Ready for your decision",
+    empty: "No reviewed revision is waiting for sign-off.",
+  },
+  {
+    key: "readyForRelease",
+    roles: ["approver"],
+    title: "Signed off, ready to release",
+    empty: "Nothing is waiting to be released.",
+  },
 ];
-
 
 function QueueItem({ r }: { r: RevisionSummary }) {
   const to = paths.revision(r.designId, r.id);
@@ -62,9 +81,14 @@ export function MyQueue({ session }: { session: Session }) {
             const items = queue.data[lane.key] ?? [];
             return (
               <section key={lane.key} aria-labelledby={`lane-${lane.key}`} data-lane={lane.key}>
-                <h3 id={`lane-${lane.key}`} className="flex items-center gap-2 text-sm font-semibold text-ink-800">
+                <h3
+                  id={`lane-${lane.key}`}
+                  className="flex items-center gap-2 text-sm font-semibold text-ink-800"
+                >
                   {lane.title}
-                  <span className="rounded-full bg-ink-100 px-2 font-mono text-xs text-ink-700 tabular">{items.length}</span>
+                  <span className="rounded-full bg-ink-100 px-2 font-mono text-xs text-ink-700 tabular">
+                    {items.length}
+                  </span>
                 </h3>
                 {items.length === 0 ? (
                   <p className="mt-2 text-sm text-ink-500">{lane.empty}</p>
@@ -83,4 +107,3 @@ export function MyQueue({ session }: { session: Session }) {
     </Card>
   );
 }
-

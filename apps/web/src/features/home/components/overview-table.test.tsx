@@ -17,7 +17,8 @@ function row(
     design: { id, name },
     program: { id: "p1", name: "Fjord lidar window", targetYield: 0.95, protective: false },
     latestRevision: { id: `${id}-r`, number: 2, status, authorName: author, createdAt },
-    latestVerifiedYield: yieldValue === null ? null : { yield: yieldValue, low: yieldValue - 0.02, high: yieldValue + 0.015 },
+    latestVerifiedYield:
+      yieldValue === null ? null : { yield: yieldValue, low: yieldValue - 0.02, high: yieldValue + 0.015 },
     openBlockingThreads: 0,
     openThreads: 0,
   };

@@ -11,7 +11,16 @@ import {
   type FilterFn,
   type SortingState,
 } from "@tanstack/react-table";
-import { Badge, EmptyState, SelectField, StatusPill, TextField, revisionStatusLabel, revisionStatuses, cx } from "../../../components/ui/index.ts";
+import {
+  Badge,
+  EmptyState,
+  SelectField,
+  StatusPill,
+  TextField,
+  revisionStatusLabel,
+  revisionStatuses,
+  cx,
+} from "../../../components/ui/index.ts";
 import { paths } from "../../../config/paths.ts";
 import { formatDate } from "../../../lib/format.ts";
 import type { OverviewRow } from "../api/get-overview.ts";
@@ -31,7 +40,9 @@ const textFilter: FilterFn<OverviewRow> = (row, _columnId, value: string) => {
   const q = value.trim().toLowerCase();
   if (!q) return true;
   const r = row.original;
-  return [r.design.name, r.program.name, r.latestRevision.authorName].some((s) => s.toLowerCase().includes(q));
+  return [r.design.name, r.program.name, r.latestRevision.authorName].some((s) =>
+    s.toLowerCase().includes(q),
+  );
 };
 
 const columns = [
@@ -39,7 +50,10 @@ const columns = [
     id: "design",
     header: "Design",
     cell: (c) => (
-      <Link to={paths.design(c.row.original.design.id)} className="font-medium text-ink-900 underline decoration-ink-300 underline-offset-3 hover:text-film-teal hover:decoration-film-teal">
+      <Link
+        to={paths.design(c.row.original.design.id)}
+        className="font-medium text-ink-900 underline decoration-ink-300 underline-offset-3 hover:text-film-teal hover:decoration-film-teal"
+      >
         {c.getValue()}
       </Link>
     ),
@@ -49,7 +63,10 @@ const columns = [
     header: "Program",
     cell: (c) => (
       <span className="inline-flex flex-wrap items-center gap-1.5">
-        <Link to={paths.program(c.row.original.program.id)} className="text-ink-700 hover:text-film-teal hover:underline">
+        <Link
+          to={paths.program(c.row.original.program.id)}
+          className="text-ink-700 hover:text-film-teal hover:underline"
+        >
           {c.getValue()}
         </Link>
         {c.row.original.program.protective && (
@@ -69,15 +86,25 @@ const columns = [
     id: "status",
     header: "State",
     sortingFn: (a, b) =>
-      revisionStatuses.indexOf(a.original.latestRevision.status) - revisionStatuses.indexOf(b.original.latestRevision.status),
+      revisionStatuses.indexOf(a.original.latestRevision.status) -
+      revisionStatuses.indexOf(b.original.latestRevision.status),
     filterFn: (row, _id, value: string) => !value || row.original.latestRevision.status === value,
     cell: (c) => <StatusPill status={c.getValue()} />,
   }),
-  col.accessor((r) => r.latestRevision.authorName, { id: "author", header: "Author", meta: { className: wide } }),
+  col.accessor((r) => r.latestRevision.authorName, {
+    id: "author",
+    header: "Author",
+    meta: { className: wide },
+  }),
   col.accessor((r) => r.latestVerifiedYield?.yield ?? -1, {
     id: "yield",
     header: "Verified yield",
-    cell: (c) => <YieldVersusTarget estimate={c.row.original.latestVerifiedYield} target={c.row.original.program.targetYield} />,
+    cell: (c) => (
+      <YieldVersusTarget
+        estimate={c.row.original.latestVerifiedYield}
+        target={c.row.original.program.targetYield}
+      />
+    ),
   }),
   col.accessor((r) => r.openBlockingThreads * 1000 + r.openThreads, {
     id: "threads",
@@ -110,7 +137,10 @@ export function OverviewTable({ rows }: OverviewTableProps) {
   const [sorting, setSorting] = useState<SortingState>([{ id: "updated", desc: true }]);
   const [text, setText] = useState("");
   const [status, setStatus] = useState("");
-  const columnFilters = useMemo<ColumnFiltersState>(() => (status ? [{ id: "status", value: status }] : []), [status]);
+  const columnFilters = useMemo<ColumnFiltersState>(
+    () => (status ? [{ id: "status", value: status }] : []),
+    [status],
+  );
 
   const table = useReactTable({
     data: rows,
@@ -144,17 +174,24 @@ export function OverviewTable({ rows }: OverviewTableProps) {
           wrapperClassName="w-48"
         />
         <p className="ml-auto pb-2 text-sm text-ink-500" aria-live="polite">
-          {visible.length === rows.length ? `${rows.length} designs` : `${visible.length} of ${rows.length} designs`}
+          {visible.length === rows.length
+            ? `${rows.length} designs`
+            : `${visible.length} of ${rows.length} designs`}
         </p>
       </div>
       {visible.length === 0 ? (
         <div className="p-5">
-          <EmptyState title="No design matches" description="Clear the filter text or choose another state." />
+          <EmptyState
+            title="No design matches"
+            description="Clear the filter text or choose another state."
+          />
         </div>
       ) : (
         <div className="overflow-x-auto">
           <table className="w-full min-w-[44rem] border-collapse text-left">
-            <caption className="sr-only">Designs and their latest revisions. Column headers sort the table.</caption>
+            <caption className="sr-only">
+              Designs and their latest revisions. Column headers sort the table.
+            </caption>
             <thead>
               {table.getHeaderGroups().map((hg) => (
                 <tr key={hg.id} className="border-b border-ink-100 bg-paper/70">
@@ -165,7 +202,10 @@ export function OverviewTable({ rows }: OverviewTableProps) {
                         key={h.id}
                         scope="col"
                         aria-sort={dir === "asc" ? "ascending" : dir === "desc" ? "descending" : "none"}
-                        className={cx("px-3 py-2 text-xs font-semibold tracking-wide text-ink-500 uppercase", metaClass(h.column.columnDef.meta))}
+                        className={cx(
+                          "px-3 py-2 text-xs font-semibold tracking-wide text-ink-500 uppercase",
+                          metaClass(h.column.columnDef.meta),
+                        )}
                       >
                         <button
                           type="button"
@@ -173,7 +213,10 @@ export function OverviewTable({ rows }: OverviewTableProps) {
                           className="inline-flex items-center gap-1 whitespace-nowrap uppercase hover:text-ink-900"
                         >
                           {flexRender(h.column.columnDef.header, h.getContext())}
-                          <span aria-hidden className={cx("font-mono", dir ? "text-film-amber" : "text-ink-300")}>
+                          <span
+                            aria-hidden
+                            className={cx("font-mono", dir ? "text-film-amber" : "text-ink-300")}
+                          >
                             {dir === "asc" ? "▲" : dir === "desc" ? "▼" : "↕"}
                           </span>
                         </button>
@@ -187,7 +230,13 @@ export function OverviewTable({ rows }: OverviewTableProps) {
               {visible.map((row) => (
                 <tr key={row.id} className="border-b border-ink-100 last:border-0 hover:bg-paper/60">
                   {row.getVisibleCells().map((cell) => (
-                    <td key={cell.id} className={cx("px-3 py-2.5 align-middle text-sm", metaClass(cell.column.columnDef.meta))}>
+                    <td
+                      key={cell.id}
+                      className={cx(
+                        "px-3 py-2.5 align-middle text-sm",
+                        metaClass(cell.column.columnDef.meta),
+                      )}
+                    >
                       {flexRender(cell.column.columnDef.cell, cell.getContext())}
                     </td>
                   ))}

@@ -21,11 +21,22 @@ export function YieldVersusTarget({ estimate, target, className }: YieldVersusTa
   const straddles = pass && estimate.low < target;
   return (
     <span
-      className={cx("inline-flex items-baseline gap-1.5 font-mono text-sm tabular whitespace-nowrap", className)}
+      className={cx(
+        "inline-flex items-baseline gap-1.5 font-mono text-sm tabular whitespace-nowrap",
+        className,
+      )}
       title={straddles ? "At the target, but the lower end of the interval is below it." : undefined}
     >
-      <span aria-hidden className={cx("inline-block h-2 w-2 self-center rounded-full", pass ? "bg-verdict-pass" : "bg-verdict-fail")} />
-      <span className={cx("font-semibold", pass ? "text-verdict-pass" : "text-verdict-fail")}>{formatYield(estimate)}</span>
+      <span
+        aria-hidden
+        className={cx(
+          "inline-block h-2 w-2 self-center rounded-full",
+          pass ? "bg-verdict-pass" : "bg-verdict-fail",
+        )}
+      />
+      <span className={cx("font-semibold", pass ? "text-verdict-pass" : "text-verdict-fail")}>
+        {formatYield(estimate)}
+      </span>
       <span className="text-xs text-ink-500">/ target {formatTarget(target)}</span>
       <span className="sr-only">{pass ? "meets the target" : "below the target"}</span>
     </span>

@@ -14,6 +14,7 @@ export interface MaterialItem {
 
 export const getMaterials = () => api.get<{ items: MaterialItem[] }>("/materials");
 
-export const materialsQueryOptions = () => queryOptions({ queryKey: ["materials"], queryFn: getMaterials, staleTime: 60_000 });
+export const materialsQueryOptions = () =>
+  queryOptions({ queryKey: ["materials"], queryFn: getMaterials, staleTime: 60_000 });
 
 export const useMaterials = () => useQuery(materialsQueryOptions());

@@ -12,7 +12,10 @@ const schema = z.object({
   id: z
     .string()
     .trim()
-    .regex(/^[A-Za-z0-9][A-Za-z0-9_.+-]{0,63}$/, "Use 1–64 letters, digits, _ . + - (starting with a letter or digit)."),
+    .regex(
+      /^[A-Za-z0-9][A-Za-z0-9_.+-]{0,63}$/,
+      "Use 1–64 letters, digits, _ . + - (starting with a letter or digit).",
+    ),
   name: z.string().trim().min(1, "Give the material a name.").max(200),
   role: z.enum(["layer", "substrate", "medium", "metal"]),
   source: z.string().trim().max(500).optional(),
@@ -35,7 +38,10 @@ export function UploadMaterialForm({ onUploaded }: UploadMaterialFormProps) {
     handleSubmit,
     reset,
     formState: { errors },
-  } = useForm<Values>({ resolver: zodResolver(schema), defaultValues: { role: "layer", id: "", name: "", source: "" } });
+  } = useForm<Values>({
+    resolver: zodResolver(schema),
+    defaultValues: { role: "layer", id: "", name: "", source: "" },
+  });
 
   const problems = upload.error instanceof ApiError ? csvProblems(upload.error.details) : [];
 
@@ -60,11 +66,13 @@ export function UploadMaterialForm({ onUploaded }: UploadMaterialFormProps) {
     >
       <p className="text-sm text-ink-700">
         CSV with a header row: <code className="font-mono text-xs">wavelength_nm,n,k</code> or{" "}
-        <code className="font-mono text-xs">wavelength_um,n,k</code>, wavelengths increasing, k ≥ 0 (N = n − ik). Up to 1 MB.
+        <code className="font-mono text-xs">wavelength_um,n,k</code>, wavelengths increasing, k ≥ 0 (N = n −
+        ik). Up to 1 MB.
       </p>
       {upload.isSuccess && (
         <Notice tone="success" onDismiss={() => upload.reset()}>
-          Added <strong>{upload.data.name}</strong> (<span className="font-mono">{upload.data.id}</span>) to the workspace library.
+          Added <strong>{upload.data.name}</strong> (<span className="font-mono">{upload.data.id}</span>) to
+          the workspace library.
         </Notice>
       )}
       {upload.isError && (
@@ -75,9 +83,15 @@ export function UploadMaterialForm({ onUploaded }: UploadMaterialFormProps) {
               <caption className="sr-only">Problems found in the file</caption>
               <thead>
                 <tr className="border-b border-verdict-fail/30">
-                  <th scope="col" className="py-1 pr-3">Row</th>
-                  <th scope="col" className="py-1 pr-3">Column</th>
-                  <th scope="col" className="py-1">Problem</th>
+                  <th scope="col" className="py-1 pr-3">
+                    Row
+                  </th>
+                  <th scope="col" className="py-1 pr-3">
+                    Column
+                  </th>
+                  <th scope="col" className="py-1">
+                    Problem
+                  </th>
                 </tr>
               </thead>
               <tbody>
@@ -95,8 +109,20 @@ export function UploadMaterialForm({ onUploaded }: UploadMaterialFormProps) {
         </Notice>
       )}
       <div className="grid gap-4 sm:grid-cols-2">
-        <TextField label="Material id" hint="What designs refer to, e.g. TiO2-ebeam" error={errors.id?.message} required {...register("id")} />
-        <TextField label="Name" hint="e.g. titanium dioxide, e-beam" error={errors.name?.message} required {...register("name")} />
+        <TextField
+          label="Material id"
+          hint="What designs refer to, e.g. TiO2-ebeam"
+          error={errors.id?.message}
+          required
+          {...register("id")}
+        />
+        <TextField
+          label="Name"
+          hint="e.g. titanium dioxide, e-beam"
+          error={errors.name?.message}
+          required
+          {...register("name")}
+        />
         <SelectField
           label="Used as"
           error={errors.role?.message}
@@ -108,9 +134,22 @@ export function UploadMaterialForm({ onUploaded }: UploadMaterialFormProps) {
           ]}
           {...register("role")}
         />
-        <TextField label="Source of the data" hint="Optional: where the n,k values come from" error={errors.source?.message} {...register("source")} />
+        <TextField
+          label="Source of the data"
+          hint="Optional: where the n,k values come from"
+          error={errors.source?.message}
+          {...register("source")}
+        />
       </div>
-      <TextField label="n,k table (CSV)" type="file" accept=".csv,text/csv,text/plain" className="py-1.5" error={errors.file?.message} required {...register("file")} />
+      <TextField
+        label="n,k table (CSV)"
+        type="file"
+        accept=".csv,text/csv,text/plain"
+        className="py-1.5"
+        error={errors.file?.message}
+        required
+        {...register("file")}
+      />
       <div>
         <Button type="submit" loading={upload.isPending} loadingLabel="Uploading…">
           Add to library

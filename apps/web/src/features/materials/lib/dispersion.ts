@@ -15,7 +15,10 @@ export interface DispersionCurve {
 }
 
 /** The wavelength span a model is meaningful over: a table's own range, otherwise the given default. */
-export function naturalRange(model: MaterialModel, fallback: [number, number] = [350, 1100]): [number, number] {
+export function naturalRange(
+  model: MaterialModel,
+  fallback: [number, number] = [350, 1100],
+): [number, number] {
   if (model.kind === "table" && model.points.length > 0) {
     const first = model.points[0]!;
     const last = model.points[model.points.length - 1]!;
@@ -25,7 +28,12 @@ export function naturalRange(model: MaterialModel, fallback: [number, number] = 
 }
 
 /** Evaluates N = n − ik of the model at `samples` evenly spaced wavelengths (nm) with the optics package. */
-export function sampleDispersion(model: MaterialModel, startNm: number, stopNm: number, samples = 241): DispersionCurve {
+export function sampleDispersion(
+  model: MaterialModel,
+  startNm: number,
+  stopNm: number,
+  samples = 241,
+): DispersionCurve {
   const points: DispersionPoint[] = [];
   let refused = 0;
   let firstError: string | null = null;

@@ -11,6 +11,11 @@ export interface OutboxMessage extends OutboxItem {
 export const getOutboxMessage = (id: string) => api.get<OutboxMessage>(`/outbox/${encodeURIComponent(id)}`);
 
 export const outboxMessageQueryOptions = (id: string) =>
-  queryOptions({ queryKey: ["outbox", "message", id], queryFn: () => getOutboxMessage(id), staleTime: Infinity });
+  queryOptions({
+    queryKey: ["outbox", "message", id],
+    queryFn: () => getOutboxMessage(id),
+    staleTime: Infinity,
+  });
 
-export const useOutboxMessage = (id: string | null) => useQuery({ ...outboxMessageQueryOptions(id ?? ""), enabled: id !== null });
+export const useOutboxMessage = (id: string | null) =>
+  useQuery({ ...outboxMessageQueryOptions(id ?? ""), enabled: id !== null });

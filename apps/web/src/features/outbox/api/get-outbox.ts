@@ -9,10 +9,15 @@ export interface OutboxItem {
   receivedAt: string;
 }
 
-export const getOutbox = (cursor?: string) => api.get<Page<OutboxItem>>("/outbox", { query: { limit: 50, cursor } });
+export const getOutbox = (cursor?: string) =>
+  api.get<Page<OutboxItem>>("/outbox", { query: { limit: 50, cursor } });
 
 export const outboxQueryOptions = (cursor?: string) =>
-  queryOptions({ queryKey: ["outbox", { cursor: cursor ?? null }], queryFn: () => getOutbox(cursor), retry: false });
+  queryOptions({
+    queryKey: ["outbox", { cursor: cursor ?? null }],
+    queryFn: () => getOutbox(cursor),
+    retry: false,
+  });
 
 export const useOutbox = (cursor?: string) => useQuery(outboxQueryOptions(cursor));
 

@@ -5,7 +5,13 @@ import type { ErrorModel, RevisionStatus, SpecMask, YieldEstimate } from "../../
 /** A design of the program, summarised like an overview row. */
 export interface ProgramDesignRow {
   design: { id: string; name: string };
-  latestRevision: { id: string; number: number; status: RevisionStatus; authorName: string; createdAt: string } | null;
+  latestRevision: {
+    id: string;
+    number: number;
+    status: RevisionStatus;
+    authorName: string;
+    createdAt: string;
+  } | null;
   latestVerifiedYield: YieldEstimate | null;
   openBlockingThreads: number;
   openThreads: number;
@@ -31,6 +37,7 @@ export interface ProgramDetail extends Program {
 
 export const getProgram = (id: string) => api.get<ProgramDetail>(`/programs/${encodeURIComponent(id)}`);
 
-export const programQueryOptions = (id: string) => queryOptions({ queryKey: ["programs", id], queryFn: () => getProgram(id) });
+export const programQueryOptions = (id: string) =>
+  queryOptions({ queryKey: ["programs", id], queryFn: () => getProgram(id) });
 
 export const useProgram = (id: string) => useQuery(programQueryOptions(id));

@@ -101,7 +101,8 @@ export interface ReleaseRecord {
 
 export const getRelease = (id: string) => api.get<ReleaseRecord>(`/releases/${encodeURIComponent(id)}`);
 
-export const releaseQueryOptions = (id: string) => queryOptions({ queryKey: ["releases", id], queryFn: () => getRelease(id) });
+export const releaseQueryOptions = (id: string) =>
+  queryOptions({ queryKey: ["releases", id], queryFn: () => getRelease(id) });
 
 export const useRelease = (id: string) => useQuery(releaseQueryOptions(id));
 

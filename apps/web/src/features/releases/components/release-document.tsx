@@ -31,12 +31,15 @@ function Section({ title, children, className }: { title: string; children: Reac
   );
 }
 
-const th = "border-b border-ink-300 py-1.5 pr-3 text-left text-xs font-semibold tracking-wide text-ink-500 uppercase";
+const th =
+  "border-b border-ink-300 py-1.5 pr-3 text-left text-xs font-semibold tracking-wide text-ink-500 uppercase";
 const td = "border-b border-ink-100 py-1.5 pr-3 align-top";
 
 /** A release record laid out as a document to file: identity, result, specification, stack, decisions. */
 export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
-  const status = (revisionStatuses as readonly string[]).includes(r.status) ? (r.status as RevisionStatus) : null;
+  const status = (revisionStatuses as readonly string[]).includes(r.status)
+    ? (r.status as RevisionStatus)
+    : null;
   const y = r.yieldRun;
   const meets = y ? y.yield >= r.program.targetYield : false;
   const outcomes = new Map(r.nominal.bands.map((b) => [b.id, b]));
@@ -44,10 +47,15 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
   const stack = r.revision.stack;
 
   return (
-    <article className="release-sheet mx-auto max-w-[210mm] bg-white px-[14mm] py-[12mm] shadow-md print:max-w-none print:p-0 print:shadow-none" aria-labelledby="release-title">
+    <article
+      className="release-sheet mx-auto max-w-[210mm] bg-white px-[14mm] py-[12mm] shadow-md print:max-w-none print:p-0 print:shadow-none"
+      aria-labelledby="release-title"
+    >
       <header className="flex flex-wrap items-start gap-4 border-b-4 border-double border-ink-900 pb-4">
         <div className="min-w-0 flex-1">
-          <p className="text-xs font-semibold tracking-[0.18em] text-ink-500 uppercase">Release record · {r.workspace.name}</p>
+          <p className="text-xs font-semibold tracking-[0.18em] text-ink-500 uppercase">
+            Release record · {r.workspace.name}
+          </p>
           <h1 id="release-title" className="mt-1 text-2xl font-semibold tracking-tight">
             {r.design.name} <span className="font-mono">r{r.revision.number}</span>
           </h1>
@@ -65,11 +73,16 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
       </header>
 
       {r.status === "withdrawn" && (
-        <p role="alert" className="mt-4 border-2 border-verdict-fail px-4 py-2 font-semibold text-verdict-fail print:border-black print:text-black">
+        <p
+          role="alert"
+          className="mt-4 border-2 border-verdict-fail px-4 py-2 font-semibold text-verdict-fail print:border-black print:text-black"
+        >
           This release was withdrawn afterwards. Do not use it for production.
         </p>
       )}
-      {(r.program.protective || r.caution) && <ProtectiveCaution className="mt-4" application={r.program.application || null} text={r.caution} />}
+      {(r.program.protective || r.caution) && (
+        <ProtectiveCaution className="mt-4" application={r.program.application || null} text={r.caution} />
+      )}
 
       <Section title="Identity">
         <dl className="grid grid-cols-[12rem_1fr] gap-x-4 gap-y-1.5 text-sm max-sm:grid-cols-1">
@@ -77,7 +90,8 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
           <dd className="font-mono">{r.id}</dd>
           <dt className="text-ink-500">Revision</dt>
           <dd>
-            r{r.revision.number}, written by {r.revision.author?.name ?? "unknown"} on {formatDateTime(r.revision.createdAt)}
+            r{r.revision.number}, written by {r.revision.author?.name ?? "unknown"} on{" "}
+            {formatDateTime(r.revision.createdAt)}
           </dd>
           <dt className="text-ink-500">Content hash</dt>
           <dd className="font-mono text-xs break-all">{r.revision.hash}</dd>
@@ -94,11 +108,18 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
         {y ? (
           <div className="flex flex-wrap items-start gap-6">
             <div>
-              <p className={cx("font-mono text-3xl font-semibold tabular", meets ? "text-verdict-pass" : "text-verdict-fail", "print:text-black")}>
+              <p
+                className={cx(
+                  "font-mono text-3xl font-semibold tabular",
+                  meets ? "text-verdict-pass" : "text-verdict-fail",
+                  "print:text-black",
+                )}
+              >
                 {formatPercent(y.yield)}
               </p>
               <p className="font-mono text-sm text-ink-700 tabular">
-                {Math.round((y.interval.confidence ?? 0.95) * 100)} % interval {formatPercent(y.interval.low)} – {formatPercent(y.interval.high)}
+                {Math.round((y.interval.confidence ?? 0.95) * 100)} % interval {formatPercent(y.interval.low)}{" "}
+                – {formatPercent(y.interval.high)}
               </p>
               <p className="mt-1 text-sm font-semibold">
                 Target {formatTarget(r.program.targetYield)}: {meets ? "met" : "not met"}
@@ -120,7 +141,9 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
               </dd>
             </dl>
             <div className="basis-full">
-              <p className="mb-1 text-xs font-semibold tracking-wide text-ink-500 uppercase">Error model of the run</p>
+              <p className="mb-1 text-xs font-semibold tracking-wide text-ink-500 uppercase">
+                Error model of the run
+              </p>
               <ErrorModelSummary model={y.errorModel} />
             </div>
           </div>
@@ -155,7 +178,14 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
                     {b.quantity} {b.angleDeg}° {b.polarization}
                   </td>
                   <td className={td}>{describeRequirement(b)}</td>
-                  <td className={cx(td, "font-semibold", o?.pass ? "text-verdict-pass" : "text-verdict-fail", "print:text-black")}>
+                  <td
+                    className={cx(
+                      td,
+                      "font-semibold",
+                      o?.pass ? "text-verdict-pass" : "text-verdict-fail",
+                      "print:text-black",
+                    )}
+                  >
                     {o ? (o.pass ? "pass" : "FAIL") : "—"}
                   </td>
                   <td className={cx(td, "text-right font-mono tabular")}>{o ? o.margin.toFixed(3) : "—"}</td>
@@ -194,14 +224,17 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
               <tr>
                 <td className={cx(td, "text-right text-ink-500")}>sub.</td>
                 <td className={cx(td, "font-mono")}>{stack.substrate.material}</td>
-                <td className={cx(td, "text-right font-mono tabular")}>{stack.substrate.thicknessMm !== undefined ? `${stack.substrate.thicknessMm} mm` : "—"}</td>
+                <td className={cx(td, "text-right font-mono tabular")}>
+                  {stack.substrate.thicknessMm !== undefined ? `${stack.substrate.thicknessMm} mm` : "—"}
+                </td>
                 <td className={td}>substrate{stack.exit ? `, exit into ${stack.exit}` : ""}</td>
               </tr>
             )}
           </tbody>
         </table>
         <p className="mt-1 text-xs text-ink-500">
-          {stack.layers.length} layers, {stack.layers.reduce((s, l) => s + l.thickness, 0).toFixed(1)} nm in total.
+          {stack.layers.length} layers, {stack.layers.reduce((s, l) => s + l.thickness, 0).toFixed(1)} nm in
+          total.
         </p>
       </Section>
 
@@ -211,12 +244,17 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
         ) : (
           <ol className="flex flex-col gap-2 text-sm">
             {r.decisions.map((d) => (
-              <li key={d.id} className="release-decision grid grid-cols-[10rem_1fr] gap-x-4 border-l-2 border-film-teal pl-3 print:border-black max-sm:grid-cols-1">
+              <li
+                key={d.id}
+                className="release-decision grid grid-cols-[10rem_1fr] gap-x-4 border-l-2 border-film-teal pl-3 print:border-black max-sm:grid-cols-1"
+              >
                 <span className="font-mono text-xs text-ink-500 tabular">{formatDateTime(d.at)}</span>
                 <span>
                   <strong>{actionText[d.action] ?? d.action}</strong> by {d.actor.name}
                   {d.note ? <span className="block text-ink-700">“{d.note}”</span> : null}
-                  <span className="block font-mono text-[11px] text-ink-500">hash {d.revisionHash.slice(0, 16)}…</span>
+                  <span className="block font-mono text-[11px] text-ink-500">
+                    hash {d.revisionHash.slice(0, 16)}…
+                  </span>
                 </span>
               </li>
             ))}
@@ -226,7 +264,8 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
 
       <Section title="Review threads">
         <p className="text-sm">
-          {r.threads.total} thread{r.threads.total === 1 ? "" : "s"}: {r.threads.resolved} resolved, {r.threads.open} open at release.
+          {r.threads.total} thread{r.threads.total === 1 ? "" : "s"}: {r.threads.resolved} resolved,{" "}
+          {r.threads.open} open at release.
         </p>
         {r.threads.items.length > 0 && (
           <table className="mt-2 w-full border-collapse text-sm">
@@ -255,8 +294,8 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
       </Section>
 
       <footer className="mt-10 border-t border-ink-300 pt-2 text-xs text-ink-500">
-        Stackproof release record {r.id} · revision hash {r.revision.hash.slice(0, 16)}… · anyone can re-run the yield study from the seed, trial
-        count and error model above.
+        Stackproof release record {r.id} · revision hash {r.revision.hash.slice(0, 16)}… · anyone can re-run
+        the yield study from the seed, trial count and error model above.
       </footer>
     </article>
   );
