@@ -209,7 +209,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       params: IdParams,
       body: NewDesignBody,
       status: 201,
-      response: z.object({ design: DesignSchemaOut, revision: RevisionSchema }),
+      response: DesignSchemaOut.extend({ design: DesignSchemaOut, revision: RevisionSchema }),
       errors: { 404: "No such program in this workspace" },
     },
     ({ req, params, body }) => {
@@ -244,10 +244,9 @@ export function programRoutes(ctx: AppContext, router: Router): void {
         });
         return { design, revision };
       });
-      return {
-        design: designView(ctx.db, design, program),
-        revision: revisionView(ctx.db, { revision, design, program }),
-      };
+      const view = designView(ctx.db, design, program);
+      // The design's own fields at the top level too, so the answer reads like GET /designs/:id.
+      return { ...view, design: view, revision: revisionView(ctx.db, { revision, design, program }) };
     },
   );
 }
