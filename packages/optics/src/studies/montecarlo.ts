@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { DesignSchema, parseDesign } from "../core/index.ts";
 import type { Design } from "../core/index.ts";
-import { ENGINE_VERSION } from "../index.ts";
+import { ENGINE_VERSION } from "../version.ts";
 import { createTrialSampler, ErrorModelSchema, scaleErrorModel } from "./error-model.ts";
 import type { ErrorModel } from "./error-model.ts";
 import { TrialRandom } from "./random.ts";
