@@ -19,6 +19,7 @@ import type { Db } from "../db/client.ts";
 import type { MailService } from "../mail/index.ts";
 import { designs, programs, revisions, yieldChunks, yieldRuns } from "../db/schema.ts";
 import { maskOf, stackOf, type YieldRunRow } from "../domain/load.ts";
+import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import type { WorkerReply, WorkerRequest } from "./protocol.ts";
 import { ClientResultSchema, verifyClientResult } from "./verify.ts";
 
@@ -94,6 +95,27 @@ type WorkerRequestBody = WorkerRequest extends infer R
     ? Omit<R, "taskId">
     : never
   : never;
+
+/** Audit entry for a state the job service gave a run (the system is the actor). */
+function auditRun(db: DbOrTx, runId: string, action: string, summary: (label: string) => string) {
+  const row = db
+    .select({ workspaceId: programs.workspaceId, designName: designs.name, number: revisions.number })
+    .from(yieldRuns)
+    .innerJoin(revisions, eq(yieldRuns.revisionId, revisions.id))
+    .innerJoin(designs, eq(revisions.designId, designs.id))
+    .innerJoin(programs, eq(designs.programId, programs.id))
+    .where(eq(yieldRuns.id, runId))
+    .get();
+  if (!row) return;
+  recordAudit(db, {
+    workspaceId: row.workspaceId,
+    actorId: null,
+    action,
+    subjectType: "yield_run",
+    subjectId: runId,
+    summary: summary(`${row.designName} rev ${row.number}`),
+  });
+}
 
 interface PoolWorker {
   worker: Worker;
@@ -173,10 +195,15 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
   }
 
   function fail(runId: string, error: string) {
-    db.update(yieldRuns)
-      .set({ status: "failed", error, finishedAt: new Date() })
-      .where(and(eq(yieldRuns.id, runId), inArray(yieldRuns.status, ["queued", "running"])))
-      .run();
+    db.transaction((tx) => {
+      const res = tx
+        .update(yieldRuns)
+        .set({ status: "failed", error, finishedAt: new Date() })
+        .where(and(eq(yieldRuns.id, runId), inArray(yieldRuns.status, ["queued", "running"])))
+        .run();
+      if (res.changes === 1)
+        auditRun(tx, runId, "yield_run.failed", (label) => `A yield run on ${label} failed: ${error}`);
+    });
   }
 
   function finishActive() {
@@ -309,11 +336,21 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
       const current = loadRun(a.run.id);
       if (current && current.status === "running") {
         db.transaction((tx) => {
+          const values = finishedRunValues(current, reply.result);
           tx.update(yieldRuns)
-            .set(finishedRunValues(current, reply.result))
+            .set(values)
             .where(and(eq(yieldRuns.id, a.run.id), eq(yieldRuns.status, "running")))
             .run();
           tx.delete(yieldChunks).where(eq(yieldChunks.runId, a.run.id)).run();
+          const pct = (x: number) => `${(x * 100).toFixed(1)} %`;
+          auditRun(
+            tx,
+            a.run.id,
+            "yield_run.finished",
+            (label) =>
+              `A ${current.trials}-trial yield run on ${label} finished: ${pct(reply.result.yield)}, ` +
+              (values.verified ? "verified" : `not verified (${values.mismatch ?? "mismatch"})`),
+          );
         });
       }
     }
