@@ -242,6 +242,7 @@ describe("review journey", () => {
         "revision.released",
         "thread.resolved",
         "yield_run.started",
+        "yield_run.finished",
       ]),
     );
   });
