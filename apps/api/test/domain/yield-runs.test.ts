@@ -160,6 +160,28 @@ describe("server yield runs", () => {
   });
 });
 
+describe("a pool of two workers", () => {
+  it("gives the same result as one chunk computed here (chunking-independent merge)", async () => {
+    const two = await createTestServer({ YIELD_WORKERS: "2" });
+    try {
+      expect(two.ctx.jobs.size).toBe(2);
+      const crew = await createTeam(two);
+      const program = await createProgram(crew);
+      const { revision } = await createDesign(crew, program.id);
+      const run = await startRun(crew.members.designer.agent, revision.id, { trials: 400, seed: "pool" });
+      const done = await waitForRun(crew.members.designer.agent, run.id);
+      const local = localResult(400, "pool");
+      expect(done.status).toBe("done");
+      expect(done.result.passCount).toBe(local.passCount);
+      expect(done.result.bandFailures).toEqual(local.bandFailures);
+      expect(done.result.marginHistogram).toEqual(local.marginHistogram);
+      expect(done.result.criticalLayers).toEqual(local.criticalLayers);
+    } finally {
+      await two.close();
+    }
+  });
+});
+
 describe("cancellation", () => {
   it("cancels between chunks; only the requester or an approver may; a finished run is 409", async () => {
     const run = await startRun(team.members.designer.agent, revisionId, { trials: 150000, seed: "long" });
