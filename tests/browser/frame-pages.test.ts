@@ -169,6 +169,11 @@ describe("frame: pages", () => {
       () => document.documentElement.scrollWidth - document.documentElement.clientWidth,
     );
     expect(overflow).toBeLessThanOrEqual(0);
+    // The designs table itself fits too (its wrapper would scroll sideways otherwise).
+    const tableOverflow = await tablet
+      .getByRole("table")
+      .evaluate((t) => (t.parentElement ? t.parentElement.scrollWidth - t.parentElement.clientWidth : 0));
+    expect(tableOverflow).toBeLessThanOrEqual(0);
     await browser.screenshot("frame-17-tablet-overview", tablet);
     await tablet.close();
   });

@@ -3,7 +3,8 @@
 /** A fraction 0..1 as a percentage with one decimal: 0.9641 → "96.4 %". */
 export function formatPercent(fraction: number, digits = 1): string {
   if (!Number.isFinite(fraction)) return "—";
-  return `${(fraction * 100).toFixed(digits)} %`;
+  // A no-break space keeps the number and its unit together when a narrow column wraps.
+  return `${(fraction * 100).toFixed(digits)}\u00a0%`;
 }
 
 /** A yield with its interval: "96.4 % (94.1–97.9)". */

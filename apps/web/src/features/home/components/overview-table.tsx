@@ -52,7 +52,7 @@ const columns = [
     cell: (c) => (
       <Link
         to={paths.design(c.row.original.design.id)}
-        className="font-medium text-ink-900 underline decoration-ink-300 underline-offset-3 hover:text-film-teal hover:decoration-film-teal"
+        className="inline-block min-w-28 font-medium text-ink-900 underline decoration-ink-300 underline-offset-3 hover:text-film-teal hover:decoration-film-teal"
       >
         {c.getValue()}
       </Link>
@@ -62,7 +62,7 @@ const columns = [
     id: "program",
     header: "Program",
     cell: (c) => (
-      <span className="inline-flex flex-wrap items-center gap-1.5">
+      <span className="inline-flex min-w-32 flex-wrap items-center gap-1.5">
         <Link
           to={paths.program(c.row.original.program.id)}
           className="text-ink-700 hover:text-film-teal hover:underline"
@@ -80,6 +80,7 @@ const columns = [
   col.accessor((r) => r.latestRevision.number, {
     id: "revision",
     header: "Rev.",
+    meta: { className: wide },
     cell: (c) => <span className="font-mono tabular">r{c.getValue()}</span>,
   }),
   col.accessor((r) => r.latestRevision.status, {
@@ -89,7 +90,12 @@ const columns = [
       revisionStatuses.indexOf(a.original.latestRevision.status) -
       revisionStatuses.indexOf(b.original.latestRevision.status),
     filterFn: (row, _id, value: string) => !value || row.original.latestRevision.status === value,
-    cell: (c) => <StatusPill status={c.getValue()} />,
+    cell: (c) => (
+      <span className="inline-flex flex-wrap items-center gap-1.5">
+        <span className="font-mono text-sm tabular lg:hidden">r{c.row.original.latestRevision.number}</span>
+        <StatusPill status={c.getValue()} />
+      </span>
+    ),
   }),
   col.accessor((r) => r.latestRevision.authorName, {
     id: "author",
@@ -113,9 +119,11 @@ const columns = [
       const r = c.row.original;
       if (r.openThreads === 0) return <span className="text-sm text-ink-300">none</span>;
       return (
-        <span className="inline-flex items-center gap-1.5 text-sm whitespace-nowrap">
+        <span className="inline-flex flex-wrap items-center gap-1.5 text-sm">
           {r.openBlockingThreads > 0 && <Badge tone="fail">{r.openBlockingThreads} blocking</Badge>}
-          <span className="font-mono text-xs text-ink-500 tabular">{r.openThreads} open</span>
+          <span className="font-mono text-xs whitespace-nowrap text-ink-500 tabular">
+            {r.openThreads} open
+          </span>
         </span>
       );
     },

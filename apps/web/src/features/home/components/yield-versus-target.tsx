@@ -1,4 +1,4 @@
-import { formatTarget, formatYield } from "../../../lib/format.ts";
+import { formatPercent, formatTarget } from "../../../lib/format.ts";
 import type { YieldEstimate } from "../../../lib/types.ts";
 import { cx } from "../../../components/ui/cx.ts";
 
@@ -21,23 +21,25 @@ export function YieldVersusTarget({ estimate, target, className }: YieldVersusTa
   const straddles = pass && estimate.low < target;
   return (
     <span
-      className={cx(
-        "inline-flex items-baseline gap-1.5 font-mono text-sm tabular whitespace-nowrap",
-        className,
-      )}
+      className={cx("inline-flex flex-wrap items-baseline gap-x-1.5 font-mono text-sm tabular", className)}
       title={straddles ? "At the target, but the lower end of the interval is below it." : undefined}
     >
-      <span
-        aria-hidden
-        className={cx(
-          "inline-block h-2 w-2 self-center rounded-full",
-          pass ? "bg-verdict-pass" : "bg-verdict-fail",
-        )}
-      />
       <span className={cx("font-semibold", pass ? "text-verdict-pass" : "text-verdict-fail")}>
-        {formatYield(estimate)}
+        <span className="whitespace-nowrap">
+          <span
+            aria-hidden
+            className={cx(
+              "mr-1.5 inline-block h-2 w-2 rounded-full",
+              pass ? "bg-verdict-pass" : "bg-verdict-fail",
+            )}
+          />
+          {formatPercent(estimate.yield)}
+        </span>{" "}
+        <span className="whitespace-nowrap">
+          ({(estimate.low * 100).toFixed(1)}–{(estimate.high * 100).toFixed(1)})
+        </span>
       </span>
-      <span className="text-xs text-ink-500">/ target {formatTarget(target)}</span>
+      <span className="text-xs whitespace-nowrap text-ink-500">/ target {formatTarget(target)}</span>
       <span className="sr-only">{pass ? "meets the target" : "below the target"}</span>
     </span>
   );
