@@ -137,7 +137,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
       quantity: m.quantity,
       wavelengths: m.wavelengths,
       values: m.values,
-      color: m.kind === "measured" ? "#b3362d" : "#13233a",
+      color: m.kind === "measured" ? "#0b1524" : "#6a4fa3",
       dashed: m.kind === "fitted",
     });
   }
@@ -271,7 +271,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
                 changedLayers={changedLayers}
               />
             </section>
-            <section ref={tabsRef} className="min-w-0 rounded-lg border border-ink-100 bg-white p-3">
+            <section ref={tabsRef} className="min-w-0 rounded-lg border border-ink-100 bg-white p-3" style={{ contentVisibility: "auto", containIntrinsicSize: "auto 900px" }}>
               <div role="tablist" aria-label="Workspace tools" className="mb-3 flex flex-wrap gap-1 border-b border-ink-100">
                 {tabs.map((t) => (
                   <button

@@ -162,8 +162,8 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
 });
 
 function DifferenceChart({ m, model, fitted, width }: { m: MeasuredSpectrum; model: number[]; fitted: number[] | null; width: number }) {
-  const mg = { top: 8, right: 10, bottom: 34, left: 44 };
-  const height = 150;
+  const mg = { top: 8, right: 10, bottom: 44, left: 44 };
+  const height = 160;
   const iw = Math.max(10, width - mg.left - mg.right);
   const ih = height - mg.top - mg.bottom;
   const diff = m.values.map((v, i) => v - (model[i] ?? 0));

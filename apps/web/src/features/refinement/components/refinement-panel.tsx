@@ -24,6 +24,7 @@ export const RefinementPanel = memo(function RefinementPanel(props: RefinementPa
   const [mode, setMode] = useState<"nominal" | "yield">("nominal");
   const [marginGoal, setMarginGoal] = useState("0.1");
   const [iterations, setIterations] = useState("30");
+  const [maxChange, setMaxChange] = useState("30");
   const [state, setState] = useState<{ s: "idle" } | { s: "running"; started: number } | { s: "done"; out: Outcome } | { s: "error"; message: string }>({ s: "idle" });
   const abort = useRef<AbortController | null>(null);
 
@@ -34,7 +35,11 @@ export const RefinementPanel = memo(function RefinementPanel(props: RefinementPa
     props.onPreview(null);
     const goal = Number(marginGoal);
     const maxIterations = Math.max(1, Math.min(200, Math.round(Number(iterations)) || 30));
-    const options = { marginGoal: Number.isFinite(goal) && goal >= 0 ? goal : 0.1, maxIterations };
+    // Each layer stays within ±maxChange % of its current thickness: an unbounded search can grow a layer that is
+    // nearly index-matched to its neighbour without limit, which no chamber would deposit.
+    const f = Math.max(1, Math.min(100, Number(maxChange) || 30)) / 100;
+    const layerBounds = props.design.layers.map((l, index) => ({ index, min: l.thickness * (1 - f), max: l.thickness * (1 + f) }));
+    const options = { marginGoal: Number.isFinite(goal) && goal >= 0 ? goal : 0.1, maxIterations, layerBounds };
     try {
       const out: Outcome =
         mode === "nominal"
@@ -72,7 +77,7 @@ export const RefinementPanel = memo(function RefinementPanel(props: RefinementPa
       <h2 id="refine-h" className="text-base font-semibold">
         Refinement
       </h2>
-      <p className="text-xs text-ink-600 text-ink-700">Adjusts the thickness of unlocked layers (material and order stay). Locked layers are kept.</p>
+      <p className="text-xs text-ink-700">Adjusts the thickness of unlocked layers (material and order stay). Locked layers are kept.</p>
       <div className="flex flex-wrap items-end gap-3 text-xs text-ink-700">
         <fieldset className="flex gap-3">
           <legend className="sr-only">Objective</legend>
@@ -86,6 +91,10 @@ export const RefinementPanel = memo(function RefinementPanel(props: RefinementPa
         <label className="w-28">
           Margin goal
           <input className={field} value={marginGoal} onChange={(e) => setMarginGoal(e.target.value)} inputMode="decimal" />
+        </label>
+        <label className="w-28">
+          Max change (±%)
+          <input className={field} value={maxChange} onChange={(e) => setMaxChange(e.target.value)} inputMode="decimal" />
         </label>
         <label className="w-24">
           Iterations

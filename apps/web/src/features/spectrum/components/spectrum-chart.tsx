@@ -1,7 +1,7 @@
 // Spectrum chart: plain, non-animated SVG built from visx primitives. Curves of R/T/A (percent) or OD against
 // wavelength, forbidden regions of the spec mask, violations on the curve, envelopes, review markers, a hover
 // and keyboard readout, and drag-to-select a wavelength range.
-import { useCallback, useId, useMemo, useRef, useState } from "react";
+import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
 import type { KeyboardEvent, PointerEvent } from "react";
 import { scaleLinear } from "@visx/scale";
 import { LinePath, Area } from "@visx/shape";
@@ -175,8 +175,7 @@ export function SpectrumChart(props: SpectrumChartProps) {
         data-testid="spectrum-chart"
       >
         <Group left={MARGIN.left} top={MARGIN.top}>
-          <GridRows scale={y} width={innerW} stroke="#e3e8ef" numTicks={5} />
-          <GridColumns scale={x} height={innerH} stroke="#eef1f5" numTicks={8} />
+          <ChartGrid x={x} y={y} innerW={innerW} innerH={innerH} />
           {visibleRegions.map((r) => {
             const x0 = x(Math.max(domain.start, r.start));
             const x1 = x(Math.min(domain.stop, r.stop));
@@ -224,7 +223,7 @@ export function SpectrumChart(props: SpectrumChartProps) {
           {envelopes
             .filter((e) => shown.has(e.quantity))
             .flatMap((e) =>
-              segments(e.wavelengths).map(([a, b], k) => (
+              segments(e.wavelengths).filter(([a, b]) => b > a).map(([a, b], k) => (
                 <Area<number>
                   key={`${e.id}-${k}`}
                   data={range(a, b)}
@@ -271,8 +270,7 @@ export function SpectrumChart(props: SpectrumChartProps) {
             />
           ) : null}
           {cursorW !== null ? <line x1={x(cursorW)} x2={x(cursorW)} y1={0} y2={innerH} stroke="#13233a" strokeDasharray="2 2" /> : null}
-          <AxisLeft scale={y} numTicks={5} label={yLabel} labelOffset={30} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "end", dx: -2, dy: 3 }} stroke="#5a708f" tickStroke="#5a708f" labelProps={{ fontSize: 11, fill: "#2c4669", textAnchor: "middle" }} />
-          <AxisBottom top={innerH} scale={x} numTicks={Math.max(3, Math.floor(innerW / 90))} label="Wavelength (nm)" labelOffset={10} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" tickStroke="#5a708f" labelProps={{ fontSize: 11, fill: "#2c4669", textAnchor: "middle" }} />
+          <ChartAxes x={x} y={y} innerW={innerW} innerH={innerH} yLabel={yLabel} />
         </Group>
       </svg>
       {readout ? (
@@ -301,6 +299,32 @@ export function SpectrumChart(props: SpectrumChartProps) {
     </figure>
   );
 }
+
+type LinearScale = ReturnType<typeof scaleLinear<number>>;
+
+// Axes and grid depend only on the scales: memoised, with constant label props, so that an edit of the curve does
+// not re-measure tick labels (visx Text measures them with the DOM, which forces a layout).
+const TICK_LEFT = { fontSize: 10, fill: "#2c4669", textAnchor: "end", dx: -2, dy: 3 } as const;
+const TICK_BOTTOM = { fontSize: 10, fill: "#2c4669", textAnchor: "middle" } as const;
+const AXIS_LABEL = { fontSize: 11, fill: "#2c4669", textAnchor: "middle" } as const;
+
+const ChartGrid = memo(function ChartGrid({ x, y, innerW, innerH }: { x: LinearScale; y: LinearScale; innerW: number; innerH: number }) {
+  return (
+    <>
+      <GridRows scale={y} width={innerW} stroke="#e3e8ef" numTicks={5} />
+      <GridColumns scale={x} height={innerH} stroke="#eef1f5" numTicks={8} />
+    </>
+  );
+});
+
+const ChartAxes = memo(function ChartAxes({ x, y, innerW, innerH, yLabel }: { x: LinearScale; y: LinearScale; innerW: number; innerH: number; yLabel: string }) {
+  return (
+    <>
+      <AxisLeft scale={y} numTicks={5} label={yLabel} labelOffset={30} tickLabelProps={TICK_LEFT} stroke="#5a708f" tickStroke="#5a708f" labelProps={AXIS_LABEL} />
+      <AxisBottom top={innerH} scale={x} numTicks={Math.max(3, Math.floor(innerW / 90))} label="Wavelength (nm)" labelOffset={10} tickLabelProps={TICK_BOTTOM} stroke="#5a708f" tickStroke="#5a708f" labelProps={AXIS_LABEL} />
+    </>
+  );
+});
 
 function nearestIndexFor(c: ChartCurve, w: number): number {
   const wl = c.wavelengths;

@@ -126,7 +126,7 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
           </p>
         ) : null}
       </div>
-      <div ref={ref} className="w-full">
+      <div ref={ref} className="w-full" style={{ contain: "layout paint" }}>
         {live.ok ? (
           <SpectrumChart
             width={width}

@@ -23,11 +23,17 @@ export function ImportExport({
     setState({ busy: true, message: null, error: false });
     try {
       const r = await importDesign(file);
-      onImported(r.stack, r.warnings);
+      // A CSV holds layers only: keep this design's media, substrate and λ0 (the server filled in defaults).
+      const csv = /\.csv$/i.test(file.name) || file.type === "text/csv";
+      const next = csv
+        ? { ...design, layers: r.stack.layers.map((l) => (l.locked ? l : { material: l.material, thickness: l.thickness })) }
+        : r.stack;
+      onImported(next, r.warnings);
+      const notes = csv ? ["layers replaced; media, substrate and reference wavelength kept"] : r.warnings;
       setState({
         busy: false,
         error: false,
-        message: `Imported ${r.stack.layers.length} layers from ${file.name}${r.warnings.length ? ` — ${r.warnings.join("; ")}` : ""}. Undo restores the previous stack.`,
+        message: `Imported ${r.stack.layers.length} layers from ${file.name} — ${notes.join("; ")}. Undo restores the previous stack.`,
       });
     } catch (e) {
       setState({ busy: false, error: true, message: `Could not import ${file.name}: ${e instanceof Error ? e.message : String(e)}` });

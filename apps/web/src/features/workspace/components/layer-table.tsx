@@ -63,7 +63,7 @@ export function LayerTable(props: LayerTableProps) {
     if (!wantFocus.current) return;
     wantFocus.current = false;
     const el = gridRef.current?.querySelector<HTMLElement>(`[data-cell="${activeRow}:${active.col}"]`);
-    el?.focus();
+    if (el && document.activeElement !== el) el.focus();
   }, [activeRow, active.col, editing, rowCount]);
 
   const moveTo = (row: number, col: number) => {
@@ -188,7 +188,8 @@ export function LayerTable(props: LayerTableProps) {
   const layer = (r: number) => design.layers[r];
 
   return (
-    <div className="overflow-auto rounded-md border border-ink-100" style={{ maxHeight: 420 }}>
+    // Layout containment: an edit relayouts the table's box, not the whole page.
+    <div className="overflow-auto rounded-md border border-ink-100" style={{ maxHeight: 420, contain: "layout paint" }}>
       <table
         ref={gridRef}
         role="grid"
