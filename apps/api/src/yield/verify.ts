@@ -18,6 +18,18 @@ export const ClientResultSchema = z
   .loose();
 export type ClientResult = z.infer<typeof ClientResultSchema>;
 
+/** What verification compares (a parsed ClientResult, or any YieldResult). */
+export interface ComparableResult {
+  trials: number;
+  seed: string;
+  passCount: number;
+  yield: number;
+  interval: { low: number; high: number };
+  bandFailures: { id: string; count: number }[];
+  errorModel: ErrorModel;
+  engineVersion?: string;
+}
+
 export interface Verification {
   verified: boolean;
   /** Every difference found, as one sentence; null when verified. */
@@ -31,7 +43,7 @@ export interface Verification {
  */
 export function verifyClientResult(
   server: YieldResult,
-  client: ClientResult,
+  client: ComparableResult,
   run: { trials: number; seed: string; errorModel: ErrorModel },
 ): Verification {
   const reasons: string[] = [];
