@@ -112,8 +112,12 @@ export function Component() {
           description="Invitations, password resets and review notifications show up here."
         />
       ) : (
-        <div className="grid gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
-          <Card title="Captured e-mail" description={`${items.length} messages, newest first`} flush>
+        <div className="grid items-start gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
+          <Card
+            title="Captured e-mail"
+            description={`${items.length} ${items.length === 1 ? "message" : "messages"}, newest first`}
+            flush
+          >
             <ul className="max-h-[36rem] divide-y divide-ink-100 overflow-y-auto">
               {items.map((m) => (
                 <li key={m.id}>

@@ -9,8 +9,15 @@ export interface TransitionInput {
   yieldRunId?: string;
 }
 
+/** The server's answer: the revision after the move, the decision recorded, and the release filed (release only). */
+export interface TransitionResult {
+  revision: { id: string; status: string };
+  decision: { id: string; action: TransitionAction };
+  releaseId: string | null;
+}
+
 export const transitionRevision = (revisionId: string, input: TransitionInput) =>
-  api.post<unknown>(`/revisions/${encodeURIComponent(revisionId)}/transitions`, input);
+  api.post<TransitionResult>(`/revisions/${encodeURIComponent(revisionId)}/transitions`, input);
 
 /**
  * Moves a revision along the workflow. Afterwards everything that shows its state is refetched:

@@ -86,10 +86,12 @@ export function ReleaseGate({
   const [note, setNote] = useState("");
   const [noteError, setNoteError] = useState<string | undefined>();
   const [done, setDone] = useState<string | null>(null);
+  const [releaseId, setReleaseId] = useState<string | null>(null);
   const baseId = useId();
 
   const actions = availableActions(session, status, authorId, gate.data);
-  const release = useRevisionRelease(revisionId, status === "released" || status === "withdrawn").data;
+  const found = useRevisionRelease(revisionId, status === "released" || status === "withdrawn").data;
+  const release = releaseId ? { id: releaseId } : found;
 
   function open(spec: ActionSpec) {
     transition.reset();
@@ -109,9 +111,10 @@ export function ReleaseGate({
     transition.mutate(
       { action: spec.action, ...(note.trim() ? { note: note.trim() } : {}) },
       {
-        onSuccess: () => {
+        onSuccess: (result) => {
           setPending(null);
           setDone(`${spec.label}: done.`);
+          if (result?.releaseId) setReleaseId(result.releaseId);
           onTransition?.(spec.action);
         },
         onError: () => setPending(null),

@@ -27,7 +27,7 @@ function padded(lo: number, hi: number, pad = 0.08): [number, number] {
 }
 
 function Plot({ points, width, height, title }: DispersionChartProps & { width: number; height: number }) {
-  const margin = { top: 12, right: 58, bottom: 48, left: 58 };
+  const margin = { top: 12, right: 70, bottom: 48, left: 58 };
   const w = Math.max(0, width - margin.left - margin.right);
   const h = Math.max(0, height - margin.top - margin.bottom);
 
@@ -115,6 +115,7 @@ function Plot({ points, width, height, title }: DispersionChartProps & { width: 
               dy: 3,
             }}
             label="k"
+            labelOffset={44}
             labelProps={{ fill: K_COLOUR, fontSize: 13, fontWeight: 600, textAnchor: "middle" }}
           />
         )}
