@@ -93,7 +93,7 @@ function Comparison({
           r{a.number}: “{a.note}” · r{b.number}: “{b.note}”
         </p>
       </header>
-      <SpectrumPanel design={stackB} mask={b.specMask} view={view} onViewChange={setView} overlays={overlays} title={`Spectra of r${b.number} (solid) and r${a.number} (dashed)`} />
+      <SpectrumPanel design={stackB} mask={b.specMask} view={view} onViewChange={setView} overlays={overlays} title={`Spectra of r${b.number} (solid) and r${a.number} (dashed)`} primaryLabel={`r${b.number} (solid)`} />
       <section aria-labelledby="diff-h" className="rounded-lg border border-ink-100 bg-white p-3">
         <h2 id="diff-h" className="mb-2 text-base font-semibold">
           Layer changes from r{a.number} to r{b.number}

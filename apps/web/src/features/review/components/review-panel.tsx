@@ -3,7 +3,7 @@
 import { useState, memo } from "react";
 import type { FormEvent } from "react";
 import type { SpecBand } from "@stackproof/optics";
-import { useAddComment, useCreateThread, useSetThreadState, useThreads } from "../api/threads.ts";
+import { useAddComment, useCreateThread, useMembers, useSetThreadState, useThreads } from "../api/threads.ts";
 import type { ReviewThread, ThreadAnchor } from "../api/threads.ts";
 import { describeAnchor } from "../lib/anchors.ts";
 import { MentionTextarea } from "./mention-textarea.tsx";
@@ -202,6 +202,8 @@ function ThreadCard({ thread, bands, revisionId, revisionNumber, canModerate, cu
   const add = useAddComment(revisionId);
   const setState = useSetThreadState(revisionId);
   const mayToggle = canModerate || currentUserId === thread.author.id;
+  const members = useMembers();
+  const names = (members.data ?? []).flatMap((m) => [m.user.email, m.user.name]);
   const passes = thread.anchorPasses;
   return (
     <li className={`rounded-md border p-3 text-sm ${thread.status === "open" ? "border-ink-300 bg-white" : "border-ink-100 bg-paper opacity-80"}`} data-thread={thread.id} data-status={thread.status}>
@@ -222,7 +224,7 @@ function ThreadCard({ thread, bands, revisionId, revisionNumber, canModerate, cu
         {thread.comments.map((c) => (
           <li key={c.id}>
             <span className="text-xs font-semibold">{c.author.name}</span> <span className="text-xs text-ink-500">{new Date(c.createdAt).toLocaleString()}</span>
-            <p className="whitespace-pre-wrap">{highlightMentions(c.body)}</p>
+            <p className="whitespace-pre-wrap">{highlightMentions(c.body, names)}</p>
           </li>
         ))}
       </ul>
@@ -256,14 +258,35 @@ function ThreadCard({ thread, bands, revisionId, revisionNumber, canModerate, cu
   );
 }
 
-function highlightMentions(body: string) {
-  return body.split(/(@[\w.+-]+(?:@[\w.-]+)?)/g).map((part, i) =>
-    part.startsWith("@") ? (
-      <span key={i} className="rounded bg-film-teal/10 px-0.5 text-film-teal">
-        {part}
-      </span>
-    ) : (
+/** Marks "@name" and "@email" mentions of workspace members (names may contain spaces). */
+export function highlightMentions(body: string, names: readonly string[]) {
+  const known = [...names].filter(Boolean).sort((x, y) => y.length - x.length);
+  const out: (string | { mention: string })[] = [];
+  let i = 0;
+  let plain = "";
+  while (i < body.length) {
+    if (body[i] === "@" && (i === 0 || /\s|\(/.test(body[i - 1] ?? ""))) {
+      const rest = body.slice(i + 1);
+      const hit = known.find((n) => rest.toLowerCase().startsWith(n.toLowerCase())) ?? /^[\w.+-]+(?:@[\w.-]+)?/.exec(rest)?.[0];
+      if (hit) {
+        if (plain) out.push(plain);
+        plain = "";
+        out.push({ mention: "@" + rest.slice(0, hit.length) });
+        i += hit.length + 1;
+        continue;
+      }
+    }
+    plain += body[i];
+    i++;
+  }
+  if (plain) out.push(plain);
+  return out.map((part, k) =>
+    typeof part === "string" ? (
       part
+    ) : (
+      <span key={k} className="rounded bg-film-teal/10 px-0.5 text-film-teal">
+        {part.mention}
+      </span>
     ),
   );
 }

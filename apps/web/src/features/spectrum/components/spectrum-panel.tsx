@@ -26,6 +26,8 @@ export interface SpectrumPanelProps {
   onSelectRange?: (start: number, stop: number) => void;
   height?: number;
   title?: string;
+  /** legend text for the solid curves (e.g. the revision they belong to) */
+  primaryLabel?: string;
 }
 
 const inputCls =
@@ -146,7 +148,7 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
           </div>
         )}
       </div>
-      <Legend overlays={props.overlays ?? []} hasEnvelope={(props.envelopes ?? []).length > 0} />
+      <Legend overlays={props.overlays ?? []} hasEnvelope={(props.envelopes ?? []).length > 0} primaryLabel={props.primaryLabel} />
       {verdicts?.ok && mask ? (
         <ul className="mt-2 grid gap-1 text-xs sm:grid-cols-2" aria-label="Spec bands">
           {verdicts.bands.map((b) => {
@@ -170,11 +172,19 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
   );
 }
 
-function Legend({ overlays, hasEnvelope }: { overlays: readonly ChartCurve[]; hasEnvelope: boolean }) {
+function Legend({ overlays, hasEnvelope, primaryLabel }: { overlays: readonly ChartCurve[]; hasEnvelope: boolean; primaryLabel?: string }) {
   return (
     <div className="mt-1 flex flex-wrap gap-x-4 gap-y-1 text-xs text-ink-700" aria-label="Legend">
+      {primaryLabel ? (
+        <span className="flex items-center gap-1.5">
+          <span className="inline-block h-0.5 w-4 bg-film-teal" aria-hidden /> {primaryLabel}
+        </span>
+      ) : null}
       <span className="flex items-center gap-1.5">
         <span className="inline-block h-3 w-4 bg-ink-500/20" aria-hidden /> forbidden by the mask
+      </span>
+      <span className="flex items-center gap-1.5">
+        <span className="inline-block w-4 border-t-2 border-dashed border-ink-700" aria-hidden /> limit on a band average
       </span>
       <span className="flex items-center gap-1.5">
         <span className="inline-block h-1 w-4 rounded bg-verdict-fail" aria-hidden /> violation
