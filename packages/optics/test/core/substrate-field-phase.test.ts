@@ -9,7 +9,7 @@ import {
   groupDelay,
 } from "../../src/core/index.ts";
 import { expectClose, stack } from "./helpers.ts";
-import { expPair, sincos } from "../../src/core/fastmath.ts";
+import { expPair, sincos } from "../../src/core/kernel.ts";
 
 describe("incoherent substrate", () => {
   it("equals the coherent result averaged over many substrate thicknesses (one fringe period)", () => {
