@@ -26,7 +26,7 @@ describe("design workspace (designer)", () => {
   it("opens a design at its latest revision", async () => {
     const { page } = browser;
     await page.goto(product.url);
-    await page.getByRole("link", { name: "Kestrel receiver bandpass" }).first().click();
+    await page.locator("table").getByRole("link", { name: "Kestrel receiver bandpass" }).click();
     await page.waitForURL(/\/designs\/[^/]+\/revisions\/[^/]+$/);
     await page.getByTestId("spectrum-chart").waitFor();
     await page.locator(curve).waitFor();
@@ -145,6 +145,26 @@ describe("design workspace (designer)", () => {
     console.log(`60 layers × 1000 wavelengths, edit → new curve in the page: median ${sorted[2]?.toFixed(1)} ms, min ${sorted[0]?.toFixed(1)} ms, all ${times.map((t) => t.toFixed(1)).join(", ")}`);
     await browser.screenshot("workspace-10-sixty-layers");
     fs.rmSync(path.dirname(file), { recursive: true, force: true });
+    expect(browser.consoleErrors).toEqual([]);
+  });
+
+  it("saves the edited stack as a new revision and compares it with the one before", async () => {
+    const { page } = browser;
+    const from = page.url();
+    await page.getByLabel("Note for the new revision").fill("Sixty-layer trial stack from the import");
+    await page.getByRole("button", { name: "Save as new revision" }).click();
+    await page.waitForURL((u) => u.href !== from && /\/revisions\//.test(u.pathname));
+    await page.getByRole("heading", { name: /Kestrel receiver bandpass/ }).getByText("r3").waitFor();
+    await page.getByTestId("unsaved").waitFor({ state: "detached" });
+    expect(await page.getByRole("grid", { name: /Layers/ }).getByRole("row").count()).toBe(61);
+
+    await page.getByRole("tab", { name: /Revisions/ }).click();
+    await page.getByLabel("Compare this revision with").selectOption({ label: "r2" });
+    await page.getByRole("button", { name: "Compare" }).click();
+    await page.waitForURL(/\/compare\?a=/);
+    await page.getByTestId("diff-summary").waitFor();
+    await page.locator('[data-curve^="a-"]').first().waitFor();
+    await browser.screenshot("workspace-11-compare");
     expect(browser.consoleErrors).toEqual([]);
   });
 });
