@@ -103,7 +103,7 @@ export function Component() {
                       <td className="px-2 py-2">{e.summary}</td>
                       <td className="px-4 py-2 font-mono text-xs text-ink-500">
                         {e.action}
-                        <span className="block text-[11px] text-ink-300">
+                        <span className="block text-[11px] text-ink-500">
                           {e.subjectType} {e.subjectId.slice(0, 10)}
                         </span>
                       </td>

@@ -5,11 +5,14 @@ import { MyQueue } from "../../features/home/components/my-queue.tsx";
 import { OverviewTable } from "../../features/home/components/overview-table.tsx";
 import { queryClient } from "../../lib/query-client.ts";
 import { useSession } from "../../lib/session.ts";
+import { programsQueryOptions } from "../../features/programs/api/get-programs.ts";
+import { ProgramList } from "../../features/programs/components/program-list.tsx";
 
 /** Start both requests at once; the page renders its own loading and error states. */
 export function loader() {
   void queryClient.prefetchQuery(overviewQueryOptions());
   void queryClient.prefetchQuery(queueQueryOptions());
+  void queryClient.prefetchQuery(programsQueryOptions());
   return null;
 }
 
@@ -43,6 +46,12 @@ export function Component() {
         ) : (
           <OverviewTable rows={overview.data.items} />
         )}
+      </Card>
+      <Card
+        title="Programs"
+        description="Each program sets the spec mask, the error model and the target yield its designs are held to."
+      >
+        <ProgramList />
       </Card>
     </div>
   );

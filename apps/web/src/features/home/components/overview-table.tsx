@@ -117,7 +117,7 @@ const columns = [
     header: "Open threads",
     cell: (c) => {
       const r = c.row.original;
-      if (r.openThreads === 0) return <span className="text-sm text-ink-300">none</span>;
+      if (r.openThreads === 0) return <span className="text-sm text-ink-500">none</span>;
       return (
         <span className="inline-flex flex-wrap items-center gap-1.5 text-sm">
           {r.openBlockingThreads > 0 && <Badge tone="fail">{r.openBlockingThreads} blocking</Badge>}
