@@ -122,7 +122,8 @@ export function SensitivityHeatmap({ map, width, materials }: { map: Sensitivity
     return `rgb(${Math.round(255 + (r - 255) * a)},${Math.round(255 + (g - 255) * a)},${Math.round(255 + (b - 255) * a)})`;
   };
   const x = scaleLinear<number>({ domain: [map.wavelengths[0] ?? 0, map.wavelengths[cols - 1] ?? 1], range: [0, iw] });
-  const yLayer = scaleLinear<number>({ domain: [0, layers], range: [ih, 0] });
+  // layer L (1-based) sits at the centre of row L − 1
+  const yLayer = scaleLinear<number>({ domain: [0.5, layers + 0.5], range: [ih, 0] });
   return (
     <div>
       <svg width={width} height={ih + m.top + m.bottom} role="img" aria-label={`Sensitivity of ${map.quantity} to each layer's thickness across wavelength`} data-testid="sensitivity-heatmap">
@@ -147,7 +148,7 @@ export function SensitivityHeatmap({ map, width, materials }: { map: Sensitivity
               )
             }
           </HeatmapRect>
-          <AxisLeft scale={yLayer} numTicks={Math.min(8, layers)} label="Layer" labelOffset={28} tickFormat={(v) => String(Math.round(Number(v)))} tickLabelProps={{ ...tick, textAnchor: "end", dx: -2, dy: 3 }} labelProps={label} stroke="#5a708f" />
+          <AxisLeft scale={yLayer} numTicks={Math.min(8, layers)} label="Layer" labelOffset={28} tickValues={layerTicks(layers)} tickFormat={(v) => String(v)} tickLabelProps={{ ...tick, textAnchor: "end", dx: -2, dy: 3 }} labelProps={label} stroke="#5a708f" />
           <AxisBottom top={ih} scale={x} numTicks={6} label="Wavelength (nm)" labelOffset={10} tickLabelProps={{ ...tick, textAnchor: "middle" }} labelProps={label} stroke="#5a708f" />
         </Group>
       </svg>
@@ -156,4 +157,12 @@ export function SensitivityHeatmap({ map, width, materials }: { map: Sensitivity
       </p>
     </div>
   );
+}
+
+/** Whole layer numbers for the heatmap axis, at most about eight of them. */
+function layerTicks(layers: number): number[] {
+  const step = Math.max(1, Math.ceil(layers / 8));
+  const out: number[] = [];
+  for (let l = 1; l <= layers; l += step) out.push(l);
+  return out;
 }
