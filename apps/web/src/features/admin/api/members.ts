@@ -11,7 +11,7 @@ export interface Member {
 
 export const getMembers = () => api.get<Page<Member>>("/members", { query: { limit: 200 } });
 
-export const membersQueryOptions = () => queryOptions({ queryKey: ["members"], queryFn: getMembers });
+export const membersQueryOptions = () => queryOptions({ queryKey: ["members", "page"], queryFn: getMembers });
 
 export const useMembers = () => useQuery(membersQueryOptions());
 

@@ -15,6 +15,6 @@ export interface MaterialItem {
 export const getMaterials = () => api.get<{ items: MaterialItem[] }>("/materials");
 
 export const materialsQueryOptions = () =>
-  queryOptions({ queryKey: ["materials"], queryFn: getMaterials, staleTime: 60_000 });
+  queryOptions({ queryKey: ["materials", "library"], queryFn: getMaterials, staleTime: 60_000 });
 
 export const useMaterials = () => useQuery(materialsQueryOptions());
