@@ -654,6 +654,7 @@ export class PolKernel {
     }
   }
 
+  /** Complex path, two wavelengths per pass (independent chains, as vecReal). */
   private vecComplex(d: Float64Array): void {
     const t = this.t;
     const L = t.L;
@@ -661,15 +662,23 @@ export class PolKernel {
     const pk = t.packC;
     const rl = t.realLayer;
     const oBr = this.aR, oBi = this.aI, oCr = this.cR, oCi = this.cI, osc = this.sc;
-    for (let w = 0; w < W; w++) {
+    for (let w = 0; w < W; w += 2) {
+      const w2 = w + 1 < W ? w + 1 : w;
       let Br = 1;
       let Bi = 0;
       let Cr = t.etaSR[w]!;
       let Ci = t.etaSI[w]!;
+      let Br2 = 1;
+      let Bi2 = 0;
+      let Cr2 = t.etaSR[w2]!;
+      let Ci2 = t.etaSI[w2]!;
       let acc = 0;
+      let acc2 = 0;
       let nsc = 0;
+      let nsc2 = 0;
       let k = 6 * w * L;
-      for (let j = 0; j < L; j++, k += 6) {
+      let k2 = 6 * w2 * L;
+      for (let j = 0; j < L; j++, k += 6, k2 += 6) {
         const dj = d[j]!;
         const x = pk[k]! * dj;
         let y = pk[k + 1]! * dj;
@@ -685,6 +694,20 @@ export class PolKernel {
         const qs = QUAD_S[qd]!;
         const sa = sp * qc + cp * qs;
         const ca = cp * qc - sp * qs;
+        const x2 = pk[k2]! * dj;
+        let y2 = pk[k2 + 1]! * dj;
+        if (y2 < -MAX_DECAY) y2 = -MAX_DECAY;
+        // sin, cos of x2
+        const nq2 = x2 * TWO_OVER_PI + RND - RND;
+        const r2 = x2 - nq2 * PIO2_1 - nq2 * PIO2_1T;
+        const z2 = r2 * r2;
+        const sp2 = r2 + r2 * z2 * (S1 + z2 * (S2 + z2 * (S3 + z2 * (S4 + z2 * (S5 + z2 * S6)))));
+        const cp2 = 1 - 0.5 * z2 + z2 * z2 * (C1 + z2 * (C2 + z2 * (C3 + z2 * (C4 + z2 * (C5 + z2 * C6)))));
+        const qd2 = (nq2 | 0) & 3;
+        const qc2 = QUAD_C[qd2]!;
+        const qs2 = QUAD_S[qd2]!;
+        const sa2 = sp2 * qc2 + cp2 * qs2;
+        const ca2 = cp2 * qc2 - sp2 * qs2;
         if (rl[j] === 1) {
           // lossless, propagating layer inside an absorbing stack: real matrix elements
           const a = sa * pk[k + 4]!;
@@ -697,6 +720,16 @@ export class PolKernel {
           Bi = rBi;
           Cr = rCr;
           Ci = rCi;
+          const a2 = sa2 * pk[k2 + 4]!;
+          const b2 = sa2 * pk[k2 + 2]!;
+          const rBr2 = ca2 * Br2 - a2 * Ci2;
+          const rBi2 = ca2 * Bi2 + a2 * Cr2;
+          const rCr2 = ca2 * Cr2 - b2 * Bi2;
+          const rCi2 = ca2 * Ci2 + b2 * Br2;
+          Br2 = rBr2;
+          Bi2 = rBi2;
+          Cr2 = rCr2;
+          Ci2 = rCi2;
           continue;
         }
         // cosh, sinh of y
@@ -728,6 +761,35 @@ export class PolKernel {
         Bi = nBi;
         Cr = nCr;
         Ci = nCi;
+        // cosh, sinh of y2
+        const nn2 = y2 * LOG2E + RND - RND;
+        const ry2 = y2 - nn2 * LN2_HI - nn2 * LN2_LO;
+        const zy2 = ry2 * ry2;
+        const ev2 = 1 + zy2 * (E1 + zy2 * (E2 + zy2 * (E3 + zy2 * (E4 + zy2 * (E5 + zy2 * E6)))));
+        const od2 = ry2 * (1 + zy2 * (O1 + zy2 * (O2 + zy2 * (O3 + zy2 * (O4 + zy2 * (O5 + zy2 * O6))))));
+        const ni2 = nn2 | 0;
+        const ep2 = (ev2 + od2) * POW2[POW2_OFFSET + ni2]!;
+        const em2 = (ev2 - od2) * POW2[POW2_OFFSET - ni2]!;
+        const ch2 = 0.5 * (ep2 + em2);
+        const sh2 = 0.5 * (ep2 - em2);
+        // cos δ = ca2 ch2 − i sa2 sh2 ; i sin δ = −ca2 sh2 + i sa2 ch2
+        const csr2 = ca2 * ch2;
+        const csi2 = -sa2 * sh2;
+        const isr2 = -ca2 * sh2;
+        const isi2 = sa2 * ch2;
+        const er2 = pk[k2 + 2]!, ei2 = pk[k2 + 3]!, ir2 = pk[k2 + 4]!, ii2 = pk[k2 + 5]!;
+        const m12r2 = isr2 * ir2 - isi2 * ii2;
+        const m12i2 = isr2 * ii2 + isi2 * ir2;
+        const m21r2 = isr2 * er2 - isi2 * ei2;
+        const m21i2 = isr2 * ei2 + isi2 * er2;
+        const nBr2 = csr2 * Br2 - csi2 * Bi2 + m12r2 * Cr2 - m12i2 * Ci2;
+        const nBi2 = csr2 * Bi2 + csi2 * Br2 + m12r2 * Ci2 + m12i2 * Cr2;
+        const nCr2 = m21r2 * Br2 - m21i2 * Bi2 + csr2 * Cr2 - csi2 * Ci2;
+        const nCi2 = m21r2 * Bi2 + m21i2 * Br2 + csr2 * Ci2 + csi2 * Cr2;
+        Br2 = nBr2;
+        Bi2 = nBi2;
+        Cr2 = nCr2;
+        Ci2 = nCi2;
         acc += y;
         if (acc < -MAX_DECAY) {
           Br *= RESCALE;
@@ -737,12 +799,26 @@ export class PolKernel {
           acc += RESCALE_LOG;
           nsc++;
         }
+        acc2 += y2;
+        if (acc2 < -MAX_DECAY) {
+          Br2 *= RESCALE;
+          Bi2 *= RESCALE;
+          Cr2 *= RESCALE;
+          Ci2 *= RESCALE;
+          acc2 += RESCALE_LOG;
+          nsc2++;
+        }
       }
       oBr[w] = Br;
       oBi[w] = Bi;
       oCr[w] = Cr;
       oCi[w] = Ci;
       osc[w] = nsc;
+      oBr[w2] = Br2;
+      oBi[w2] = Bi2;
+      oCr[w2] = Cr2;
+      oCi[w2] = Ci2;
+      osc[w2] = nsc2;
     }
   }
 
