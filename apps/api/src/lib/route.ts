@@ -1,6 +1,6 @@
 // Declares a route once: zod validation of params, query and body, the role guard, and its OpenAPI entry.
-import type { Request, Response, Router } from "express";
-import { z } from "zod";
+import type { Request, RequestHandler, Response, Router } from "express";
+import type { z } from "zod";
 import type { Role } from "../db/schema.ts";
 import { requireAuth, requireRole } from "../auth/guards.ts";
 import { HttpError, zodDetails } from "./errors.ts";
@@ -27,7 +27,7 @@ export interface RouteSpec<P extends z.ZodType, Q extends z.ZodType, B extends z
   /** Request is multipart/form-data (the body schema then describes the text fields). */
   multipart?: boolean;
   /** Middleware to run after the guard and before validation (e.g. multer). */
-  before?: import("express").RequestHandler[];
+  before?: RequestHandler[];
   /** Non-success statuses this route documents, with a reason. */
   errors?: Record<number, string>;
 }
