@@ -822,6 +822,7 @@ export class PolKernel {
     }
   }
 
+  /** Complex path with q and η recomputed from N·f, two wavelengths per pass. */
   private vecScaled(d: Float64Array, scale: Float64Array): void {
     const t = this.t;
     const L = t.L;
@@ -829,19 +830,29 @@ export class PolKernel {
     const n2 = t.packN2;
     const p = t.pol === "p";
     const oBr = this.aR, oBi = this.aI, oCr = this.cR, oCi = this.cI, osc = this.sc;
-    for (let w = 0; w < W; w++) {
+    for (let w = 0; w < W; w += 2) {
+      const w2 = w + 1 < W ? w + 1 : w;
       let Br = 1;
       let Bi = 0;
       let Cr = t.etaSR[w]!;
       let Ci = t.etaSI[w]!;
+      let Br2 = 1;
+      let Bi2 = 0;
+      let Cr2 = t.etaSR[w2]!;
+      let Ci2 = t.etaSI[w2]!;
       const ss = t.s2[w]!;
       const kw = t.k0[w]!;
+      const ss2 = t.s2[w2]!;
+      const kw2 = t.k0[w2]!;
       let acc = 0;
       let nsc = 0;
+      let acc2 = 0;
+      let nsc2 = 0;
       const base = w * L;
+      const base2 = w2 * L;
       for (let j = 0; j < L; j++) {
-        const i = base + j;
         const f2 = scale[j]! * scale[j]!;
+        const i = base + j;
         const Nr = n2[2 * i]! * f2;
         const Ni = n2[2 * i + 1]! * f2;
         // q = forward √(N² − s²). Im N² = −2nk ≤ 0 (n > 0, k ≥ 0, scale > 0), so the principal
@@ -912,6 +923,77 @@ export class PolKernel {
         Bi = nBi;
         Cr = nCr;
         Ci = nCi;
+        const i2 = base2 + j;
+        const Nr2 = n2[2 * i2]! * f2;
+        const Ni2 = n2[2 * i2 + 1]! * f2;
+        // q = forward √(N² − s²). Im N² = −2nk ≤ 0 (n > 0, k ≥ 0, scale > 0), so the principal
+        // root already decays (Im q ≤ 0) when Re(N² − s²) ≥ 0; otherwise take (−Im/2u, −u2).
+        // u2 is floored so that q → 0 gives the correct limit sin δ / η → k0 d.
+        const zr2 = Nr2 - ss2;
+        const rr2 = Math.sqrt(zr2 * zr2 + Ni2 * Ni2);
+        let u2 = Math.sqrt(0.5 * (rr2 + Math.abs(zr2)));
+        if (u2 < 1e-150) u2 = 1e-150;
+        const h2 = (0.5 * Ni2) / u2;
+        const qr2 = zr2 >= 0 ? u2 : -h2;
+        const qi2 = zr2 >= 0 ? h2 : -u2;
+        const iq22 = 1 / (qr2 * qr2 + qi2 * qi2);
+        let er2: number;
+        let ei2: number;
+        let ir2: number;
+        let ii2: number;
+        if (p) {
+          // η = N²/q = N² q̄ /|q|², 1/η = q/N² = q N̄² / |N²|²
+          er2 = (Nr2 * qr2 + Ni2 * qi2) * iq22;
+          ei2 = (Ni2 * qr2 - Nr2 * qi2) * iq22;
+          const iN42 = 1 / (Nr2 * Nr2 + Ni2 * Ni2);
+          ir2 = (qr2 * Nr2 + qi2 * Ni2) * iN42;
+          ii2 = (qi2 * Nr2 - qr2 * Ni2) * iN42;
+        } else {
+          er2 = qr2;
+          ei2 = qi2;
+          ir2 = qr2 * iq22;
+          ii2 = -qi2 * iq22;
+        }
+        const kd2 = kw2 * d[j]!;
+        const x2 = qr2 * kd2;
+        let y2 = qi2 * kd2;
+        if (y2 < -MAX_DECAY) y2 = -MAX_DECAY;
+        const nq2 = x2 * TWO_OVER_PI + RND - RND;
+        const r2 = x2 - nq2 * PIO2_1 - nq2 * PIO2_1T;
+        const z2 = r2 * r2;
+        const sp2 = r2 + r2 * z2 * (S1 + z2 * (S2 + z2 * (S3 + z2 * (S4 + z2 * (S5 + z2 * S6)))));
+        const cp2 = 1 - 0.5 * z2 + z2 * z2 * (C1 + z2 * (C2 + z2 * (C3 + z2 * (C4 + z2 * (C5 + z2 * C6)))));
+        const qd2 = (nq2 | 0) & 3;
+        const qc2 = QUAD_C[qd2]!;
+        const qs2 = QUAD_S[qd2]!;
+        const sa2 = sp2 * qc2 + cp2 * qs2;
+        const ca2 = cp2 * qc2 - sp2 * qs2;
+        const nn2 = y2 * LOG2E + RND - RND;
+        const ry2 = y2 - nn2 * LN2_HI - nn2 * LN2_LO;
+        const zy2 = ry2 * ry2;
+        const ev2 = 1 + zy2 * (E1 + zy2 * (E2 + zy2 * (E3 + zy2 * (E4 + zy2 * (E5 + zy2 * E6)))));
+        const od2 = ry2 * (1 + zy2 * (O1 + zy2 * (O2 + zy2 * (O3 + zy2 * (O4 + zy2 * (O5 + zy2 * O6))))));
+        const nI2 = nn2 | 0;
+        const ep2 = (ev2 + od2) * POW2[POW2_OFFSET + nI2]!;
+        const em2 = (ev2 - od2) * POW2[POW2_OFFSET - nI2]!;
+        const ch2 = 0.5 * (ep2 + em2);
+        const sh2 = 0.5 * (ep2 - em2);
+        const csr2 = ca2 * ch2;
+        const csi2 = -sa2 * sh2;
+        const isr2 = -ca2 * sh2;
+        const isi2 = sa2 * ch2;
+        const m12r2 = isr2 * ir2 - isi2 * ii2;
+        const m12i2 = isr2 * ii2 + isi2 * ir2;
+        const m21r2 = isr2 * er2 - isi2 * ei2;
+        const m21i2 = isr2 * ei2 + isi2 * er2;
+        const nBr2 = csr2 * Br2 - csi2 * Bi2 + m12r2 * Cr2 - m12i2 * Ci2;
+        const nBi2 = csr2 * Bi2 + csi2 * Br2 + m12r2 * Ci2 + m12i2 * Cr2;
+        const nCr2 = m21r2 * Br2 - m21i2 * Bi2 + csr2 * Cr2 - csi2 * Ci2;
+        const nCi2 = m21r2 * Bi2 + m21i2 * Br2 + csr2 * Ci2 + csi2 * Cr2;
+        Br2 = nBr2;
+        Bi2 = nBi2;
+        Cr2 = nCr2;
+        Ci2 = nCi2;
         acc += y;
         if (acc < -MAX_DECAY) {
           Br *= RESCALE;
@@ -921,12 +1003,26 @@ export class PolKernel {
           acc += RESCALE_LOG;
           nsc++;
         }
+        acc2 += y2;
+        if (acc2 < -MAX_DECAY) {
+          Br2 *= RESCALE;
+          Bi2 *= RESCALE;
+          Cr2 *= RESCALE;
+          Ci2 *= RESCALE;
+          acc2 += RESCALE_LOG;
+          nsc2++;
+        }
       }
       oBr[w] = Br;
       oBi[w] = Bi;
       oCr[w] = Cr;
       oCi[w] = Ci;
       osc[w] = nsc;
+      oBr[w2] = Br2;
+      oBi[w2] = Bi2;
+      oCr[w2] = Cr2;
+      oCi[w2] = Ci2;
+      osc[w2] = nsc2;
     }
   }
 
