@@ -160,6 +160,41 @@ describe("frame: pages", () => {
     await page.getByRole("heading", { name: "Waiting for your review" }).waitFor();
   });
 
+  it("a forgotten password is reset from the mailed link", async () => {
+    const { page } = browser;
+    await page.goto(`${product.url}/sign-in`);
+    await page.getByRole("link", { name: "Forgot your password?" }).click();
+    await page.getByLabel("E-mail").fill(DEMO.reviewer);
+    const [answer] = await Promise.all([
+      page.waitForResponse((r) => r.url().endsWith("/api/v1/auth/password-reset")),
+      page.getByRole("button", { name: "Send reset link" }).click(),
+    ]);
+    expect(answer.status()).toBe(202);
+    await page.getByText("Check your inbox").waitFor();
+    await browser.screenshot("frame-18-forgot-password-sent");
+
+    // The captured mail is read by someone signed in (here the admin), as in a demo.
+    await signInAs(page, product.url, DEMO.admin);
+    await page.goto(`${product.url}/outbox`);
+    await page.getByRole("button", { name: /reset/i }).first().click();
+    const link = page.getByTestId("outbox-text").getByRole("link", { name: /reset-password/ });
+    const href = new URL((await link.getAttribute("href"))!);
+    await browser.context.clearCookies();
+
+    await page.goto(`${product.url}${href.pathname}${href.search}`);
+    await page.getByLabel("New password", { exact: true }).fill("short");
+    await page.getByRole("button", { name: "Set password" }).click();
+    await page.getByText("Use at least 10 characters.").waitFor();
+    await page.getByLabel("New password", { exact: true }).fill("reviewer-new-passphrase");
+    await page.getByLabel("Repeat the new password").fill("reviewer-new-passphrase");
+    await page.getByRole("button", { name: "Set password" }).click();
+    await page.getByText("Password changed").waitFor();
+    await browser.screenshot("frame-19-password-changed");
+
+    await signInAs(page, product.url, DEMO.reviewer, "reviewer-new-passphrase");
+    expect(await page.getByTestId("signed-in-as").innerText()).toContain("Tobiah Renwick");
+  });
+
   it("the overview fits a tablet (820 px) without sideways scrolling", async () => {
     const tablet = await browser.context.newPage();
     await tablet.setViewportSize({ width: 820, height: 1180 });
