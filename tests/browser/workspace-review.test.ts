@@ -68,6 +68,20 @@ describe("review threads (reviewer)", () => {
     await page.locator('[data-layer-row="2"] [aria-label="open review thread"]').waitFor();
   });
 
+  it("starts a thread from a spec band beside the chart", async () => {
+    const { page } = browser;
+    await page.getByRole("button", { name: "Thread: Excitation reflection" }).click();
+    const form = page.getByRole("form", { name: "Start a review thread" });
+    await expect.poll(() => form.getByLabel("Pinned to").inputValue()).toBe("band");
+    await expect.poll(() => form.getByLabel(/^Band/).inputValue()).toBe("reflect");
+    await form.getByLabel("Severity").selectOption("advisory");
+    await form.getByRole("combobox", { name: /Comment/ }).fill("Average passes, but the 485 nm end sits close to the edge at 45°.");
+    await form.getByRole("button", { name: "Start thread" }).click();
+    const card = page.locator("[data-thread]").filter({ hasText: "Band Excitation reflection" });
+    await card.waitFor();
+    expect(await card.locator("[data-anchor-passes]").getAttribute("data-anchor-passes")).toBe("true");
+  });
+
   it("resolves a thread and finds it under all threads", async () => {
     const { page } = browser;
     const card = page.locator("[data-thread]").filter({ hasText: "Layer 3" });

@@ -101,6 +101,8 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
   const range = useMemo(() => ({ start: view.settings.start, stop: view.settings.stop }), [view.settings.start, view.settings.stop]);
   const savedStack = useMemo(() => withWorkspaceMaterials(revision.stack, materials), [revision.stack, materials]);
   const threadLayers = useMemo(() => openLayerThreads(threads.data ?? []), [threads.data]);
+  const canThread = hasRole(session, "reviewer", "approver", "designer");
+  const bandAction = useMemo(() => ({ label: "Thread", onPick: (bandId: string) => setProposed({ kind: "band", bandId }) }), []);
   const onTransition = useCallback(() => void qc.invalidateQueries({ queryKey: ["designs", design.id] }), [qc, design.id]);
   const focusThread = useCallback((t: { anchor: ThreadAnchor }) => {
     if (t.anchor.kind === "layer") setSelected(t.anchor.index);
@@ -239,6 +241,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
             envelopes={envelopes}
             markers={markers}
             onSelectRange={(start, stop) => setProposed({ kind: "range", start, stop })}
+            bandAction={canThread ? bandAction : undefined}
           />
           {proposed?.kind === "range" ? (
             <p className="text-xs text-ink-700" role="status">

@@ -28,6 +28,8 @@ export interface SpectrumPanelProps {
   title?: string;
   /** legend text for the solid curves (e.g. the revision they belong to) */
   primaryLabel?: string;
+  /** offered beside each band (e.g. "start a review thread on this band") */
+  bandAction?: { label: string; onPick: (bandId: string) => void };
 }
 
 const inputCls =
@@ -163,6 +165,16 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
                   margin {b.margin.toFixed(2)}
                   {band?.quantity === "OD" ? "" : " %"} · {band?.angleDeg}° {band?.polarization}
                 </span>
+                {props.bandAction ? (
+                  <button
+                    type="button"
+                    className="rounded border border-film-violet/40 px-1.5 text-film-violet hover:bg-film-violet/10"
+                    aria-label={`${props.bandAction.label}: ${band?.label ?? b.id}`}
+                    onClick={() => props.bandAction?.onPick(b.id)}
+                  >
+                    {props.bandAction.label}
+                  </button>
+                ) : null}
               </li>
             );
           })}
