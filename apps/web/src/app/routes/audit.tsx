@@ -35,6 +35,7 @@ export function Component() {
 
   return (
     <div className="flex flex-col gap-6">
+      <title>Audit log · Stackproof</title>
       <header>
         <h1 className="text-2xl font-semibold tracking-tight">Audit log</h1>
         <p className="mt-1 text-sm text-ink-700">

@@ -21,6 +21,7 @@ export function Component() {
   const overview = useOverview();
   return (
     <div className="flex flex-col gap-6">
+      <title>Overview · Stackproof</title>
       <header>
         <h1 className="text-2xl font-semibold tracking-tight">Overview</h1>
         <p className="mt-1 text-sm text-ink-700">

@@ -103,6 +103,7 @@ export function Component() {
 
   return (
     <div className="flex flex-col gap-6">
+      <title>Materials · Stackproof</title>
       <header>
         <h1 className="text-2xl font-semibold tracking-tight">Materials</h1>
         <p className="mt-1 text-sm text-ink-700">

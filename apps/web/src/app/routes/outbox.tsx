@@ -102,6 +102,7 @@ export function Component() {
 
   return (
     <div className="flex flex-col gap-6">
+      <title>Outbox · Stackproof</title>
       <header className="flex flex-col gap-3">
         <h1 className="text-2xl font-semibold tracking-tight">Outbox</h1>
         {intro}

@@ -139,6 +139,7 @@ export function Component() {
 
   return (
     <div className="flex flex-col gap-6">
+      <title>People · Stackproof</title>
       <header>
         <h1 className="text-2xl font-semibold tracking-tight">People</h1>
         <p className="mt-1 text-sm text-ink-700">

@@ -75,6 +75,7 @@ export function Component() {
 
   return (
     <div className="flex flex-col gap-6">
+      <title>{`${p.name} · Stackproof`}</title>
       <nav aria-label="Breadcrumb" className="text-sm text-ink-500">
         <Link to={paths.home} className="hover:underline">
           Overview

@@ -19,6 +19,11 @@ export function Component() {
   const release = useRelease(releaseId);
   return (
     <div className="min-h-screen bg-paper-deep print:bg-white">
+      <title>
+        {release.data
+          ? `Release record ${release.data.design.name} r${release.data.revision.number} · Stackproof`
+          : "Release record · Stackproof"}
+      </title>
       <div className="no-print sticky top-0 z-10 bg-ink-900 text-ink-100">
         <div className="mx-auto flex max-w-[210mm] flex-wrap items-center gap-3 px-4 py-2">
           <Link to={paths.home} aria-label="Back to the Stackproof overview">

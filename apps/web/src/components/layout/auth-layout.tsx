@@ -13,6 +13,7 @@ export interface AuthLayoutProps {
 export function AuthLayout({ title, intro, children, footer }: AuthLayoutProps) {
   return (
     <div className="grid min-h-screen md:grid-cols-[minmax(0,5fr)_minmax(0,7fr)]">
+      <title>{`${typeof title === "string" ? title : "Sign in"} · Stackproof`}</title>
       <div className="relative hidden overflow-hidden bg-ink-900 px-10 py-12 text-ink-100 md:flex md:flex-col">
         <Brand />
         <div className="mt-auto max-w-sm">

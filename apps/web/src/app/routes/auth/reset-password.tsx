@@ -40,13 +40,13 @@ export function Component() {
   return (
     <AuthLayout
       title="Choose a new password"
-      intro={<p>The link works once. Other sessions of your account stay as they are.</p>}
+      intro={<p>The link works once. Setting a new password signs your account out everywhere.</p>}
       footer={back}
     >
       {confirm.isSuccess ? (
         <div className="flex flex-col gap-4">
           <Notice tone="success" title="Password changed">
-            Sign in with your new password.
+            You were signed out on every device. Sign in with your new password.
           </Notice>
           <ButtonLink to={paths.signIn} variant="primary">
             Sign in
