@@ -1,5 +1,5 @@
 // Creating revisions (immutable content + content hash) and the JSON views of programs, designs and revisions.
-import { and, desc, eq, max } from "drizzle-orm";
+import { and, count, desc, eq, inArray, max } from "drizzle-orm";
 import { SpecMaskSchema, evaluateSpec, type SpecMask, type YieldResult } from "@stackproof/optics";
 import { designs, revisions, threads, yieldRuns } from "../db/schema.ts";
 import type { DbOrTx } from "../lib/audit.ts";
@@ -193,43 +193,108 @@ export function latestVerifiedRun(db: DbOrTx, revisionId: string) {
 
 /** One row of the home table for a design. */
 export function overviewRow(db: DbOrTx, design: DesignRow, program: ProgramRow) {
-  const latest = db
-    .select()
+  return overviewRows(db, [{ design, program }])[0];
+}
+
+/**
+ * Rows of the home table, one per design in the order given, from a fixed number of queries (latest revisions,
+ * open threads, verified runs of the latest revisions, author names) whatever the number of designs.
+ */
+export function overviewRows(db: DbOrTx, rows: readonly { design: DesignRow; program: ProgramRow }[]) {
+  if (rows.length === 0) return [];
+  const designIds = [...new Set(rows.map((r) => r.design.id))];
+  const latestNumbers = db
+    .select({ designId: revisions.designId, latestNumber: max(revisions.number).as("latest_number") })
     .from(revisions)
-    .where(eq(revisions.designId, design.id))
-    .orderBy(desc(revisions.number))
-    .get();
-  const open = db
-    .select({ severity: threads.severity })
+    .where(inArray(revisions.designId, designIds))
+    .groupBy(revisions.designId)
+    .as("latest_numbers");
+  const latestByDesign = new Map<string, RevisionRow>();
+  for (const r of db
+    .select({ revision: revisions })
+    .from(revisions)
+    .innerJoin(
+      latestNumbers,
+      and(eq(latestNumbers.designId, revisions.designId), eq(latestNumbers.latestNumber, revisions.number)),
+    )
+    .all()) {
+    latestByDesign.set(r.revision.designId, r.revision);
+  }
+  const openByDesign = new Map<string, { open: number; blocking: number }>();
+  for (const t of db
+    .select({ designId: threads.designId, severity: threads.severity, n: count() })
     .from(threads)
-    .where(and(eq(threads.designId, design.id), eq(threads.status, "open")))
-    .all();
-  const run = latest ? latestVerifiedRun(db, latest.id) : null;
-  const result = run?.result as YieldResult | undefined;
-  const names = userNames(db, latest ? [latest.authorId] : []);
-  return {
-    design: { id: design.id, name: design.name },
-    program: {
-      id: program.id,
-      name: program.name,
-      targetYield: program.targetYield,
-      protective: program.protective,
-    },
-    latestRevision: latest
-      ? {
-          id: latest.id,
-          number: latest.number,
-          status: latest.status,
-          authorName: person(names, latest.authorId)?.name ?? "",
-          createdAt: latest.createdAt.toISOString(),
-        }
-      : null,
-    latestVerifiedYield: result
-      ? { yield: result.yield, low: result.interval.low, high: result.interval.high, runId: run?.id ?? null }
-      : null,
-    openBlockingThreads: open.filter((t) => t.severity === "blocking").length,
-    openThreads: open.length,
-  };
+    .where(and(inArray(threads.designId, designIds), eq(threads.status, "open")))
+    .groupBy(threads.designId, threads.severity)
+    .all()) {
+    const c = openByDesign.get(t.designId) ?? { open: 0, blocking: 0 };
+    c.open += t.n;
+    if (t.severity === "blocking") c.blocking += t.n;
+    openByDesign.set(t.designId, c);
+  }
+  const latestIds = [...latestByDesign.values()].map((r) => r.id);
+  // Newest done, verified run of each latest revision (same order as latestVerifiedRun): ids first, then results.
+  const newestRun = new Map<string, string>();
+  if (latestIds.length > 0) {
+    for (const r of db
+      .select({ id: yieldRuns.id, revisionId: yieldRuns.revisionId })
+      .from(yieldRuns)
+      .where(
+        and(
+          inArray(yieldRuns.revisionId, latestIds),
+          eq(yieldRuns.status, "done"),
+          eq(yieldRuns.verified, true),
+        ),
+      )
+      .orderBy(desc(yieldRuns.finishedAt), desc(yieldRuns.id))
+      .all()) {
+      if (!newestRun.has(r.revisionId)) newestRun.set(r.revisionId, r.id);
+    }
+  }
+  const results = new Map<string, YieldResult>();
+  if (newestRun.size > 0) {
+    for (const r of db
+      .select({ id: yieldRuns.id, result: yieldRuns.result })
+      .from(yieldRuns)
+      .where(inArray(yieldRuns.id, [...newestRun.values()]))
+      .all()) {
+      if (r.result) results.set(r.id, r.result as YieldResult);
+    }
+  }
+  const names = userNames(
+    db,
+    [...latestByDesign.values()].map((r) => r.authorId),
+  );
+  return rows.map(({ design, program }) => {
+    const latest = latestByDesign.get(design.id);
+    const runId = latest ? newestRun.get(latest.id) : undefined;
+    const result = runId ? results.get(runId) : undefined;
+    const open = openByDesign.get(design.id) ?? { open: 0, blocking: 0 };
+    return {
+      design: { id: design.id, name: design.name },
+      program: {
+        id: program.id,
+        name: program.name,
+        targetYield: program.targetYield,
+        protective: program.protective,
+      },
+      latestRevision: latest
+        ? {
+            id: latest.id,
+            number: latest.number,
+            status: latest.status,
+            authorName: person(names, latest.authorId)?.name ?? "",
+            createdAt: latest.createdAt.toISOString(),
+          }
+        : null,
+      latestVerifiedYield:
+        result && runId
+          ? { yield: result.yield, low: result.interval.low, high: result.interval.high, runId }
+          : null,
+      openBlockingThreads: open.blocking,
+      openThreads: open.open,
+    };
+  });
 }
 
 export function programDesigns(db: DbOrTx, program: ProgramRow): DesignRow[] {

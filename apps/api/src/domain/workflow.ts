@@ -55,14 +55,28 @@ const pct = (x: number) => `${(x * 100).toFixed(1)} %`;
 
 /** The release gate of a revision for the signed-in member. `yieldRunId` pins the yield check to one run. */
 export function evaluateGate(db: DbOrTx, rc: RevisionContext, auth: AuthContext, yieldRunId?: string): Gate {
-  const { revision, program } = rc;
-  const target = program.targetYield;
   const runs = db
     .select()
     .from(yieldRuns)
-    .where(eq(yieldRuns.revisionId, revision.id))
+    .where(eq(yieldRuns.revisionId, rc.revision.id))
     .orderBy(desc(yieldRuns.createdAt), desc(yieldRuns.id))
     .all();
+  return gateOf(rc, auth, runs, openBlockingThreads(db, rc), yieldRunId);
+}
+
+/**
+ * The gate from rows already loaded: `runs` are the revision's yield runs, newest first (by createdAt, id);
+ * `blocking` the open blocking threads that count against it. Lists load these in bulk and call this directly.
+ */
+export function gateOf(
+  rc: RevisionContext,
+  auth: AuthContext,
+  runs: readonly YieldRunRow[],
+  blocking: readonly { revisionNumber: number }[],
+  yieldRunId?: string,
+): Gate {
+  const { revision, program } = rc;
+  const target = program.targetYield;
   const qualifies = (r: YieldRunRow) =>
     r.status === "done" &&
     r.verified === true &&
@@ -129,7 +143,6 @@ export function evaluateGate(db: DbOrTx, rc: RevisionContext, auth: AuthContext,
     }
   }
 
-  const blocking = openBlockingThreads(db, rc);
   const blockingCheck: GateCheck =
     blocking.length === 0
       ? { id: "blocking_threads", ok: true, message: "No open blocking thread on this design." }

@@ -1,25 +1,19 @@
 // Designs, revisions, diffs, design import, the home overview and the per-role queue.
 import type { Router } from "express";
-import { and, desc, eq, inArray } from "drizzle-orm";
+import { eq } from "drizzle-orm";
 import { z } from "zod";
 import { DESIGN_FORMAT, MATERIAL_LIBRARY } from "@stackproof/optics";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
-import { designs, programs, revisions } from "../../db/schema.ts";
+import { designs, programs } from "../../db/schema.ts";
 import { recordAudit } from "../../lib/audit.ts";
 import { HttpError } from "../../lib/errors.ts";
 import { route } from "../../lib/route.ts";
 import { diffStacks } from "../../domain/diff.ts";
-import { loadDesign, loadRevision, stackOf, type RevisionContext } from "../../domain/load.ts";
+import { loadDesign, loadRevision, stackOf } from "../../domain/load.ts";
 import { resolveDesign, workspaceMaterials } from "../../domain/materials.ts";
-import {
-  createRevision,
-  designView,
-  overviewRow,
-  revisionSummary,
-  revisionView,
-} from "../../domain/revisions.ts";
-import { evaluateGate } from "../../domain/workflow.ts";
+import { createRevision, designView, overviewRows, revisionView } from "../../domain/revisions.ts";
+import { workQueue } from "../../domain/queue.ts";
 import { parseLayerCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
 import {
@@ -32,23 +26,6 @@ import {
 } from "./schemas.ts";
 
 const TAG = "Designs and revisions";
-
-/** Every revision of the workspace with its design and program, newest first. */
-function workspaceRevisions(ctx: AppContext, workspaceId: string, statuses: string[]): RevisionContext[] {
-  return ctx.db
-    .select({ revision: revisions, design: designs, program: programs })
-    .from(revisions)
-    .innerJoin(designs, eq(revisions.designId, designs.id))
-    .innerJoin(programs, eq(designs.programId, programs.id))
-    .where(
-      and(
-        eq(programs.workspaceId, workspaceId),
-        inArray(revisions.status, statuses as (typeof revisions.$inferSelect.status)[]),
-      ),
-    )
-    .orderBy(desc(revisions.statusChangedAt), desc(revisions.createdAt))
-    .all();
-}
 
 export function designRoutes(ctx: AppContext, router: Router): void {
   route(
@@ -70,7 +47,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         .where(eq(programs.workspaceId, auth.workspaceId))
         .orderBy(programs.name, designs.name)
         .all();
-      return { items: rows.map((r) => overviewRow(ctx.db, r.design, r.program)) };
+      return { items: overviewRows(ctx.db, rows) };
     },
   );
 
@@ -89,30 +66,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         readyForRelease: z.array(RevisionSummarySchema),
       }),
     },
-    ({ req }) => {
-      const auth = getAuth(req);
-      const has = (r: string) => auth.roles.some((x) => x === r);
-      const changes = has("designer")
-        ? workspaceRevisions(ctx, auth.workspaceId, ["changes_requested"]).filter(
-            (rc) => rc.revision.authorId === auth.user.id,
-          )
-        : [];
-      const inReview = workspaceRevisions(ctx, auth.workspaceId, ["in_review"]);
-      const review = has("reviewer") ? inReview.filter((rc) => rc.revision.authorId !== auth.user.id) : [];
-      const decision = has("approver")
-        ? inReview.filter((rc) => {
-            const gate = evaluateGate(ctx.db, rc, auth);
-            return gate.checks.every((c) => c.ok);
-          })
-        : [];
-      const release = has("approver") ? workspaceRevisions(ctx, auth.workspaceId, ["approved"]) : [];
-      return {
-        changesRequested: revisionSummary(ctx.db, changes),
-        reviewRequested: revisionSummary(ctx.db, review),
-        readyForDecision: revisionSummary(ctx.db, decision),
-        readyForRelease: revisionSummary(ctx.db, release),
-      };
-    },
+    ({ req }) => workQueue(ctx.db, getAuth(req)),
   );
 
   route(

@@ -13,7 +13,7 @@ import { loadProgram } from "../../domain/load.ts";
 import {
   createRevision,
   designView,
-  overviewRow,
+  overviewRows,
   programDesigns,
   programView,
   revisionView,
@@ -124,7 +124,10 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       const program = loadProgram(ctx.db, auth.workspaceId, params.id);
       return {
         ...programView(program),
-        designs: programDesigns(ctx.db, program).map((d) => overviewRow(ctx.db, d, program)),
+        designs: overviewRows(
+          ctx.db,
+          programDesigns(ctx.db, program).map((design) => ({ design, program })),
+        ),
       };
     },
   );
