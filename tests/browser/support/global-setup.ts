@@ -1,8 +1,19 @@
-// Before the integration suites: the built web app must exist, and the browser must be installed.
+// Before the integration suites: the browser must be installed and the built web app must be current.
 import fs from "node:fs";
 import path from "node:path";
 import { execFileSync } from "node:child_process";
 import { CHROMIUM_PATH, repoRoot } from "./paths.ts";
+
+/** Newest modification time of any file under `dir` (0 when it does not exist). */
+function newest(dir: string): number {
+  if (!fs.existsSync(dir)) return 0;
+  let latest = 0;
+  for (const entry of fs.readdirSync(dir, { withFileTypes: true, recursive: true })) {
+    if (!entry.isFile()) continue;
+    latest = Math.max(latest, fs.statSync(path.join(entry.parentPath, entry.name)).mtimeMs);
+  }
+  return latest;
+}
 
 export default function setup(): void {
   if (!fs.existsSync(CHROMIUM_PATH)) {
@@ -12,7 +23,14 @@ export default function setup(): void {
     );
   }
   const index = path.join(repoRoot, "apps/web/dist/index.html");
-  if (!fs.existsSync(index)) {
+  const built = fs.existsSync(index) ? fs.statSync(index).mtimeMs : 0;
+  const sources = Math.max(
+    newest(path.join(repoRoot, "apps/web/src")),
+    newest(path.join(repoRoot, "packages/optics/src")),
+    fs.statSync(path.join(repoRoot, "apps/web/index.html")).mtimeMs,
+  );
+  // A stale build would test yesterday's app: rebuild when any source is newer than the build.
+  if (sources > built) {
     execFileSync("pnpm", ["--filter", "@stackproof/web", "build"], { cwd: repoRoot, stdio: "inherit" });
   }
 }
