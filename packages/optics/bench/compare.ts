@@ -130,17 +130,28 @@ export function compareKernels(options: ComparisonOptions = {}): { rows: Compari
   const bestC = new Map<string, number>();
   const bestTs = new Map<string, number>();
   let deviation = new Map<string, number>();
-  for (let r = 0; r < rounds; r++) {
-    if (cBin) {
-      const args = [String(M), String(L), String(W), String(reps)];
-      const dumpFile = resolve(buildDir, "dump.txt");
-      if (r === 0) args.push("--dump", dumpFile);
-      const text = execFileSync(cBin, args, { encoding: "utf8" });
-      if (r === 0) deviation = checkAgainstDump(readFileSync(dumpFile, "utf8"));
-      for (const [mode, v] of parseC(text)) bestC.set(mode, Math.max(bestC.get(mode) ?? 0, v));
-    }
+  const runC = (r: number): void => {
+    if (!cBin) return;
+    const args = [String(M), String(L), String(W), String(reps)];
+    const dumpFile = resolve(buildDir, "dump.txt");
+    if (r === 0) args.push("--dump", dumpFile);
+    const text = execFileSync(cBin, args, { encoding: "utf8" });
+    if (r === 0) deviation = checkAgainstDump(readFileSync(dumpFile, "utf8"));
+    for (const [mode, v] of parseC(text)) bestC.set(mode, Math.max(bestC.get(mode) ?? 0, v));
+  };
+  const runTs = (): void => {
     const ts: KernelBenchRow[] = runKernelBenchmark({ trials: M, layers: L, wavelengths: W, reps });
     for (const row of ts) bestTs.set(row.mode, Math.max(bestTs.get(row.mode) ?? 0, row.evalsPerSecond));
+  };
+  // alternate which side goes first, so a load change within a round does not favour one side
+  for (let r = 0; r < rounds; r++) {
+    if (r % 2 === 0) {
+      runC(r);
+      runTs();
+    } else {
+      runTs();
+      runC(r);
+    }
   }
   const rows: ComparisonRow[] = [...bestTs].map(([mode, tsv]) => {
     const c = bestC.get(mode);
