@@ -2,6 +2,7 @@ import { afterEach, describe, expect, it, vi } from "vitest";
 import { render, screen, within } from "@testing-library/react";
 import userEvent from "@testing-library/user-event";
 import { QueryClientProvider } from "@tanstack/react-query";
+import { MemoryRouter } from "react-router";
 import { ReleaseGate } from "./release-gate.tsx";
 import { createQueryClient } from "../../../lib/query-client.ts";
 import type { Role } from "../../../lib/session.ts";
@@ -43,7 +44,9 @@ function setup(
   });
   render(
     <QueryClientProvider client={createQueryClient()}>
-      <ReleaseGate revisionId="rev1" designId="d1" status={status} authorId="u-designer" />
+      <MemoryRouter>
+        <ReleaseGate revisionId="rev1" designId="d1" status={status} authorId="u-designer" />
+      </MemoryRouter>
     </QueryClientProvider>,
   );
   return stub;
@@ -139,5 +142,30 @@ describe("ReleaseGate", () => {
     expect(calls.some((c) => c.method === "POST")).toBe(false);
     await user.keyboard("{Escape}");
     expect(screen.queryByRole("dialog")).not.toBeInTheDocument();
+  });
+
+  it("after release, links the filed record and drops the no longer relevant state check", async () => {
+    const released = {
+      checks: [
+        ...clearGate.checks.filter((c) => c.id !== "state"),
+        {
+          id: "state",
+          ok: false,
+          message: "The revision is released; only a revision in review can be approved.",
+        },
+      ],
+      canApprove: false,
+      canRelease: false,
+    };
+    setup(["approver"], "released", released, {
+      "GET /api/v1/releases": { items: [{ id: "rel9", revision: { id: "rev1" } }], nextCursor: null },
+    });
+    const link = await screen.findByRole("link", { name: "Open the release record" });
+    expect(link).toHaveAttribute("href", "/releases/rel9");
+    const list = screen.getByRole("list", { name: "Sign-off conditions" });
+    expect(list.querySelector('[data-check="state"]')).toBeNull();
+    // An approver may still withdraw a released revision; nothing else is offered.
+    expect(screen.getByRole("button", { name: "Withdraw" })).toBeEnabled();
+    expect(screen.queryByRole("button", { name: "Release" })).not.toBeInTheDocument();
   });
 });

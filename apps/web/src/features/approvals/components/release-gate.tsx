@@ -90,7 +90,8 @@ export function ReleaseGate({
   const baseId = useId();
 
   const actions = availableActions(session, status, authorId, gate.data);
-  const found = useRevisionRelease(revisionId, status === "released" || status === "withdrawn").data;
+  const closed = status === "released" || status === "withdrawn";
+  const found = useRevisionRelease(revisionId, closed).data;
   const release = releaseId ? { id: releaseId } : found;
 
   function open(spec: ActionSpec) {
@@ -148,11 +149,22 @@ export function ReleaseGate({
         ) : gate.isError ? (
           <ErrorState error={gate.error} onRetry={() => void gate.refetch()} className="my-2" />
         ) : (
-          <ul aria-label="Sign-off conditions" className="divide-y divide-ink-100">
-            {gate.data.checks.map((c) => (
-              <CheckRow key={c.id} check={c} />
-            ))}
-          </ul>
+          <>
+            {closed && (
+              <p className="pt-2 text-xs text-ink-500">
+                {status === "released" ? "Released." : "Withdrawn."} The conditions as they stand today; the
+                release record keeps those at the time of release.
+              </p>
+            )}
+            <ul aria-label="Sign-off conditions" className="divide-y divide-ink-100">
+              {gate.data.checks
+                // After release or withdrawal "can it be signed off now?" no longer applies.
+                .filter((c) => !(closed && c.id === "state"))
+                .map((c) => (
+                  <CheckRow key={c.id} check={c} />
+                ))}
+            </ul>
+          </>
         )}
       </div>
       <div className="flex flex-col gap-3 border-t border-ink-100 bg-paper/50 px-4 py-3">
