@@ -15,8 +15,11 @@ const actionText: Record<string, string> = {
   withdraw: "Withdrawn",
 };
 
-function anchorText(a: ReleaseRecord["threads"]["items"][number]["anchor"]): string {
-  if (a.kind === "band") return `band ${a.bandId ?? "?"}`;
+function anchorText(
+  a: ReleaseRecord["threads"]["items"][number]["anchor"],
+  bandLabels: Map<string, string>,
+): string {
+  if (a.kind === "band") return `band ${bandLabels.get(a.bandId ?? "") ?? a.bandId ?? "?"}`;
   if (a.kind === "range") return `${a.start}–${a.stop} nm`;
   if (a.kind === "layer") return `layer ${(a.index ?? 0) + 1}`;
   return "whole design";
@@ -45,6 +48,7 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
   const outcomes = new Map(r.nominal.bands.map((b) => [b.id, b]));
   const failures = new Map((y?.bandFailures ?? []).map((b) => [b.id, b.count]));
   const stack = r.revision.stack;
+  const bandLabels = new Map(r.revision.specMask.bands.map((b) => [b.id, b.label ?? b.id]));
 
   return (
     <article
@@ -199,7 +203,8 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
 
       <Section title="Layer stack">
         <p className="mb-2 text-sm text-ink-700">
-          Light enters from <span className="font-mono">{stack.incident ?? "air"}</span>; layer 1 faces it.
+          Deposition order: layer 1 sits on the substrate; light arrives from{" "}
+          <span className="font-mono">{stack.incident ?? "air"}</span> on the last layer.
           {stack.referenceWavelength ? ` Reference wavelength ${stack.referenceWavelength} nm.` : ""}
         </p>
         <table className="w-full border-collapse text-sm">
@@ -227,7 +232,9 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
                 <td className={cx(td, "text-right font-mono tabular")}>
                   {stack.substrate.thicknessMm !== undefined ? `${stack.substrate.thicknessMm} mm` : "—"}
                 </td>
-                <td className={td}>substrate{stack.exit ? `, exit into ${stack.exit}` : ""}</td>
+                <td className={td}>
+                  substrate, under layer 1{stack.exit ? `; exit into ${stack.exit}` : ""}
+                </td>
               </tr>
             )}
           </tbody>
@@ -281,7 +288,7 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
             <tbody>
               {r.threads.items.map((t) => (
                 <tr key={t.id}>
-                  <td className={td}>{anchorText(t.anchor)}</td>
+                  <td className={td}>{anchorText(t.anchor, bandLabels)}</td>
                   <td className={td}>{t.severity}</td>
                   <td className={td}>{t.status}</td>
                   <td className={td}>{t.author?.name ?? "—"}</td>
