@@ -283,17 +283,41 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
     if (a.pending.length === 0 && a.inFlight === 0) void merge(a);
   }
 
+  /** Fails a run without throwing (a run must never be left running because storing its outcome threw). */
+  function failSafely(runId: string, error: string) {
+    try {
+      fail(runId, error);
+    } catch (err) {
+      console.error(`yield run ${runId}: could not be marked failed (${error}):`, err);
+    }
+  }
+
+  const messageOf = (err: unknown) => (err instanceof Error ? err.message : String(err));
+
   function onChunk(a: ActiveRun, reply: WorkerReply) {
     a.inFlight--;
     if (closed) return;
     if (a.stopped) return dispatch();
     if (!reply.ok) {
       a.stopped = true;
-      fail(a.run.id, `trials could not be computed: ${reply.error}`);
+      failSafely(a.run.id, `trials could not be computed: ${reply.error}`);
       return dispatch();
     }
-    if (!("chunk" in reply)) return dispatch();
-    const chunk = reply.chunk;
+    if (!("chunk" in reply)) {
+      a.stopped = true;
+      failSafely(a.run.id, "a worker answered a chunk without trials");
+      return dispatch();
+    }
+    try {
+      storeChunk(a, reply.chunk);
+    } catch (err) {
+      a.stopped = true;
+      failSafely(a.run.id, `trials could not be stored: ${messageOf(err)}`);
+    }
+    dispatch();
+  }
+
+  function storeChunk(a: ActiveRun, chunk: YieldChunk) {
     const stillRunning = db.transaction((tx) => {
       const row = tx
         .select({ status: yieldRuns.status, progressDone: yieldRuns.progressDone })
@@ -312,12 +336,22 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
       return true;
     });
     if (!stillRunning) a.stopped = true;
-    dispatch();
   }
 
   async function merge(a: ActiveRun) {
     a.stopped = true; // nothing more to dispatch for this run
     a.inFlight++;
+    try {
+      await mergeAndStore(a);
+    } catch (err) {
+      if (!closed) failSafely(a.run.id, `the result could not be stored: ${messageOf(err)}`);
+    } finally {
+      a.inFlight--;
+    }
+    if (!closed) finishActive();
+  }
+
+  async function mergeAndStore(a: ActiveRun) {
     const chunks = db
       .select({ data: yieldChunks.data })
       .from(yieldChunks)
@@ -329,10 +363,10 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
     let reply: WorkerReply;
     if (!pw) reply = { taskId: 0, ok: false, error: "no worker available" };
     else reply = await send(pw, { type: "merge", runId: a.run.id, study: a.study, chunks });
-    a.inFlight--;
     if (closed) return;
     if (!reply.ok) fail(a.run.id, `trials could not be merged: ${reply.error}`);
-    else if ("result" in reply) {
+    else if (!("result" in reply)) fail(a.run.id, "a worker answered the merge without a result");
+    else {
       const current = loadRun(a.run.id);
       if (current && current.status === "running") {
         db.transaction((tx) => {
@@ -354,7 +388,6 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
         });
       }
     }
-    finishActive();
   }
 
   // Start-up: runs a previous process left queued or running are resumed, or failed with the reason.
