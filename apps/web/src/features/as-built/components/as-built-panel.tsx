@@ -9,6 +9,7 @@ import { Bar, LinePath, Line } from "@visx/shape";
 import { AxisBottom, AxisLeft } from "@visx/axis";
 import { Group } from "@visx/group";
 import { runEngineJob } from "../../../workers/pool.ts";
+import { ApiError } from "../../../lib/api-client.ts";
 import { useMeasurements, useUploadMeasurement } from "../api/measurements.ts";
 import type { MeasuredSpectrum } from "../api/measurements.ts";
 
@@ -51,6 +52,8 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
   const [fit, setFit] = useState<{ s: "idle" } | { s: "running" } | { s: "done"; r: FitResult; id: string } | { s: "error"; message: string }>({ s: "idle" });
   const [form, setForm] = useState({ label: "", angleDeg: "0", polarization: "u" as "s" | "p" | "u", file: null as File | null });
   const [formError, setFormError] = useState<string | null>(null);
+  // Bumped after an upload so the file input forgets the file it held.
+  const [fileKey, setFileKey] = useState(0);
   const m = (list.data ?? []).find((x) => x.id === selected) ?? null;
   const model = useMemo(() => (m ? modelValues(props.design, m) : null), [m, props.design]);
 
@@ -66,14 +69,14 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
     e.preventDefault();
     const angle = Number(form.angleDeg);
     if (!form.file) return setFormError("Choose a CSV file (wavelength_nm,R or wavelength_nm,T in percent).");
-    if (!form.label.trim()) return setFormError("Give the measurement a label, e.g. the run number.");
     if (!(angle >= 0 && angle < 90)) return setFormError("The angle must be between 0 and 90°.");
     setFormError(null);
     upload.mutate(
-      { file: form.file, label: form.label.trim(), angleDeg: angle, polarization: form.polarization },
+      { file: form.file, label: form.label.trim() || defaultLabel(form.file.name), angleDeg: angle, polarization: form.polarization },
       {
         onSuccess: (created) => {
           setForm({ ...form, label: "", file: null });
+          setFileKey((k) => k + 1);
           if (created && typeof created === "object" && "id" in created && Array.isArray(created.wavelengths)) show(created);
         },
       },
@@ -130,11 +133,11 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
         <form onSubmit={submit} aria-label="Upload a measured spectrum" className="grid grid-cols-2 gap-2 rounded-md border border-ink-100 p-3 text-xs text-ink-700 md:grid-cols-5">
           <label className="md:col-span-2">
             CSV file (wavelength_nm,R or wavelength_nm,T, in %)
-            <input type="file" accept=".csv,text/csv" className={field} onChange={(e) => setForm({ ...form, file: e.target.files?.[0] ?? null })} />
+            <input key={fileKey} type="file" accept=".csv,text/csv" className={field} onChange={(e) => setForm({ ...form, file: e.target.files?.[0] ?? null })} />
           </label>
           <label>
             Label
-            <input className={field} value={form.label} onChange={(e) => setForm({ ...form, label: e.target.value })} />
+            <input className={field} value={form.label} placeholder={form.file ? defaultLabel(form.file.name) : "the file name"} onChange={(e) => setForm({ ...form, label: e.target.value })} />
           </label>
           <label>
             Angle (°)
@@ -155,11 +158,37 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
             {formError ? <span role="alert" className="text-verdict-fail">{formError}</span> : null}
             {upload.error ? <span role="alert" className="text-verdict-fail">{upload.error.message}</span> : null}
           </div>
+          {csvProblems(upload.error).length > 0 ? (
+            <ul className="col-span-2 list-disc space-y-0.5 pl-5 text-verdict-fail md:col-span-5" aria-label="Problems in the file">
+              {csvProblems(upload.error).map((d, i) => (
+                <li key={i}>
+                  line {d.row}
+                  {d.column && d.column !== "-" ? `, column ${d.column}` : ""}: {d.message}
+                </li>
+              ))}
+            </ul>
+          ) : null}
+          <p className="col-span-2 text-ink-500 md:col-span-5">Nothing is stored when the file has a problem; fix the lines listed and upload it again.</p>
         </form>
       ) : null}
     </section>
   );
 });
+
+/** The label the server would give: the file name without its extension. */
+function defaultLabel(fileName: string): string {
+  return fileName.replace(/\.[^.]+$/, "") || fileName;
+}
+
+/** Row and column of each CSV problem the server reported (422 invalid_csv). */
+function csvProblems(error: Error | null): { row: number; column: string; message: string }[] {
+  if (!(error instanceof ApiError) || !Array.isArray(error.details)) return [];
+  return error.details.flatMap((d: unknown) => {
+    if (!d || typeof d !== "object") return [];
+    const r = d as { row?: unknown; column?: unknown; message?: unknown };
+    return typeof r.row === "number" && typeof r.message === "string" ? [{ row: r.row, column: typeof r.column === "string" ? r.column : "-", message: r.message }] : [];
+  });
+}
 
 function DifferenceChart({ m, model, fitted, width }: { m: MeasuredSpectrum; model: number[]; fitted: number[] | null; width: number }) {
   const mg = { top: 8, right: 10, bottom: 44, left: 44 };

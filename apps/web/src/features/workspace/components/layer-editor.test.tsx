@@ -130,4 +130,24 @@ describe("layer editor", () => {
     await user.keyboard(" ");
     expect(latest?.present.layers[0]?.locked).toBe(true);
   });
+
+  it("keeps an unreadable thickness open with the reason instead of dropping it", async () => {
+    const user = userEvent.setup();
+    render(<Harness />);
+    const before = latest?.present.layers[1]?.thickness;
+    await user.click(cell(1, 2));
+    await user.keyboard("{Enter}");
+    const input = screen.getByRole("textbox", { name: "Thickness of layer 2 in nm" });
+    await user.clear(input);
+    await user.type(input, "99x{Enter}");
+    // Still editing, with the typed text and the reason; the layer is unchanged.
+    expect(screen.getByRole("textbox", { name: "Thickness of layer 2 in nm" })).toHaveProperty("value", "99x");
+    expect(input.getAttribute("aria-invalid")).toBe("true");
+    expect(screen.getByText(/Type a thickness in nm/)).toBeTruthy();
+    expect(latest?.present.layers[1]?.thickness).toBe(before);
+    await user.clear(input);
+    await user.type(input, "120{Enter}");
+    expect(latest?.present.layers[1]?.thickness).toBe(120);
+    expect(screen.queryByRole("textbox", { name: "Thickness of layer 2 in nm" })).toBeNull();
+  });
 });

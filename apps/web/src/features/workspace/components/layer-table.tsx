@@ -88,12 +88,23 @@ export function LayerTable(props: LayerTableProps) {
     setEditing({ row, col, draft });
   };
 
-  const commit = (move: 0 | 1 = 0) => {
+  /** Why the draft cannot be taken, or null when it can. */
+  const draftProblem = (ed: { col: ColId; draft: string }): string | null => {
+    if (ed.col === "material" || ed.col === "locked") return null;
+    const v = Number(ed.draft.trim().replace(",", "."));
+    if (ed.draft.trim() === "" || !Number.isFinite(v)) return ed.col === "thickness" ? "Type a thickness in nm, e.g. 108.75" : "Type a QWOT, e.g. 1 for a quarter wave";
+    if (v < 0) return "A thickness cannot be negative";
+    return null;
+  };
+
+  /** Takes the draft; an unreadable one keeps the editor open with its text and says why. */
+  const commit = (move: 0 | 1 = 0): boolean => {
     const editing = editRef.current;
-    if (!editing) return;
+    if (!editing) return true;
+    if (draftProblem(editing)) return false;
     const layer = design.layers[editing.row];
-    const v = Number(editing.draft.replace(",", "."));
-    if (layer && editing.col !== "material" && editing.draft.trim() !== "" && Number.isFinite(v) && v >= 0) {
+    const v = Number(editing.draft.trim().replace(",", "."));
+    if (layer && editing.col !== "material") {
       const thickness = editing.col === "thickness" ? v : fromQwot(v, layer.material, design);
       if (Number.isFinite(thickness) && Math.abs(thickness - layer.thickness) > 1e-12) {
         dispatch({ type: "update-layer", index: editing.row, patch: { thickness } });
@@ -102,6 +113,7 @@ export function LayerTable(props: LayerTableProps) {
     const col = COLS.indexOf(editing.col);
     setEditing(null);
     moveTo(editing.row + move, col);
+    return true;
   };
 
   const onGridKey = (e: KeyboardEvent<HTMLTableElement>) => {
@@ -291,10 +303,11 @@ export function LayerTable(props: LayerTableProps) {
                   if (colId === "thickness" || colId === "qwot") {
                     const qwot = toQwot(l.thickness, l.material, design);
                     let live = "";
-                    if (isEditing) {
-                      const v = Number(editing.draft.replace(",", "."));
+                    const problem = isEditing ? draftProblem(editing) : null;
+                    if (isEditing && !problem) {
+                      const v = Number(editing.draft.trim().replace(",", "."));
                       const cur = layer(r);
-                      if (cur && Number.isFinite(v) && editing.draft.trim() !== "") {
+                      if (cur) {
                         live = colId === "thickness" ? `= ${fmtNum(toQwot(v, cur.material, design), 4)} QWOT` : `= ${fmtNum(fromQwot(v, cur.material, design), 2)} nm`;
                       }
                     }
@@ -307,7 +320,8 @@ export function LayerTable(props: LayerTableProps) {
                               inputMode="decimal"
                               aria-label={colId === "thickness" ? `Thickness of layer ${r + 1} in nm` : `QWOT of layer ${r + 1}`}
                               aria-describedby={`live-${r}-${colId}`}
-                              className="w-24 rounded border border-film-teal bg-white px-1 py-0.5 text-right tabular"
+                              aria-invalid={problem ? true : undefined}
+                              className={`w-24 rounded border bg-white px-1 py-0.5 text-right tabular ${problem ? "border-verdict-fail" : "border-film-teal"}`}
                               value={editing.draft}
                               onChange={(e) => setEditing({ ...editing, draft: e.target.value })}
                               onKeyDown={(e) => {
@@ -321,13 +335,13 @@ export function LayerTable(props: LayerTableProps) {
                                   setEditing(null);
                                   moveTo(r, c);
                                 } else if (e.key === "Tab") {
-                                  commit(0);
+                                  if (!commit(0)) e.preventDefault();
                                 }
                               }}
                               onBlur={() => commit(0)}
                             />
-                            <span id={`live-${r}-${colId}`} aria-live="polite" className="ml-2 text-xs text-ink-500 tabular">
-                              {live}
+                            <span id={`live-${r}-${colId}`} aria-live="polite" className={`ml-2 text-xs tabular ${problem ? "text-verdict-fail" : "text-ink-500"}`}>
+                              {problem ? `${problem} (Escape keeps the old value)` : live}
                             </span>
                           </div>
                         ) : (
