@@ -91,6 +91,8 @@ export function ReleaseGate({
 
   const actions = availableActions(session, status, authorId, gate.data);
   const closed = status === "released" || status === "withdrawn";
+  // The server's "state" check asks whether the revision can be signed off now; past sign-off it only confuses.
+  const pastSignOff = closed || status === "approved";
   const found = useRevisionRelease(revisionId, closed).data;
   const release = releaseId ? { id: releaseId } : found;
 
@@ -150,6 +152,11 @@ export function ReleaseGate({
           <ErrorState error={gate.error} onRetry={() => void gate.refetch()} className="my-2" />
         ) : (
           <>
+            {status === "approved" && (
+              <p className="pt-2 text-xs text-ink-500">
+                Signed off. Releasing files the record for this exact revision and its verified run.
+              </p>
+            )}
             {closed && (
               <p className="pt-2 text-xs text-ink-500">
                 {status === "released" ? "Released." : "Withdrawn."} The conditions as they stand today; the
@@ -158,8 +165,7 @@ export function ReleaseGate({
             )}
             <ul aria-label="Sign-off conditions" className="divide-y divide-ink-100">
               {gate.data.checks
-                // After release or withdrawal "can it be signed off now?" no longer applies.
-                .filter((c) => !(closed && c.id === "state"))
+                .filter((c) => !(pastSignOff && c.id === "state"))
                 .map((c) => (
                   <CheckRow key={c.id} check={c} />
                 ))}
