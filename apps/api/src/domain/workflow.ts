@@ -8,7 +8,7 @@
 // Every transition is one better-sqlite3 transaction: read the state, check, UPDATE ... WHERE status = <the state
 // read>, append the decision and the audit entry. Of two racing requests exactly one changes the row; the other
 // sees the new state (or zero changed rows) and gets 409.
-import { and, asc, desc, eq } from "drizzle-orm";
+import { and, asc, desc, eq, max } from "drizzle-orm";
 import { PROTECTIVE_CAUTION, evaluateSpec, type YieldResult } from "@stackproof/optics";
 import type { AuthContext } from "../auth/types.ts";
 import type { AppContext } from "../context.ts";
@@ -61,7 +61,25 @@ export function evaluateGate(db: DbOrTx, rc: RevisionContext, auth: AuthContext,
     .where(eq(yieldRuns.revisionId, rc.revision.id))
     .orderBy(desc(yieldRuns.createdAt), desc(yieldRuns.id))
     .all();
-  return gateOf(rc, auth, runs, openBlockingThreads(db, rc), yieldRunId);
+  return gateOf(
+    rc,
+    auth,
+    runs,
+    openBlockingThreads(db, rc),
+    yieldRunId,
+    latestNumberOf(db, rc.revision.designId),
+  );
+}
+
+/** The number of the newest revision of a design. */
+export function latestNumberOf(db: DbOrTx, designId: string): number {
+  return (
+    db
+      .select({ n: max(revisions.number) })
+      .from(revisions)
+      .where(eq(revisions.designId, designId))
+      .get()?.n ?? 0
+  );
 }
 
 /**
@@ -74,6 +92,8 @@ export function gateOf(
   runs: readonly YieldRunRow[],
   blocking: readonly { revisionNumber: number }[],
   yieldRunId?: string,
+  /** Number of the design's newest revision; a revision older than it is superseded (default: this one). */
+  latestNumber?: number,
 ): Gate {
   const { revision, program } = rc;
   const target = program.targetYield;
@@ -168,20 +188,27 @@ export function gateOf(
           message: "You are an approver and not the author of this revision.",
         };
 
+  const superseded = latestNumber !== undefined && latestNumber > revision.number;
   const stateCheck: GateCheck =
-    revision.status === "in_review"
-      ? { id: "state", ok: true, message: "The revision is in review." }
-      : {
+    revision.status !== "in_review"
+      ? {
           id: "state",
           ok: false,
           message: `The revision is ${revision.status.replace("_", " ")}; only a revision in review can be approved.`,
-        };
+        }
+      : superseded
+        ? {
+            id: "state",
+            ok: false,
+            message: `Revision ${revision.number} is superseded by revision ${latestNumber}; only the latest revision of a design can be approved.`,
+          }
+        : { id: "state", ok: true, message: "The revision is in review." };
 
   const checks = [yieldCheck, blockingCheck, approverCheck, stateCheck];
   return {
     checks,
     canApprove: checks.every((c) => c.ok),
-    canRelease: revision.status === "approved" && isApprover,
+    canRelease: revision.status === "approved" && isApprover && !superseded,
     yieldRun,
   };
 }
@@ -193,6 +220,9 @@ const NEXT: Record<DecisionAction, { from: readonly RevisionStatus[]; to: Revisi
   release: { from: ["approved"], to: "released" },
   withdraw: { from: ["draft", "in_review", "changes_requested", "approved", "released"], to: "withdrawn" },
 };
+
+/** Actions refused on a revision that a newer revision of its design has superseded (withdrawing stays possible). */
+const SUPERSEDE_CHECKED: readonly DecisionAction[] = ["submit", "approve", "release"];
 
 const AUDIT_VERB: Record<DecisionAction, string> = {
   submit: "submitted for review",
@@ -274,6 +304,17 @@ export function applyTransition(
       throw conflict(`A revision that is ${from.replace("_", " ")} cannot be ${AUDIT_VERB[input.action]}.`, {
         status: from,
       });
+    }
+    if (SUPERSEDE_CHECKED.includes(input.action)) {
+      const latestNumber = latestNumberOf(tx, rc.design.id);
+      if (latestNumber > rc.revision.number) {
+        throw new HttpError(
+          409,
+          "superseded",
+          `Revision ${rc.revision.number} is superseded by revision ${latestNumber} of ${rc.design.name}; only the latest revision can be ${AUDIT_VERB[input.action]}.`,
+          { status: from, latestNumber },
+        );
+      }
     }
     let yieldRunId: string | null = null;
     if (input.action === "approve") {
