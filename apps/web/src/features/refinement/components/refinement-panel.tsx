@@ -88,8 +88,8 @@ export const RefinementPanel = memo(function RefinementPanel(props: RefinementPa
             <input type="radio" name="refine-mode" checked={mode === "yield"} onChange={() => setMode("yield")} /> Yield (simulated builds)
           </label>
         </fieldset>
-        <label className="w-28">
-          Margin goal
+        <label className="w-36" title="How far inside each band's limit the refinement aims: percentage points for R and T bands, OD for optical-density bands. Reported merits use the real limits.">
+          Margin goal (% pts / OD)
           <input className={field} value={marginGoal} onChange={(e) => setMarginGoal(e.target.value)} inputMode="decimal" />
         </label>
         <label className="w-28">
@@ -136,7 +136,7 @@ export const RefinementPanel = memo(function RefinementPanel(props: RefinementPa
                   <th className="py-1 font-medium">Material</th>
                   <th className="py-1 text-right font-medium">Before (nm)</th>
                   <th className="py-1 text-right font-medium">After (nm)</th>
-                  <th className="py-1 text-right font-medium">Δ</th>
+                  <th className="py-1 text-right font-medium">Δ (nm)</th>
                 </tr>
               </thead>
               <tbody>

@@ -1,4 +1,4 @@
-import { useDeferredValue, useId } from "react";
+import { useDeferredValue, useEffect, useId, useState } from "react";
 import type { Design, SpecMask } from "@stackproof/optics";
 import { SpectrumChart } from "./spectrum-chart.tsx";
 import type { ChartCurve, ChartEnvelope, ChartMarker } from "./spectrum-chart.tsx";
@@ -54,10 +54,6 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
     const next = has ? view.quantities.filter((x) => x !== q) : [...view.quantities, q];
     if (next.length > 0) onViewChange({ ...view, quantities: next });
   };
-  const num = (v: string, fallback: number) => {
-    const n = Number(v);
-    return Number.isFinite(n) ? n : fallback;
-  };
 
   return (
     <section aria-label="Spectrum" className="rounded-lg border border-ink-100 bg-white p-3">
@@ -84,6 +80,7 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
               type="button"
               aria-pressed={view.scale === "od"}
               onClick={() => onViewChange({ ...view, scale: view.scale === "od" ? "percent" : "od" })}
+              title="Optical density, −log₁₀ T: the scale of the mask's OD bands"
               className={`ml-1 rounded px-2 py-0.5 font-mono text-xs ${view.scale === "od" ? "bg-ink-900 text-paper" : "bg-ink-100 text-ink-700"}`}
             >
               OD
@@ -102,22 +99,45 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
             <option value="p">p</option>
           </select>
         </label>
-        <label className="flex w-20 flex-col text-xs text-ink-700">
-          Angle (°)
-          <input className={inputCls} type="number" min={0} max={89} step={1} value={view.settings.angleDeg} onChange={(e) => set({ angleDeg: Math.min(89, Math.max(0, num(e.target.value, 0))) })} />
-        </label>
-        <label className="flex w-24 flex-col text-xs text-ink-700">
-          Cone half-angle (°)
-          <input className={inputCls} type="number" min={0} max={30} step={0.5} value={view.settings.coneHalfAngleDeg} onChange={(e) => set({ coneHalfAngleDeg: Math.min(30, Math.max(0, num(e.target.value, 0))) })} />
-        </label>
-        <label className="flex w-24 flex-col text-xs text-ink-700" htmlFor={`${idp}-from`}>
-          From (nm)
-          <input id={`${idp}-from`} className={inputCls} type="number" min={1} value={view.settings.start} onChange={(e) => { const v = num(e.target.value, view.settings.start); if (v > 0 && v < view.settings.stop) set({ start: v }); }} />
-        </label>
-        <label className="flex w-24 flex-col text-xs text-ink-700">
-          To (nm)
-          <input className={inputCls} type="number" min={2} value={view.settings.stop} onChange={(e) => { const v = num(e.target.value, view.settings.stop); if (v > view.settings.start) set({ stop: v }); }} />
-        </label>
+        <NumberField
+          label="Angle (°)"
+          className="w-20"
+          value={view.settings.angleDeg}
+          min={0}
+          max={89}
+          step={1}
+          live
+          problem={(v) => (v >= 0 && v <= 89 ? null : "0 to 89°")}
+          onCommit={(v) => set({ angleDeg: v })}
+        />
+        <NumberField
+          label="Cone half-angle (°)"
+          className="w-24"
+          value={view.settings.coneHalfAngleDeg}
+          min={0}
+          max={30}
+          step={0.5}
+          live
+          problem={(v) => (v >= 0 && v <= 30 ? null : "0 to 30°")}
+          onCommit={(v) => set({ coneHalfAngleDeg: v })}
+        />
+        <NumberField
+          id={`${idp}-from`}
+          label="From (nm)"
+          className="w-24"
+          value={view.settings.start}
+          min={1}
+          problem={(v) => (v > 0 && v < view.settings.stop ? null : `below ${view.settings.stop} nm`)}
+          onCommit={(v) => set({ start: v })}
+        />
+        <NumberField
+          label="To (nm)"
+          className="w-24"
+          value={view.settings.stop}
+          min={2}
+          problem={(v) => (v > view.settings.start ? null : `above ${view.settings.start} nm`)}
+          onCommit={(v) => set({ stop: v })}
+        />
         {verdicts ? (
           <p className="ml-auto text-sm" data-testid="nominal-verdict">
             {verdicts.ok ? (
@@ -150,6 +170,15 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
           </div>
         )}
       </div>
+      {hasOD && view.scale === "percent" ? (
+        <p className="mt-1 text-xs text-ink-700" data-testid="od-hint">
+          The mask’s optical-density bands are drawn on the OD scale:{" "}
+          <button type="button" className="underline" onClick={() => onViewChange({ ...view, scale: "od" })}>
+            show OD
+          </button>
+          .
+        </p>
+      ) : null}
       <Legend overlays={props.overlays ?? []} hasEnvelope={(props.envelopes ?? []).length > 0} primaryLabel={props.primaryLabel} />
       {verdicts?.ok && mask ? (
         <ul className="mt-2 grid gap-1 text-xs sm:grid-cols-2" aria-label="Spec bands">
@@ -160,10 +189,13 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
                 <span className={`rounded px-1.5 py-0.5 font-semibold ${b.pass ? "bg-verdict-pass/10 text-verdict-pass" : "bg-verdict-fail/10 text-verdict-fail"}`}>
                   {b.pass ? "pass" : "fail"}
                 </span>
-                <span className="truncate">{band?.label ?? b.id}</span>
-                <span className="ml-auto tabular text-ink-500">
-                  margin {b.margin.toFixed(2)}
-                  {band?.quantity === "OD" ? "" : " %"} · {band?.angleDeg}° {band?.polarization}
+                <span className="truncate" title={band ? `${band.label}: ${band.start}–${band.stop} nm` : undefined}>
+                  {band?.label ?? b.id}
+                </span>
+                <span className="ml-auto tabular text-ink-500" title="Margin: distance inside the band's limit (negative = outside), in the band's own unit">
+                  margin {b.margin >= 0 ? "+" : ""}
+                  {b.margin.toFixed(2)}
+                  {band?.quantity === "OD" ? " OD" : " % pts"} · {band?.angleDeg}°{band?.polarization === "u" ? " unpol." : ` ${band?.polarization ?? ""}`}
                 </span>
                 {props.bandAction ? (
                   <button
@@ -181,6 +213,63 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
         </ul>
       ) : null}
     </section>
+  );
+}
+
+/**
+ * A number box that keeps what is typed while it is being typed: `live` fields take every valid value at once
+ * (angles), the others on Enter or when focus leaves (a range edge, so "380" does not pass through 3 and 38 nm).
+ * An unusable value stays visible, marked, with the allowed range; leaving the field puts the last good value back.
+ */
+function NumberField(props: {
+  label: string;
+  value: number;
+  onCommit: (v: number) => void;
+  problem: (v: number) => string | null;
+  className: string;
+  min?: number;
+  max?: number;
+  step?: number;
+  live?: boolean;
+  id?: string;
+}) {
+  const [draft, setDraft] = useState<string | null>(null);
+  const autoId = useId();
+  const id = props.id ?? autoId;
+  useEffect(() => setDraft(null), [props.value]);
+  const text = draft ?? String(props.value);
+  const n = Number(text.trim().replace(",", "."));
+  const problem = text.trim() === "" || !Number.isFinite(n) ? "a number" : props.problem(n);
+  const take = () => {
+    if (draft === null) return;
+    if (!problem && n !== props.value) props.onCommit(n);
+    setDraft(null);
+  };
+  return (
+    <label className={`flex flex-col text-xs text-ink-700 ${props.className}`} htmlFor={id}>
+      {props.label}
+      <input
+        id={id}
+        className={`${inputCls} ${problem && draft !== null ? "border-verdict-fail" : ""}`}
+        type="number"
+        min={props.min}
+        max={props.max}
+        step={props.step ?? "any"}
+        value={text}
+        aria-invalid={problem && draft !== null ? true : undefined}
+        title={problem && draft !== null ? `Use ${problem}; leaving the field keeps ${props.value}` : undefined}
+        onChange={(e) => {
+          setDraft(e.target.value);
+          const v = Number(e.target.value);
+          if (props.live && e.target.value.trim() !== "" && Number.isFinite(v) && !props.problem(v)) props.onCommit(v);
+        }}
+        onKeyDown={(e) => {
+          if (e.key === "Enter") take();
+          else if (e.key === "Escape") setDraft(null);
+        }}
+        onBlur={take}
+      />
+    </label>
   );
 }
 
