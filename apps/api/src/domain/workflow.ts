@@ -22,7 +22,7 @@ import {
 } from "../db/schema.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError, conflict, forbidden } from "../lib/errors.ts";
-import { newId } from "./canonical.ts";
+import { canonicalJson, newId } from "./canonical.ts";
 import {
   loadRevision,
   maskOf,
@@ -97,8 +97,12 @@ export function gateOf(
 ): Gate {
   const { revision, program } = rc;
   const target = program.targetYield;
+  // A what-if study with another error model (e.g. looser tolerances) is no evidence for the program's spec.
+  const programModel = canonicalJson(program.errorModel);
+  const usesProgramModel = (r: YieldRunRow) => canonicalJson(r.errorModel) === programModel;
   const qualifies = (r: YieldRunRow) =>
     r.status === "done" &&
+    usesProgramModel(r) &&
     r.verified === true &&
     (r.result as YieldResult | null)?.yield !== undefined &&
     (r.result as YieldResult).yield >= target;
@@ -124,6 +128,12 @@ export function gateOf(
         ok: false,
         message: `Yield run ${run.id} is not verified${run.mismatch ? `: ${run.mismatch}` : ""}.`,
       };
+    } else if (!usesProgramModel(run)) {
+      yieldCheck = {
+        id: "verified_yield",
+        ok: false,
+        message: `Yield run ${run.id} used an error model other than the program's; run the study with the program's error model.`,
+      };
     } else if (!qualifies(run)) {
       yieldCheck = {
         id: "verified_yield",
@@ -147,7 +157,8 @@ export function gateOf(
         message: `Verified yield ${pct((yieldRun.result as YieldResult).yield)} ≥ target ${pct(target)} (run ${yieldRun.id}).`,
       };
     } else {
-      const verified = runs.filter((r) => r.status === "done" && r.verified === true);
+      const anyVerified = runs.some((r) => r.status === "done" && r.verified === true);
+      const verified = runs.filter((r) => r.status === "done" && r.verified === true && usesProgramModel(r));
       const best = verified.reduce<number | null>(
         (m, r) => Math.max(m ?? 0, (r.result as YieldResult).yield),
         null,
@@ -157,7 +168,9 @@ export function gateOf(
         ok: false,
         message:
           best === null
-            ? `No verified, finished yield run on revision ${revision.number}; run one (target ${pct(target)}).`
+            ? anyVerified
+              ? `The verified yield runs on revision ${revision.number} used an error model other than the program's; run the study with the program's error model (target ${pct(target)}).`
+              : `No verified, finished yield run on revision ${revision.number}; run one (target ${pct(target)}).`
             : `The best verified yield on revision ${revision.number} is ${pct(best)}, below the program target ${pct(target)}.`,
       };
     }
