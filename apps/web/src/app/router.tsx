@@ -50,7 +50,9 @@ export function createRouter() {
           errorElement: <RouteError />,
           children: [
             { index: true, lazy: () => import("./routes/home.tsx") },
+            { path: "programs/new", lazy: () => import("./routes/program-edit.tsx") },
             { path: "programs/:programId", lazy: () => import("./routes/program.tsx") },
+            { path: "programs/:programId/edit", lazy: () => import("./routes/program-edit.tsx") },
             { path: "materials", lazy: () => import("./routes/materials.tsx") },
             { path: "people", lazy: () => import("./routes/people.tsx") },
             { path: "audit", lazy: () => import("./routes/audit.tsx") },

@@ -1,10 +1,11 @@
-import { Card, EmptyState, ErrorState, PageSpinner } from "../../components/ui/index.ts";
+import { ButtonLink, Card, EmptyState, ErrorState, PageSpinner } from "../../components/ui/index.ts";
 import { overviewQueryOptions, useOverview } from "../../features/home/api/get-overview.ts";
 import { queueQueryOptions } from "../../features/home/api/get-queue.ts";
 import { MyQueue } from "../../features/home/components/my-queue.tsx";
 import { OverviewTable } from "../../features/home/components/overview-table.tsx";
 import { queryClient } from "../../lib/query-client.ts";
-import { useSession } from "../../lib/session.ts";
+import { hasRole, useSession } from "../../lib/session.ts";
+import { paths } from "../../config/paths.ts";
 import { programsQueryOptions } from "../../features/programs/api/get-programs.ts";
 import { ProgramList } from "../../features/programs/components/program-list.tsx";
 
@@ -51,6 +52,13 @@ export function Component() {
       <Card
         title="Programs"
         description="Each program sets the spec mask, the error model and the target yield its designs are held to."
+        actions={
+          hasRole(session, "admin", "approver") ? (
+            <ButtonLink to={paths.newProgram} variant="primary" size="sm">
+              New program
+            </ButtonLink>
+          ) : undefined
+        }
       >
         <ProgramList />
       </Card>

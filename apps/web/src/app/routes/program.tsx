@@ -72,6 +72,7 @@ export function Component() {
   if (program.isError) return <ErrorState error={program.error} onRetry={() => void program.refetch()} />;
   const p = program.data;
   const isDesigner = hasRole(session, "designer");
+  const canEdit = hasRole(session, "admin", "approver");
 
   return (
     <div className="flex flex-col gap-6">
@@ -91,6 +92,11 @@ export function Component() {
               "No customer or application given."}
           </p>
         </div>
+        {canEdit && (
+          <ButtonLink to={paths.editProgram(p.id)} variant="secondary" size="sm" className="self-center">
+            Edit program
+          </ButtonLink>
+        )}
         <div className="flex flex-col items-end gap-1 rounded-lg border border-ink-100 bg-white px-4 py-2 text-right shadow-sm">
           <span className="text-xs text-ink-500">Target yield</span>
           <span className="font-mono text-2xl font-semibold tabular">{formatTarget(p.targetYield)}</span>

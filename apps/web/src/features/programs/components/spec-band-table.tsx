@@ -1,0 +1,162 @@
+import {
+  useFieldArray,
+  useWatch,
+  type Control,
+  type FieldErrors,
+  type UseFormRegister,
+} from "react-hook-form";
+import { Button, SelectField, TextField } from "../../../components/ui/index.ts";
+import { emptyBand, type ProgramFormValues } from "./program-form-model.ts";
+
+const quantityOptions = [
+  { value: "R", label: "R (%)" },
+  { value: "T", label: "T (%)" },
+  { value: "A", label: "A (%)" },
+  { value: "OD", label: "OD" },
+];
+const polarizationOptions = [
+  { value: "u", label: "unpol." },
+  { value: "s", label: "s" },
+  { value: "p", label: "p" },
+];
+const requirementOptions = [
+  { value: "min", label: "every point ≥" },
+  { value: "max", label: "every point ≤" },
+  { value: "avgMin", label: "band average ≥" },
+  { value: "avgMax", label: "band average ≤" },
+];
+
+export interface SpecBandTableProps {
+  control: Control<ProgramFormValues>;
+  register: UseFormRegister<ProgramFormValues>;
+  errors: FieldErrors<ProgramFormValues>;
+}
+
+function BandUnit({ control, index }: { control: Control<ProgramFormValues>; index: number }) {
+  const q = useWatch({ control, name: `bands.${index}.quantity` });
+  return <>{q === "OD" ? "OD" : "%"}</>;
+}
+
+/** The spec mask's bands, one editable row each; rows can be added and removed (at least one stays). */
+export function SpecBandTable({ control, register, errors }: SpecBandTableProps) {
+  const { fields, append, remove } = useFieldArray({ control, name: "bands" });
+  const bandErrors = errors.bands;
+  const listError = bandErrors?.message ?? bandErrors?.root?.message;
+  return (
+    <div className="flex flex-col gap-3">
+      <ol className="flex flex-col gap-3" aria-label="Spec bands">
+        {fields.map((f, i) => {
+          const e = bandErrors?.[i];
+          const n = i + 1;
+          return (
+            <li
+              key={f.id}
+              aria-label={`Band ${n}`}
+              className="grid grid-cols-2 gap-3 rounded-lg border border-ink-100 bg-paper/40 p-3 sm:grid-cols-4 xl:grid-cols-[8rem_minmax(8rem,1fr)_6rem_6rem_6rem_6rem_5rem_10rem_6rem_6rem_auto]"
+            >
+              <TextField
+                label="Id"
+                aria-label={`Band ${n} id`}
+                error={e?.id?.message}
+                className="font-mono"
+                {...register(`bands.${i}.id`)}
+              />
+              <TextField
+                label="Label"
+                aria-label={`Band ${n} label`}
+                placeholder="optional"
+                error={e?.label?.message}
+                {...register(`bands.${i}.label`)}
+              />
+              <TextField
+                label="Start (nm)"
+                aria-label={`Band ${n} start (nm)`}
+                inputMode="decimal"
+                error={e?.start?.message}
+                {...register(`bands.${i}.start`)}
+              />
+              <TextField
+                label="Stop (nm)"
+                aria-label={`Band ${n} stop (nm)`}
+                inputMode="decimal"
+                error={e?.stop?.message}
+                {...register(`bands.${i}.stop`)}
+              />
+              <SelectField
+                label="Quantity"
+                aria-label={`Band ${n} quantity`}
+                options={quantityOptions}
+                defaultValue={f.quantity}
+                error={e?.quantity?.message}
+                {...register(`bands.${i}.quantity`)}
+              />
+              <SelectField
+                label="Polarization"
+                aria-label={`Band ${n} polarization`}
+                options={polarizationOptions}
+                defaultValue={f.polarization}
+                error={e?.polarization?.message}
+                {...register(`bands.${i}.polarization`)}
+              />
+              <TextField
+                label="Angle (°)"
+                aria-label={`Band ${n} angle (°)`}
+                inputMode="decimal"
+                error={e?.angleDeg?.message}
+                {...register(`bands.${i}.angleDeg`)}
+              />
+              <SelectField
+                label="Requirement"
+                aria-label={`Band ${n} requirement`}
+                options={requirementOptions}
+                defaultValue={f.requirement}
+                error={e?.requirement?.message}
+                {...register(`bands.${i}.requirement`)}
+              />
+              <TextField
+                label={
+                  <>
+                    Value (<BandUnit control={control} index={i} />)
+                  </>
+                }
+                aria-label={`Band ${n} value`}
+                inputMode="decimal"
+                error={e?.value?.message}
+                {...register(`bands.${i}.value`)}
+              />
+              <TextField
+                label="Tolerance"
+                aria-label={`Band ${n} tolerance`}
+                inputMode="decimal"
+                placeholder="none"
+                error={e?.tolerance?.message}
+                {...register(`bands.${i}.tolerance`)}
+              />
+              <div className="flex items-end">
+                <Button
+                  variant="ghost"
+                  size="sm"
+                  aria-label={`Remove band ${n}`}
+                  disabled={fields.length <= 1}
+                  onClick={() => remove(i)}
+                >
+                  Remove
+                </Button>
+              </div>
+            </li>
+          );
+        })}
+      </ol>
+      {listError && <p className="text-xs font-medium text-verdict-fail">{listError}</p>}
+      <div className="flex flex-wrap items-center gap-3">
+        <Button variant="secondary" size="sm" onClick={() => append(emptyBand(fields.length))}>
+          Add band
+        </Button>
+        <p className="text-xs text-ink-500">
+          R, T and A limits in percent, OD = −log₁₀ T. The tolerance relaxes the limit (a ≥ limit becomes
+          value − tolerance, a ≤ limit value + tolerance).
+        </p>
+      </div>
+    </div>
+  );
+}
