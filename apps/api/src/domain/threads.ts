@@ -1,5 +1,5 @@
 // Review threads: anchors, the anchor verdict on a given revision, and @mentions.
-import { and, asc, eq, lte } from "drizzle-orm";
+import { and, asc, eq, inArray, lte } from "drizzle-orm";
 import { evaluateSpec, type SpecMask, type SpecResult } from "@stackproof/optics";
 import type { Db } from "../db/client.ts";
 import { comments, memberships, threads, users, type ThreadAnchor } from "../db/schema.ts";
@@ -133,17 +133,15 @@ export function threadViews(
   if (rows.length === 0) return [];
   const nominal = on ? nominalOf(on) : null;
   const mask = on ? maskOf(on.revision, on.program) : null;
-  const byThread = new Map<string, (typeof comments.$inferSelect)[]>();
-  for (const t of rows) {
-    byThread.set(
-      t.id,
-      db
-        .select()
-        .from(comments)
-        .where(eq(comments.threadId, t.id))
-        .orderBy(asc(comments.createdAt), asc(comments.id))
-        .all(),
-    );
+  // Every comment of these threads in one query, oldest first within each thread.
+  const byThread = new Map<string, (typeof comments.$inferSelect)[]>(rows.map((t) => [t.id, []]));
+  for (const c of db
+    .select()
+    .from(comments)
+    .where(inArray(comments.threadId, [...byThread.keys()]))
+    .orderBy(asc(comments.createdAt), asc(comments.id))
+    .all()) {
+    byThread.get(c.threadId)?.push(c);
   }
   const ids: string[] = [];
   for (const t of rows) {

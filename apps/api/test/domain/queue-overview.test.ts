@@ -1,6 +1,6 @@
 // GET /queue semantics (only the latest revision of each design; reviewers see others' revisions in review;
 // approvers see revisions whose gate passes and approved ones) and a fixed number of queries for /overview,
-// /programs/:id and /queue whatever the number of designs.
+// /programs/:id and /queue whatever the number of designs (and for a revision's threads whatever their number).
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestServer, type TestServer } from "../support/context.ts";
 import { createMember, signIn, type MemberAgent } from "../support/auth.ts";
@@ -202,4 +202,31 @@ describe("query count", () => {
     expect(large).toEqual(small);
     expect(small.overview).toBeGreaterThan(0);
   }, 60000);
+
+  it("stays the same for a revision's threads with three times the threads", async () => {
+    const { revision } = await createDesign(team, programId);
+    const open = async (n: number) => {
+      for (let i = 0; i < n; i++) {
+        const t = await agentOf("reviewer")
+          .post(`${API}/revisions/${revision.id}/threads`)
+          .send({ anchor: { kind: "design" }, severity: "advisory", body: `Point ${i}` })
+          .expect(201);
+        await agentOf("designer")
+          .post(`${API}/threads/${t.body.id}/comments`)
+          .send({ body: "Noted." })
+          .expect(201);
+      }
+    };
+    const measure = () =>
+      statements(() => agentOf("approver").get(`${API}/revisions/${revision.id}/threads`).expect(200));
+    await open(2);
+    const small = await measure();
+    await open(4);
+    const res = await agentOf("approver").get(`${API}/revisions/${revision.id}/threads`).expect(200);
+    expect(res.body.items).toHaveLength(6);
+    for (const t of res.body.items as { comments: { body: string }[] }[]) {
+      expect(t.comments.map((c) => c.body)).toEqual([expect.stringMatching(/^Point \d$/), "Noted."]);
+    }
+    expect(await measure()).toBe(small);
+  });
 });

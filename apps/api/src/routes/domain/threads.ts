@@ -1,6 +1,6 @@
 // Review threads anchored to a revision, carried forward to later revisions of the design.
 import type { Router } from "express";
-import { and, eq } from "drizzle-orm";
+import { and, desc, eq } from "drizzle-orm";
 import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import type { AuthContext } from "../../auth/types.ts";
@@ -227,8 +227,8 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
           .select()
           .from(revisions)
           .where(eq(revisions.designId, thread.designId))
-          .all()
-          .sort((a, b) => b.number - a.number)[0];
+          .orderBy(desc(revisions.number))
+          .get();
         const on = latest ? { ...rc, revision: latest } : rc;
         const row = ctx.db.select().from(threads).where(eq(threads.id, thread.id)).get();
         return threadViews(ctx.db, row ? [row] : [], on)[0];
