@@ -1,6 +1,6 @@
 // The design workspace of one revision: live spectrum against the spec mask, review threads beside it,
 // the layer editor, and tabs for tolerance studies, refinement, as-built data, history and sign-off.
-import { useCallback, useDeferredValue, useMemo, useReducer, useState } from "react";
+import { useCallback, useDeferredValue, useMemo, useReducer, useRef, useState } from "react";
 import type { ReactNode } from "react";
 import { Link, useNavigate, useParams } from "react-router";
 import type { LoaderFunctionArgs } from "react-router";
@@ -23,6 +23,7 @@ import { libraryOptions, withWorkspaceMaterials } from "../../../features/worksp
 import type { MaterialOption } from "../../../features/workspace/lib/materials.ts";
 import { LayerEditor } from "../../../features/workspace/components/layer-editor.tsx";
 import { SaveRevisionForm } from "../../../features/workspace/components/save-revision.tsx";
+import { UnsavedGuard } from "../../../features/workspace/components/unsaved-guard.tsx";
 import { ImportExport } from "../../../features/workspace/components/import-export.tsx";
 import { SpectrumPanel } from "../../../features/spectrum/components/spectrum-panel.tsx";
 import type { ChartView } from "../../../features/spectrum/components/spectrum-panel.tsx";
@@ -90,6 +91,8 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
   const [tab, setTab] = useState<TabId>("study");
   const [tabsRef, tabsWidth] = useElementWidth<HTMLDivElement>(620);
   const create = useCreateRevision();
+  // Set once a save succeeded, so the move to the new revision is not taken for leaving with unsaved edits.
+  const leavingSaved = useRef(false);
   const threads = useThreads(revision.id);
 
   const mask = revision.specMask ?? program.specMask;
@@ -122,7 +125,12 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
     (stack: Design, note: string) =>
       create.mutate(
         { designId: design.id, stack: withWorkspaceMaterials(stack, materials), note },
-        { onSuccess: (r) => navigate(paths.revision(design.id, r.id)) },
+        {
+          onSuccess: (r) => {
+            leavingSaved.current = true;
+            void navigate(paths.revision(design.id, r.id));
+          },
+        },
       ),
     [create, design.id, materials, navigate],
   );
@@ -204,6 +212,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
 
   return (
     <div className="space-y-4" data-testid="workspace">
+      <UnsavedGuard dirty={dirty} allow={leavingSaved} />
       <header className="flex flex-wrap items-start gap-x-6 gap-y-2">
         <div className="min-w-0">
           <p className="text-xs text-ink-500">

@@ -1,4 +1,4 @@
-import { useId } from "react";
+import { useId, useState } from "react";
 import type { Dispatch } from "react";
 import type { Design } from "@stackproof/optics";
 import type { EditorAction } from "../lib/editor-state.ts";
@@ -27,7 +27,7 @@ export function MediaSettings({
       </option>
     ));
   return (
-    <fieldset className="grid grid-cols-2 gap-x-3 gap-y-2 rounded-md border border-ink-100 p-3 text-xs text-ink-700 md:grid-cols-3 xl:grid-cols-6" disabled={readOnly}>
+    <fieldset className="grid grid-cols-2 gap-x-3 gap-y-2 rounded-md border border-ink-100 p-3 text-xs text-ink-700 sm:grid-cols-3" disabled={readOnly}>
       <legend className="px-1 text-xs font-semibold text-ink-800">Media and substrate</legend>
       <label htmlFor={`${id}-inc`}>
         Incident medium
@@ -43,17 +43,13 @@ export function MediaSettings({
       </label>
       <label htmlFor={`${id}-thk`}>
         Substrate thickness (mm)
-        <input
+        <DraftNumber
           id={`${id}-thk`}
-          className={field}
-          type="number"
+          value={design.substrate.thicknessMm}
           min={0}
           step={0.1}
-          value={design.substrate.thicknessMm}
-          onChange={(e) => {
-            const v = Number(e.target.value);
-            if (Number.isFinite(v) && v >= 0) dispatch({ type: "set-media", patch: { substrate: { thicknessMm: v } } });
-          }}
+          ok={(v) => v >= 0}
+          onCommit={(v) => dispatch({ type: "set-media", patch: { substrate: { thicknessMm: v } } })}
         />
       </label>
       <label htmlFor={`${id}-back`} className="flex items-center gap-2 self-end pb-1">
@@ -73,18 +69,46 @@ export function MediaSettings({
       </label>
       <label htmlFor={`${id}-ref`}>
         Reference λ0 (nm)
-        <input
+        <DraftNumber
           id={`${id}-ref`}
-          className={field}
-          type="number"
-          min={1}
           value={design.referenceWavelength}
-          onChange={(e) => {
-            const v = Number(e.target.value);
-            if (Number.isFinite(v) && v > 0) dispatch({ type: "set-media", patch: { referenceWavelength: v } });
-          }}
+          min={1}
+          ok={(v) => v > 0}
+          onCommit={(v) => dispatch({ type: "set-media", patch: { referenceWavelength: v } })}
         />
       </label>
     </fieldset>
+  );
+}
+
+/** A number box that may be cleared and retyped: the value is taken on Enter or when focus leaves, when usable. */
+function DraftNumber(props: { id: string; value: number; min: number; step?: number; ok: (v: number) => boolean; onCommit: (v: number) => void }) {
+  const [draft, setDraft] = useState<string | null>(null);
+  const text = draft ?? String(props.value);
+  const n = Number(text.trim().replace(",", "."));
+  const bad = draft !== null && (text.trim() === "" || !Number.isFinite(n) || !props.ok(n));
+  const take = () => {
+    if (draft !== null && !bad && n !== props.value) props.onCommit(n);
+    setDraft(null);
+  };
+  return (
+    <input
+      id={props.id}
+      className={`${field} ${bad ? "border-verdict-fail" : ""}`}
+      type="number"
+      min={props.min}
+      step={props.step ?? "any"}
+      value={text}
+      aria-invalid={bad ? true : undefined}
+      title={bad ? `Not a usable value; leaving the field keeps ${props.value}` : undefined}
+      onChange={(e) => setDraft(e.target.value)}
+      onKeyDown={(e) => {
+        if (e.key === "Enter") {
+          e.preventDefault();
+          take();
+        } else if (e.key === "Escape") setDraft(null);
+      }}
+      onBlur={take}
+    />
   );
 }

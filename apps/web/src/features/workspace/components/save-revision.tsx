@@ -30,7 +30,7 @@ export function SaveRevisionForm({
           id={id}
           value={note}
           onChange={(e) => setNote(e.target.value)}
-          placeholder={dirty ? "What changed and why" : "Edit the stack to save a new revision"}
+          placeholder={dirty ? "What changed and why" : "Edit the stack first"}
           disabled={!dirty || pending}
           className="mt-0.5 rounded border border-ink-300 bg-white px-2 py-1 text-sm disabled:bg-ink-100/50"
           maxLength={500}
