@@ -88,7 +88,7 @@ export function ErrorModelForm({ defaultValues, onRun, running, materials, submi
         ) : (
           <label>
             Systematic thickness scale (%)
-            <input className={field} type="number" step="any" aria-invalid={Boolean(em?.systematicPct)} {...register("errorModel.systematicPct", { setValueAs: optionalNumber })} />
+            <input className={field} type="number" step="any" placeholder="none" aria-invalid={Boolean(em?.systematicPct)} {...register("errorModel.systematicPct", { setValueAs: optionalNumber })} />
             <Err id="err-sys" error={humanMessage(em?.systematicPct as FieldError | undefined)} />
           </label>
         )}
@@ -103,13 +103,13 @@ export function ErrorModelForm({ defaultValues, onRun, running, materials, submi
         ) : (
           <label>
             Index drift (%)
-            <input className={field} type="number" step="any" aria-invalid={Boolean(em?.indexDriftPct)} {...register("errorModel.indexDriftPct", { setValueAs: optionalNumber })} />
+            <input className={field} type="number" step="any" placeholder="none" aria-invalid={Boolean(em?.indexDriftPct)} {...register("errorModel.indexDriftPct", { setValueAs: optionalNumber })} />
             <Err id="err-drift" error={humanMessage(em?.indexDriftPct as FieldError | undefined)} />
           </label>
         )}
         <label>
           Index noise per layer (%)
-          <input className={field} type="number" step="any" aria-invalid={Boolean(em?.indexNoisePct)} {...register("errorModel.indexNoisePct", { setValueAs: optionalNumber })} />
+          <input className={field} type="number" step="any" placeholder="none" aria-invalid={Boolean(em?.indexNoisePct)} {...register("errorModel.indexNoisePct", { setValueAs: optionalNumber })} />
           <Err id="err-noise" error={humanMessage(em?.indexNoisePct)} />
         </label>
       </fieldset>

@@ -255,10 +255,30 @@ export const StudiesPanel = memo(function StudiesPanel(props: StudiesPanelProps)
 
 function YieldBar({ result, target }: { result: YieldResult; target: number }) {
   return (
-    <div className="relative h-5 w-full max-w-xl rounded bg-ink-100" aria-hidden>
-      <div className="absolute inset-y-0 rounded bg-film-teal-soft" style={{ left: `${result.interval.low * 100}%`, width: `${Math.max(0.5, (result.interval.high - result.interval.low) * 100)}%` }} />
-      <div className="absolute inset-y-0 w-0.5 bg-film-teal" style={{ left: `${result.yield * 100}%` }} />
-      <div className="absolute -inset-y-1 w-0.5 bg-film-amber" style={{ left: `${target * 100}%` }} title="target" />
-    </div>
+    <figure className="w-full max-w-xl" aria-label={`Yield ${pct(result.yield)}, 95 % interval ${pct(result.interval.low)} to ${pct(result.interval.high)}, target ${pct(target, 0)}`}>
+      <div className="relative h-5 w-full rounded bg-ink-100" aria-hidden>
+        <div className="absolute inset-y-0 rounded bg-film-teal-soft" style={{ left: `${result.interval.low * 100}%`, width: `${Math.max(0.5, (result.interval.high - result.interval.low) * 100)}%` }} />
+        <div className="absolute inset-y-0 w-0.5 bg-film-teal" style={{ left: `${result.yield * 100}%` }} />
+        <div className="absolute -inset-y-1 w-0.5 bg-film-amber" style={{ left: `${target * 100}%` }} title="target" />
+      </div>
+      <div className="relative mt-0.5 h-3 text-[10px] text-ink-500 tabular" aria-hidden>
+        {[0, 0.25, 0.5, 0.75, 1].map((t) => (
+          <span key={t} className="absolute" style={{ left: `${t * 100}%`, transform: t === 0 ? undefined : t === 1 ? "translateX(-100%)" : "translateX(-50%)" }}>
+            {t * 100} %
+          </span>
+        ))}
+      </div>
+      <figcaption className="mt-1 flex flex-wrap gap-x-4 text-xs text-ink-700">
+        <span className="flex items-center gap-1.5">
+          <span className="inline-block h-3 w-0.5 bg-film-teal" aria-hidden /> yield
+        </span>
+        <span className="flex items-center gap-1.5">
+          <span className="inline-block h-3 w-4 rounded bg-film-teal-soft" aria-hidden /> 95 % interval
+        </span>
+        <span className="flex items-center gap-1.5">
+          <span className="inline-block h-3 w-0.5 bg-film-amber" aria-hidden /> program target
+        </span>
+      </figcaption>
+    </figure>
   );
 }
