@@ -15,7 +15,7 @@ const quantityOptions = [
   { value: "OD", label: "OD" },
 ];
 const polarizationOptions = [
-  { value: "u", label: "unpol." },
+  { value: "u", label: "unpolarized" },
   { value: "s", label: "s" },
   { value: "p", label: "p" },
 ];
@@ -52,7 +52,7 @@ export function SpecBandTable({ control, register, errors }: SpecBandTableProps)
             <li
               key={f.id}
               aria-label={`Band ${n}`}
-              className="grid grid-cols-2 gap-3 rounded-lg border border-ink-100 bg-paper/40 p-3 sm:grid-cols-4 xl:grid-cols-[8rem_minmax(8rem,1fr)_6rem_6rem_6rem_6rem_5rem_10rem_6rem_6rem_auto]"
+              className="grid grid-cols-2 gap-3 rounded-lg border border-ink-100 bg-paper/40 p-3 sm:grid-cols-3 lg:grid-cols-6 2xl:grid-cols-[8rem_minmax(8rem,1fr)_6rem_6rem_7rem_8rem_5rem_10rem_6rem_6rem_auto]"
             >
               <TextField
                 label="Id"
@@ -132,7 +132,7 @@ export function SpecBandTable({ control, register, errors }: SpecBandTableProps)
                 error={e?.tolerance?.message}
                 {...register(`bands.${i}.tolerance`)}
               />
-              <div className="flex items-end">
+              <div className="flex items-start pt-6 lg:col-span-2 2xl:col-span-1">
                 <Button
                   variant="ghost"
                   size="sm"
