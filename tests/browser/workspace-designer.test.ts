@@ -148,6 +148,21 @@ describe("design workspace (designer)", () => {
     expect(browser.consoleErrors).toEqual([]);
   });
 
+  it("asks before a link throws the unsaved stack away, and keeps it on request", async () => {
+    const { page } = browser;
+    const here = page.url();
+    await page.getByTestId("unsaved").waitFor();
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Overview" }).first().click();
+    const dialog = page.getByRole("dialog", { name: "Leave with unsaved edits?" });
+    await dialog.waitFor();
+    await browser.screenshot("workspace-10b-unsaved-guard");
+    await dialog.getByRole("button", { name: "Keep editing" }).click();
+    await dialog.waitFor({ state: "detached" });
+    expect(page.url()).toBe(here);
+    await page.getByTestId("unsaved").waitFor();
+    expect(await page.getByRole("grid", { name: /Layers/ }).getByRole("row").count()).toBe(61);
+  });
+
   it("saves the edited stack as a new revision and compares it with the one before", async () => {
     const { page } = browser;
     const from = page.url();
