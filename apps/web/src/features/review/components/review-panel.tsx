@@ -1,6 +1,6 @@
 // Review threads beside the chart: start a thread on a band, a wavelength range, a layer or the whole design;
 // reply with @mentions; resolve and reopen. Each thread says whether its anchor passes on this revision.
-import { useState, memo } from "react";
+import { useEffect, useRef, useState, memo } from "react";
 import type { FormEvent } from "react";
 import type { SpecBand } from "@stackproof/optics";
 import { useAddComment, useCreateThread, useMembers, useSetThreadState, useThreads } from "../api/threads.ts";
@@ -79,6 +79,17 @@ function NewThread(props: ReviewPanelProps) {
   const [body, setBody] = useState("");
   const [seen, setSeen] = useState<ThreadAnchor | null>(null);
   const [error, setError] = useState<string | null>(null);
+  const formRef = useRef<HTMLFormElement>(null);
+
+  // A band, range or layer picked elsewhere on the page brings the comment box into view and focus, so the pick
+  // visibly leads somewhere also when this panel sits below the chart (narrow screens).
+  useEffect(() => {
+    if (!seen) return;
+    const box = formRef.current?.querySelector<HTMLTextAreaElement>("textarea");
+    box?.focus({ preventScroll: true });
+    const r = box?.getBoundingClientRect();
+    if (box && r && (r.top < 0 || r.bottom > window.innerHeight)) box.scrollIntoView({ block: "center" });
+  }, [seen]);
 
   // Adopt a proposal from the chart or the layer table once.
   if (props.proposed && props.proposed !== seen) {
@@ -128,7 +139,7 @@ function NewThread(props: ReviewPanelProps) {
   };
 
   return (
-    <form onSubmit={submit} aria-label="Start a review thread" className="space-y-2 rounded-md border border-film-violet/30 bg-film-violet/5 p-3 text-sm">
+    <form ref={formRef} onSubmit={submit} aria-label="Start a review thread" className="space-y-2 rounded-md border border-film-violet/30 bg-film-violet/5 p-3 text-sm">
       <div className="grid grid-cols-2 gap-2">
         <label className="text-xs text-ink-700">
           Pinned to
