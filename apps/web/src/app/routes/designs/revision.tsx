@@ -228,6 +228,9 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
                 unsaved edits
               </span>
             ) : null}
+            {dirty && !isDesigner ? (
+              <span className="text-xs font-normal text-ink-700">what-if only: saving a revision takes the designer role</span>
+            ) : null}
           </h1>
           <p className="text-xs text-ink-700">
             {revision.author.name} · {new Date(revision.createdAt).toLocaleString()} · “{revision.note}” · <span className="font-mono" title="Revision hash">{revision.hash.slice(0, 12)}</span>
