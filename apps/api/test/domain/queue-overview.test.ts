@@ -3,9 +3,13 @@
 // /programs/:id and /queue whatever the number of designs (and for a revision's threads whatever their number).
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestServer, type TestServer } from "../support/context.ts";
+import { ENGINE_VERSION } from "@stackproof/optics";
 import { createMember, signIn, type MemberAgent } from "../support/auth.ts";
+import { yieldRuns } from "../../src/db/schema.ts";
+import { newId } from "../../src/auth/tokens.ts";
 import {
   API,
+  ERROR_MODEL,
   createDesign,
   createProgram,
   createTeam,
@@ -202,6 +206,42 @@ describe("query count", () => {
     expect(large).toEqual(small);
     expect(small.overview).toBeGreaterThan(0);
   }, 60000);
+
+  it("stays the same for a revision's yield runs with three times the runs", async () => {
+    const { revision } = await createDesign(team, programId);
+    const people: Who[] = ["designer", "designer2", "reviewer", "approver"];
+    let k = 0;
+    // Stored as queued and not handed to the job service: only the listing is measured.
+    const add = (n: number) => {
+      for (let i = 0; i < n; i++, k++) {
+        server.ctx.db
+          .insert(yieldRuns)
+          .values({
+            id: newId(),
+            revisionId: revision.id,
+            requestedBy: team.members[people[k % people.length] as Who].user.id,
+            status: "queued",
+            trials: 40,
+            seed: `list-${k}`,
+            errorModel: ERROR_MODEL,
+            engineVersion: ENGINE_VERSION,
+            createdAt: new Date(Date.now() + k),
+          })
+          .run();
+      }
+    };
+    const measure = () =>
+      statements(() => agentOf("approver").get(`${API}/revisions/${revision.id}/yield-runs`).expect(200));
+    add(2);
+    const small = await measure();
+    add(4);
+    const res = await agentOf("approver").get(`${API}/revisions/${revision.id}/yield-runs`).expect(200);
+    expect(res.body.items).toHaveLength(6);
+    expect(
+      new Set(res.body.items.map((r: { requestedBy: { name: string } }) => r.requestedBy.name)).size,
+    ).toBe(4);
+    expect(await measure()).toBe(small);
+  });
 
   it("stays the same for a revision's threads with three times the threads", async () => {
     const { revision } = await createDesign(team, programId);

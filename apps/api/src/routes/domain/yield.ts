@@ -31,8 +31,12 @@ import { IdParams, YieldRunSchema } from "./schemas.ts";
 
 const TAG = "Yield runs";
 
-export function yieldRunView(db: DbOrTx, run: YieldRunRow) {
-  const names = userNames(db, [run.requestedBy]);
+/** A run as the API shows it; `names` (requester id → person) saves the lookup when listing many runs. */
+export function yieldRunView(
+  db: DbOrTx,
+  run: YieldRunRow,
+  names: Map<string, { id: string; name: string }> = userNames(db, [run.requestedBy]),
+) {
   return {
     id: run.id,
     revisionId: run.revisionId,
@@ -151,11 +155,15 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
         .orderBy(desc(yieldRuns.createdAt), desc(yieldRuns.id))
         .limit(query.limit + 1)
         .all();
+      const names = userNames(
+        ctx.db,
+        rows.map((r) => r.requestedBy),
+      );
       return toPage(
         rows,
         query.limit,
         (r) => [r.createdAt, r.id],
-        (r) => yieldRunView(ctx.db, r),
+        (r) => yieldRunView(ctx.db, r, names),
       );
     },
   );
