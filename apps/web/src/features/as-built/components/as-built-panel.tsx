@@ -109,7 +109,7 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
           {list.data.map((x) => (
             <li key={x.id}>
               <button type="button" aria-pressed={x.id === selected} onClick={() => show(x.id === selected ? null : x)} className={`rounded border px-2 py-1 text-xs ${x.id === selected ? "border-film-amber bg-film-amber/10" : "border-ink-300 bg-white"}`}>
-                {x.label} · {x.quantity} · {x.angleDeg}° {x.polarization}
+                {x.label} · {x.quantity} · {x.angleDeg}° {x.polarization === "u" ? "unpol." : x.polarization}
               </button>
             </li>
           ))}
@@ -168,7 +168,7 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
               ))}
             </ul>
           ) : null}
-          <p className="col-span-2 text-ink-500 md:col-span-5">Nothing is stored when the file has a problem; fix the lines listed and upload it again.</p>
+          {upload.error ? <p className="col-span-2 text-ink-500 md:col-span-5">Nothing was stored; fix the file and upload it again.</p> : null}
         </form>
       ) : null}
     </section>
@@ -191,7 +191,7 @@ function csvProblems(error: Error | null): { row: number; column: string; messag
 }
 
 function DifferenceChart({ m, model, fitted, width }: { m: MeasuredSpectrum; model: number[]; fitted: number[] | null; width: number }) {
-  const mg = { top: 8, right: 10, bottom: 44, left: 44 };
+  const mg = { top: 8, right: 22, bottom: 44, left: 44 };
   const height = 160;
   const iw = Math.max(10, width - mg.left - mg.right);
   const ih = height - mg.top - mg.bottom;
