@@ -263,7 +263,7 @@ function YieldBar({ result, target }: { result: YieldResult; target: number }) {
       </div>
       <div className="relative mt-0.5 h-3 text-[10px] text-ink-500 tabular" aria-hidden>
         {[0, 0.25, 0.5, 0.75, 1].map((t) => (
-          <span key={t} className="absolute" style={{ left: `${t * 100}%`, transform: t === 0 ? undefined : t === 1 ? "translateX(-100%)" : "translateX(-50%)" }}>
+          <span key={t} className="absolute whitespace-nowrap" style={{ left: `${t * 100}%`, transform: t === 0 ? undefined : t === 1 ? "translateX(-100%)" : "translateX(-50%)" }}>
             {t * 100} %
           </span>
         ))}
