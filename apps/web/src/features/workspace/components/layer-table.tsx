@@ -53,6 +53,7 @@ export function LayerTable(props: LayerTableProps) {
     editRef.current = next;
     setEditingState(next);
   };
+  const [notice, setNotice] = useState<string | null>(null);
   const gridRef = useRef<HTMLTableElement>(null);
   const wantFocus = useRef(false);
 
@@ -82,7 +83,11 @@ export function LayerTable(props: LayerTableProps) {
       dispatch({ type: "update-layer", index: row, patch: { locked: !layer.locked } });
       return;
     }
-    if (layer.locked && col !== "material") return;
+    if (layer.locked && col !== "material") {
+      setNotice(`Layer ${row + 1} is locked (its thickness is kept). Space on its lock cell unlocks it.`);
+      return;
+    }
+    setNotice(null);
     const draft =
       col === "thickness" ? String(round(layer.thickness, 3)) : col === "qwot" ? String(round(toQwot(layer.thickness, layer.material, design), 4)) : layer.material;
     setEditing({ row, col, draft });
@@ -200,8 +205,9 @@ export function LayerTable(props: LayerTableProps) {
   const layer = (r: number) => design.layers[r];
 
   return (
-    // Layout containment: an edit relayouts the table's box, not the whole page.
-    <div className="overflow-auto rounded-md border border-ink-100" style={{ maxHeight: 420, contain: "layout paint" }}>
+    <>
+      {/* Layout containment: an edit relayouts the table's box, not the whole page. */}
+      <div className="overflow-auto rounded-md border border-ink-100" style={{ maxHeight: 420, contain: "layout paint" }}>
       <table
         ref={gridRef}
         role="grid"
@@ -372,7 +378,11 @@ export function LayerTable(props: LayerTableProps) {
           ) : null}
         </tbody>
       </table>
-    </div>
+      </div>
+      <p role="status" className="pt-1 text-xs text-[#8a5210]">
+        {notice}
+      </p>
+    </>
   );
 }
 
