@@ -341,7 +341,8 @@ export function LayerTable(props: LayerTableProps) {
                                   setEditing(null);
                                   moveTo(r, c);
                                 } else if (e.key === "Tab") {
-                                  if (!commit(0)) e.preventDefault();
+                                  // Focus moves on either way (no keyboard trap); an unreadable draft stays open, marked.
+                                  commit(0);
                                 }
                               }}
                               onBlur={() => commit(0)}
