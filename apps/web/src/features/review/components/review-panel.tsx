@@ -1,6 +1,6 @@
 // Review threads beside the chart: start a thread on a band, a wavelength range, a layer or the whole design;
 // reply with @mentions; resolve and reopen. Each thread says whether its anchor passes on this revision.
-import { useEffect, useRef, useState, memo } from "react";
+import { useEffect, useId, useRef, useState, memo } from "react";
 import type { FormEvent } from "react";
 import type { SpecBand } from "@stackproof/optics";
 import { useAddComment, useCreateThread, useMembers, useSetThreadState, useThreads } from "../api/threads.ts";
@@ -80,6 +80,7 @@ function NewThread(props: ReviewPanelProps) {
   const [seen, setSeen] = useState<ThreadAnchor | null>(null);
   const [error, setError] = useState<string | null>(null);
   const formRef = useRef<HTMLFormElement>(null);
+  const formId = useId();
 
   // A band, range or layer picked elsewhere on the page brings the comment box into view and focus, so the pick
   // visibly leads somewhere also when this panel sits below the chart (narrow screens).
@@ -150,13 +151,18 @@ function NewThread(props: ReviewPanelProps) {
             <option value="design">the whole design</option>
           </select>
         </label>
-        <label className="text-xs text-ink-700">
-          Severity
-          <select className={fieldCls} value={severity} onChange={(e) => setSeverity(e.target.value as "blocking" | "advisory")}>
-            <option value="blocking">blocking (holds approval)</option>
-            <option value="advisory">advisory</option>
-          </select>
-        </label>
+        <div className="text-xs text-ink-700">
+          <label>
+            Severity
+            <select className={fieldCls} value={severity} aria-describedby={`${formId}-sev`} onChange={(e) => setSeverity(e.target.value as "blocking" | "advisory")}>
+              <option value="blocking">blocking</option>
+              <option value="advisory">advisory</option>
+            </select>
+          </label>
+          <span id={`${formId}-sev`} className="mt-0.5 block text-ink-500">
+            {severity === "blocking" ? "holds the sign-off until resolved" : "a remark; does not hold the sign-off"}
+          </span>
+        </div>
         {kind === "band" ? (
           <label className="col-span-2 text-xs text-ink-700">
             Band
