@@ -81,11 +81,11 @@ export interface MonteCarloBench {
 
 const now = (): number => performance.now() / 1000;
 
-/** Run the benchmark (about 10–20 s on a laptop core for the default 2000 trials). */
-export async function runMonteCarloBench(trials = 2000): Promise<MonteCarloBench> {
+/** Run the benchmark (a few seconds on a laptop core for the default 20000 trials). */
+export async function runMonteCarloBench(trials = 20000): Promise<MonteCarloBench> {
   const study = benchStudy(trials);
   const runner = createYieldRunner(study);
-  runner.runChunk(0, Math.min(50, trials)); // warm up the JIT
+  runner.runChunk(0, Math.min(1000, trials)); // warm up the JIT
   const t0 = now();
   for (const [s, c] of planChunks(trials, 250)) runner.runChunk(s, c);
   const inProcess = now() - t0;
@@ -93,7 +93,8 @@ export async function runMonteCarloBench(trials = 2000): Promise<MonteCarloBench
   const timedPool = async (size: number) => {
     const pool = createYieldPool(size);
     try {
-      await pool.run(benchStudy(Math.min(100, trials)));
+      // every thread JIT-compiles on its own: warm each one through a few hundred trials
+      await pool.run(benchStudy(Math.min(2000, trials)));
       const start = now();
       const result = await pool.run(study);
       return { seconds: now() - start, result };
@@ -133,6 +134,6 @@ export function formatMonteCarloBench(b: MonteCarloBench): string {
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
-  const trials = Number(process.argv[2] ?? 2000);
+  const trials = Number(process.argv[2] ?? 20000);
   process.stdout.write(formatMonteCarloBench(await runMonteCarloBench(trials)) + "\n");
 }
