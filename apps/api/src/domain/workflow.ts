@@ -207,7 +207,7 @@ export function gateOf(
       ? {
           id: "state",
           ok: false,
-          message: `The revision is ${revision.status.replace("_", " ")}; only a revision in review can be approved.`,
+          message: `The revision ${STATE_PHRASE[revision.status] ?? `is ${revision.status}`}; only a revision in review can be approved.`,
         }
       : superseded
         ? {
@@ -523,3 +523,13 @@ export function releaseSnapshot(
 }
 
 export type ReleaseSnapshot = ReturnType<typeof releaseSnapshot>;
+
+/** How the gate names a revision's state in a sentence ("The revision has changes requested"). */
+const STATE_PHRASE: Record<string, string> = {
+  draft: "is a draft",
+  in_review: "is in review",
+  changes_requested: "has changes requested",
+  approved: "is already approved",
+  released: "is already released",
+  withdrawn: "is withdrawn",
+};
