@@ -18,7 +18,7 @@ import { createApp, createContext, loadEnv, type AppContext } from "@stackproof/
 const HOST = "stackproof.test";
 const ORIGIN = `http://${HOST}`;
 const API = "/api/v1";
-const PASSWORD = "stackproof-demo";
+const PASSWORD = "demo-quartz-lantern";
 
 let ctx: AppContext;
 let app: ReturnType<typeof createApp>;
@@ -44,7 +44,7 @@ async function waitForRun(agent: ReturnType<typeof request.agent>, id: string) {
 beforeAll(async () => {
   dir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-journey-"));
   ctx = await createContext(
-    loadEnv({ NODE_ENV: "test", DATA_DIR: dir, DEMO_DATA: "true", YIELD_WORKERS: "1" }),
+    loadEnv({ NODE_ENV: "test", DATA_DIR: dir, DEMO_DATA: "true", YIELD_WORKERS: "1", PUBLIC_URL: ORIGIN }),
   );
   app = createApp(ctx);
 });

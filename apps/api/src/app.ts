@@ -18,7 +18,8 @@ export { loadEnv } from "./env.ts";
 export function createApp(ctx: AppContext): Express {
   const app = express();
   app.disable("x-powered-by");
-  app.set("trust proxy", "loopback");
+  // X-Forwarded-For counts only behind a configured proxy; otherwise req.ip is the socket address.
+  app.set("trust proxy", ctx.env.TRUST_PROXY);
   app.use(
     helmet({
       contentSecurityPolicy: {

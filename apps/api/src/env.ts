@@ -14,21 +14,56 @@ const EnvSchema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
   HOST: z.string().default("127.0.0.1"),
   PORT: z.coerce.number().int().min(0).max(65535).default(5317),
-  /** Public URL that links in e-mails point at. Defaults to http://HOST:PORT. */
+  /** Public URL that links in e-mails point at, and an allowed origin. Defaults to http://HOST:PORT. */
   PUBLIC_URL: z.string().url().optional(),
+  /** More origins that may send mutations (comma-separated, e.g. "https://a.example,https://b.example"). */
+  ALLOWED_ORIGINS: z
+    .string()
+    .optional()
+    .transform((v, c) => {
+      const out: string[] = [];
+      for (const item of (v ?? "").split(",").map((s) => s.trim()).filter(Boolean)) {
+        try {
+          const origin = new URL(item).origin;
+          if (origin === "null") throw new Error("opaque");
+          out.push(origin);
+        } catch {
+          c.addIssue({ code: "custom", message: `"${item}" is not an origin like https://stackproof.example` });
+        }
+      }
+      return out;
+    }),
+  /**
+   * Express "trust proxy": unset = the socket address is the client (X-Forwarded-For ignored). A number of hops,
+   * "true", or a comma-separated list of proxy addresses/subnets ("loopback", "10.0.0.0/8").
+   */
+  TRUST_PROXY: z
+    .string()
+    .optional()
+    .transform((v): boolean | number | string => {
+      if (v === undefined || v === "" || v === "false" || v === "0") return false;
+      if (v === "true") return true;
+      if (/^\d+$/.test(v)) return Number(v);
+      return v;
+    }),
   DATA_DIR: z.string().default(path.join(repoRoot, "data")),
   /** SQLite file; defaults to DATA_DIR/stackproof.db. */
   DATABASE_FILE: z.string().optional(),
-  /** Load the fictional demo workspace when the database is new. */
-  DEMO_DATA: boolish.default(true),
+  /** Load the fictional demo workspace when the database is new. Default: on, except in production (off). */
+  DEMO_DATA: boolish.optional(),
   /** Built web app served in production. */
   WEB_DIST: z.string().default(path.join(repoRoot, "apps/web/dist")),
-  /** Outgoing mail. Without SMTP_HOST a capture server on loopback keeps messages for the outbox page. */
+  /**
+   * Outgoing mail. Without SMTP_HOST a capture server on loopback keeps messages for the outbox page (admins only);
+   * in production only when MAIL_CAPTURE=true.
+   */
   SMTP_HOST: z.string().optional(),
   SMTP_PORT: z.coerce.number().int().optional(),
   SMTP_USER: z.string().optional(),
   SMTP_PASSWORD: z.string().optional(),
   SMTP_SECURE: boolish.optional(),
+  /** Keep mail in the local capture (outbox page). Default: on without SMTP_HOST, except in production (off). */
+  MAIL_CAPTURE: boolish.optional(),
   MAIL_FROM: z.string().default("Stackproof <no-reply@stackproof.local>"),
   /** Port of the local capture SMTP server (0 = any free port). */
   CAPTURE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(0),
@@ -36,7 +71,15 @@ const EnvSchema = z.object({
   YIELD_WORKERS: z.coerce.number().int().min(1).max(64).optional(),
 });
 
-export type Env = z.infer<typeof EnvSchema>;
+type ParsedEnv = z.infer<typeof EnvSchema>;
+
+/** The configuration, with the production-sensitive switches resolved to plain booleans. */
+export type Env = Omit<ParsedEnv, "DEMO_DATA" | "MAIL_CAPTURE"> & {
+  /** Load the demo workspace into a new database (explicit DEMO_DATA, else on outside production). */
+  DEMO_DATA: boolean;
+  /** Mail goes to the local capture and the outbox page (no SMTP_HOST; explicit in production). */
+  MAIL_CAPTURE: boolean;
+};
 
 export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
   const parsed = EnvSchema.safeParse(source);
@@ -44,5 +87,21 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
     const lines = parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`);
     throw new Error(`Invalid configuration:\n  ${lines.join("\n  ")}`);
   }
-  return parsed.data;
+  const data = parsed.data;
+  const production = data.NODE_ENV === "production";
+  if (data.SMTP_HOST && data.MAIL_CAPTURE === true) {
+    throw new Error(
+      "Invalid configuration:\n  MAIL_CAPTURE=true and SMTP_HOST are both set: choose a real mail server or the local capture.",
+    );
+  }
+  const capture = !data.SMTP_HOST && (data.MAIL_CAPTURE ?? !production);
+  if (!data.SMTP_HOST && !capture) {
+    // Refusing to start beats silently dropping password-reset and invitation mail.
+    throw new Error(
+      "Invalid configuration:\n  Stackproof has nowhere to send e-mail. Set SMTP_HOST (and SMTP_PORT, SMTP_USER, " +
+        "SMTP_PASSWORD) for a real mail server, or MAIL_CAPTURE=true to keep mail in the local outbox " +
+        "(readable by workspace admins; for demos and trials).",
+    );
+  }
+  return { ...data, DEMO_DATA: data.DEMO_DATA ?? !production, MAIL_CAPTURE: capture };
 }

@@ -56,6 +56,8 @@ export async function startProduct(options: { demo?: boolean; env?: Record<strin
       PORT: String(port),
       DATA_DIR: dataDir,
       DEMO_DATA: options.demo === false ? "false" : "true",
+      // Production refuses to start without a mail server unless the local capture is asked for.
+      MAIL_CAPTURE: "true",
       YIELD_WORKERS: "2",
       ...options.env,
     },
@@ -141,7 +143,7 @@ export async function openBrowser(options: { width?: number; height?: number } =
 }
 
 /** Signs in through the sign-in page and waits until the app shell shows. */
-export async function signInAs(page: Page, baseUrl: string, email: string, password = "stackproof-demo") {
+export async function signInAs(page: Page, baseUrl: string, email: string, password = "demo-quartz-lantern") {
   await page.goto(`${baseUrl}/sign-in`);
   await page.getByLabel(/e-?mail/i).fill(email);
   await page.getByLabel(/password/i).fill(password);
@@ -154,5 +156,5 @@ export const DEMO = {
   designer: "designer@halvorsen.example",
   reviewer: "reviewer@halvorsen.example",
   approver: "approver@halvorsen.example",
-  password: "stackproof-demo",
+  password: "demo-quartz-lantern",
 } as const;

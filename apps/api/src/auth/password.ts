@@ -1,11 +1,42 @@
 // Password hashing with argon2id (the @node-rs/argon2 default algorithm), OWASP's minimum parameters:
 // 19 MiB memory, 2 iterations, 1 lane (OWASP Password Storage Cheat Sheet).
 import { hash, verify } from "@node-rs/argon2";
+import { ZxcvbnFactory } from "@zxcvbn-ts/core";
+import * as zxcvbnCommon from "@zxcvbn-ts/language-common";
+import * as zxcvbnEn from "@zxcvbn-ts/language-en";
 
 const OPTIONS = { memoryCost: 19456, timeCost: 2, parallelism: 1, outputLen: 32 } as const;
 
-export const PASSWORD_MIN = 10;
+/** At least 12 characters (OWASP ASVS 5.0 V6.2.1 asks for 8 at least; 12 is the common-practice floor here). */
+export const PASSWORD_MIN = 12;
 export const PASSWORD_MAX = 200;
+/** zxcvbn score a new password must reach: 3 = "safely unguessable: moderate protection from offline attack". */
+export const PASSWORD_MIN_SCORE = 3;
+
+let estimator: ZxcvbnFactory | undefined;
+/** Built on first use: loading the dictionaries takes about a second. */
+function strengthEstimator(): ZxcvbnFactory {
+  estimator ??= new ZxcvbnFactory({
+    dictionary: { ...zxcvbnCommon.dictionary, ...zxcvbnEn.dictionary },
+    graphs: zxcvbnCommon.adjacencyGraphs,
+    translations: zxcvbnEn.translations,
+  });
+  return estimator;
+}
+
+/**
+ * Why `password` may not be used, or null when it may: 12 to 200 characters and a zxcvbn score of at least 3,
+ * where the person's own e-mail, name and the product name count as guessable words.
+ */
+export function passwordProblem(password: string, personal: readonly string[] = []): string | null {
+  if (password.length < PASSWORD_MIN) return `Use at least ${PASSWORD_MIN} characters.`;
+  if (password.length > PASSWORD_MAX) return `Use at most ${PASSWORD_MAX} characters.`;
+  const inputs = ["stackproof", "halvorsen", ...personal.flatMap((p) => p.toLowerCase().split(/[^a-z0-9]+/)).filter((w) => w.length > 2)];
+  const result = strengthEstimator().check(password, inputs);
+  if (result.score >= PASSWORD_MIN_SCORE) return null;
+  const hint = [result.feedback.warning, ...result.feedback.suggestions].filter(Boolean).join(" ");
+  return `This password is too easy to guess.${hint ? ` ${hint}` : ""} A few unrelated words make a strong one.`;
+}
 
 export function hashPassword(password: string): Promise<string> {
   return hash(password, OPTIONS);

@@ -35,7 +35,8 @@ import { releaseSnapshot } from "../domain/workflow.ts";
 import { demoPrograms, type DemoProgram } from "./designs.ts";
 
 /** Demo only: every demo account uses this password. */
-export const DEMO_PASSWORD = "stackproof-demo";
+// Strong enough for the password rules (zxcvbn score ≥ 3), yet published: demo only, never in production unless asked.
+export const DEMO_PASSWORD = "demo-quartz-lantern";
 export const DEMO_WORKSPACE = "Halvorsen Thinfilm Works";
 
 export const DEMO_ACCOUNTS: { key: string; name: string; email: string; roles: Role[]; title: string }[] = [

@@ -36,8 +36,8 @@ function base(ctx: AppContext, rc: RevisionContext, recipient: Recipient) {
   };
 }
 
-function send(ctx: AppContext, to: Recipient, content: { subject: string; text: string; html: string }) {
-  void ctx.mail.send({ to: to.email, subject: content.subject, text: content.text, html: content.html });
+function send(ctx: AppContext, rc: RevisionContext, to: Recipient, content: { subject: string; text: string; html: string }) {
+  void ctx.mail.send({ to: to.email, subject: content.subject, text: content.text, html: content.html, workspaceId: rc.program.workspaceId });
 }
 
 export function mailReviewRequested(
@@ -50,6 +50,7 @@ export function mailReviewRequested(
     if (r.id === author.id || !r.roles.includes("reviewer")) continue;
     send(
       ctx,
+      rc,
       r,
       templates.reviewRequested({ ...base(ctx, rc, r), authorName: author.name, note: note || undefined }),
     );
@@ -70,6 +71,7 @@ export function mailChangesRequested(
   if (!author || author.id === reviewer.id) return;
   send(
     ctx,
+    rc,
     author,
     templates.changesRequested({
       ...base(ctx, rc, author),
@@ -89,6 +91,7 @@ export function mailApproved(
   if (!author || author.id === approver.id) return;
   send(
     ctx,
+    rc,
     author,
     templates.approved({ ...base(ctx, rc, author), approverName: approver.name, note: note || undefined }),
   );
@@ -108,6 +111,7 @@ export function mailReleased(
     if (r.id !== rc.revision.authorId && !r.roles.includes("approver")) continue;
     send(
       ctx,
+      rc,
       r,
       templates.released({
         ...base(ctx, rc, r),
@@ -137,5 +141,5 @@ export function mailMention(
     authorName,
     excerpt,
   });
-  void ctx.mail.send({ to: to.email, subject: content.subject, text: content.text, html: content.html });
+  void ctx.mail.send({ to: to.email, subject: content.subject, text: content.text, html: content.html, workspaceId: rc.program.workspaceId });
 }

@@ -30,9 +30,35 @@ export const notFoundHandler: RequestHandler = (req, _res, next) => {
   next(new HttpError(404, "not_found", `No route for ${req.method} ${req.path}.`));
 };
 
-interface BodyParserError extends Error {
+/** Errors raised by body-parser, raw-body and the router (http-errors): they carry a status and often a type. */
+interface ClientError extends Error {
   type?: string;
   status?: number;
+  statusCode?: number;
+  expose?: boolean;
+}
+
+/** Plain-English answers for the request errors Express's parsers raise, by their `type`. */
+const CLIENT_ERRORS: Record<string, { code: string; message: string }> = {
+  "entity.parse.failed": { code: "malformed_json", message: "The request body is not valid JSON." },
+  "entity.too.large": { code: "payload_too_large", message: "The request body is too large." },
+  "charset.unsupported": {
+    code: "unsupported_charset",
+    message: "The request body's charset is not supported; send JSON as UTF-8 (Content-Type: application/json).",
+  },
+  "encoding.unsupported": {
+    code: "unsupported_content_encoding",
+    message: "The request's Content-Encoding is not supported; send identity, gzip, deflate or br.",
+  },
+  "request.aborted": { code: "request_aborted", message: "The request body ended early." },
+  "request.size.invalid": { code: "bad_content_length", message: "The request body does not match its Content-Length." },
+  "parameters.too.many": { code: "payload_too_large", message: "The request has too many parameters." },
+};
+
+/** A 4xx status carried by a parser or router error (http-errors style), or null. */
+function clientStatus(e: ClientError): number | null {
+  const status = e.status ?? e.statusCode;
+  return typeof status === "number" && Number.isInteger(status) && status >= 400 && status < 500 ? status : null;
 }
 
 export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, _next) => {
@@ -56,13 +82,18 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, _next
     res.status(400).json({ error: { code: "invalid_value", message: err.message } });
     return;
   }
-  const e = err as BodyParserError;
-  if (e?.type === "entity.parse.failed") {
-    res.status(400).json({ error: { code: "malformed_json", message: "The request body is not valid JSON." } });
+  if (err instanceof URIError) {
+    // A path such as /api/v1/designs/%ff%fe that does not decode as UTF-8.
+    res.status(400).json({ error: { code: "malformed_uri", message: "The request path is not valid percent-encoded UTF-8." } });
     return;
   }
-  if (e?.type === "entity.too.large") {
-    res.status(413).json({ error: { code: "payload_too_large", message: "The request body is too large." } });
+  const e = (err ?? {}) as ClientError;
+  const status = clientStatus(e);
+  if (status !== null) {
+    const known = e.type ? CLIENT_ERRORS[e.type] : undefined;
+    // A gzip/deflate body that does not inflate fails with a zlib error and status 400.
+    const message = known?.message ?? (e.expose && e.message ? `The request could not be read: ${e.message}.` : "The request could not be read.");
+    res.status(status).json({ error: { code: known?.code ?? "bad_request", message } });
     return;
   }
   console.error(err);

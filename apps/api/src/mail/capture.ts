@@ -16,6 +16,16 @@ function addressText(a: AddressObject | AddressObject[] | undefined): string {
   return (Array.isArray(a) ? a : [a]).map((x) => x.text).join(", ");
 }
 
+/** Plain addresses, lower case, joined by ", " (the outbox matches recipients against this). */
+function plainAddresses(a: AddressObject | AddressObject[] | undefined): string {
+  if (!a) return "";
+  return (Array.isArray(a) ? a : [a])
+    .flatMap((x) => x.value)
+    .map((v) => (v.address ?? "").toLowerCase())
+    .filter(Boolean)
+    .join(", ");
+}
+
 export async function startCaptureServer(store: Db, port: number): Promise<CaptureServer> {
   const server = new SMTPServer({
     secure: false,
@@ -32,7 +42,7 @@ export async function startCaptureServer(store: Db, port: number): Promise<Captu
             .values({
               id: newId(),
               messageId: parsed.messageId ?? null,
-              to: addressText(parsed.to) || envelopeTo,
+              to: plainAddresses(parsed.to) || envelopeTo.toLowerCase(),
               from: addressText(parsed.from),
               subject: parsed.subject ?? "(no subject)",
               text: parsed.text ?? "",

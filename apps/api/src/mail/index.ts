@@ -1,12 +1,13 @@
 // Outgoing e-mail over SMTP (nodemailer). Without SMTP_HOST a capture server on 127.0.0.1 receives every message
 // and stores it in the captured_mail table, which the outbox page reads.
 import path from "node:path";
+import { randomBytes } from "node:crypto";
 import nodemailer, { type Transporter } from "nodemailer";
 import type { Env } from "../env.ts";
 import type { Db } from "../db/client.ts";
 import { openDatabase, runMigrations } from "../db/client.ts";
 import { startCaptureServer, type CaptureServer } from "./capture.ts";
-import { createOutbox, type Outbox } from "./outbox.ts";
+import { createOutbox, messageIdFor, type Outbox } from "./outbox.ts";
 
 export type { Outbox, OutboxDetail, OutboxItem } from "./outbox.ts";
 export { templates, type MailContent } from "./templates.ts";
@@ -18,6 +19,8 @@ export interface MailMessage {
   subject: string;
   text: string;
   html?: string;
+  /** The workspace this message is sent for (tags its Message-ID; the outbox shows it to that workspace only). */
+  workspaceId?: string;
 }
 
 export interface MailService {
@@ -84,6 +87,7 @@ export async function createMailService(env: Env): Promise<MailService> {
         subject: message.subject,
         text: message.text,
         html: message.html,
+        messageId: messageIdFor(message.workspaceId, randomBytes(12).toString("hex")),
       });
     } catch (err) {
       console.error(`mail: could not send "${message.subject}" to ${message.to}:`, err);

@@ -1,20 +1,20 @@
 // Sign-in, sign-out, the current member, and password reset by e-mail.
-import type { Router } from "express";
+import type { Request, Router } from "express";
 import { and, asc, eq, gt, isNull } from "drizzle-orm";
 import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { memberships, passwordResets, sessions, users, workspaces } from "../../db/schema.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { luciaFor } from "../../auth/lucia.ts";
-import { hashPassword, normalizeEmail, verifyAgainstDummy, verifyPassword } from "../../auth/password.ts";
+import { hashPassword, normalizeEmail, passwordProblem, verifyAgainstDummy, verifyPassword } from "../../auth/password.ts";
 import { hashToken, newId, newToken } from "../../auth/tokens.ts";
 import { recordAudit } from "../../lib/audit.ts";
 import { HttpError } from "../../lib/errors.ts";
 import { route } from "../../lib/route.ts";
-import { createFailureLimiter } from "../../lib/rate-limit.ts";
+import { clientAddress, createFailureLimiter, failureLimit } from "../../lib/rate-limit.ts";
 import { appUrl } from "../../mail/links.ts";
 import { templates } from "../../mail/templates.ts";
-import { startSession } from "./session-cookie.ts";
+import { isDemoWorkspace, startSession } from "./session-cookie.ts";
 import { EmailInput, NewPassword, SessionInfo, TokenInput } from "./schemas.ts";
 
 /** Sign-in: 5 failures per e-mail and address, or 50 per address, within 15 minutes. */
@@ -24,15 +24,31 @@ export const RESET_LIFETIME_MS = 60 * 60_000;
 /** At most 5 reset e-mails per account per hour. */
 const RESET_MAILS_PER_HOUR = 5;
 
-function waitText(seconds: number): string {
-  const minutes = Math.ceil(seconds / 60);
-  return minutes <= 1 ? "about a minute" : `${minutes} minutes`;
-}
+const accountKey = (req: Request) => {
+  const email = typeof req.body?.email === "string" ? normalizeEmail(req.body.email) : "";
+  return `${email}|${clientAddress(req)}`;
+};
+/** 400 weak_password, naming why (too short, or what zxcvbn found guessable). */
+export const weakPassword = (problem: string) =>
+  new HttpError(400, "weak_password", `body.password: ${problem}`, [{ path: "password", message: problem }]);
+
+const signInWait = (wait: string) =>
+  `Too many failed sign-in attempts. Wait ${wait} and try again, or reset your password.`;
 
 export function authRoutes(ctx: AppContext, router: Router): void {
   const lucia = luciaFor(ctx.db, ctx.env);
-  const perAccount = createFailureLimiter({ max: SIGN_IN_LIMIT.perAccount, windowMs: SIGN_IN_LIMIT.windowMs });
-  const perAddress = createFailureLimiter({ max: SIGN_IN_LIMIT.perAddress, windowMs: SIGN_IN_LIMIT.windowMs });
+  const perAccount = failureLimit({
+    limit: SIGN_IN_LIMIT.perAccount,
+    windowMs: SIGN_IN_LIMIT.windowMs,
+    key: accountKey,
+    message: signInWait,
+  });
+  const perAddress = failureLimit({
+    limit: SIGN_IN_LIMIT.perAddress,
+    windowMs: SIGN_IN_LIMIT.windowMs,
+    key: clientAddress,
+    message: signInWait,
+  });
   const resetMails = createFailureLimiter({ max: RESET_MAILS_PER_HOUR, windowMs: 60 * 60_000 });
   let lastSweep = 0;
   /** Expired sessions are deleted when met; this removes the ones never seen again, at most hourly. */
@@ -52,6 +68,7 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       access: "public",
       body: z.object({ email: EmailInput, password: z.string().min(1, "Enter your password.").max(1000) }),
       response: SessionInfo,
+      before: [perAccount, perAddress],
       errors: {
         401: "Wrong e-mail or password (invalid_credentials)",
         403: "The account belongs to no workspace (no_membership)",
@@ -59,23 +76,9 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       },
     },
     async ({ body, req, res }) => {
-      const address = req.ip ?? "unknown";
-      const accountKey = `${body.email}|${address}`;
-      const wait = Math.max(perAccount.retryAfter(accountKey), perAddress.retryAfter(address));
-      if (wait > 0) {
-        res.set("Retry-After", String(wait));
-        throw new HttpError(
-          429,
-          "too_many_attempts",
-          `Too many failed sign-in attempts. Wait ${waitText(wait)} and try again, or reset your password.`,
-          { retryAfterSeconds: wait },
-        );
-      }
       const user = ctx.db.select().from(users).where(eq(users.email, body.email)).get();
       const ok = user ? await verifyPassword(user.passwordHash, body.password) : await verifyAgainstDummy(body.password);
       if (!user || !ok) {
-        perAccount.fail(accountKey);
-        perAddress.fail(address);
         throw new HttpError(401, "invalid_credentials", "That e-mail address and password do not match an account.");
       }
       const membership = ctx.db
@@ -88,7 +91,7 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       if (!membership) {
         throw new HttpError(403, "no_membership", "This account is not a member of any workspace. Ask an admin to invite you.");
       }
-      perAccount.reset(accountKey);
+      await perAccount.resetKey(accountKey(req));
       if (req.auth) await lucia.invalidateSession(req.auth.sessionId);
       await sweepExpiredSessions();
       return startSession(ctx, res, user, { id: membership.id, name: membership.name }, membership.roles);
@@ -110,7 +113,11 @@ export function authRoutes(ctx: AppContext, router: Router): void {
     { method: "get", path: "/auth/me", summary: "The signed-in member, workspace and roles", tag: "access", access: "member", response: SessionInfo },
     ({ req }) => {
       const auth = getAuth(req);
-      return { user: auth.user, workspace: { id: auth.workspaceId, name: auth.workspaceName }, roles: auth.roles };
+      return {
+        user: auth.user,
+        workspace: { id: auth.workspaceId, name: auth.workspaceName, demo: isDemoWorkspace(ctx.db, auth.workspaceId) },
+        roles: auth.roles,
+      };
     },
   );
 
@@ -155,7 +162,9 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       access: "public",
       status: 204,
       body: z.object({ token: TokenInput, password: NewPassword }),
-      errors: { 400: "Invalid input, or the link is unknown, used or expired (invalid_token)" },
+      errors: {
+        400: "Invalid input, a password shorter than 12 characters or too easy to guess (weak_password), or the link is unknown, used or expired (invalid_token)",
+      },
     },
     async ({ body }) => {
       const invalid = () =>
@@ -167,6 +176,9 @@ export function authRoutes(ctx: AppContext, router: Router): void {
         .where(and(eq(passwordResets.tokenHash, tokenHash), isNull(passwordResets.usedAt), gt(passwordResets.expiresAt, new Date())))
         .get();
       if (!found) throw invalid();
+      const owner = ctx.db.select({ email: users.email, name: users.name }).from(users).where(eq(users.id, found.userId)).get();
+      const problem = passwordProblem(body.password, owner ? [owner.email, owner.name] : []);
+      if (problem) throw weakPassword(problem);
       const passwordHash = await hashPassword(body.password);
       ctx.db.transaction((tx) => {
         const now = new Date();

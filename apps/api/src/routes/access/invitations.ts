@@ -7,7 +7,7 @@ import type { AppContext } from "../../context.ts";
 import { invitations, memberships, users, workspaces, type Role } from "../../db/schema.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { luciaFor } from "../../auth/lucia.ts";
-import { hashPassword, verifyPassword } from "../../auth/password.ts";
+import { hashPassword, passwordProblem, verifyPassword } from "../../auth/password.ts";
 import { hashToken, newId, newToken } from "../../auth/tokens.ts";
 import { recordAudit } from "../../lib/audit.ts";
 import { HttpError, conflict, notFound } from "../../lib/errors.ts";
@@ -16,10 +16,10 @@ import { route } from "../../lib/route.ts";
 import { appUrl } from "../../mail/links.ts";
 import { templates } from "../../mail/templates.ts";
 import { startSession } from "./session-cookie.ts";
+import { weakPassword } from "./auth.ts";
 import {
   EmailInput,
   IdParams,
-  NewPassword,
   PersonName,
   RoleSchema,
   RolesInput,
@@ -140,6 +140,7 @@ export function invitationRoutes(ctx: AppContext, router: Router): void {
       });
       await ctx.mail.send({
         to: body.email,
+        workspaceId: auth.workspaceId,
         ...templates.invitation({
           inviterName: auth.user.name,
           workspaceName: auth.workspaceName,
@@ -269,11 +270,8 @@ export function invitationRoutes(ctx: AppContext, router: Router): void {
       } else {
         const name = body.name;
         if (!name) throw new HttpError(400, "validation_failed", "body.name: Enter your name.", [{ path: "name", message: "Enter your name." }]);
-        const parsed = NewPassword.safeParse(body.password);
-        if (!parsed.success) {
-          const message = parsed.error.issues[0]?.message ?? "Choose a longer password.";
-          throw new HttpError(400, "validation_failed", `body.password: ${message}`, [{ path: "password", message }]);
-        }
+        const problem = passwordProblem(body.password, [inv.email, name]);
+        if (problem) throw weakPassword(problem);
         passwordHash = await hashPassword(body.password);
       }
       const result = ctx.db.transaction((tx) => {

@@ -23,7 +23,12 @@ export const PersonName = z.string().trim().min(1, "Enter a name.").max(100);
 export const TokenInput = z.string().min(20).max(200);
 
 export const UserSchema = z.object({ id: z.string(), email: z.string(), name: z.string() });
-export const WorkspaceSchema = z.object({ id: z.string(), name: z.string() });
+export const WorkspaceSchema = z.object({
+  id: z.string(),
+  name: z.string(),
+  /** The fictional demo workspace (its accounts have a published password): the web app shows a notice. */
+  demo: z.boolean(),
+});
 export const SessionInfo = z.object({ user: UserSchema, workspace: WorkspaceSchema, roles: z.array(RoleSchema) });
 export type SessionInfo = z.infer<typeof SessionInfo>;
 
