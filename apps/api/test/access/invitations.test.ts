@@ -57,7 +57,9 @@ describe("invitations", () => {
 
     const agent = originAgent(server);
     const short = await agent.post("/api/v1/invitations/accept").send({ token, name: "Leif Brekke", password: "short" }).expect(400);
-    expect(short.body.error.message).toMatch(/at least 10/);
+    expect(short.body.error.message).toMatch(/at least 12/);
+    const guessable = await agent.post("/api/v1/invitations/accept").send({ token, name: "Leif Brekke", password: "password1234" }).expect(400);
+    expect(guessable.body.error.code).toBe("weak_password");
     const accepted = await agent
       .post("/api/v1/invitations/accept")
       .send({ token, name: "Leif Brekke", password: "a long enough password" })

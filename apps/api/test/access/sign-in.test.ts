@@ -23,7 +23,7 @@ describe("sign-in", () => {
       .expect(200);
     expect(res.body).toEqual({
       user: { id: m.user.id, email: m.email, name: "Ingrid Solberg" },
-      workspace: { id: m.workspaceId, name: "Halvorsen Thinfilm Works" },
+      workspace: { id: m.workspaceId, name: "Halvorsen Thinfilm Works", demo: false },
       roles: ["designer", "reviewer"],
     });
     const cookie = res.headers["set-cookie"]?.[0] ?? "";
@@ -71,8 +71,8 @@ describe("sign-in", () => {
 describe("session cookie in production", () => {
   it("is Secure, and not when PUBLIC_URL is plain http", async () => {
     for (const [overrides, secure] of [
-      [{ NODE_ENV: "production" }, true],
-      [{ NODE_ENV: "production", PUBLIC_URL: "http://coatings-lab.halvorsen-thinfilm.test" }, false],
+      [{ NODE_ENV: "production", MAIL_CAPTURE: "true" }, true],
+      [{ NODE_ENV: "production", MAIL_CAPTURE: "true", PUBLIC_URL: "http://coatings-lab.halvorsen-thinfilm.test" }, false],
     ] as const) {
       const prod = await createTestServer(overrides);
       try {

@@ -21,7 +21,7 @@ export async function createTestServer(overrides: Record<string, string> = {}): 
     DEMO_DATA: "false",
     YIELD_WORKERS: "1",
     // The origin the support agents send (support/auth.ts TEST_ORIGIN); allowed origins come from configuration.
-    PUBLIC_URL: "http://stackproof.test",
+    ALLOWED_ORIGINS: "http://stackproof.test",
     ...overrides,
   });
   const ctx = await createContext(env);
