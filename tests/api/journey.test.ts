@@ -148,7 +148,7 @@ describe("review journey", () => {
     });
     const r2 = await designer
       .post(`${API}/designs/${created.body.design.id}/revisions`)
-      .send({ stack: qhq, note: "QHQ" })
+      .send({ baseRevisionId: r1.id, stack: qhq, note: "QHQ" })
       .expect(201);
     expect(r2.body.number).toBe(2);
     expect(r2.body.nominal.pass).toBe(true);

@@ -84,6 +84,46 @@ export function createRevision(tx: DbOrTx, input: NewRevision): RevisionRow {
   return tx.select().from(revisions).where(eq(revisions.id, row.id)).get() as RevisionRow;
 }
 
+/**
+ * Refuses a save whose base is not the design's latest revision (another save got in first): 409 stale_base naming
+ * both revisions. Call inside the transaction that creates the revision, so two saves from one base cannot both pass.
+ * `baseRevisionId` null is accepted only while the design has no revision yet.
+ */
+export function assertFreshBase(tx: DbOrTx, designId: string, baseRevisionId: string | null): void {
+  const latest = tx
+    .select({ id: revisions.id, number: revisions.number, createdAt: revisions.createdAt })
+    .from(revisions)
+    .where(eq(revisions.designId, designId))
+    .orderBy(desc(revisions.number))
+    .limit(1)
+    .get();
+  if (!latest && baseRevisionId === null) return;
+  const base =
+    baseRevisionId === null
+      ? undefined
+      : tx
+          .select({ id: revisions.id, number: revisions.number })
+          .from(revisions)
+          .where(and(eq(revisions.id, baseRevisionId), eq(revisions.designId, designId)))
+          .get();
+  if (baseRevisionId !== null && !base) {
+    throw new HttpError(400, "unknown_base", `Revision ${baseRevisionId} is not a revision of this design.`);
+  }
+  if (latest && base?.id === latest.id) return;
+  if (!latest) throw new HttpError(400, "unknown_base", "This design has no revision yet: save with baseRevisionId null.");
+  const from = base ? `rev ${base.number}` : "no revision";
+  throw new HttpError(
+    409,
+    "stale_base",
+    `This save starts from ${from}, but the design's latest is rev ${latest.number} (saved ${latest.createdAt.toISOString()}). ` +
+      `Open rev ${latest.number}, carry your changes over and save again.`,
+    {
+      baseRevision: base ? { id: base.id, number: base.number } : null,
+      latestRevision: { id: latest.id, number: latest.number },
+    },
+  );
+}
+
 export function programView(p: ProgramRow) {
   return {
     id: p.id,

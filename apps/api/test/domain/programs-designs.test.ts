@@ -121,14 +121,14 @@ describe("designs and revisions", () => {
     const { design, revision } = await createDesign(team, program.id);
     const r2 = await team.members.designer2.agent
       .post(`${API}/designs/${design.id}/revisions`)
-      .send({ stack: singleLayerAr(), note: "same" })
+      .send({ baseRevisionId: revision.id, stack: singleLayerAr(), note: "same" })
       .expect(201);
     expect(r2.body.number).toBe(2);
     expect(r2.body.hash).toBe(revision.hash);
     expect(r2.body.author.name).toBe("Oskar Lind");
     const r3 = await team.members.designer.agent
       .post(`${API}/designs/${design.id}/revisions`)
-      .send({ stack: twoLayerAr(), note: "two layers" })
+      .send({ baseRevisionId: r2.body.id, stack: twoLayerAr(), note: "two layers" })
       .expect(201);
     expect(r3.body.number).toBe(3);
     expect(r3.body.hash).not.toBe(revision.hash);
@@ -155,7 +155,7 @@ describe("designs and revisions", () => {
       .expect(403);
     await team.members.designer.agent
       .post(`${API}/designs/nope/revisions`)
-      .send({ stack: singleLayerAr() })
+      .send({ baseRevisionId: "nope", stack: singleLayerAr() })
       .expect(404);
     await team.members.designer.agent.get(`${API}/designs/nope`).expect(404);
     await team.members.designer.agent.get(`${API}/revisions/nope`).expect(404);
@@ -167,7 +167,7 @@ describe("designs and revisions", () => {
     const { design, revision } = await createDesign(team, program.id);
     const r2 = await team.members.designer.agent
       .post(`${API}/designs/${design.id}/revisions`)
-      .send({ stack: twoLayerAr() })
+      .send({ baseRevisionId: revision.id, stack: twoLayerAr() })
       .expect(201);
     const diff = await team.members.reviewer.agent
       .get(`${API}/revisions/${r2.body.id}/diff?against=${revision.id}`)
@@ -189,7 +189,7 @@ describe("designs and revisions", () => {
     layer.thickness += 2.5;
     const r3 = await team.members.designer.agent
       .post(`${API}/designs/${design.id}/revisions`)
-      .send({ stack: thicker })
+      .send({ baseRevisionId: r2.body.id, stack: thicker })
       .expect(201);
     const delta = await team.members.reviewer.agent
       .get(`${API}/revisions/${r3.body.id}/diff?against=${revision.id}`)

@@ -17,6 +17,7 @@ import {
   twoLayerAr,
   waitForRun,
   type Team,
+  latestRevisionId,
 } from "./fixtures.ts";
 
 let server: TestServer;
@@ -41,7 +42,8 @@ async function act(who: Who, revisionId: string, action: string) {
 }
 
 async function newRevision(who: Who, designId: string): Promise<string> {
-  const res = await agentOf(who).post(`${API}/designs/${designId}/revisions`).send({ stack: twoLayerAr() });
+  const baseRevisionId = await latestRevisionId(agentOf(who), designId);
+  const res = await agentOf(who).post(`${API}/designs/${designId}/revisions`).send({ baseRevisionId, stack: twoLayerAr() });
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return res.body.id as string;
 }

@@ -98,7 +98,7 @@ describe("review threads", () => {
     const tight = { bands: AR_MASK.bands.map((b) => (b.id === "avg" ? { ...b, value: 1 } : b)) };
     const r2 = await team.members.designer.agent
       .post(`${API}/designs/${design.id}/revisions`)
-      .send({ stack: singleLayerAr(), specMask: tight })
+      .send({ baseRevisionId: r1.id, stack: singleLayerAr(), specMask: tight })
       .expect(201);
     expect(r2.body.nominal.pass).toBe(false);
     const later = await reviewer

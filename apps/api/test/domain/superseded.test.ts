@@ -11,6 +11,7 @@ import {
   twoLayerAr,
   waitForRun,
   type Team,
+  latestRevisionId,
 } from "./fixtures.ts";
 
 let server: TestServer;
@@ -41,9 +42,10 @@ async function verifiedRun(revisionId: string) {
 }
 
 async function addRevision(designId: string): Promise<string> {
+  const baseRevisionId = await latestRevisionId(team.members.designer.agent, designId);
   const res = await team.members.designer.agent
     .post(`${API}/designs/${designId}/revisions`)
-    .send({ stack: twoLayerAr(), note: "rev 2" })
+    .send({ baseRevisionId, stack: twoLayerAr(), note: "rev 2" })
     .expect(201);
   return res.body.id as string;
 }

@@ -12,7 +12,7 @@ import { route } from "../../lib/route.ts";
 import { diffStacks } from "../../domain/diff.ts";
 import { loadDesign, loadRevision, stackOf } from "../../domain/load.ts";
 import { resolveDesign, workspaceMaterials } from "../../domain/materials.ts";
-import { createRevision, designView, overviewRows, revisionView } from "../../domain/revisions.ts";
+import { assertFreshBase, createRevision, designView, overviewRows, revisionView } from "../../domain/revisions.ts";
 import { workQueue } from "../../domain/queue.ts";
 import { parseLayerCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
@@ -93,19 +93,23 @@ export function designRoutes(ctx: AppContext, router: Router): void {
     {
       method: "post",
       path: "/designs/:id/revisions",
-      summary: "Add a revision (number = last + 1, status draft)",
+      summary: "Add a revision (number = last + 1, status draft) from the named base revision",
       tag: TAG,
       access: ["designer"],
       params: IdParams,
       body: NewRevisionBody,
       status: 201,
       response: RevisionSchema,
-      errors: { 404: "No such design in this workspace" },
+      errors: {
+        404: "No such design in this workspace",
+        409: "The base revision is not the design's latest (stale_base); details name both revisions",
+      },
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
       const { design, program } = loadDesign(ctx.db, auth.workspaceId, params.id);
       const revision = ctx.db.transaction((tx) => {
+        assertFreshBase(tx, design.id, body.baseRevisionId);
         const revision = createRevision(tx, {
           workspaceId: auth.workspaceId,
           design,

@@ -118,6 +118,12 @@ export const NewDesignBody = z.object({
 });
 
 export const NewRevisionBody = z.object({
+  /** The revision this save starts from (the design's latest); a stale base answers 409 stale_base. */
+  baseRevisionId: z
+    .string({ error: "Name the revision this save starts from (baseRevisionId; null for a design's first)." })
+    .min(1)
+    .max(100)
+    .nullable(),
   stack: z.unknown(),
   note: text(5000).default(""),
   specMask: z.unknown().optional(),
