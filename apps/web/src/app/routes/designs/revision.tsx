@@ -16,7 +16,7 @@ import { revisionQueryOptions, useRevision } from "../../../features/workspace/a
 import { designQueryOptions, useDesign } from "../../../features/workspace/api/get-design.ts";
 import { programQueryOptions, useProgram } from "../../../features/workspace/api/get-program.ts";
 import { materialsQueryOptions, useMaterials } from "../../../features/workspace/api/get-materials.ts";
-import { useCreateRevision } from "../../../features/workspace/api/create-revision.ts";
+import { staleBaseOf, useCreateRevision } from "../../../features/workspace/api/create-revision.ts";
 import type { Program, Revision, DesignDetail } from "../../../features/workspace/api/types.ts";
 import { editorReducer, initEditor, sameDesign } from "../../../features/workspace/lib/editor-state.ts";
 import { libraryOptions, withWorkspaceMaterials } from "../../../features/workspace/lib/materials.ts";
@@ -124,7 +124,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
   const save = useCallback(
     (stack: Design, note: string) =>
       create.mutate(
-        { designId: design.id, stack: withWorkspaceMaterials(stack, materials), note },
+        { designId: design.id, baseRevisionId: revision.id, stack: withWorkspaceMaterials(stack, materials), note },
         {
           onSuccess: (r) => {
             leavingSaved.current = true;
@@ -132,8 +132,16 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
           },
         },
       ),
-    [create, design.id, materials, navigate],
+    [create, design.id, revision.id, materials, navigate],
   );
+  const staleBase = staleBaseOf(create.error);
+  const stale = staleBase
+    ? {
+        baseNumber: staleBase.base?.number ?? null,
+        latestNumber: staleBase.latest.number,
+        latestHref: paths.revision(design.id, staleBase.latest.id),
+      }
+    : null;
 
   const overlays: ChartCurve[] = [];
   if (preview) {
@@ -238,7 +246,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
         </div>
         <div className="ml-auto flex min-w-72 flex-col items-end gap-2">
           <ImportExport design={current} revisionNumber={revision.number} canImport={isDesigner} onImported={(d) => dispatch({ type: "replace", design: d })} />
-          <SaveRevisionForm canSave={isDesigner} dirty={dirty} pending={create.isPending} error={create.error?.message ?? null} onSave={(note) => save(state.present, note)} />
+          <SaveRevisionForm canSave={isDesigner} dirty={dirty} pending={create.isPending} error={create.error?.message ?? null} stale={stale} onSave={(note) => save(state.present, note)} />
         </div>
       </header>
       {program.protective ? <ProtectiveCaution application={program.application} /> : null}

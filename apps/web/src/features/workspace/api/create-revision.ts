@@ -1,10 +1,12 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import type { Design, SpecMask } from "@stackproof/optics";
-import { api } from "../../../lib/api-client.ts";
+import { api, ApiError } from "../../../lib/api-client.ts";
 import type { Revision } from "./types.ts";
 
 export interface CreateRevisionInput {
   designId: string;
+  /** The revision the edits start from; the server answers 409 stale_base when it is not the design's latest. */
+  baseRevisionId: string | null;
   stack: Design;
   note: string;
   specMask?: SpecMask;
@@ -13,10 +15,26 @@ export interface CreateRevisionInput {
 export const createRevision = ({ designId, ...body }: CreateRevisionInput) =>
   api.post<Revision>(`/designs/${designId}/revisions`, body);
 
+export interface StaleBase {
+  base: { id: string; number: number } | null;
+  latest: { id: string; number: number };
+}
+
+/** The two revisions of a 409 stale_base answer (someone saved first), or null for any other error. */
+export function staleBaseOf(error: unknown): StaleBase | null {
+  if (!(error instanceof ApiError) || error.status !== 409 || error.code !== "stale_base") return null;
+  const d = error.details as { baseRevision?: StaleBase["base"]; latestRevision?: StaleBase["latest"] } | undefined;
+  return d?.latestRevision ? { base: d.baseRevision ?? null, latest: d.latestRevision } : null;
+}
+
 export function useCreateRevision() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: createRevision,
     onSuccess: (_r, input) => qc.invalidateQueries({ queryKey: ["designs", input.designId] }),
+    // A stale base means the design has a newer revision: refresh the history so it shows.
+    onError: (error, input) => {
+      if (staleBaseOf(error)) void qc.invalidateQueries({ queryKey: ["designs", input.designId] });
+    },
   });
 }

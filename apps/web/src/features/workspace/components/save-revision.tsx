@@ -1,5 +1,6 @@
 import { useId, useState } from "react";
 import type { FormEvent } from "react";
+import { Link } from "react-router";
 
 /** "Save as new revision": a note and a button. A saved revision is immutable. */
 export function SaveRevisionForm({
@@ -8,12 +9,15 @@ export function SaveRevisionForm({
   error,
   onSave,
   canSave,
+  stale,
 }: {
   dirty: boolean;
   pending: boolean;
   error: string | null;
   onSave: (note: string) => void;
   canSave: boolean;
+  /** Set when the save was refused because someone saved a newer revision from the same base (409 stale_base). */
+  stale?: { baseNumber: number | null; latestNumber: number; latestHref: string } | null;
 }) {
   const [note, setNote] = useState("");
   const id = useId();
@@ -43,7 +47,19 @@ export function SaveRevisionForm({
       >
         {pending ? "Saving…" : "Save as new revision"}
       </button>
-      {error ? (
+      {stale ? (
+        <div role="alert" data-testid="stale-save" className="w-full rounded border border-verdict-fail/40 bg-verdict-fail/5 p-2 text-xs text-ink-900">
+          <p className="font-semibold text-verdict-fail">Not saved: rev {stale.latestNumber} was saved while you were editing.</p>
+          <p className="mt-0.5">
+            Your edits start from {stale.baseNumber === null ? "no revision" : `rev ${stale.baseNumber}`}, so saving them would
+            silently undo rev {stale.latestNumber}. Your edits are still here.{" "}
+            <Link to={stale.latestHref} target="_blank" rel="noopener" className="font-semibold text-film-teal underline">
+              Open rev {stale.latestNumber} in a new tab
+            </Link>
+            , carry your changes over there and save from it.
+          </p>
+        </div>
+      ) : error ? (
         <p role="alert" className="w-full text-xs text-verdict-fail">
           {error}
         </p>
