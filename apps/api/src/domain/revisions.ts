@@ -4,6 +4,7 @@ import { SpecMaskSchema, evaluateSpec, type SpecMask, type YieldResult } from "@
 import { designs, revisions, threads, yieldRuns } from "../db/schema.ts";
 import type { DbOrTx } from "../lib/audit.ts";
 import { HttpError } from "../lib/errors.ts";
+import { assertWithinLimits, designLimitProblems, maskLimitProblems } from "../lib/limits.ts";
 import { zodDetails } from "../lib/errors.ts";
 import { newId, revisionHash } from "./canonical.ts";
 import { resolveDesign } from "./materials.ts";
@@ -49,7 +50,9 @@ export interface NewRevision {
  * must be computable against the mask (e.g. tabulated materials must cover the bands), else 400.
  */
 export function createRevision(tx: DbOrTx, input: NewRevision): RevisionRow {
+  assertWithinLimits(designLimitProblems(input.stack));
   const stack = resolveDesign(tx, input.workspaceId, input.stack);
+  assertWithinLimits(maskLimitProblems(input.specMask ?? input.program.specMask));
   const mask = parseMask(input.specMask ?? input.program.specMask);
   const { protective: _drop, ...storedMask } = mask;
   try {

@@ -8,6 +8,7 @@ import { getAuth } from "../../auth/guards.ts";
 import { designs, programs } from "../../db/schema.ts";
 import { recordAudit } from "../../lib/audit.ts";
 import { HttpError } from "../../lib/errors.ts";
+import { assertWithinLimits, designLimitProblems } from "../../lib/limits.ts";
 import { route } from "../../lib/route.ts";
 import { diffStacks } from "../../domain/diff.ts";
 import { loadDesign, loadRevision, stackOf } from "../../domain/load.ts";
@@ -236,11 +237,13 @@ export function designRoutes(ctx: AppContext, router: Router): void {
             `${file.name} is not valid JSON: ${err instanceof Error ? err.message : String(err)}`,
           );
         }
+        assertWithinLimits(designLimitProblems(json));
         return { stack: resolveDesign(ctx.db, auth.workspaceId, json), warnings };
       }
       const ws = workspaceMaterials(ctx.db, auth.workspaceId);
       const known = (id: string) => MATERIAL_LIBRARY.some((m) => m.id === id) || ws.some((m) => m.id === id);
       const layers = parseLayerCsv(file.text, known);
+      assertWithinLimits(designLimitProblems({ layers }));
       const name = body.name || file.name.replace(/\.[^.]+$/, "") || "Imported design";
       let referenceWavelength = body.referenceWavelength;
       if (referenceWavelength === undefined) {

@@ -1,11 +1,15 @@
 // Request and response schemas shared by the domain routes (also the OpenAPI document's source).
 import { z } from "zod";
-import { ErrorModelSchema, MAX_TRIALS, SpecMaskSchema } from "@stackproof/optics";
+import { ErrorModelSchema, MAX_TRIALS, SpecMaskSchema as EngineSpecMaskSchema } from "@stackproof/optics";
+import { MAX_TRIALS_PER_RUN, refineMaskLimits, trialsLimitMessage } from "../../lib/limits.ts";
+
+/** The optics spec mask, within the request limits (MAX_SPEC_BANDS, MAX_POINTS_PER_BAND). */
+const SpecMaskSchema = EngineSpecMaskSchema.superRefine(refineMaskLimits);
 
 export const IdParams = z.object({ id: z.string().min(1).max(100) });
 
 export const StudyDefaultsSchema = z.object({
-  trials: z.number().int().min(1).max(MAX_TRIALS),
+  trials: z.number().int().min(1).max(Math.min(MAX_TRIALS, MAX_TRIALS_PER_RUN), trialsLimitMessage),
   seed: z.string().min(1).max(200),
 });
 

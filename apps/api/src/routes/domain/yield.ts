@@ -9,6 +9,7 @@ import {
   parseYieldStudy,
   type ErrorModel,
 } from "@stackproof/optics";
+import { MAX_TRIALS_PER_RUN, trialsLimitMessage } from "../../lib/limits.ts";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { yieldRuns } from "../../db/schema.ts";
@@ -69,7 +70,7 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       access: ["designer", "reviewer", "approver"],
       params: IdParams,
       body: z.object({
-        trials: z.number().int().min(1).max(MAX_TRIALS).optional(),
+        trials: z.number().int().min(1).max(Math.min(MAX_TRIALS, MAX_TRIALS_PER_RUN), trialsLimitMessage).optional(),
         seed: z.string().min(1).max(200).optional(),
         errorModel: ErrorModelSchema.optional(),
         clientResult: ClientResultSchema.optional(),
