@@ -31,7 +31,15 @@ function strengthEstimator(): ZxcvbnFactory {
 export function passwordProblem(password: string, personal: readonly string[] = []): string | null {
   if (password.length < PASSWORD_MIN) return `Use at least ${PASSWORD_MIN} characters.`;
   if (password.length > PASSWORD_MAX) return `Use at most ${PASSWORD_MAX} characters.`;
-  const inputs = ["stackproof", "halvorsen", ...personal.flatMap((p) => p.toLowerCase().split(/[^a-z0-9]+/)).filter((w) => w.length > 2)];
+  // Whole strings, squashed ("ingridsolberg") and word by word, so no part of the person's own data helps.
+  const inputs = [
+    "stackproof",
+    "halvorsen",
+    ...personal.flatMap((p) => {
+      const lower = p.toLowerCase();
+      return [lower, lower.replace(/[^a-z0-9]+/g, ""), ...lower.split(/[^a-z0-9]+/)];
+    }),
+  ].filter((w) => w.length > 2);
   const result = strengthEstimator().check(password, inputs);
   if (result.score >= PASSWORD_MIN_SCORE) return null;
   const hint = [result.feedback.warning, ...result.feedback.suggestions].filter(Boolean).join(" ");
