@@ -37,11 +37,10 @@ export function createRouter() {
       hydrateFallbackElement: <PageSpinner label="Opening Stackproof…" />,
       // Signed-out people are sent to /sign-in?next=<where they were going>.
       // The outbox check runs alongside, so the navigation does not grow a link after the page has shown.
+      // Only administrators have an outbox, so the check waits for the session.
       loader: async ({ request }) => {
-        const [session] = await Promise.all([
-          requireSession(request),
-          queryClient.ensureQueryData(outboxAvailableQueryOptions()),
-        ]);
+        const session = await requireSession(request);
+        if (session.roles.includes("admin")) await queryClient.ensureQueryData(outboxAvailableQueryOptions());
         return session;
       },
       children: [

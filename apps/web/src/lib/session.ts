@@ -25,7 +25,8 @@ export interface SessionUser {
 
 export interface Session {
   user: SessionUser;
-  workspace: { id: string; name: string };
+  /** `demo`: the fictional demo workspace (published passwords); the shell shows a notice. */
+  workspace: { id: string; name: string; demo?: boolean };
   roles: Role[];
 }
 

@@ -30,7 +30,7 @@ const accountKey = (req: Request) => {
 };
 /** 400 weak_password, naming why (too short, or what zxcvbn found guessable). */
 export const weakPassword = (problem: string) =>
-  new HttpError(400, "weak_password", `body.password: ${problem}`, [{ path: "password", message: problem }]);
+  new HttpError(400, "weak_password", problem, [{ path: "password", message: problem }]);
 
 const signInWait = (wait: string) =>
   `Too many failed sign-in attempts. Wait ${wait} and try again, or reset your password.`;

@@ -5,8 +5,10 @@ import { useOutboxMessage } from "../../features/outbox/api/get-message.ts";
 import { ApiError } from "../../lib/api-client.ts";
 import { queryClient } from "../../lib/query-client.ts";
 import { formatDateTime } from "../../lib/format.ts";
+import { requireRole } from "../../lib/session.ts";
 
-export function loader() {
+export async function loader({ request }: { request: Request }) {
+  await requireRole(request, ["admin"]);
   void queryClient.prefetchQuery(outboxQueryOptions());
   return null;
 }
@@ -76,8 +78,9 @@ export function Component() {
 
   const intro = (
     <Notice tone="warning" title="Demo and development only">
-      This server has no outgoing mail host configured, so it keeps every e-mail it would send here instead of
-      delivering it. A production server sends mail and has no outbox.
+      This server has no outgoing mail host configured, so it keeps every e-mail it would send for this workspace here
+      instead of delivering it. Password-reset and invitation links are hidden unless the message is addressed to you.
+      A production server sends mail and has no outbox unless it is switched on (MAIL_CAPTURE).
     </Notice>
   );
 

@@ -15,7 +15,7 @@ export function AppShell() {
   const location = useLocation();
   const navigate = useNavigate();
   const navigation = useNavigation();
-  const outboxAvailable = useOutboxAvailable();
+  const outboxAvailable = useOutboxAvailable(session?.roles.includes("admin") ?? false);
   const signOut = useSignOut();
 
   // The loader already redirects; this catches a session that ended while the page was open (a 401 later on).
@@ -111,6 +111,16 @@ export function AppShell() {
         />
       </header>
       <main id="main" tabIndex={-1} className="mx-auto w-full max-w-screen-2xl flex-1 px-5 py-6 outline-none">
+        {session.workspace.demo ? (
+          <p
+            role="note"
+            data-testid="demo-notice"
+            className="no-print mb-4 rounded-md border border-film-amber-soft bg-film-amber-soft/20 px-3 py-2 text-sm text-ink-900"
+          >
+            <strong>Demo workspace.</strong> The company, people and designs are fictional and the demo accounts share a
+            published password: keep real work out of it.
+          </p>
+        ) : null}
         <Outlet />
       </main>
     </div>

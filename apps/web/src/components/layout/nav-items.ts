@@ -16,6 +16,6 @@ export function navItemsFor(session: Session | null, outboxAvailable: boolean): 
   ];
   if (hasRole(session, "admin")) items.push({ to: paths.people, label: "People" });
   if (hasRole(session, "admin", "approver")) items.push({ to: paths.audit, label: "Audit log" });
-  if (session && outboxAvailable) items.push({ to: paths.outbox, label: "Outbox" });
+  if (hasRole(session, "admin") && outboxAvailable) items.push({ to: paths.outbox, label: "Outbox" });
   return items;
 }

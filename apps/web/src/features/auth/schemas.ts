@@ -1,6 +1,7 @@
 import { z } from "zod";
 
-export const MIN_PASSWORD = 10;
+/** Same floor as the server (apps/api/src/auth/password.ts); the server also refuses easily guessed ones. */
+export const MIN_PASSWORD = 12;
 
 export const signInSchema = z.object({
   email: z

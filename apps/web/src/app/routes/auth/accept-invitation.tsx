@@ -120,7 +120,7 @@ export function Component() {
           label="Password"
           type="password"
           autoComplete="new-password"
-          hint={`At least ${MIN_PASSWORD} characters.`}
+          hint={`At least ${MIN_PASSWORD} characters and hard to guess: a few unrelated words work well.`}
           error={errors.password?.message}
           {...register("password")}
         />

@@ -71,7 +71,7 @@ export function Component() {
             type="password"
             autoComplete="new-password"
             autoFocus
-            hint={`At least ${MIN_PASSWORD} characters.`}
+            hint={`At least ${MIN_PASSWORD} characters and hard to guess: a few unrelated words work well.`}
             error={errors.password?.message}
             {...register("password")}
           />

@@ -21,7 +21,7 @@ export const outboxQueryOptions = (cursor?: string) =>
 
 export const useOutbox = (cursor?: string) => useQuery(outboxQueryOptions(cursor));
 
-/** Whether this server captures mail (GET /outbox answers; a real SMTP host makes it 404). */
+/** Whether this server captures mail (GET /outbox answers; a real SMTP host makes it 404). Admins only. */
 export const outboxAvailableQueryOptions = () =>
   queryOptions({
     queryKey: ["outbox", "available"],
@@ -37,4 +37,6 @@ export const outboxAvailableQueryOptions = () =>
     retry: false,
   });
 
-export const useOutboxAvailable = () => useQuery(outboxAvailableQueryOptions()).data ?? false;
+/** Asked only for administrators: the outbox is theirs, and anyone else would get a 403. */
+export const useOutboxAvailable = (isAdmin: boolean) =>
+  useQuery({ ...outboxAvailableQueryOptions(), enabled: isAdmin }).data ?? false;
