@@ -8,6 +8,7 @@ import {
   startProduct,
   type BrowserSession,
   type Product,
+  mailedLink,
 } from "./support/harness.ts";
 
 let product: Product;
@@ -139,8 +140,10 @@ describe("frame: pages", () => {
     await page.getByText("Demo and development only").waitFor();
     await page.getByTestId("outbox-text").waitFor();
     await browser.screenshot("frame-15-outbox");
-    const link = page.getByTestId("outbox-text").getByRole("link", { name: /accept-invitation/ });
-    const href = await link.getAttribute("href");
+    // The admin reads the invitation without its link: only the invitee gets that (from their own inbox).
+    expect(await page.getByTestId("outbox-text").innerText()).toContain("[single-use link hidden: only its addressee can see it]");
+    expect(await page.getByTestId("outbox-text").getByRole("link", { name: /accept-invitation/ }).count()).toBe(0);
+    const href = mailedLink(product, "new.reviewer@halvorsen.example", "/accept-invitation").toString();
     expect(href).toMatch(/\/accept-invitation\?token=/);
 
     await browser.context.clearCookies();
@@ -152,8 +155,8 @@ describe("frame: pages", () => {
     await page.getByRole("heading", { level: 1, name: /Join Halvorsen Thinfilm Works/ }).waitFor();
     await browser.screenshot("frame-16-accept-invitation");
     await page.getByLabel("Your name").fill("Oda Lindqvist");
-    await page.getByLabel("Password", { exact: true }).fill("a-long-enough-password");
-    await page.getByLabel("Repeat the password").fill("a-long-enough-password");
+    await page.getByLabel("Password", { exact: true }).fill("oda-lindqvist-passphrase-tern");
+    await page.getByLabel("Repeat the password").fill("oda-lindqvist-passphrase-tern");
     await page.getByRole("button", { name: "Join and sign in" }).click();
     await page.waitForURL((u) => u.pathname === "/");
     expect(await page.getByTestId("signed-in-as").innerText()).toContain("Oda Lindqvist");
@@ -173,18 +176,23 @@ describe("frame: pages", () => {
     await page.getByText("Check your inbox").waitFor();
     await browser.screenshot("frame-18-forgot-password-sent");
 
-    // The captured mail is read by someone signed in (here the admin), as in a demo.
+    // The admin sees the captured reset mail but not its link; the reviewer opens it from their own inbox.
     await signInAs(page, product.url, DEMO.admin);
     await page.goto(`${product.url}/outbox`);
     await page.getByRole("button", { name: /reset/i }).first().click();
-    const link = page.getByTestId("outbox-text").getByRole("link", { name: /reset-password/ });
-    const href = new URL((await link.getAttribute("href"))!);
+    await page.getByTestId("outbox-text").getByText(/single-use link hidden/).waitFor();
+    expect(await page.getByTestId("outbox-text").getByRole("link", { name: /reset-password/ }).count()).toBe(0);
+    const href = mailedLink(product, DEMO.reviewer, "/reset-password");
     await browser.context.clearCookies();
 
     await page.goto(`${product.url}${href.pathname}${href.search}`);
     await page.getByLabel("New password", { exact: true }).fill("short");
     await page.getByRole("button", { name: "Set password" }).click();
-    await page.getByText("Use at least 10 characters.").waitFor();
+    await page.getByText("Use at least 12 characters.").waitFor();
+    await page.getByLabel("New password", { exact: true }).fill("password1234");
+    await page.getByLabel("Repeat the new password").fill("password1234");
+    await page.getByRole("button", { name: "Set password" }).click();
+    await page.getByText(/too easy to guess/).waitFor();
     await page.getByLabel("New password", { exact: true }).fill("reviewer-new-passphrase");
     await page.getByLabel("Repeat the new password").fill("reviewer-new-passphrase");
     await page.getByRole("button", { name: "Set password" }).click();

@@ -4,6 +4,7 @@ import os from "node:os";
 import net from "node:net";
 import path from "node:path";
 import { spawn, type ChildProcess } from "node:child_process";
+import { createRequire } from "node:module";
 import { chromium, type BrowserContext, type Page } from "playwright-core";
 import { artifactsDir, CHROMIUM_PATH, repoRoot } from "./paths.ts";
 
@@ -158,3 +159,28 @@ export const DEMO = {
   approver: "approver@halvorsen.example",
   password: "demo-quartz-lantern",
 } as const;
+
+/**
+ * The newest single-use link (`pathname`, e.g. "/reset-password") mailed to `to`, read from the capture store in the
+ * product's database: the addressee's own inbox. The outbox page hides these links from everyone else.
+ */
+export function mailedLink(product: Product, to: string, pathname: string): URL {
+  // better-sqlite3 is the API's dependency; load it from there rather than adding it to the test package.
+  const Database = createRequire(path.join(repoRoot, "apps/api/package.json"))("better-sqlite3") as new (
+    file: string,
+    options: { readonly: boolean },
+  ) => { prepare(sql: string): { all(...args: unknown[]): { text: string }[] }; close(): void };
+  const db = new Database(path.join(product.dataDir, "stackproof.db"), { readonly: true });
+  try {
+    const rows = db.prepare("select text from captured_mail where lower(\"to\") = lower(?) order by received_at desc").all(to);
+    for (const { text } of rows) {
+      for (const m of text.matchAll(/https?:\/\/[^\s<>"]+/g)) {
+        const url = new URL(m[0]);
+        if (url.pathname === pathname) return url;
+      }
+    }
+  } finally {
+    db.close();
+  }
+  throw new Error(`No ${pathname} link mailed to ${to}`);
+}
