@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
-# Installs everything and starts Stackproof on its embedded defaults: a SQLite file in ./data,
-# a local mail capture, demo data when the database is new. Prints the URL to open.
+# Installs everything and starts Stackproof (production mode) for a trial: a SQLite file in ./data, and, asked for
+# explicitly because production has neither by default, a local mail capture (MAIL_CAPTURE, unless SMTP_HOST is set)
+# and the demo workspace when the database is new (DEMO_DATA). Prints the URL to open.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 . scripts/lib/common.sh
@@ -9,4 +10,6 @@ install_dependencies
 echo "==> building the web app"
 pnpm --filter @stackproof/web build
 echo "==> starting Stackproof"
+export DEMO_DATA="${DEMO_DATA:-true}"
+if [ -z "${SMTP_HOST:-}" ]; then export MAIL_CAPTURE="${MAIL_CAPTURE:-true}"; fi
 exec pnpm --filter @stackproof/api start
