@@ -293,11 +293,11 @@ const CASES: ActionCase[] = [
     label: "add a revision to a design",
     allowed: ["designer", "designer2"],
     prepare: async () => {
-      const { design } = await createDesign(team, programId);
+      const { design, revision } = await createDesign(team, programId);
       return {
         method: "post",
         path: `/designs/${design.id}/revisions`,
-        body: { stack: twoLayerAr(), note: "two layers" },
+        body: { baseRevisionId: revision.id, stack: twoLayerAr(), note: "two layers" },
       };
     },
   },
@@ -436,7 +436,7 @@ describe("another workspace", () => {
     const bodies: Record<string, Record<string, unknown>> = {
       "PATCH /programs/:id": { description: "taken over" },
       "POST /programs/:id/designs": { name: "Intruder", stack: singleLayerAr() },
-      "POST /designs/:id/revisions": { stack: twoLayerAr() },
+      "POST /designs/:id/revisions": { baseRevisionId: ids.revisions, stack: twoLayerAr() },
       "POST /revisions/:id/threads": { anchor: { kind: "design" }, severity: "blocking", body: "x" },
       "POST /revisions/:id/yield-runs": { trials: 20 },
       "POST /threads/:id/comments": { body: "hello" },
