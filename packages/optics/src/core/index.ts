@@ -74,3 +74,5 @@ export type {
 } from "./spectrum.ts";
 export { fieldProfile } from "./field.ts";
 export type { FieldProfileOptions, FieldProfile } from "./field.ts";
+export { parseFormula, designFromFormula, MAX_FORMULA_LAYERS } from "./formula.ts";
+export type { FormulaLayer, FormulaDesignSpec } from "./formula.ts";
