@@ -76,3 +76,30 @@ export { fieldProfile } from "./field.ts";
 export type { FieldProfileOptions, FieldProfile } from "./field.ts";
 export { parseFormula, designFromFormula, MAX_FORMULA_LAYERS } from "./formula.ts";
 export type { FormulaLayer, FormulaDesignSpec } from "./formula.ts";
+export {
+  COLOUR_WAVELENGTHS,
+  ObserverSchema,
+  IlluminantSchema,
+  ColourBoxXySchema,
+  ColourBoxLabSchema,
+  ColourDeltaESchema,
+  ColourRequirementSchema,
+  illuminantA,
+  labFromXyz,
+  colourFromSamples,
+  colourOfSpectrum,
+  colourOfDesign,
+  deltaE,
+  evaluateColourRequirement,
+} from "./colour.ts";
+export type {
+  Observer,
+  Illuminant,
+  ColourCoordinates,
+  ColourOptions,
+  DesignColourOptions,
+  ColourRequirement,
+  ColourRequirementInput,
+  ColourVerdict,
+} from "./colour.ts";
+export { CIE_START_NM, CIE_STEP_NM, CIE_ROWS } from "./cie-tables.ts";
