@@ -12,7 +12,7 @@
  *
  * Spectra are fractions 0..1 (R or T of the coated part, as computeSpectrum gives them).
  */
-import { converter, differenceCiede2000, differenceEuclidean, type Lab65 } from "culori";
+import { clampRgb, converter, differenceCiede2000, differenceEuclidean, formatHex, type Lab65 } from "culori";
 import { z } from "zod";
 import {
   CIE1931_X,
@@ -138,6 +138,29 @@ export function labFromXyz(
     z: (xyz.Z / white.Z) * CULORI_D65.Z,
   });
   return { L: lab.l, a: lab.a, b: lab.b };
+}
+
+const toRgb = converter("rgb");
+
+/**
+ * An sRGB swatch (hex, e.g. "#c8a2e0") of a colour, for display only: the tristimulus values are
+ * scaled to the D65 white (the eye adapted to the illuminant), converted to sRGB by culori
+ * (IEC 61966-2-1) and clipped to the gamut; `inGamut` says whether clipping was needed.
+ * A reflectance of a few percent shows dark: pass `normalise: true` to scale Y to 100 first and
+ * show the hue alone.
+ */
+export function colourSwatch(colour: ColourCoordinates, normalise = false): { hex: string; inGamut: boolean } {
+  const w = weights(colour.illuminant, colour.observer).white;
+  const scale = normalise && colour.Y > 0 ? 100 / colour.Y : 1;
+  const rgb = toRgb({
+    mode: "xyz65",
+    x: ((colour.X * scale) / w.X) * CULORI_D65.X,
+    y: ((colour.Y * scale) / w.Y) * CULORI_D65.Y,
+    z: ((colour.Z * scale) / w.Z) * CULORI_D65.Z,
+  });
+  const eps = 1e-6;
+  const inGamut = [rgb.r, rgb.g, rgb.b].every((v) => v >= -eps && v <= 1 + eps);
+  return { hex: formatHex(clampRgb(rgb)) ?? "#000000", inGamut };
 }
 
 /**

@@ -89,6 +89,7 @@ export {
   colourFromSamples,
   colourOfSpectrum,
   colourOfDesign,
+  colourSwatch,
   deltaE,
   evaluateColourRequirement,
 } from "./colour.ts";

@@ -6,6 +6,7 @@ import {
   colourFromSamples,
   colourOfDesign,
   colourOfSpectrum,
+  colourSwatch,
   deltaE,
   designFromQwots,
   evaluateColourRequirement,
@@ -116,6 +117,18 @@ describe("colour of coated parts", () => {
     bad[20] = Number.NaN;
     expect(() => colourFromSamples(bad)).toThrow(/not finite at 480 nm/);
     expect(COLOUR_WAVELENGTHS[80]).toBe(780);
+  });
+});
+
+describe("swatch", () => {
+  it("the perfect reflector under D65 shows sRGB white; a flat 18 % grey is neutral", () => {
+    // sRGB white is D65 (IEC 61966-2-1)
+    expect(colourSwatch(colourFromSamples(flat(1)))).toEqual({ hex: "#ffffff", inGamut: true });
+    const grey = colourSwatch(colourFromSamples(flat(0.18))).hex;
+    expect(grey.slice(1, 3)).toBe(grey.slice(3, 5));
+    expect(grey.slice(3, 5)).toBe(grey.slice(5, 7));
+    // under A the eye adapts: a flat reflector still shows white
+    expect(colourSwatch(colourFromSamples(flat(1), { illuminant: "A" })).hex).toBe("#ffffff");
   });
 });
 
