@@ -330,7 +330,7 @@ export const MATERIAL_LIBRARY: readonly Material[] = Object.freeze([
     role: "substrate",
     source:
       "absorption after Green, Sol. Energy Mater. Sol. Cells 92, 1305 (2008), 300 K table: α = 1.11e4 cm⁻¹ at 500 nm, " +
-      "64 cm⁻¹ at 1000 nm, 3.5 cm⁻¹ at 1100 nm, ≈ 11 cm⁻¹ at 1064 nm; α and n recalled from the table (from memory, " +
+      "64 cm⁻¹ at 1000 nm, 3.5 cm⁻¹ at 1100 nm, ≈ 10 cm⁻¹ at 1064 nm; α and n recalled from the table (from memory, " +
       "1000–1100 nm geometric between those values); beyond 1.2 µm bulk n (from memory), free-carrier absorption of doped wafers not included",
   },
   {

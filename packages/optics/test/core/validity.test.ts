@@ -192,7 +192,7 @@ describe("valid ranges", () => {
 
 describe("library constants", () => {
   it("a 0.5 mm silicon wafer transmits about 25–30 % at 1064 nm including both surfaces", () => {
-    // expected range stated in the product's issue; α ≈ 11 cm⁻¹ at 1064 nm after Green (2008)
+    // expected range stated in the product's issue; α ≈ 10 cm⁻¹ at 1064 nm after Green (2008); this table gives T ≈ 0.295
     const design = parseDesign({
       format: "stackproof.design/v1",
       name: "wafer",
