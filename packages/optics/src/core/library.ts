@@ -251,6 +251,50 @@ export const MATERIAL_LIBRARY: readonly Material[] = Object.freeze([
     role: "metal",
     source: FROM_MEMORY + " (film values vary widely with deposition)",
   },
+  {
+    id: "Ag-LD",
+    name: "Silver (Lorentz–Drude model)",
+    model: {
+      kind: "drude-lorentz",
+      epsInf: 1,
+      Ep: 9.01,
+      f0: 0.845,
+      gamma0: 0.048,
+      oscillators: [
+        { f: 0.065, E: 0.816, gamma: 3.886 },
+        { f: 0.124, E: 4.481, gamma: 0.452 },
+        { f: 0.011, E: 8.185, gamma: 0.065 },
+        { f: 0.84, E: 9.083, gamma: 0.916 },
+        { f: 5.646, E: 20.29, gamma: 2.419 },
+      ],
+      range: [250, 12000],
+    },
+    role: "metal",
+    source:
+      "Rakić, Djurišić, Elazar & Majewski, Appl. Opt. 37, 5271 (1998), Lorentz–Drude fit for Ag over about 0.1–5 eV; parameters from memory",
+  },
+  {
+    id: "Au-LD",
+    name: "Gold (Lorentz–Drude model)",
+    model: {
+      kind: "drude-lorentz",
+      epsInf: 1,
+      Ep: 9.03,
+      f0: 0.76,
+      gamma0: 0.053,
+      oscillators: [
+        { f: 0.024, E: 0.415, gamma: 0.241 },
+        { f: 0.01, E: 0.83, gamma: 0.345 },
+        { f: 0.071, E: 2.969, gamma: 0.87 },
+        { f: 0.601, E: 4.304, gamma: 2.494 },
+        { f: 4.384, E: 13.32, gamma: 2.214 },
+      ],
+      range: [250, 6000],
+    },
+    role: "metal",
+    source:
+      "Rakić, Djurišić, Elazar & Majewski, Appl. Opt. 37, 5271 (1998), Lorentz–Drude fit for Au over about 0.2–5 eV; parameters from memory",
+  },
   // ---- substrates ----
   {
     id: "fused-silica",

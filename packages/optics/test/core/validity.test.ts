@@ -245,6 +245,20 @@ describe("library constants", () => {
   });
 });
 
+describe("Lorentz–Drude metals", () => {
+  it("Ag-LD and Au-LD agree with the tabulated Ag and Au within 15 % in k across the visible and near IR", () => {
+    // two descriptions of the same metals (Rakić 1998 fit vs the Johnson & Christy-shaped tables, both from memory)
+    for (const [ld, tab] of [["Ag-LD", "Ag"], ["Au-LD", "Au"]] as const) {
+      for (const lam of [500, 600, 800, 1000, 1500, 2000]) {
+        const a = refractiveIndex(getMaterial(ld).model, lam);
+        const b = refractiveIndex(getMaterial(tab).model, lam);
+        expect(Math.abs(a.k - b.k) / b.k, `${ld} at ${lam} nm`).toBeLessThan(0.15);
+        expect(a.n).toBeLessThan(1); // a good metal: n ≪ k
+      }
+    }
+  });
+});
+
 describe("refused inputs (issue: physics inputs that cannot poison a verdict)", () => {
   const base = {
     format: "stackproof.design/v1",
