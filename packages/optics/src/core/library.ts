@@ -459,6 +459,15 @@ export const MATERIAL_LIBRARY: readonly Material[] = Object.freeze([
       " (free-carrier Drude model of a sputtered film, about 1e21 cm⁻³: n ≈ 1.9, k ≈ 0.01 at 550 nm, plasma edge near 1.4 µm; " +
       "the band-gap absorption below 400 nm is not modelled)",
   },
+  {
+    id: "a-Si",
+    name: "Amorphous silicon (film)",
+    model: { kind: "tauc-lorentz", A: 122, E0: 3.45, C: 2.54, Eg: 1.2, epsInf: 1.15, range: [300, 2500] },
+    role: "layer",
+    source:
+      "Tauc–Lorentz fit of an amorphous silicon film, Jellison & Modine, Appl. Phys. Lett. 69, 371 (1996), Table I " +
+      "(A = 122 eV, E0 = 3.45 eV, C = 2.54 eV, Eg = 1.20 eV, ε1(∞) = 1.15; from memory): n ≈ 4.2, k ≈ 0.4 at 633 nm",
+  },
   // ---- infrared substrates ----
   {
     id: "CaF2",

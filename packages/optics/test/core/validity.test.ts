@@ -82,6 +82,15 @@ describe("Tauc–Lorentz (Jellison & Modine 1996)", () => {
     }
   });
 
+  it("the library's a-Si film (Jellison & Modine's a-Si parameters) gives n ≈ 4.2, k ≈ 0.4 at 633 nm", () => {
+    // typical amorphous-silicon film at 633 nm (common practice, from memory)
+    const v = refractiveIndex(getMaterial("a-Si").model, 632.8);
+    expect(v.n).toBeGreaterThan(4);
+    expect(v.n).toBeLessThan(4.5);
+    expect(v.k).toBeGreaterThan(0.2);
+    expect(v.k).toBeLessThan(0.7);
+  });
+
   it("ε1 → ε∞ at high energy; N = n − ik with k = 0 below the gap", () => {
     expectClose(taucLorentzEpsilon(aSi, 1e4).eps1, aSi.epsInf, 1e-3);
     const model = MaterialModelSchema.parse({ kind: "tauc-lorentz", ...aSi });
