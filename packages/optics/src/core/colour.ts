@@ -30,7 +30,9 @@ import type { Design } from "./design.ts";
 import { computeSpectrum } from "./spectrum.ts";
 
 /** Standard observer: CIE 1931 2° ("2") or CIE 1964 10° ("10"). */
-export const ObserverSchema = z.enum(["2", "10"], { error: 'expected "2" (CIE 1931 2°) or "10" (CIE 1964 10°)' });
+export const ObserverSchema = z.enum(["2", "10"], {
+  error: 'expected "2" (CIE 1931 2°) or "10" (CIE 1964 10°)',
+});
 /** Standard observer id. */
 export type Observer = z.output<typeof ObserverSchema>;
 /** CIE standard illuminant: D65 (average daylight) or A (incandescent, 2856 K). */
@@ -69,7 +71,8 @@ function weights(illuminant: Illuminant, observer: Observer): Weights {
   const key = illuminant + "/" + observer;
   const hit = weightCache.get(key);
   if (hit) return hit;
-  const [xb, yb, zb] = observer === "2" ? [CIE1931_X, CIE1931_Y, CIE1931_Z] : [CIE1964_X, CIE1964_Y, CIE1964_Z];
+  const [xb, yb, zb] =
+    observer === "2" ? [CIE1931_X, CIE1931_Y, CIE1931_Z] : [CIE1964_X, CIE1964_Y, CIE1964_Z];
   const wx = new Float64Array(CIE_ROWS);
   const wy = new Float64Array(CIE_ROWS);
   const wz = new Float64Array(CIE_ROWS);
@@ -149,7 +152,10 @@ const toRgb = converter("rgb");
  * A reflectance of a few percent shows dark: pass `normalise: true` to scale Y to 100 first and
  * show the hue alone.
  */
-export function colourSwatch(colour: ColourCoordinates, normalise = false): { hex: string; inGamut: boolean } {
+export function colourSwatch(
+  colour: ColourCoordinates,
+  normalise = false,
+): { hex: string; inGamut: boolean } {
   const w = weights(colour.illuminant, colour.observer).white;
   const scale = normalise && colour.Y > 0 ? 100 / colour.Y : 1;
   const rgb = toRgb({
@@ -173,7 +179,9 @@ export function colourFromSamples(values: ArrayLike<number>, options: ColourOpti
   const illuminant = options.illuminant ?? "D65";
   const observer = options.observer ?? "2";
   if (values.length !== CIE_ROWS) {
-    throw new RangeError(`colour: expected ${CIE_ROWS} samples at 380–780 nm every 5 nm, got ${values.length}`);
+    throw new RangeError(
+      `colour: expected ${CIE_ROWS} samples at 380–780 nm every 5 nm, got ${values.length}`,
+    );
   }
   const w = weights(illuminant, observer);
   let X = 0;
@@ -182,7 +190,9 @@ export function colourFromSamples(values: ArrayLike<number>, options: ColourOpti
   for (let i = 0; i < CIE_ROWS; i++) {
     const v = values[i] as number;
     if (!Number.isFinite(v)) {
-      throw new RangeError(`colour: the spectrum is not finite at ${COLOUR_WAVELENGTHS[i]} nm (got ${String(v)})`);
+      throw new RangeError(
+        `colour: the spectrum is not finite at ${COLOUR_WAVELENGTHS[i]} nm (got ${String(v)})`,
+      );
     }
     X += w.wx[i]! * v;
     Y += w.wy[i]! * v;
@@ -214,14 +224,18 @@ export function colourOfSpectrum(
   }
   for (let i = 1; i < n; i++) {
     if (!((wavelengthsNm[i] as number) > (wavelengthsNm[i - 1] as number))) {
-      throw new RangeError(`colour: wavelengths must increase, got ${wavelengthsNm[i - 1]} then ${wavelengthsNm[i]} nm`);
+      throw new RangeError(
+        `colour: wavelengths must increase, got ${wavelengthsNm[i - 1]} then ${wavelengthsNm[i]} nm`,
+      );
     }
   }
   const lo = wavelengthsNm[0] as number;
   const hi = wavelengthsNm[n - 1] as number;
   const warnings: string[] = [];
   if (lo > 430 || hi < 700) {
-    throw new RangeError(`colour: the spectrum must cover at least 430–700 nm of 380–780 nm, got ${lo}–${hi} nm`);
+    throw new RangeError(
+      `colour: the spectrum must cover at least 430–700 nm of 380–780 nm, got ${lo}–${hi} nm`,
+    );
   }
   if (lo > 380 || hi < 780) {
     warnings.push(`colour: spectrum covers ${lo}–${hi} nm; end values held to 380–780 nm (CIE 015 practice)`);
@@ -257,7 +271,10 @@ export interface DesignColourOptions extends ColourOptions {
  * Colour of the light a design reflects or transmits, computed on 380–780 nm at 5 nm with
  * {@link computeSpectrum} (N = n − ik; back surface as the design says).
  */
-export function colourOfDesign(design: Design, options: DesignColourOptions): ColourCoordinates & { warnings: string[] } {
+export function colourOfDesign(
+  design: Design,
+  options: DesignColourOptions,
+): ColourCoordinates & { warnings: string[] } {
   const sp = computeSpectrum(design, { wavelengths: COLOUR_WAVELENGTHS, angleDeg: options.angleDeg ?? 0 });
   const pol = sp[options.polarization ?? "u"];
   const values = options.quantity === "R" ? pol.R : pol.T;
@@ -277,7 +294,9 @@ export function deltaE(
 const cie76 = differenceEuclidean("lab65");
 const ciede2000 = differenceCiede2000();
 
-const finite = z.number({ error: "expected a number" }).refine(Number.isFinite, { error: "expected a finite number" });
+const finite = z
+  .number({ error: "expected a number" })
+  .refine(Number.isFinite, { error: "expected a finite number" });
 const interval = z
   .tuple([finite, finite], { error: "expected [min, max]" })
   .refine((r) => r[0] <= r[1], { error: "expected [min, max] with min ≤ max" });
@@ -285,7 +304,12 @@ const interval = z
 /** A colour box in chromaticity: x ∈ [min, max] and y ∈ [min, max]. */
 export const ColourBoxXySchema = z.object({ type: z.literal("box-xy"), x: interval, y: interval });
 /** A colour box in CIELAB: a* ∈ [min, max], b* ∈ [min, max], optionally L* ∈ [min, max]. */
-export const ColourBoxLabSchema = z.object({ type: z.literal("box-ab"), a: interval, b: interval, L: interval.optional() });
+export const ColourBoxLabSchema = z.object({
+  type: z.literal("box-ab"),
+  a: interval,
+  b: interval,
+  L: interval.optional(),
+});
 /** A ΔE*ab limit against a target colour (CIE76 or CIEDE2000). */
 export const ColourDeltaESchema = z.object({
   type: z.literal("delta-e"),
@@ -357,7 +381,18 @@ export function evaluateColourRequirement(
     } catch (e) {
       if (!(e instanceof RangeError) || !e.message.startsWith("colour: the spectrum is not finite")) throw e;
       const nan = Number.NaN;
-      const c = { X: nan, Y: nan, Z: nan, x: nan, y: nan, L: nan, a: nan, b: nan, illuminant: req.illuminant, observer: req.observer };
+      const c = {
+        X: nan,
+        Y: nan,
+        Z: nan,
+        x: nan,
+        y: nan,
+        L: nan,
+        a: nan,
+        b: nan,
+        illuminant: req.illuminant,
+        observer: req.observer,
+      };
       return { pass: false, margin: -Infinity, colour: c, reason: e.message };
     }
   } else {

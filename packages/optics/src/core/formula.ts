@@ -115,7 +115,8 @@ class Parser {
       this.pos += m[0].length;
       times = Number(m[0]);
       if (!(times >= 1)) this.fail(`expected at least 1 repeat, got ${m[0]}`, at);
-      if (times * body.length > MAX_FORMULA_LAYERS) this.fail(`expands to more than ${MAX_FORMULA_LAYERS} layers`, at);
+      if (times * body.length > MAX_FORMULA_LAYERS)
+        this.fail(`expands to more than ${MAX_FORMULA_LAYERS} layers`, at);
     }
     const out: FormulaLayer[] = [];
     for (let r = 0; r < times; r++) for (const l of body) out.push({ ...l, qwot: l.qwot * factor });

@@ -403,7 +403,8 @@ export const MATERIAL_LIBRARY: readonly Material[] = Object.freeze([
     name: "Yttrium fluoride (film)",
     model: { kind: "cauchy", A: 1.485, B: 0.004, C: 0, range: [200, 2500] },
     role: "layer",
-    source: FROM_MEMORY + " (n ≈ 1.50 at 550 nm; the film is used into the infrared, fitted here over 0.2–2.5 µm)",
+    source:
+      FROM_MEMORY + " (n ≈ 1.50 at 550 nm; the film is used into the infrared, fitted here over 0.2–2.5 µm)",
   },
   {
     id: "LaF3",
@@ -452,7 +453,15 @@ export const MATERIAL_LIBRARY: readonly Material[] = Object.freeze([
   {
     id: "ITO",
     name: "Indium tin oxide (film)",
-    model: { kind: "drude-lorentz", epsInf: 4.3, Ep: 1.85, f0: 1, gamma0: 0.12, oscillators: [], range: [400, 2000] },
+    model: {
+      kind: "drude-lorentz",
+      epsInf: 4.3,
+      Ep: 1.85,
+      f0: 1,
+      gamma0: 0.12,
+      oscillators: [],
+      range: [400, 2000],
+    },
     role: "layer",
     source:
       FROM_MEMORY +
@@ -479,7 +488,8 @@ export const MATERIAL_LIBRARY: readonly Material[] = Object.freeze([
       range: [230, 9700],
     },
     role: "substrate",
-    source: "Malitson, Appl. Opt. 2, 1103 (1963), Sellmeier fit at 24 °C, 0.23–9.7 µm; coefficients from memory",
+    source:
+      "Malitson, Appl. Opt. 2, 1103 (1963), Sellmeier fit at 24 °C, 0.23–9.7 µm; coefficients from memory",
   },
   {
     id: "ZnSe",

@@ -10,7 +10,10 @@ import { z } from "zod";
 
 const finite = z.number().refine(Number.isFinite, { error: "expected a finite number" });
 const nonNegative = z.number().min(0, { error: "expected a number ≥ 0" });
-const positiveEv = z.number().positive({ error: "expected a number > 0 (eV)" }).max(1e3, { error: "expected a number ≤ 1000 eV" });
+const positiveEv = z
+  .number()
+  .positive({ error: "expected a number > 0 (eV)" })
+  .max(1e3, { error: "expected a number ≤ 1000 eV" });
 
 /** hc in eV·nm: photon energy E (eV) = HC_EV_NM / λ (nm) (CODATA 2018, h c / e). */
 export const HC_EV_NM = 1239.841984;
@@ -27,7 +30,10 @@ export const MAX_INDEX = 1e3;
  * library entries. Outside it the model still evaluates, and results carry a warning.
  */
 export const ValidRangeSchema = z
-  .tuple([z.number().positive({ error: "expected a number > 0 nm" }), z.number().positive({ error: "expected a number > 0 nm" })])
+  .tuple([
+    z.number().positive({ error: "expected a number > 0 nm" }),
+    z.number().positive({ error: "expected a number > 0 nm" }),
+  ])
   .refine((r) => r[0] < r[1], { error: "expected [min, max] with min < max (nm)" });
 /** A valid wavelength range [min, max] in nm. */
 export type ValidRange = [number, number];
@@ -37,7 +43,10 @@ const range = ValidRangeSchema.optional();
 /** Constant index: N = n − ik at every wavelength. */
 export const ConstantModelSchema = z.object({
   kind: z.literal("constant"),
-  n: z.number().positive({ error: "expected a number > 0" }).max(MAX_INDEX, { error: `expected a number ≤ ${MAX_INDEX}` }),
+  n: z
+    .number()
+    .positive({ error: "expected a number > 0" })
+    .max(MAX_INDEX, { error: `expected a number ≤ ${MAX_INDEX}` }),
   k: nonNegative.max(MAX_INDEX, { error: `expected a number ≤ ${MAX_INDEX}` }).default(0),
   range,
 });
@@ -244,9 +253,13 @@ export function taucLorentzEpsilon(
   const aAtan = (E2 - E02) * (E02 + Eg2) + Eg2 * C2;
   const pz = Math.PI * zeta4;
   let eps1 = epsInf;
-  eps1 += ((A * C * aLn) / (2 * pz * alpha * E0)) * Math.log((E02 + Eg2 + alpha * Eg) / (E02 + Eg2 - alpha * Eg));
-  eps1 -= ((A * aAtan) / (pz * E0)) * (Math.PI - Math.atan((2 * Eg + alpha) / C) + Math.atan((alpha - 2 * Eg) / C));
-  eps1 += ((4 * A * E0 * Eg * (E2 - gamma2)) / (pz * alpha)) * (Math.atan((alpha + 2 * Eg) / C) + Math.atan((alpha - 2 * Eg) / C));
+  eps1 +=
+    ((A * C * aLn) / (2 * pz * alpha * E0)) * Math.log((E02 + Eg2 + alpha * Eg) / (E02 + Eg2 - alpha * Eg));
+  eps1 -=
+    ((A * aAtan) / (pz * E0)) * (Math.PI - Math.atan((2 * Eg + alpha) / C) + Math.atan((alpha - 2 * Eg) / C));
+  eps1 +=
+    ((4 * A * E0 * Eg * (E2 - gamma2)) / (pz * alpha)) *
+    (Math.atan((alpha + 2 * Eg) / C) + Math.atan((alpha - 2 * Eg) / C));
   const dE = Math.abs(E - Eg);
   if (dE > 0) {
     eps1 -= ((A * E0 * C * (E2 + Eg2)) / (pz * E)) * Math.log(dE / (E + Eg));
@@ -268,7 +281,6 @@ function indexFromEpsilon(eps1: number, eps2: number): { n: number; k: number } 
   const k = Math.sqrt((mod - eps1) / 2);
   return { n: k > 0 ? Math.abs(eps2) / (2 * k) : 0, k };
 }
-
 
 function assertWavelength(wavelengthNm: number): void {
   if (!(wavelengthNm > 0) || !Number.isFinite(wavelengthNm)) {

@@ -162,10 +162,16 @@ describe("colour requirements", () => {
 
   it("a box in a*/b* passes with a margin and fails with a reason", () => {
     const c = colourOfDesign(ar, { quantity: "R" });
-    const pass = evaluateColourRequirement({ kind: "colour", quantity: "R", limit: { type: "box-ab", a: [0, 40], b: [-40, 0] } }, ar);
+    const pass = evaluateColourRequirement(
+      { kind: "colour", quantity: "R", limit: { type: "box-ab", a: [0, 40], b: [-40, 0] } },
+      ar,
+    );
     expect(pass.pass).toBe(true);
     expectClose(pass.margin, Math.min(c.a, 40 - c.a, c.b + 40, -c.b), 1e-9);
-    const fail = evaluateColourRequirement({ kind: "colour", quantity: "R", limit: { type: "box-ab", a: [-2, 2], b: [-2, 2] } }, ar);
+    const fail = evaluateColourRequirement(
+      { kind: "colour", quantity: "R", limit: { type: "box-ab", a: [-2, 2], b: [-2, 2] } },
+      ar,
+    );
     expect(fail.pass).toBe(false);
     expect(fail.margin).toBeLessThan(0);
     expect(fail.reason).toMatch(/outside the box/);
@@ -173,10 +179,22 @@ describe("colour requirements", () => {
 
   it("a chromaticity box and a ΔE limit, against coordinates or a design", () => {
     const white = colourFromSamples(flat(1));
-    const box = { kind: "colour" as const, quantity: "T" as const, limit: { type: "box-xy" as const, x: [0.31, 0.315] as [number, number], y: [0.325, 0.335] as [number, number] } };
+    const box = {
+      kind: "colour" as const,
+      quantity: "T" as const,
+      limit: {
+        type: "box-xy" as const,
+        x: [0.31, 0.315] as [number, number],
+        y: [0.325, 0.335] as [number, number],
+      },
+    };
     expect(evaluateColourRequirement(box, white).pass).toBe(true);
     const dE = evaluateColourRequirement(
-      { kind: "colour", quantity: "R", limit: { type: "delta-e", formula: "CIEDE2000", target: { L: 50, a: 0, b: 0 }, max: 1 } },
+      {
+        kind: "colour",
+        quantity: "R",
+        limit: { type: "delta-e", formula: "CIEDE2000", target: { L: 50, a: 0, b: 0 }, max: 1 },
+      },
       { ...white, L: 50, a: 2.5, b: 0 },
     );
     expect(dE.pass).toBe(false);
@@ -186,17 +204,36 @@ describe("colour requirements", () => {
 
   it("a non-finite colour never passes", () => {
     const nan = colourFromSamples(flat(1));
-    const v = evaluateColourRequirement({ kind: "colour", quantity: "R", limit: { type: "box-ab", a: [-100, 100], b: [-100, 100] } }, { ...nan, a: Number.NaN });
+    const v = evaluateColourRequirement(
+      { kind: "colour", quantity: "R", limit: { type: "box-ab", a: [-100, 100], b: [-100, 100] } },
+      { ...nan, a: Number.NaN },
+    );
     expect(v.pass).toBe(false);
     expect(v.reason).toMatch(/not finite/);
   });
 
   it("the schema refuses inverted boxes and non-positive limits", () => {
-    expect(ColourRequirementSchema.safeParse({ kind: "colour", quantity: "R", limit: { type: "box-xy", x: [0.4, 0.3], y: [0, 1] } }).success).toBe(false);
     expect(
-      ColourRequirementSchema.safeParse({ kind: "colour", quantity: "R", limit: { type: "delta-e", formula: "CIE76", target: { L: 1, a: 0, b: 0 }, max: 0 } }).success,
+      ColourRequirementSchema.safeParse({
+        kind: "colour",
+        quantity: "R",
+        limit: { type: "box-xy", x: [0.4, 0.3], y: [0, 1] },
+      }).success,
     ).toBe(false);
-    expect(ColourRequirementSchema.parse({ kind: "colour", quantity: "T", limit: { type: "box-ab", a: [0, 1], b: [0, 1] } })).toMatchObject({
+    expect(
+      ColourRequirementSchema.safeParse({
+        kind: "colour",
+        quantity: "R",
+        limit: { type: "delta-e", formula: "CIE76", target: { L: 1, a: 0, b: 0 }, max: 0 },
+      }).success,
+    ).toBe(false);
+    expect(
+      ColourRequirementSchema.parse({
+        kind: "colour",
+        quantity: "T",
+        limit: { type: "box-ab", a: [0, 1], b: [0, 1] },
+      }),
+    ).toMatchObject({
       illuminant: "D65",
       observer: "2",
       angleDeg: 0,

@@ -10,7 +10,10 @@ import {
 } from "../../src/core/index.ts";
 import { expectClose } from "./helpers.ts";
 
-const seq = (f: string) => parseFormula(f).map((l) => `${l.qwot}${l.symbol}`).join(" ");
+const seq = (f: string) =>
+  parseFormula(f)
+    .map((l) => `${l.qwot}${l.symbol}`)
+    .join(" ");
 
 describe("parseFormula", () => {
   it("expands repeats, multipliers and nested groups in deposition order", () => {

@@ -35,7 +35,8 @@ function kramersKronig(E: number): number {
     sum += f * 2 * s * h;
   }
   // analytic remainder: E ε2(E) P∫_Eg^∞ dξ/(ξ² − E²) = −E ε2(E) ln|(Eg − E)/(Eg + E)|/(2E)
-  const pole = E > aSi.Eg ? (-e2E * Math.log(Math.abs((aSi.Eg - E) / (aSi.Eg + E)))) / 2 : e2E === 0 ? 0 : NaN;
+  const pole =
+    E > aSi.Eg ? (-e2E * Math.log(Math.abs((aSi.Eg - E) / (aSi.Eg + E)))) / 2 : e2E === 0 ? 0 : NaN;
   // tail beyond ξmax of the subtracted constant: −E ε2(E) ∫_ξmax^∞ dξ/(ξ² − E²) ≈ −E ε2(E)/ξmax
   const xiMax = aSi.Eg + S * S;
   return (2 / Math.PI) * (sum + pole - (E * e2E) / xiMax);
@@ -48,7 +49,11 @@ describe("Tauc–Lorentz (Jellison & Modine 1996)", () => {
     expect(taucLorentzEpsilon(aSi, 1.2).eps2).toBe(0);
     expect(taucLorentzEpsilon(aSi, 1.3).eps2).toBeGreaterThan(0);
     // value at E = E0 from the formula: A (E0 − Eg)² / (C E0²)
-    expectClose(taucLorentzEpsilon(aSi, aSi.E0).eps2, (aSi.A * (aSi.E0 - aSi.Eg) ** 2) / (aSi.C * aSi.E0 ** 2), 1e-12);
+    expectClose(
+      taucLorentzEpsilon(aSi, aSi.E0).eps2,
+      (aSi.A * (aSi.E0 - aSi.Eg) ** 2) / (aSi.C * aSi.E0 ** 2),
+      1e-12,
+    );
     let peakE = 0;
     let peak = -1;
     let rises = 0;
@@ -104,15 +109,24 @@ describe("Tauc–Lorentz (Jellison & Modine 1996)", () => {
   });
 
   it("refuses C ≥ 2·E0 and Eg ≥ E0 (the closed form needs α = √(4E0² − C²) real)", () => {
-    expect(MaterialModelSchema.safeParse({ kind: "tauc-lorentz", A: 100, E0: 2, C: 4, Eg: 1 }).success).toBe(false);
-    expect(MaterialModelSchema.safeParse({ kind: "tauc-lorentz", A: 100, E0: 2, C: 1, Eg: 3 }).success).toBe(false);
+    expect(MaterialModelSchema.safeParse({ kind: "tauc-lorentz", A: 100, E0: 2, C: 4, Eg: 1 }).success).toBe(
+      false,
+    );
+    expect(MaterialModelSchema.safeParse({ kind: "tauc-lorentz", A: 100, E0: 2, C: 1, Eg: 3 }).success).toBe(
+      false,
+    );
   });
 });
 
 describe("Urbach tail and Drude–Lorentz", () => {
   it("Urbach: k = k0·exp((E − E0)/Eu) below E0, added to Cauchy's constant k", () => {
     // Urbach, Phys. Rev. 92, 1324 (1953): exponential absorption edge
-    const m = MaterialModelSchema.parse({ kind: "cauchy", A: 2, k: 1e-4, urbach: { k0: 0.2, E0: 3.5, Eu: 0.1 } });
+    const m = MaterialModelSchema.parse({
+      kind: "cauchy",
+      A: 2,
+      k: 1e-4,
+      urbach: { k0: 0.2, E0: 3.5, Eu: 0.1 },
+    });
     const lam = 450;
     const E = HC_EV_NM / lam;
     expectClose(refractiveIndex(m, lam).k, 1e-4 + 0.2 * Math.exp((E - 3.5) / 0.1), 1e-12);
@@ -167,7 +181,9 @@ describe("valid ranges", () => {
       substrate: { material: "fused-silica", thicknessMm: 1, backside: false },
     });
     const sp = computeSpectrum(design, { wavelengths: [1000, 5000, 10000] });
-    expect(sp.warnings.join(" ")).toMatch(/fused-silica: 2 wavelength\(s\) outside the sellmeier model's valid range 210–3710 nm/);
+    expect(sp.warnings.join(" ")).toMatch(
+      /fused-silica: 2 wavelength\(s\) outside the sellmeier model's valid range 210–3710 nm/,
+    );
   });
 
   it("beyond a table is still a refusal (RangeError naming λ and the range)", () => {
@@ -181,13 +197,17 @@ describe("valid ranges", () => {
       expect(mat.source.length, mat.id).toBeGreaterThan(10);
     }
     fc.assert(
-      fc.property(fc.integer({ min: 0, max: MATERIAL_LIBRARY.length - 1 }), fc.double({ min: 0, max: 1, noNaN: true }), (i, t) => {
-        const mat = MATERIAL_LIBRARY[i]!;
-        const [a, b] = validRange(mat.model)!;
-        const lam = Math.min(b, Math.max(a, a * Math.pow(b / a, t))); // log-uniform across the range
-        const v = refractiveIndex(mat.model, lam);
-        return Number.isFinite(v.n) && v.n > 0 && Number.isFinite(v.k) && v.k >= 0 && !v.outOfRange;
-      }),
+      fc.property(
+        fc.integer({ min: 0, max: MATERIAL_LIBRARY.length - 1 }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        (i, t) => {
+          const mat = MATERIAL_LIBRARY[i]!;
+          const [a, b] = validRange(mat.model)!;
+          const lam = Math.min(b, Math.max(a, a * Math.pow(b / a, t))); // log-uniform across the range
+          const v = refractiveIndex(mat.model, lam);
+          return Number.isFinite(v.n) && v.n > 0 && Number.isFinite(v.k) && v.k >= 0 && !v.outOfRange;
+        },
+      ),
       { numRuns: 3000, seed: 20261202 },
     );
   });
@@ -257,7 +277,10 @@ describe("library constants", () => {
 describe("Lorentz–Drude metals", () => {
   it("Ag-LD and Au-LD agree with the tabulated Ag and Au within 15 % in k across the visible and near IR", () => {
     // two descriptions of the same metals (Rakić 1998 fit vs the Johnson & Christy-shaped tables, both from memory)
-    for (const [ld, tab] of [["Ag-LD", "Ag"], ["Au-LD", "Au"]] as const) {
+    for (const [ld, tab] of [
+      ["Ag-LD", "Ag"],
+      ["Au-LD", "Au"],
+    ] as const) {
       for (const lam of [500, 600, 800, 1000, 1500, 2000]) {
         const a = refractiveIndex(getMaterial(ld).model, lam);
         const b = refractiveIndex(getMaterial(tab).model, lam);
@@ -278,42 +301,84 @@ describe("refused inputs (issue: physics inputs that cannot poison a verdict)", 
   const wl = [400, 532, 700, 1800];
 
   it("a design-local material with n = 1e308 is refused by the schema and by checkDesignInputs", () => {
-    const huge = { id: "huge", name: "huge", role: "layer", source: "attack", model: { kind: "constant", n: 1e308 } };
-    expect(() => checkDesignInputs({ ...base, layers: [{ material: "huge", thickness: 100 }], materials: [huge] }, wl)).toThrow(
-      /materials\[0\]\.model\.n.*1e\+308/,
-    );
+    const huge = {
+      id: "huge",
+      name: "huge",
+      role: "layer",
+      source: "attack",
+      model: { kind: "constant", n: 1e308 },
+    };
+    expect(() =>
+      checkDesignInputs({ ...base, layers: [{ material: "huge", thickness: 100 }], materials: [huge] }, wl),
+    ).toThrow(/materials\[0\]\.model\.n.*1e\+308/);
     // a table with an absurd n gets past the schema, not past the check: named material, model, λ
-    const table = { id: "bad", name: "bad", role: "layer", source: "attack", model: { kind: "table", points: [[300, 1e308, 0], [2000, 1e308, 0]] } };
-    expect(() => checkDesignInputs({ ...base, layers: [{ material: "bad", thickness: 100 }], materials: [table] }, wl)).toThrow(
-      /layers\[0\]\.material: material "bad" \(table model\) gives n = 1e\+308 .* at 400 nm/,
-    );
+    const table = {
+      id: "bad",
+      name: "bad",
+      role: "layer",
+      source: "attack",
+      model: {
+        kind: "table",
+        points: [
+          [300, 1e308, 0],
+          [2000, 1e308, 0],
+        ],
+      },
+    };
+    expect(() =>
+      checkDesignInputs({ ...base, layers: [{ material: "bad", thickness: 100 }], materials: [table] }, wl),
+    ).toThrow(/layers\[0\]\.material: material "bad" \(table model\) gives n = 1e\+308 .* at 400 nm/);
   });
 
   it("a Cauchy model with n ≤ 0 inside the evaluated wavelengths is refused naming λ", () => {
-    const neg = { id: "neg", name: "neg", role: "layer", source: "attack", model: { kind: "cauchy", A: 1.5, B: 0, C: -0.2 } };
+    const neg = {
+      id: "neg",
+      name: "neg",
+      role: "layer",
+      source: "attack",
+      model: { kind: "cauchy", A: 1.5, B: 0, C: -0.2 },
+    };
     // n(532 nm) = 1.5 − 0.2/0.0801 < 0
-    expect(() => checkDesignInputs({ ...base, layers: [{ material: "neg", thickness: 100 }], materials: [neg] }, wl)).toThrow(
-      /material "neg" \(cauchy model\) gives n = -[0-9.]+ .* at 400 nm/,
-    );
+    expect(() =>
+      checkDesignInputs({ ...base, layers: [{ material: "neg", thickness: 100 }], materials: [neg] }, wl),
+    ).toThrow(/material "neg" \(cauchy model\) gives n = -[0-9.]+ .* at 400 nm/);
     // the stack preparation refuses it too (no T > 1 comes out)
     const d = parseDesign({ ...base, layers: [{ material: "neg", thickness: 100 }], materials: [neg] });
     expect(() => computeSpectrum(d, { wavelengths: [532] })).toThrow(/neg.*cauchy model.*532 nm/);
   });
 
   it("thicknesses must be finite and at most 1e6 nm per layer", () => {
-    expect(() => checkDesignInputs({ ...base, layers: [{ material: "SiO2", thickness: 1e308 }] }, wl)).toThrow(
-      /layers\[0\]\.thickness: expected at most 1000000 nm.*1e\+308/,
-    );
-    expect(() => checkDesignInputs({ ...base, layers: [{ material: "SiO2", thickness: Infinity }] }, wl)).toThrow(RangeError);
-    expect(() => checkDesignInputs({ ...base, layers: [{ material: "SiO2", thickness: NaN }] }, wl)).toThrow(RangeError);
     expect(() =>
-      checkDesignInputs({ ...base, substrate: { material: "fused-silica", thicknessMm: 1e9, backside: true }, layers: [] }, wl),
+      checkDesignInputs({ ...base, layers: [{ material: "SiO2", thickness: 1e308 }] }, wl),
+    ).toThrow(/layers\[0\]\.thickness: expected at most 1000000 nm.*1e\+308/);
+    expect(() =>
+      checkDesignInputs({ ...base, layers: [{ material: "SiO2", thickness: Infinity }] }, wl),
+    ).toThrow(RangeError);
+    expect(() => checkDesignInputs({ ...base, layers: [{ material: "SiO2", thickness: NaN }] }, wl)).toThrow(
+      RangeError,
+    );
+    expect(() =>
+      checkDesignInputs(
+        { ...base, substrate: { material: "fused-silica", thicknessMm: 1e9, backside: true }, layers: [] },
+        wl,
+      ),
     ).toThrow(/substrate\.thicknessMm/);
-    expect(checkDesignInputs({ ...base, layers: [{ material: "SiO2", thickness: 1e6 }] }, wl).layers[0]!.thickness).toBe(1e6);
+    expect(
+      checkDesignInputs({ ...base, layers: [{ material: "SiO2", thickness: 1e6 }] }, wl).layers[0]!.thickness,
+    ).toBe(1e6);
   });
 
   it("a sound design passes and comes back parsed", () => {
-    const d = checkDesignInputs({ ...base, layers: [{ material: "TiO2", thickness: 60 }, { material: "SiO2", thickness: 90 }] }, wl);
+    const d = checkDesignInputs(
+      {
+        ...base,
+        layers: [
+          { material: "TiO2", thickness: 60 },
+          { material: "SiO2", thickness: 90 },
+        ],
+      },
+      wl,
+    );
     expect(d.layers).toHaveLength(2);
   });
 
@@ -321,8 +386,18 @@ describe("refused inputs (issue: physics inputs that cannot poison a verdict)", 
     const d = parseDesign({ ...base, layers: [{ material: "SiO2", thickness: 100 }] });
     const hacked = {
       ...d,
-      materials: [{ id: "SiO2", name: "x", role: "layer" as const, source: "x", model: { kind: "constant", n: NaN, k: 0 } as MaterialModel }],
+      materials: [
+        {
+          id: "SiO2",
+          name: "x",
+          role: "layer" as const,
+          source: "x",
+          model: { kind: "constant", n: NaN, k: 0 } as MaterialModel,
+        },
+      ],
     };
-    expect(() => computeSpectrum(hacked, { wavelengths: [532] })).toThrow(/SiO2.*constant model.*n = NaN.*532 nm/);
+    expect(() => computeSpectrum(hacked, { wavelengths: [532] })).toThrow(
+      /SiO2.*constant model.*n = NaN.*532 nm/,
+    );
   });
 });

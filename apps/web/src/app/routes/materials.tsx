@@ -15,7 +15,12 @@ import {
 } from "../../features/materials/api/get-materials.ts";
 import { DispersionChart } from "../../features/materials/components/dispersion-chart.tsx";
 import { UploadMaterialForm } from "../../features/materials/components/upload-material-form.tsx";
-import { modelSummary, naturalRange, rangeLabel, sampleDispersion } from "../../features/materials/lib/dispersion.ts";
+import {
+  modelSummary,
+  naturalRange,
+  rangeLabel,
+  sampleDispersion,
+} from "../../features/materials/lib/dispersion.ts";
 import { queryClient } from "../../lib/query-client.ts";
 import { hasRole, useSession } from "../../lib/session.ts";
 
@@ -71,8 +76,8 @@ function MaterialDetail({ material }: { material: MaterialItem }) {
       )}
       {valid && (start < from || stop > to) && (
         <p className="text-sm text-verdict-warn" role="status">
-          The model is valid over {rangeLabel(material.model)}; outside it the values are extrapolated and results
-          carry a warning.
+          The model is valid over {rangeLabel(material.model)}; outside it the values are extrapolated and
+          results carry a warning.
         </p>
       )}
       {curve && curve.refused > 0 && (

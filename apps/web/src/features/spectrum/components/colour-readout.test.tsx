@@ -11,7 +11,9 @@ const glass = parseDesign({
   referenceWavelength: 550,
   layers: [],
   substrate: { material: "g", thicknessMm: 1, backside: false },
-  materials: [{ id: "g", name: "glass", role: "substrate", source: "test", model: { kind: "constant", n: 1.52 } }],
+  materials: [
+    { id: "g", name: "glass", role: "substrate", source: "test", model: { kind: "constant", n: 1.52 } },
+  ],
 });
 
 describe("colour readout", () => {

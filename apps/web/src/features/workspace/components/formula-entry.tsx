@@ -11,7 +11,11 @@ const field = "mt-0.5 w-full rounded border border-ink-300 bg-white px-2 py-1 te
 const btn =
   "rounded border border-ink-300 bg-white px-2 py-1 text-xs font-medium text-ink-800 hover:bg-paper-deep disabled:cursor-not-allowed disabled:opacity-40";
 
-const DEFAULTS: Record<string, string[]> = { H: ["TiO2", "Ta2O5", "Nb2O5"], L: ["SiO2", "MgF2"], M: ["Al2O3"] };
+const DEFAULTS: Record<string, string[]> = {
+  H: ["TiO2", "Ta2O5", "Nb2O5"],
+  L: ["SiO2", "MgF2"],
+  M: ["Al2O3"],
+};
 
 /** Distinct letters of a formula, in order of first appearance (whatever the formula's validity). */
 function lettersOf(formula: string): string[] {
@@ -39,14 +43,22 @@ export function FormulaEntry({
   const [formula, setFormula] = useState("(HL)^4 H");
   const [lambda0, setLambda0] = useState(String(design.referenceWavelength));
   const [chosen, setChosen] = useState<Record<string, string>>({});
-  const [result, setResult] = useState<{ error: string | null; message: string | null }>({ error: null, message: null });
-  const layerMaterials = useMemo(() => materials.filter((m) => m.role === "layer" || m.role === "metal"), [materials]);
+  const [result, setResult] = useState<{ error: string | null; message: string | null }>({
+    error: null,
+    message: null,
+  });
+  const layerMaterials = useMemo(
+    () => materials.filter((m) => m.role === "layer" || m.role === "metal"),
+    [materials],
+  );
   const letters = lettersOf(formula);
 
   const materialFor = (letter: string): string => {
     const pick = chosen[letter];
     if (pick) return pick;
-    const preferred = (DEFAULTS[letter.toUpperCase()] ?? []).find((idm) => layerMaterials.some((m) => m.id === idm));
+    const preferred = (DEFAULTS[letter.toUpperCase()] ?? []).find((idm) =>
+      layerMaterials.some((m) => m.id === idm),
+    );
     return preferred ?? layerMaterials[0]?.id ?? "";
   };
 
@@ -55,7 +67,8 @@ export function FormulaEntry({
     for (const l of letters) mapping[l] = materialFor(l);
     const lam = Number(lambda0);
     try {
-      if (!(lam > 0) || !Number.isFinite(lam)) throw new RangeError(`λ0: expected a wavelength > 0 nm, got ${lambda0 || "nothing"}`);
+      if (!(lam > 0) || !Number.isFinite(lam))
+        throw new RangeError(`λ0: expected a wavelength > 0 nm, got ${lambda0 || "nothing"}`);
       const used = new Set(Object.values(mapping));
       const custom: Material[] = [...(design.materials ?? [])];
       for (const o of materials) {
@@ -74,7 +87,10 @@ export function FormulaEntry({
         ...(custom.length > 0 ? { customMaterials: custom } : {}),
       });
       dispatch({ type: "replace", design: built });
-      setResult({ error: null, message: `Built ${built.layers.length} layers at λ0 = ${lam} nm. Undo restores the previous stack.` });
+      setResult({
+        error: null,
+        message: `Built ${built.layers.length} layers at λ0 = ${lam} nm. Undo restores the previous stack.`,
+      });
     } catch (e) {
       setResult({ error: e instanceof Error ? e.message : String(e), message: null });
     }
@@ -87,8 +103,8 @@ export function FormulaEntry({
       <fieldset className="mt-2 grid gap-2" disabled={readOnly}>
         <p className="text-ink-500">
           Letters are quarter waves at λ0, a number before a letter or group multiplies it, ^n repeats it:
-          <span className="font-mono"> (HL)^8 H</span>, <span className="font-mono">(0.5L H 0.5L)^7</span>. The first letter is
-          the first layer on the substrate. The stack replaces the current layers.
+          <span className="font-mono"> (HL)^8 H</span>, <span className="font-mono">(0.5L H 0.5L)^7</span>.
+          The first letter is the first layer on the substrate. The stack replaces the current layers.
         </p>
         <div className="grid grid-cols-[1fr_8rem] gap-3">
           <label htmlFor={`${id}-f`}>
@@ -114,7 +130,14 @@ export function FormulaEntry({
           </label>
           <label htmlFor={`${id}-l0`}>
             λ0 (nm)
-            <input id={`${id}-l0`} type="number" min={1} className={`${field} font-mono`} value={lambda0} onChange={(e) => setLambda0(e.target.value)} />
+            <input
+              id={`${id}-l0`}
+              type="number"
+              min={1}
+              className={`${field} font-mono`}
+              value={lambda0}
+              onChange={(e) => setLambda0(e.target.value)}
+            />
           </label>
         </div>
         {letters.length > 0 ? (
@@ -122,7 +145,12 @@ export function FormulaEntry({
             {letters.map((l) => (
               <label key={l} htmlFor={`${id}-m-${l}`} className="w-40">
                 <span className="font-mono font-semibold">{l}</span> is
-                <select id={`${id}-m-${l}`} className={field} value={materialFor(l)} onChange={(e) => setChosen((c) => ({ ...c, [l]: e.target.value }))}>
+                <select
+                  id={`${id}-m-${l}`}
+                  className={field}
+                  value={materialFor(l)}
+                  onChange={(e) => setChosen((c) => ({ ...c, [l]: e.target.value }))}
+                >
                   {layerMaterials.map((m) => (
                     <option key={m.id} value={m.id}>
                       {m.id}
