@@ -261,9 +261,14 @@ export function taucLorentzEpsilon(
     ((4 * A * E0 * Eg * (E2 - gamma2)) / (pz * alpha)) *
     (Math.atan((alpha + 2 * Eg) / C) + Math.atan((alpha - 2 * Eg) / C));
   const dE = Math.abs(E - Eg);
+  const c1 = (A * E0 * C * (E2 + Eg2)) / (pz * E);
+  const c2 = (2 * A * E0 * C * Eg) / pz;
+  const root = Math.sqrt((E02 - Eg2) ** 2 + Eg2 * C2);
   if (dE > 0) {
-    eps1 -= ((A * E0 * C * (E2 + Eg2)) / (pz * E)) * Math.log(dE / (E + Eg));
-    eps1 += ((2 * A * E0 * C * Eg) / pz) * Math.log((dE * (E + Eg)) / Math.sqrt((E02 - Eg2) ** 2 + Eg2 * C2));
+    eps1 += -c1 * Math.log(dE / (E + Eg)) + c2 * Math.log((dE * (E + Eg)) / root);
+  } else {
+    // at E = Eg, c1 = c2 and the two ln|E − Eg| parts cancel; what remains is finite
+    eps1 += c1 * Math.log(E + Eg) + c2 * Math.log((E + Eg) / root);
   }
   return { eps1, eps2 };
 }

@@ -96,6 +96,12 @@ describe("Tauc–Lorentz (Jellison & Modine 1996)", () => {
     expect(v.k).toBeLessThan(0.7);
   });
 
+  it("ε1 is continuous through the gap (the logarithmic terms cancel at E = Eg)", () => {
+    const at = taucLorentzEpsilon(aSi, aSi.Eg).eps1;
+    expectClose(taucLorentzEpsilon(aSi, aSi.Eg * (1 + 1e-9)).eps1, at, 1e-6);
+    expectClose(taucLorentzEpsilon(aSi, aSi.Eg * (1 - 1e-9)).eps1, at, 1e-6);
+  });
+
   it("ε1 → ε∞ at high energy; N = n − ik with k = 0 below the gap", () => {
     expectClose(taucLorentzEpsilon(aSi, 1e4).eps1, aSi.epsInf, 1e-3);
     const model = MaterialModelSchema.parse({ kind: "tauc-lorentz", ...aSi });
