@@ -35,7 +35,12 @@ async function everythingReadable(agent: Agent): Promise<string> {
 describe("outbox: who may read captured mail", () => {
   it("refuses designers, reviewers and approvers (403): the outbox is for administrators", async () => {
     const admin = await signedInMember(server, { roles: ["admin"] });
-    for (const roles of [["designer"], ["reviewer"], ["approver"], ["designer", "reviewer", "approver"]] as const) {
+    for (const roles of [
+      ["designer"],
+      ["reviewer"],
+      ["approver"],
+      ["designer", "reviewer", "approver"],
+    ] as const) {
       const m = await createMember(server, { roles: [...roles], workspaceId: admin.workspaceId });
       const agent = await signIn(server, m.email, m.password);
       const list = await agent.get(`${API}/outbox`).expect(403);
@@ -47,8 +52,13 @@ describe("outbox: who may read captured mail", () => {
   it("a designer cannot take over the admin of the same workspace through the reset mail", async () => {
     const admin = await signedInMember(server, { roles: ["admin"] });
     const designer = await signedInMember(server, { roles: ["designer"], workspaceId: admin.workspaceId });
-    await withOrigin(request(server.app).post(`${API}/auth/password-reset`)).send({ email: admin.email }).expect(202);
-    const token = tokenIn(await lastMailTo(server, admin.email, /Reset your Stackproof password/), "/reset-password");
+    await withOrigin(request(server.app).post(`${API}/auth/password-reset`))
+      .send({ email: admin.email })
+      .expect(202);
+    const token = tokenIn(
+      await lastMailTo(server, admin.email, /Reset your Stackproof password/),
+      "/reset-password",
+    );
     await designer.agent.get(`${API}/outbox`).expect(403);
     expect(await everythingReadable(designer.agent)).not.toContain(token);
   });
@@ -56,7 +66,9 @@ describe("outbox: who may read captured mail", () => {
   it("a second admin of the same workspace sees the reset mail but not its link; the addressee sees the link", async () => {
     const victim = await signedInMember(server, { roles: ["admin"] });
     const other = await signedInMember(server, { roles: ["admin"], workspaceId: victim.workspaceId });
-    await withOrigin(request(server.app).post(`${API}/auth/password-reset`)).send({ email: victim.email }).expect(202);
+    await withOrigin(request(server.app).post(`${API}/auth/password-reset`))
+      .send({ email: victim.email })
+      .expect(202);
     const mail = await lastMailTo(server, victim.email, /Reset your Stackproof password/);
     const token = tokenIn(mail, "/reset-password");
 
@@ -69,7 +81,10 @@ describe("outbox: who may read captured mail", () => {
     expect(await everythingReadable(other.agent)).not.toContain(token);
     // The token is useless without the link: guessing is not possible and the confirm route needs the whole token.
     await withOrigin(request(server.app).post(`${API}/auth/password-reset/confirm`))
-      .send({ token: "[single-use link hidden: only its addressee can see it]", password: "a brand new passphrase" })
+      .send({
+        token: "[single-use link hidden: only its addressee can see it]",
+        password: "a brand new passphrase",
+      })
       .expect(400);
 
     const own = await victim.agent.get(`${API}/outbox/${mail.id}`).expect(200);
@@ -80,8 +95,13 @@ describe("outbox: who may read captured mail", () => {
     const victim = await signedInMember(server, { roles: ["admin"] });
     const outsider = await signedInMember(server, { roles: ["admin"] });
     expect(outsider.workspaceId).not.toBe(victim.workspaceId);
-    await withOrigin(request(server.app).post(`${API}/auth/password-reset`)).send({ email: victim.email }).expect(202);
-    await victim.agent.post(`${API}/invitations`).send({ email: "newcomer@halvorsen-thinfilm.test", roles: ["designer"] }).expect(201);
+    await withOrigin(request(server.app).post(`${API}/auth/password-reset`))
+      .send({ email: victim.email })
+      .expect(202);
+    await victim.agent
+      .post(`${API}/invitations`)
+      .send({ email: "newcomer@halvorsen-thinfilm.test", roles: ["designer"] })
+      .expect(201);
     const reset = await lastMailTo(server, victim.email, /Reset your Stackproof password/);
     const invitation = await lastMailTo(server, "newcomer@halvorsen-thinfilm.test", /invited you/);
 
@@ -105,7 +125,10 @@ describe("outbox: who may read captured mail", () => {
     const adminB = await signedInMember(server, { roles: ["admin"] });
     const shared = await createMember(server, { roles: ["designer"], workspaceId: adminB.workspaceId });
     // Workspace A invites someone who is already a member of B: the mail is A's business.
-    await adminA.agent.post(`${API}/invitations`).send({ email: shared.email, roles: ["reviewer"] }).expect(201);
+    await adminA.agent
+      .post(`${API}/invitations`)
+      .send({ email: shared.email, roles: ["reviewer"] })
+      .expect(201);
     const invitation = await lastMailTo(server, shared.email, /invited you/);
     const listB = await adminB.agent.get(`${API}/outbox?limit=100`).expect(200);
     expect((listB.body.items as { id: string }[]).map((i) => i.id)).not.toContain(invitation.id);

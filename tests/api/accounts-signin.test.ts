@@ -34,7 +34,8 @@ describe("sign-in limit and X-Forwarded-For", () => {
 
   it("rotating X-Forwarded-For does not reset the limit when no proxy is trusted", async () => {
     const m = await createMember(server, { roles: ["designer"] });
-    for (let i = 0; i < 5; i++) await attempt(server, m.email, `guess ${i}`, `203.0.113.${i + 1}`).expect(401);
+    for (let i = 0; i < 5; i++)
+      await attempt(server, m.email, `guess ${i}`, `203.0.113.${i + 1}`).expect(401);
     const limited = await attempt(server, m.email, m.password, "198.51.100.77").expect(429);
     expect(limited.body.error.code).toBe("too_many_attempts");
     expect(Number(limited.headers["retry-after"])).toBeGreaterThan(0);
@@ -105,10 +106,22 @@ describe("origin check from configuration", () => {
     });
     try {
       const m = await createMember(configured, { roles: ["designer"] });
-      for (const origin of ["https://coatings.halvorsen-thinfilm.test", "https://a.halvorsen-thinfilm.test", "http://b.halvorsen-thinfilm.test:8080"]) {
-        await request(configured.app).post(`${API}/auth/sign-in`).set("Origin", origin).send({ email: m.email, password: m.password }).expect(200);
+      for (const origin of [
+        "https://coatings.halvorsen-thinfilm.test",
+        "https://a.halvorsen-thinfilm.test",
+        "http://b.halvorsen-thinfilm.test:8080",
+      ]) {
+        await request(configured.app)
+          .post(`${API}/auth/sign-in`)
+          .set("Origin", origin)
+          .send({ email: m.email, password: m.password })
+          .expect(200);
       }
-      for (const origin of ["http://127.0.0.1:5317", "http://coatings.halvorsen-thinfilm.test", "https://evil.example"]) {
+      for (const origin of [
+        "http://127.0.0.1:5317",
+        "http://coatings.halvorsen-thinfilm.test",
+        "https://evil.example",
+      ]) {
         await request(configured.app)
           .post(`${API}/auth/sign-in`)
           .set("Host", new URL(origin).host)
@@ -137,8 +150,13 @@ describe("password strength", () => {
 
   it("refuses short and long-but-guessable passwords on reset, and the link still works afterwards", async () => {
     const m = await createMember(server, { roles: ["designer"], name: "Ingrid Solberg" });
-    await withOrigin(request(server.app).post(`${API}/auth/password-reset`)).send({ email: m.email }).expect(202);
-    const token = tokenIn(await lastMailTo(server, m.email, /Reset your Stackproof password/), "/reset-password");
+    await withOrigin(request(server.app).post(`${API}/auth/password-reset`))
+      .send({ email: m.email })
+      .expect(202);
+    const token = tokenIn(
+      await lastMailTo(server, m.email, /Reset your Stackproof password/),
+      "/reset-password",
+    );
     const confirm = (password: string) =>
       withOrigin(request(server.app).post(`${API}/auth/password-reset/confirm`)).send({ token, password });
     const short = await confirm("elevenchars").expect(400);
@@ -154,10 +172,20 @@ describe("password strength", () => {
 
   it("refuses a guessable password when an invitation creates the account", async () => {
     const admin = await signedInMember(server, { roles: ["admin"] });
-    await admin.agent.post(`${API}/invitations`).send({ email: "weak.pw@halvorsen-thinfilm.test", roles: ["designer"] }).expect(201);
-    const token = tokenIn(await lastMailTo(server, "weak.pw@halvorsen-thinfilm.test", /invited you/), "/accept-invitation");
+    await admin.agent
+      .post(`${API}/invitations`)
+      .send({ email: "weak.pw@halvorsen-thinfilm.test", roles: ["designer"] })
+      .expect(201);
+    const token = tokenIn(
+      await lastMailTo(server, "weak.pw@halvorsen-thinfilm.test", /invited you/),
+      "/accept-invitation",
+    );
     const accept = (password: string) =>
-      withOrigin(request(server.app).post(`${API}/invitations/accept`)).send({ token, name: "Weak Person", password });
+      withOrigin(request(server.app).post(`${API}/invitations/accept`)).send({
+        token,
+        name: "Weak Person",
+        password,
+      });
     const weak = await accept("password1234").expect(400);
     expect(weak.body.error.code).toBe("weak_password");
     await accept("quartz meadow lantern").expect(200);
@@ -171,9 +199,15 @@ describe("production defaults", () => {
   });
 
   it("refuses to start in production with neither a mail server nor MAIL_CAPTURE=true", () => {
-    expect(() => loadEnv({ NODE_ENV: "production" })).toThrow(/nowhere to send e-mail.*SMTP_HOST.*MAIL_CAPTURE=true/s);
-    expect(() => loadEnv({ NODE_ENV: "production", MAIL_CAPTURE: "false" })).toThrow(/nowhere to send e-mail/);
-    expect(() => loadEnv({ NODE_ENV: "production", SMTP_HOST: "smtp.halvorsen-thinfilm.test", MAIL_CAPTURE: "true" })).toThrow(/choose/);
+    expect(() => loadEnv({ NODE_ENV: "production" })).toThrow(
+      /nowhere to send e-mail.*SMTP_HOST.*MAIL_CAPTURE=true/s,
+    );
+    expect(() => loadEnv({ NODE_ENV: "production", MAIL_CAPTURE: "false" })).toThrow(
+      /nowhere to send e-mail/,
+    );
+    expect(() =>
+      loadEnv({ NODE_ENV: "production", SMTP_HOST: "smtp.halvorsen-thinfilm.test", MAIL_CAPTURE: "true" }),
+    ).toThrow(/choose/);
     const smtp = loadEnv({ NODE_ENV: "production", SMTP_HOST: "smtp.halvorsen-thinfilm.test" });
     expect(smtp.MAIL_CAPTURE).toBe(false);
     expect(smtp.DEMO_DATA).toBe(false);
@@ -184,7 +218,9 @@ describe("production defaults", () => {
   it("creates no demo workspace in production unless DEMO_DATA is set, and flags it when it is", async () => {
     const dir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-prod-"));
     dirs.push(dir);
-    const plain = await createContext(loadEnv({ NODE_ENV: "production", MAIL_CAPTURE: "true", DATA_DIR: dir, YIELD_WORKERS: "1" }));
+    const plain = await createContext(
+      loadEnv({ NODE_ENV: "production", MAIL_CAPTURE: "true", DATA_DIR: dir, YIELD_WORKERS: "1" }),
+    );
     try {
       expect(plain.demo).toBeNull();
       expect(plain.mail.captureMode).toBe(true);

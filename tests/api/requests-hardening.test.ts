@@ -70,7 +70,9 @@ describe("a save names its base revision", () => {
     const { design, revision: r1 } = await createDesign(team, program.id);
     const results = await Promise.all(
       [team.members.designer, team.members.designer2, team.members.designer].map((m, i) =>
-        m.agent.post(`${API}/designs/${design.id}/revisions`).send({ baseRevisionId: r1.id, stack: twoLayerAr(), note: `race ${i}` }),
+        m.agent
+          .post(`${API}/designs/${design.id}/revisions`)
+          .send({ baseRevisionId: r1.id, stack: twoLayerAr(), note: `race ${i}` }),
       ),
     );
     expect(results.map((r) => r.status).sort()).toEqual([201, 409, 409]);
@@ -80,7 +82,10 @@ describe("a save names its base revision", () => {
     const program = await createProgram(team);
     const { design } = await createDesign(team, program.id);
     const other = await createDesign(team, program.id);
-    const none = await team.members.designer.agent.post(`${API}/designs/${design.id}/revisions`).send({ stack: twoLayerAr() }).expect(400);
+    const none = await team.members.designer.agent
+      .post(`${API}/designs/${design.id}/revisions`)
+      .send({ stack: twoLayerAr() })
+      .expect(400);
     expect(none.body.error.message).toMatch(/baseRevisionId/);
     const foreign = await team.members.designer.agent
       .post(`${API}/designs/${design.id}/revisions`)
@@ -91,7 +96,8 @@ describe("a save names its base revision", () => {
 });
 
 describe("malformed requests get 4xx, never 5xx", () => {
-  const raw = () => request(server.app).post(`${API}/auth/sign-in`).set("Host", TEST_HOST).set("Origin", TEST_ORIGIN);
+  const raw = () =>
+    request(server.app).post(`${API}/auth/sign-in`).set("Host", TEST_HOST).set("Origin", TEST_ORIGIN);
 
   it("Content-Type: application/json; charset=latin1 → 415", async () => {
     const res = await raw()
@@ -119,7 +125,10 @@ describe("malformed requests get 4xx, never 5xx", () => {
   });
 
   it("an unsupported Content-Encoding → 415", async () => {
-    const res = await raw().set("Content-Type", "application/json").set("Content-Encoding", "compress").send("{}");
+    const res = await raw()
+      .set("Content-Type", "application/json")
+      .set("Content-Encoding", "compress")
+      .send("{}");
     expect(res.status).toBe(415);
   });
 
@@ -139,9 +148,18 @@ describe("CSV export neutralises formula-leading cells", () => {
   it("a design-local material named like a formula is exported as inert text", async () => {
     const program = await createProgram(team);
     const stack = {
-      ...rawDesign([{ material: "=HYPERLINK(\"http://evil.example\",\"x\")", thickness: 99.6 }, { material: "@SUM(1)", thickness: 50 }]),
+      ...rawDesign([
+        { material: '=HYPERLINK("http://evil.example","x")', thickness: 99.6 },
+        { material: "@SUM(1)", thickness: 50 },
+      ]),
       materials: [
-        { id: "=HYPERLINK(\"http://evil.example\",\"x\")", name: "trap", model: { kind: "constant", n: 1.38 }, role: "layer", source: "test" },
+        {
+          id: '=HYPERLINK("http://evil.example","x")',
+          name: "trap",
+          model: { kind: "constant", n: 1.38 },
+          role: "layer",
+          source: "test",
+        },
         { id: "@SUM(1)", name: "trap 2", model: { kind: "constant", n: 2.1 }, role: "layer", source: "test" },
       ],
     };
@@ -149,9 +167,15 @@ describe("CSV export neutralises formula-leading cells", () => {
       .post(`${API}/programs/${program.id}/designs`)
       .send({ name: "CSV trap", stack, note: "first" })
       .expect(201);
-    const revision = await team.members.reviewer.agent.get(`${API}/revisions/${created.body.revision.id}`).expect(200);
+    const revision = await team.members.reviewer.agent
+      .get(`${API}/revisions/${created.body.revision.id}`)
+      .expect(200);
     const csv = designToCsv(revision.body.stack);
-    const cells = csv.trim().split("\n").slice(1).map((line) => line.replace(/^"/, ""));
+    const cells = csv
+      .trim()
+      .split("\n")
+      .slice(1)
+      .map((line) => line.replace(/^"/, ""));
     for (const cell of cells) expect(cell[0], cell).toBe("'");
     expect(csv).toContain(`"'=HYPERLINK(""http://evil.example"",""x"")",99.6,false`);
     expect(csv).toContain("'@SUM(1),50,false");
@@ -171,12 +195,19 @@ describe("per-request limits, each named in the refusal", () => {
       .expect(400);
     expect(res.body.error.code).toBe("limit_exceeded");
     expect(res.body.error.message).toContain("MAX_SPEC_BANDS");
-    const prog = await team.members.approver.agent.post(`${API}/programs`).send({ ...(await programLike()), specMask: mask }).expect(400);
+    const prog = await team.members.approver.agent
+      .post(`${API}/programs`)
+      .send({ ...(await programLike()), specMask: mask })
+      .expect(400);
     expect(prog.body.error.message).toContain("MAX_SPEC_BANDS");
     // At the limit it is accepted.
     await team.members.designer.agent
       .post(`${API}/designs/${design.id}/revisions`)
-      .send({ baseRevisionId: revision.id, stack: singleLayerAr(), specMask: { bands: mask.bands.slice(0, MAX_SPEC_BANDS) } })
+      .send({
+        baseRevisionId: revision.id,
+        stack: singleLayerAr(),
+        specMask: { bands: mask.bands.slice(0, MAX_SPEC_BANDS) },
+      })
       .expect(201);
   });
 
@@ -189,13 +220,19 @@ describe("per-request limits, each named in the refusal", () => {
       .send({ baseRevisionId: revision.id, stack: singleLayerAr(), specMask: dense })
       .expect(400);
     expect(res.body.error.message).toContain("MAX_POINTS_PER_BAND");
-    const prog = await team.members.approver.agent.post(`${API}/programs`).send({ ...(await programLike()), specMask: dense }).expect(400);
+    const prog = await team.members.approver.agent
+      .post(`${API}/programs`)
+      .send({ ...(await programLike()), specMask: dense })
+      .expect(400);
     expect(prog.body.error.message).toContain("MAX_POINTS_PER_BAND");
   });
 
   it(`a design with more than ${MAX_LAYERS} layers → 400 naming MAX_LAYERS (new design, new revision, import)`, async () => {
     const program = await createProgram(team);
-    const layers = Array.from({ length: MAX_LAYERS + 1 }, (_, i) => ({ material: i % 2 ? "MgF2" : "TiO2", thickness: 80 }));
+    const layers = Array.from({ length: MAX_LAYERS + 1 }, (_, i) => ({
+      material: i % 2 ? "MgF2" : "TiO2",
+      thickness: 80,
+    }));
     const create = await team.members.designer.agent
       .post(`${API}/programs/${program.id}/designs`)
       .send({ name: "too many", stack: rawDesign(layers), note: "x" })

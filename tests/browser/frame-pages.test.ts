@@ -141,8 +141,15 @@ describe("frame: pages", () => {
     await page.getByTestId("outbox-text").waitFor();
     await browser.screenshot("frame-15-outbox");
     // The admin reads the invitation without its link: only the invitee gets that (from their own inbox).
-    expect(await page.getByTestId("outbox-text").innerText()).toContain("[single-use link hidden: only its addressee can see it]");
-    expect(await page.getByTestId("outbox-text").getByRole("link", { name: /accept-invitation/ }).count()).toBe(0);
+    expect(await page.getByTestId("outbox-text").innerText()).toContain(
+      "[single-use link hidden: only its addressee can see it]",
+    );
+    expect(
+      await page
+        .getByTestId("outbox-text")
+        .getByRole("link", { name: /accept-invitation/ })
+        .count(),
+    ).toBe(0);
     const href = mailedLink(product, "new.reviewer@halvorsen.example", "/accept-invitation").toString();
     expect(href).toMatch(/\/accept-invitation\?token=/);
 
@@ -180,8 +187,16 @@ describe("frame: pages", () => {
     await signInAs(page, product.url, DEMO.admin);
     await page.goto(`${product.url}/outbox`);
     await page.getByRole("button", { name: /reset/i }).first().click();
-    await page.getByTestId("outbox-text").getByText(/single-use link hidden/).waitFor();
-    expect(await page.getByTestId("outbox-text").getByRole("link", { name: /reset-password/ }).count()).toBe(0);
+    await page
+      .getByTestId("outbox-text")
+      .getByText(/single-use link hidden/)
+      .waitFor();
+    expect(
+      await page
+        .getByTestId("outbox-text")
+        .getByRole("link", { name: /reset-password/ })
+        .count(),
+    ).toBe(0);
     const href = mailedLink(product, DEMO.reviewer, "/reset-password");
     await browser.context.clearCookies();
 

@@ -36,8 +36,19 @@ function base(ctx: AppContext, rc: RevisionContext, recipient: Recipient) {
   };
 }
 
-function send(ctx: AppContext, rc: RevisionContext, to: Recipient, content: { subject: string; text: string; html: string }) {
-  void ctx.mail.send({ to: to.email, subject: content.subject, text: content.text, html: content.html, workspaceId: rc.program.workspaceId });
+function send(
+  ctx: AppContext,
+  rc: RevisionContext,
+  to: Recipient,
+  content: { subject: string; text: string; html: string },
+) {
+  void ctx.mail.send({
+    to: to.email,
+    subject: content.subject,
+    text: content.text,
+    html: content.html,
+    workspaceId: rc.program.workspaceId,
+  });
 }
 
 export function mailReviewRequested(
@@ -141,5 +152,11 @@ export function mailMention(
     authorName,
     excerpt,
   });
-  void ctx.mail.send({ to: to.email, subject: content.subject, text: content.text, html: content.html, workspaceId: rc.program.workspaceId });
+  void ctx.mail.send({
+    to: to.email,
+    subject: content.subject,
+    text: content.text,
+    html: content.html,
+    workspaceId: rc.program.workspaceId,
+  });
 }

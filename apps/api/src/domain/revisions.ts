@@ -113,7 +113,12 @@ export function assertFreshBase(tx: DbOrTx, designId: string, baseRevisionId: st
     throw new HttpError(400, "unknown_base", `Revision ${baseRevisionId} is not a revision of this design.`);
   }
   if (latest && base?.id === latest.id) return;
-  if (!latest) throw new HttpError(400, "unknown_base", "This design has no revision yet: save with baseRevisionId null.");
+  if (!latest)
+    throw new HttpError(
+      400,
+      "unknown_base",
+      "This design has no revision yet: save with baseRevisionId null.",
+    );
   const from = base ? `rev ${base.number}` : "no revision";
   throw new HttpError(
     409,

@@ -14,7 +14,12 @@ export const MAX_LAYERS = 400;
 /** Trials in one yield run. */
 export const MAX_TRIALS_PER_RUN = 50_000;
 
-export const REQUEST_LIMITS = { MAX_SPEC_BANDS, MAX_POINTS_PER_BAND, MAX_LAYERS, MAX_TRIALS_PER_RUN } as const;
+export const REQUEST_LIMITS = {
+  MAX_SPEC_BANDS,
+  MAX_POINTS_PER_BAND,
+  MAX_LAYERS,
+  MAX_TRIALS_PER_RUN,
+} as const;
 
 export interface LimitProblem {
   limit: keyof typeof REQUEST_LIMITS;

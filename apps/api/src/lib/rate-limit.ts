@@ -42,9 +42,16 @@ export function failureLimit(opts: FailureLimitOptions): RateLimitRequestHandler
     validate: { xForwardedForHeader: false, keyGeneratorIpFallback: false },
     handler: (req, res, next) => {
       const info = (req as Request & { rateLimit?: { resetTime?: Date } }).rateLimit;
-      const wait = Math.max(1, Math.ceil(((info?.resetTime?.getTime() ?? Date.now() + opts.windowMs) - Date.now()) / 1000));
+      const wait = Math.max(
+        1,
+        Math.ceil(((info?.resetTime?.getTime() ?? Date.now() + opts.windowMs) - Date.now()) / 1000),
+      );
       res.set("Retry-After", String(wait));
-      next(new HttpError(429, opts.code ?? "too_many_attempts", opts.message(waitText(wait)), { retryAfterSeconds: wait }));
+      next(
+        new HttpError(429, opts.code ?? "too_many_attempts", opts.message(waitText(wait)), {
+          retryAfterSeconds: wait,
+        }),
+      );
     },
   });
 }

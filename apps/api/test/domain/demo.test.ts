@@ -14,7 +14,13 @@ let dir: string;
 let ctx: AppContext;
 let server: { ctx: AppContext; app: ReturnType<typeof createApp>; dir: string; close(): Promise<void> };
 const env = () =>
-  loadEnv({ NODE_ENV: "test", DATA_DIR: dir, DEMO_DATA: "true", YIELD_WORKERS: "1", ALLOWED_ORIGINS: "http://stackproof.test" });
+  loadEnv({
+    NODE_ENV: "test",
+    DATA_DIR: dir,
+    DEMO_DATA: "true",
+    YIELD_WORKERS: "1",
+    ALLOWED_ORIGINS: "http://stackproof.test",
+  });
 
 beforeAll(async () => {
   dir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-demo-"));

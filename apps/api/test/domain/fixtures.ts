@@ -188,7 +188,10 @@ export const rawDesign = (layers: { material: string; thickness: number }[]) => 
 });
 
 /** The id of a design's latest revision: the base a save must name (POST /designs/:id/revisions baseRevisionId). */
-export async function latestRevisionId(agent: { get(url: string): PromiseLike<{ body: { revisions: { id: string }[] } }> }, designId: string): Promise<string> {
+export async function latestRevisionId(
+  agent: { get(url: string): PromiseLike<{ body: { revisions: { id: string }[] } }> },
+  designId: string,
+): Promise<string> {
   const res = await agent.get(`/api/v1/designs/${designId}`);
   const id = res.body.revisions[0]?.id;
   if (!id) throw new Error(`design ${designId} has no revision`);

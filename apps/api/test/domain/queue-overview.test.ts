@@ -43,7 +43,9 @@ async function act(who: Who, revisionId: string, action: string) {
 
 async function newRevision(who: Who, designId: string): Promise<string> {
   const baseRevisionId = await latestRevisionId(agentOf(who), designId);
-  const res = await agentOf(who).post(`${API}/designs/${designId}/revisions`).send({ baseRevisionId, stack: twoLayerAr() });
+  const res = await agentOf(who)
+    .post(`${API}/designs/${designId}/revisions`)
+    .send({ baseRevisionId, stack: twoLayerAr() });
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return res.body.id as string;
 }

@@ -207,7 +207,13 @@ describe("cancellation", () => {
 describe("restart during a run", () => {
   it("resumes a run left running by a closed process from its stored chunks, to the same result", async () => {
     const dir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-restart-"));
-    const env = loadEnv({ NODE_ENV: "test", DATA_DIR: dir, DEMO_DATA: "false", YIELD_WORKERS: "1", ALLOWED_ORIGINS: "http://stackproof.test" });
+    const env = loadEnv({
+      NODE_ENV: "test",
+      DATA_DIR: dir,
+      DEMO_DATA: "false",
+      YIELD_WORKERS: "1",
+      ALLOWED_ORIGINS: "http://stackproof.test",
+    });
     try {
       const ctx1 = await createContext(env);
       const first = { ctx: ctx1, app: createApp(ctx1), dir, close: async () => {} };

@@ -13,7 +13,13 @@ import { route } from "../../lib/route.ts";
 import { diffStacks } from "../../domain/diff.ts";
 import { loadDesign, loadRevision, stackOf } from "../../domain/load.ts";
 import { resolveDesign, workspaceMaterials } from "../../domain/materials.ts";
-import { assertFreshBase, createRevision, designView, overviewRows, revisionView } from "../../domain/revisions.ts";
+import {
+  assertFreshBase,
+  createRevision,
+  designView,
+  overviewRows,
+  revisionView,
+} from "../../domain/revisions.ts";
 import { workQueue } from "../../domain/queue.ts";
 import { parseLayerCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";

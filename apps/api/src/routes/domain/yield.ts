@@ -70,7 +70,12 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       access: ["designer", "reviewer", "approver"],
       params: IdParams,
       body: z.object({
-        trials: z.number().int().min(1).max(Math.min(MAX_TRIALS, MAX_TRIALS_PER_RUN), trialsLimitMessage).optional(),
+        trials: z
+          .number()
+          .int()
+          .min(1)
+          .max(Math.min(MAX_TRIALS, MAX_TRIALS_PER_RUN), trialsLimitMessage)
+          .optional(),
         seed: z.string().min(1).max(200).optional(),
         errorModel: ErrorModelSchema.optional(),
         clientResult: ClientResultSchema.optional(),

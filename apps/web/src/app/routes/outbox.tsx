@@ -78,9 +78,10 @@ export function Component() {
 
   const intro = (
     <Notice tone="warning" title="Demo and development only">
-      This server has no outgoing mail host configured, so it keeps every e-mail it would send for this workspace here
-      instead of delivering it. Password-reset and invitation links are hidden unless the message is addressed to you.
-      A production server sends mail and has no outbox unless it is switched on (MAIL_CAPTURE).
+      This server has no outgoing mail host configured, so it keeps every e-mail it would send for this
+      workspace here instead of delivering it. Password-reset and invitation links are hidden unless the
+      message is addressed to you. A production server sends mail and has no outbox unless it is switched on
+      (MAIL_CAPTURE).
     </Notice>
   );
 

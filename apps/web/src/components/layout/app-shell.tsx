@@ -117,8 +117,8 @@ export function AppShell() {
             data-testid="demo-notice"
             className="no-print mb-4 rounded-md border border-film-amber-soft bg-film-amber-soft/20 px-3 py-2 text-sm text-ink-900"
           >
-            <strong>Demo workspace.</strong> The company, people and designs are fictional and the demo accounts share a
-            published password: keep real work out of it.
+            <strong>Demo workspace.</strong> The company, people and designs are fictional and the demo
+            accounts share a published password: keep real work out of it.
           </p>
         ) : null}
         <Outlet />

@@ -23,7 +23,8 @@ export interface StaleBase {
 /** The two revisions of a 409 stale_base answer (someone saved first), or null for any other error. */
 export function staleBaseOf(error: unknown): StaleBase | null {
   if (!(error instanceof ApiError) || error.status !== 409 || error.code !== "stale_base") return null;
-  const d = error.details as { baseRevision?: StaleBase["base"]; latestRevision?: StaleBase["latest"] } | undefined;
+  const d = error.details as
+    { baseRevision?: StaleBase["base"]; latestRevision?: StaleBase["latest"] } | undefined;
   return d?.latestRevision ? { base: d.baseRevision ?? null, latest: d.latestRevision } : null;
 }
 

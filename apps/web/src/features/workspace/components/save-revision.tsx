@@ -48,12 +48,23 @@ export function SaveRevisionForm({
         {pending ? "Saving…" : "Save as new revision"}
       </button>
       {stale ? (
-        <div role="alert" data-testid="stale-save" className="w-full rounded border border-verdict-fail/40 bg-verdict-fail/5 p-2 text-xs text-ink-900">
-          <p className="font-semibold text-verdict-fail">Not saved: rev {stale.latestNumber} was saved while you were editing.</p>
+        <div
+          role="alert"
+          data-testid="stale-save"
+          className="w-full rounded border border-verdict-fail/40 bg-verdict-fail/5 p-2 text-xs text-ink-900"
+        >
+          <p className="font-semibold text-verdict-fail">
+            Not saved: rev {stale.latestNumber} was saved while you were editing.
+          </p>
           <p className="mt-0.5">
-            Your edits start from {stale.baseNumber === null ? "no revision" : `rev ${stale.baseNumber}`}, so saving them would
-            silently undo rev {stale.latestNumber}. Your edits are still here.{" "}
-            <Link to={stale.latestHref} target="_blank" rel="noopener" className="font-semibold text-film-teal underline">
+            Your edits start from {stale.baseNumber === null ? "no revision" : `rev ${stale.baseNumber}`}, so
+            saving them would silently undo rev {stale.latestNumber}. Your edits are still here.{" "}
+            <Link
+              to={stale.latestHref}
+              target="_blank"
+              rel="noopener"
+              className="font-semibold text-film-teal underline"
+            >
               Open rev {stale.latestNumber} in a new tab
             </Link>
             , carry your changes over there and save from it.

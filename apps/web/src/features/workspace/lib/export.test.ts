@@ -6,7 +6,7 @@ import { csvCell, designToCsv } from "./export.ts";
 
 describe("csvCell", () => {
   it("neutralises every formula-leading text cell with a single quote (OWASP CSV Injection)", () => {
-    expect(csvCell("=HYPERLINK(\"http://evil.example\")")).toBe(`"'=HYPERLINK(""http://evil.example"")"`);
+    expect(csvCell('=HYPERLINK("http://evil.example")')).toBe(`"'=HYPERLINK(""http://evil.example"")"`);
     expect(csvCell("+cmd|' /C calc'!A0")).toBe("'+cmd|' /C calc'!A0");
     expect(csvCell("-2+3")).toBe("'-2+3");
     expect(csvCell("@SUM(A1)")).toBe("'@SUM(A1)");
