@@ -25,7 +25,7 @@ import {
   RolesInput,
   SessionInfo,
   TokenInput,
-} from "./schemas.ts";
+} from "@stackproof/contracts";
 
 /** An invitation link works for 7 days. */
 export const INVITATION_LIFETIME_MS = 7 * 24 * 60 * 60_000;

@@ -9,7 +9,7 @@ import { recordAudit, type DbOrTx } from "../../lib/audit.ts";
 import { HttpError, notFound } from "../../lib/errors.ts";
 import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
-import { RoleSchema, RolesInput, UserIdParams, UserSchema } from "./schemas.ts";
+import { RoleSchema, RolesInput, UserIdParams, UserSchema } from "@stackproof/contracts";
 
 export const MemberSchema = z.object({ user: UserSchema, roles: z.array(RoleSchema), joinedAt: z.string() });
 

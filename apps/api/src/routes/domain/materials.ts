@@ -15,7 +15,7 @@ import { loadRevision } from "../../domain/load.ts";
 import { isBuiltIn } from "../../domain/materials.ts";
 import { parseIndexTable, parseSpectrumCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
-import { IdParams, fileField } from "./schemas.ts";
+import { IdParams, fileField } from "@stackproof/contracts";
 
 const TAG = "Materials and measurements";
 

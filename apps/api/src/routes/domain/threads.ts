@@ -13,7 +13,7 @@ import { newId } from "../../domain/canonical.ts";
 import { loadRevision, loadThread, maskOf, stackOf, type RevisionContext } from "../../domain/load.ts";
 import { mailMention } from "../../domain/notify.ts";
 import { findMentions, threadViews, threadsForRevision, workspaceMembers } from "../../domain/threads.ts";
-import { AnchorSchema, CommentBodySchema, IdParams, ThreadSchema } from "./schemas.ts";
+import { AnchorSchema, CommentBodySchema, IdParams, ThreadSchema } from "@stackproof/contracts";
 
 const TAG = "Review threads";
 

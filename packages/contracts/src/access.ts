@@ -1,7 +1,13 @@
 // Request and response shapes of the access routes (also the OpenAPI components of these routes).
 import { z } from "zod";
-import { ROLES } from "../../db/schema.ts";
-import { PASSWORD_MAX, PASSWORD_MIN } from "../../auth/password.ts";
+
+/** Membership roles (the API's database stores them as text). */
+export const ROLES = ["admin", "designer", "reviewer", "approver"] as const;
+export type Role = (typeof ROLES)[number];
+
+/** Password length bounds (characters). */
+export const PASSWORD_MIN = 10;
+export const PASSWORD_MAX = 200;
 
 export const RoleSchema = z.enum(ROLES);
 
@@ -27,5 +33,4 @@ export const WorkspaceSchema = z.object({ id: z.string(), name: z.string() });
 export const SessionInfo = z.object({ user: UserSchema, workspace: WorkspaceSchema, roles: z.array(RoleSchema) });
 export type SessionInfo = z.infer<typeof SessionInfo>;
 
-export const IdParams = z.object({ id: z.string().min(1).max(100) });
 export const UserIdParams = z.object({ userId: z.string().min(1).max(100) });
