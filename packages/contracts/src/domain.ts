@@ -1,6 +1,13 @@
 // Request and response schemas shared by the domain routes (also the OpenAPI document's source).
 import { z } from "zod";
-import { ErrorModelSchema, MAX_TRIALS, SpecMaskSchema, type Layer, type YieldResult } from "@stackproof/optics";
+import {
+  ErrorModelSchema,
+  MAX_TRIALS,
+  MaterialRoleSchema,
+  SpecMaskSchema,
+  type Layer,
+  type YieldResult,
+} from "@stackproof/optics";
 import {
   BandOutcomeJson,
   DesignJson,
@@ -408,7 +415,7 @@ export type ReleaseRecord = z.infer<typeof ReleaseRecordSchema>;
 export const MaterialOutSchema = z.object({
   id: z.string(),
   name: z.string(),
-  role: z.string(),
+  role: MaterialRoleSchema,
   source: z.string(),
   builtIn: z.boolean(),
   model: MaterialModelJson,

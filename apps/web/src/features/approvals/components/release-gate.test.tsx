@@ -6,7 +6,7 @@ import { MemoryRouter } from "react-router";
 import { ReleaseGate } from "./release-gate.tsx";
 import { createQueryClient } from "../../../lib/query-client.ts";
 import type { Role } from "../../../lib/session.ts";
-import type { RevisionStatus } from "../../../lib/types.ts";
+import type { RevisionStatus } from "@stackproof/contracts";
 import { stubApi, type StubAnswer } from "../../../../test/stub-api.ts";
 
 const blockedGate = {
