@@ -47,6 +47,14 @@ export {
   groupDelay,
   coneQuadrature,
   coneHalfAngleDeg,
+  coneRule,
+  angleRangeRule,
+  adaptiveRule,
+  averageRule,
+  coneAverage,
+  gaussLegendre,
+  ANGLE_RULE_TOLERANCE,
+  ANGLE_RULE_MAX_PANELS,
   SPEED_OF_LIGHT_NM_PER_FS,
 } from "./spectrum.ts";
 export type {
@@ -55,6 +63,8 @@ export type {
   SpectrumOptions,
   ConeOption,
   ConeRay,
+  AngleRule,
+  RuleResponses,
   GroupDelayOptions,
 } from "./spectrum.ts";
 export { fieldProfile } from "./field.ts";
