@@ -425,12 +425,12 @@ export function averageRule(
     const b = r.rule.wP[i]!;
     const sR = r.sR[i]!, sT = r.sT[i]!, sA = r.sA[i]!, pR = r.pR[i]!, pT = r.pT[i]!, pA = r.pA[i]!;
     for (let w = 0; w < W; w++) {
-      out.sR[w] += a * sR[w]! + b * pR[w]!;
-      out.sT[w] += a * sT[w]! + b * pT[w]!;
-      out.sA[w] += a * sA[w]! + b * pA[w]!;
-      out.pR[w] += b * sR[w]! + a * pR[w]!;
-      out.pT[w] += b * sT[w]! + a * pT[w]!;
-      out.pA[w] += b * sA[w]! + a * pA[w]!;
+      out.sR[w] = out.sR[w]! + a * sR[w]! + b * pR[w]!;
+      out.sT[w] = out.sT[w]! + a * sT[w]! + b * pT[w]!;
+      out.sA[w] = out.sA[w]! + a * sA[w]! + b * pA[w]!;
+      out.pR[w] = out.pR[w]! + b * sR[w]! + a * pR[w]!;
+      out.pT[w] = out.pT[w]! + b * sT[w]! + a * pT[w]!;
+      out.pA[w] = out.pA[w]! + b * sA[w]! + a * pA[w]!;
     }
   }
 }

@@ -100,10 +100,10 @@ function reference(lam: number, chiefDeg: number, halfDeg: number, nA: number, n
         const dot = (ex * -dy + ey * dx) / rho;
         fs = dot * dot;
       }
-      acc[0] += w * (fs * Rs + (1 - fs) * Rp);
-      acc[1] += w * (fs * Ts + (1 - fs) * Tp);
-      acc[2] += w * ((1 - fs) * Rs + fs * Rp);
-      acc[3] += w * ((1 - fs) * Ts + fs * Tp);
+      acc[0] = acc[0]! + w * (fs * Rs + (1 - fs) * Rp);
+      acc[1] = acc[1]! + w * (fs * Ts + (1 - fs) * Tp);
+      acc[2] = acc[2]! + w * ((1 - fs) * Rs + fs * Rp);
+      acc[3] = acc[3]! + w * ((1 - fs) * Ts + fs * Tp);
       wsum += w;
     }
   }
