@@ -164,6 +164,28 @@ describe("angle range", () => {
   });
 });
 
+describe("index factors (Monte Carlo drift)", () => {
+  it("a band with conditions applies index factors exactly as a plain band does (same method, 1e-10)", () => {
+    const simple = band({ id: "a", start: 880, stop: 920, step: 2, quantity: "T", requirement: "max", value: 100, angleDeg: 7, polarization: "u" });
+    const withRange = { ...simple, id: "b", angleRange: { fromDeg: 7, toDeg: 7 } };
+    const ev = createSpecEvaluator(bandpass, { bands: [simple, withRange] });
+    const t = Float64Array.from(ev.nominalThicknesses, (d, j) => d * (1 + 0.01 * Math.sin(j)));
+    // per-material drift plus per-layer noise: some layers share a factor, some do not
+    const scale = Float64Array.from(t, (_, j) => (j % 2 ? 1.004 : 0.997) * (j % 5 === 0 ? 1.001 : 1));
+    const g0 = new Float64Array(21);
+    const g1 = new Float64Array(21);
+    ev.compute(t, scale);
+    ev.bandValues(0, g0);
+    ev.bandValues(1, g1);
+    for (let i = 0; i < 21; i++) expect(Math.abs(g0[i]! - g1[i]!)).toBeLessThan(1e-10);
+    // and back to nominal tables when no factors are given
+    ev.compute(t);
+    ev.bandValues(0, g0);
+    ev.bandValues(1, g1);
+    for (let i = 0; i < 21; i++) expect(Math.abs(g0[i]! - g1[i]!)).toBeLessThan(1e-10);
+  });
+});
+
 describe("cone band", () => {
   it("uses the same cone average as computeSpectrum (one implementation)", () => {
     const wl = [899, 899.5, 900];
