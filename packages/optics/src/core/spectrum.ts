@@ -293,12 +293,15 @@ export function coneRule(axisDeg: number, halfAngleDeg: number, panels = 4, node
       }
     }
   }
+  // normalise to Σ = 1 (the numerical solid angle): a lossless stack then keeps R + T = 1 exactly
+  let sum = 0;
+  for (let i = 0; i < wS.length; i++) sum += wS[i]! + wP[i]!;
   return {
     axisDeg,
     halfAngleDeg,
     anglesDeg: Float64Array.from(angles),
-    wS: Float64Array.from(wS),
-    wP: Float64Array.from(wP),
+    wS: Float64Array.from(wS, (v) => v / sum),
+    wP: Float64Array.from(wP, (v) => v / sum),
   };
 }
 
@@ -335,8 +338,9 @@ export const ANGLE_RULE_MAX_PANELS = 128;
 /**
  * Adaptive choice of the number of sub-panels: K = 1, 2, 4, … until the results of K and 2K sub-panels
  * (all outputs of `evaluate`, e.g. R and T at every wavelength for both beam polarizations) differ by at
- * most `tolerance`; the finer of the two is returned (its error is far below the difference, composite
- * Gauss–Legendre converging as h^(2·nodes)). Throws a RangeError when ANGLE_RULE_MAX_PANELS is reached.
+ * most `tolerance`; the coarser rule K is returned. Its error is about that difference, because the finer
+ * rule is far more accurate (composite Gauss–Legendre converges as h^(2·nodes) on a smooth integrand).
+ * Throws a RangeError when ANGLE_RULE_MAX_PANELS is reached.
  */
 export function adaptiveRule(
   build: (panels: number) => AngleRule,
@@ -353,9 +357,10 @@ export function adaptiveRule(
       const d = Math.abs(cur[i]! - prev[i]!);
       if (d > diff || Number.isNaN(d)) diff = d;
     }
-    rule = next;
     if (diff <= tolerance) return rule;
-    if (Number.isNaN(diff)) return rule; // a non-finite response is reported by the caller, not refined
+    // a non-finite response is reported by the caller as a failing value, not refined further
+    if (Number.isNaN(diff)) return rule;
+    rule = next;
     prev = cur;
   }
   throw new RangeError(
@@ -466,11 +471,12 @@ export function coneAverage(
     sR: new Float64Array(W), sT: new Float64Array(W), sA: new Float64Array(W),
     pR: new Float64Array(W), pT: new Float64Array(W), pA: new Float64Array(W),
   });
-  let last = mk();
+  const results = new Map<AngleRule, ReturnType<typeof mk>>();
   const rule = adaptiveRule(
     (K) => coneRule(axisDeg, halfAngleDeg, K),
     (r) => {
-      last = mk();
+      const last = mk();
+      results.set(r, last);
       averageRule(ruleResponses(prep, r, d), W, last);
       const v = new Float64Array(4 * W);
       v.set(last.sR, 0); v.set(last.sT, W); v.set(last.pR, 2 * W); v.set(last.pT, 3 * W);
@@ -478,7 +484,7 @@ export function coneAverage(
     },
     tolerance,
   );
-  return { rule, ...last };
+  return { rule, ...results.get(rule)! };
 }
 
 /**

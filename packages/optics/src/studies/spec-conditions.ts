@@ -150,14 +150,15 @@ export class ComplexBand {
     this.node = [];
     this.probe = buffers(W);
     if (this.kind === "average") {
-      let kernels: { s: PolKernel; p: PolKernel; b: NodeBuffers }[] = [];
+      type Node = { s: PolKernel; p: PolKernel; b: NodeBuffers };
+      const byRule = new Map<AngleRule, Node[]>();
       const build = (K: number): AngleRule => {
         if (band.cone) return coneRule(band.angleDeg, coneHalfAngleDeg(band.cone), K);
         const r = band.angleRange!;
         return angleRangeRule(r.fromDeg, r.toDeg, K);
       };
       const evaluate = (rule: AngleRule): Float64Array => {
-        kernels = Array.from(rule.anglesDeg, (a) => {
+        const kernels = Array.from(rule.anglesDeg, (a) => {
           const b = buffers(W);
           const s = new PolKernel(tabulate(this.prep, a, "s"));
           const p = new PolKernel(tabulate(this.prep, a, "p"));
@@ -165,6 +166,7 @@ export class ComplexBand {
           p.run(d, undefined, b.pR, b.pT, b.pA);
           return { s, p, b };
         });
+        byRule.set(rule, kernels);
         const out = buffers(W);
         averageRule(this.responses(rule, kernels.map((k) => k.b)), W, out);
         const v = new Float64Array(4 * W);
@@ -179,7 +181,7 @@ export class ComplexBand {
       if (single) evaluate(rule);
       this.rule = rule;
       this.angles = rule.anglesDeg;
-      for (const k of kernels) {
+      for (const k of byRule.get(rule) ?? []) {
         this.kS.push(k.s);
         this.kP.push(k.p);
         this.node.push(k.b);

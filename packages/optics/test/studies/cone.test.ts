@@ -118,12 +118,13 @@ describe("cone average (f/2, 1.5 nm-FWHM bandpass)", () => {
     expect(half).toBeCloseTo((Math.asin(0.25) * 180) / Math.PI, 12);
   });
 
-  it("rule weights integrate the cone's solid angle exactly (Σ w = 1, on axis s share ½)", () => {
-    for (const [axis, h] of [[0, half], [10, half], [20, 5]] as const) {
+  it("rule weights average cos θ over the cone exactly: mean = cos θc · (1 + cos α)/2 (centroid of a spherical cap; on axis s share ½)", () => {
+    for (const [axis, h] of [[0, half], [10, half], [20, 5], [3, 30]] as const) {
       const r = coneRule(axis, h, 4, 8);
-      let sum = 0;
-      for (let i = 0; i < r.wS.length; i++) sum += r.wS[i]! + r.wP[i]!;
-      expect(Math.abs(sum - 1)).toBeLessThan(1e-12);
+      let mean = 0;
+      for (let i = 0; i < r.wS.length; i++) mean += (r.wS[i]! + r.wP[i]!) * Math.cos((r.anglesDeg[i]! * Math.PI) / 180);
+      const exact = (Math.cos((axis * Math.PI) / 180) * (1 + Math.cos((h * Math.PI) / 180))) / 2;
+      expect(Math.abs(mean - exact)).toBeLessThan(1e-10);
       if (axis === 0) for (let i = 0; i < r.wS.length; i++) expect(r.wS[i]).toBeCloseTo(r.wP[i]!, 15);
     }
   });
