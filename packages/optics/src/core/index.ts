@@ -52,6 +52,7 @@ export {
   adaptiveRule,
   averageRule,
   coneAverage,
+  computeSpectrumAtAngles,
   gaussLegendre,
   ANGLE_RULE_TOLERANCE,
   ANGLE_RULE_MAX_PANELS,

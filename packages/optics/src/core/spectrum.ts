@@ -526,6 +526,33 @@ export function computeSpectrum(design: Design, options: SpectrumOptions): Spect
   return result;
 }
 
+/**
+ * R, T, A (fractions) of s and p at one wavelength (nm) for each angle of incidence (degrees in the
+ * incident medium): the optical constants are tabulated once, each angle costs one kernel pass.
+ */
+export function computeSpectrumAtAngles(
+  design: Design,
+  wavelength: number,
+  anglesDeg: readonly number[],
+): { s: { R: number[]; T: number[]; A: number[] }; p: { R: number[]; T: number[]; A: number[] }; warnings: string[] } {
+  const prep = prepareStack(design, [wavelength]);
+  const d = prep.nominal;
+  const R = new Float64Array(1);
+  const T = new Float64Array(1);
+  const A = new Float64Array(1);
+  const s = { R: [] as number[], T: [] as number[], A: [] as number[] };
+  const p = { R: [] as number[], T: [] as number[], A: [] as number[] };
+  for (const a of anglesDeg) {
+    for (const [pol, out] of [["s", s], ["p", p]] as const) {
+      new PolKernel(tabulate(prep, a, pol)).run(d, undefined, R, T, A);
+      out.R.push(R[0]!);
+      out.T.push(T[0]!);
+      out.A.push(A[0]!);
+    }
+  }
+  return { s, p, warnings: prep.warnings };
+}
+
 /** Speed of light in vacuum, nm per fs. */
 export const SPEED_OF_LIGHT_NM_PER_FS = 299.792458;
 
