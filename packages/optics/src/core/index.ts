@@ -53,6 +53,8 @@ export {
   averageRule,
   coneAverage,
   computeSpectrumAtAngles,
+  createLiveSpectrum,
+  evenGrid,
   gaussLegendre,
   ANGLE_RULE_TOLERANCE,
   ANGLE_RULE_MAX_PANELS,
@@ -66,6 +68,8 @@ export type {
   ConeRay,
   AngleRule,
   RuleResponses,
+  LiveSpectrum,
+  LiveSpectrumOptions,
   GroupDelayOptions,
 } from "./spectrum.ts";
 export { fieldProfile } from "./field.ts";

@@ -553,6 +553,134 @@ export function computeSpectrumAtAngles(
   return { s, p, warnings: prep.warnings };
 }
 
+/**
+ * Evenly spaced grid of `points` wavelengths from start to stop (nm), both included (a chart's grid).
+ * @throws RangeError for start ≤ 0, stop < start or points outside 1–100,000
+ */
+export function evenGrid(start: number, stop: number, points: number): Float64Array {
+  if (!(start > 0) || !Number.isFinite(start)) throw new RangeError(`start: expected a wavelength > 0 nm, got ${start}`);
+  if (!(stop >= start) || !Number.isFinite(stop)) throw new RangeError(`stop: expected a wavelength ≥ start (${start} nm), got ${stop}`);
+  const n = Math.round(points);
+  if (!(n >= 1 && n <= 100_000)) throw new RangeError(`points: expected 1–100000, got ${points}`);
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) out[i] = n === 1 ? start : start + ((stop - start) * i) / (n - 1);
+  return out;
+}
+
+/** Options of {@link createLiveSpectrum}. */
+export interface LiveSpectrumOptions {
+  wavelengths: ArrayLike<number>;
+  /** angle of incidence, or the cone's chief ray, degrees */
+  angleDeg: number;
+  polarization: "s" | "p" | "u";
+  /** cone of light (uniform in solid angle) about angleDeg; omitted or half-angle 0 = collimated */
+  cone?: ConeOption;
+}
+
+/** A compiled spectrum for repeated thickness edits: {@link createLiveSpectrum}. */
+export interface LiveSpectrum {
+  readonly wavelengths: Float64Array;
+  /** number of angle nodes evaluated per call (1 when collimated) */
+  readonly nodes: number;
+  readonly warnings: readonly string[];
+  /** R, T, A (fractions) for thicknesses (nm, deposition order); allocates only the result */
+  compute(thicknessesNm: Float64Array): RTA;
+}
+
+/**
+ * Spectrum of a design for a chart that recomputes on every thickness edit: the optical constants and
+ * refraction terms are tabulated once; a cone uses the same adaptive rule as {@link computeSpectrum} and the
+ * spec masks (built on the nominal design), so the chart and the verdict agree.
+ */
+export function createLiveSpectrum(design: Design, options: LiveSpectrumOptions): LiveSpectrum {
+  const prep = prepareStack(design, options.wavelengths);
+  const W = prep.W;
+  const half = options.cone ? coneHalfAngleDeg(options.cone) : 0;
+  const pol = options.polarization;
+  if (pol !== "s" && pol !== "p" && pol !== "u") throw new RangeError(`polarization: expected "s", "p" or "u", got ${JSON.stringify(pol)}`);
+  const check = (d: Float64Array): void => {
+    if (d.length !== prep.L) throw new RangeError(`thicknesses: expected ${prep.L} layers, got ${d.length}`);
+  };
+  if (!(half > 0)) {
+    const ks = pol === "p" ? undefined : new PolKernel(tabulate(prep, options.angleDeg, "s"));
+    const kp = pol === "s" ? undefined : new PolKernel(tabulate(prep, options.angleDeg, "p"));
+    const tmp = { R: new Float64Array(W), T: new Float64Array(W), A: new Float64Array(W) };
+    return {
+      wavelengths: prep.wavelengths,
+      nodes: 1,
+      warnings: prep.warnings,
+      compute(d) {
+        check(d);
+        const out: RTA = { R: new Float64Array(W), T: new Float64Array(W), A: new Float64Array(W) };
+        (ks ?? kp)!.run(d, undefined, out.R, out.T, out.A);
+        if (ks && kp) {
+          kp.run(d, undefined, tmp.R, tmp.T, tmp.A);
+          for (let w = 0; w < W; w++) {
+            out.R[w] = 0.5 * (out.R[w]! + tmp.R[w]!);
+            out.T[w] = 0.5 * (out.T[w]! + tmp.T[w]!);
+            out.A[w] = 0.5 * (out.A[w]! + tmp.A[w]!);
+          }
+        }
+        return out;
+      },
+    };
+  }
+  type Node = { s: PolKernel; p: PolKernel; sR: Float64Array; sT: Float64Array; sA: Float64Array; pR: Float64Array; pT: Float64Array; pA: Float64Array };
+  const byRule = new Map<AngleRule, Node[]>();
+  const avg = {
+    sR: new Float64Array(W), sT: new Float64Array(W), sA: new Float64Array(W),
+    pR: new Float64Array(W), pT: new Float64Array(W), pA: new Float64Array(W),
+  };
+  const responses = (rule: AngleRule, nodes: Node[]): RuleResponses => ({
+    rule,
+    sR: nodes.map((n) => n.sR), sT: nodes.map((n) => n.sT), sA: nodes.map((n) => n.sA),
+    pR: nodes.map((n) => n.pR), pT: nodes.map((n) => n.pT), pA: nodes.map((n) => n.pA),
+  });
+  const runNodes = (nodes: Node[], d: Float64Array): void => {
+    for (const n of nodes) {
+      n.s.run(d, undefined, n.sR, n.sT, n.sA);
+      n.p.run(d, undefined, n.pR, n.pT, n.pA);
+    }
+  };
+  const rule = adaptiveRule(
+    (K) => coneRule(options.angleDeg, half, K),
+    (r) => {
+      const nodes: Node[] = Array.from(r.anglesDeg, (a) => ({
+        s: new PolKernel(tabulate(prep, a, "s")),
+        p: new PolKernel(tabulate(prep, a, "p")),
+        sR: new Float64Array(W), sT: new Float64Array(W), sA: new Float64Array(W),
+        pR: new Float64Array(W), pT: new Float64Array(W), pA: new Float64Array(W),
+      }));
+      byRule.set(r, nodes);
+      runNodes(nodes, prep.nominal);
+      averageRule(responses(r, nodes), W, avg);
+      const v = new Float64Array(4 * W);
+      v.set(avg.sR, 0); v.set(avg.sT, W); v.set(avg.pR, 2 * W); v.set(avg.pT, 3 * W);
+      return v;
+    },
+  );
+  const nodes = byRule.get(rule)!;
+  const resp = responses(rule, nodes);
+  return {
+    wavelengths: prep.wavelengths,
+    nodes: nodes.length,
+    warnings: prep.warnings,
+    compute(d) {
+      check(d);
+      runNodes(nodes, d);
+      averageRule(resp, W, avg);
+      const out: RTA = { R: new Float64Array(W), T: new Float64Array(W), A: new Float64Array(W) };
+      for (let w = 0; w < W; w++) {
+        const a = pol === "s" ? 1 : pol === "p" ? 0 : 0.5;
+        out.R[w] = a * avg.sR[w]! + (1 - a) * avg.pR[w]!;
+        out.T[w] = a * avg.sT[w]! + (1 - a) * avg.pT[w]!;
+        out.A[w] = a * avg.sA[w]! + (1 - a) * avg.pA[w]!;
+      }
+      return out;
+    },
+  };
+}
+
 /** Speed of light in vacuum, nm per fs. */
 export const SPEED_OF_LIGHT_NM_PER_FS = 299.792458;
 

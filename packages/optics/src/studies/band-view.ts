@@ -72,25 +72,8 @@ export function bandView(design: Design, maskInput: SpecMaskInput, bandId: strin
   const outcomes = ev.evaluate(ev.nominalThicknesses);
   const outcome = outcomes[b] as BandOutcome;
   const plan = ev.bands[b]!;
-  const group = ev.groups[plan.group]!;
-  const values = new Float64Array(plan.wavelengths.length);
-  ev.bandValues(b, values);
   const limit = bandLimit(band);
-  const violations: WorstPoint[] = [];
-  const low = band.requirement === "min";
-  for (let k = 0; k < values.length; k++) {
-    const v = values[k] as number;
-    const i = plan.indices[k] as number;
-    const bad = !Number.isFinite(v) || (band.requirement === "min" && v < limit) || (band.requirement === "max" && v > limit);
-    if (!bad) continue;
-    violations.push({
-      wavelength: plan.wavelengths[k] as number,
-      value: v,
-      angleDeg: group.angleAt ? (group.angleAt[i] as number) : band.angleDeg,
-      polarization: group.polAt ? (["s", "p", "u"] as const)[group.polAt[i] as number]! : band.polarization === "sp" ? "s" : band.polarization,
-    });
-  }
-  void low;
+  const violations = ev.violations(b);
 
   // display grid
   const start = options.start ?? band.start;

@@ -310,6 +310,11 @@ export interface SpecEvaluator {
   ): void;
   /** Values of band `b` (band units) at its samples from the last {@link SpecEvaluator.compute}, into `out`. */
   bandValues(b: number, out: Float64Array): void;
+  /**
+   * Samples of band `b` outside its limit (min/max requirements) or not finite, from the last
+   * {@link SpecEvaluator.compute} or {@link SpecEvaluator.evaluate}: wavelength, value, angle, polarization.
+   */
+  violations(b: number): WorstPoint[];
 }
 
 const wavelengthKey = (w: number): number => Math.round(w * 1e6);
@@ -575,6 +580,30 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
           out[r++] = v > 0 ? v * w : Number.isFinite(v) ? 0 : NON_FINITE_PENALTY * w;
         }
       }
+    },
+    violations(b) {
+      const plan = bands[b];
+      if (!plan) throw new RangeError(`band index ${b} out of range`);
+      const group = groups[plan.group] as GroupPlan;
+      const req = plan.band.requirement;
+      const out: WorstPoint[] = [];
+      for (let k = 0; k < plan.indices.length; k++) {
+        const i = plan.indices[k] as number;
+        const v = quantityValue(plan.band.quantity, group.R[i] as number, group.T[i] as number, group.A[i] as number);
+        const bad = !Number.isFinite(v) || (req === "min" && v < plan.limit) || (req === "max" && v > plan.limit);
+        if (!bad) continue;
+        out.push({
+          wavelength: plan.wavelengths[k] as number,
+          value: v,
+          angleDeg: group.angleAt ? (group.angleAt[i] as number) : plan.band.angleDeg,
+          polarization: group.polAt
+            ? (POL_CODES[group.polAt[i] as number] as Polarization)
+            : plan.band.polarization === "sp"
+              ? "s"
+              : plan.band.polarization,
+        });
+      }
+      return out;
     },
     bandValues(b, out) {
       const plan = bands[b];

@@ -1,6 +1,7 @@
 // The chart's band curves and violation marks come from the verdict's own evaluation; R/T against angle;
 // ISO 9211 style wording; CSV export.
 import { describe, expect, it } from "vitest";
+import { computeSpectrum, createLiveSpectrum, evenGrid } from "../../src/core/index.ts";
 import { angleScan, bandView, describeBandIso, evaluateSpec, spectrumToCsv } from "../../src/studies/index.ts";
 import type { SpecBandInput } from "../../src/studies/index.ts";
 import { qwotDesign } from "./fixtures.ts";
@@ -88,5 +89,22 @@ describe("spectrumToCsv", () => {
     const csv = spectrumToCsv([500, 501], { "T %": [90.5, Number.NaN], "=cmd": [1, 2] });
     expect(csv).toBe("wavelength_nm,T %,'=cmd\n500,90.5,1\n501,,2\n");
     expect(() => spectrumToCsv([500], { R: [1, 2] })).toThrow(RangeError);
+  });
+});
+
+describe("createLiveSpectrum (the chart's engine)", () => {
+  it("gives computeSpectrum's collimated and cone-averaged results (one cone implementation)", () => {
+    const wl = evenGrid(895, 905, 21);
+    const t = Float64Array.from(bandpass.layers, (l) => l.thickness);
+    for (const [pol, cone] of [["u", undefined], ["p", undefined], ["s", { fNumber: 2 }], ["u", { halfAngleDeg: 8 }]] as const) {
+      const live = createLiveSpectrum(bandpass, { wavelengths: wl, angleDeg: 5, polarization: pol, cone });
+      const ref = computeSpectrum(bandpass, { wavelengths: wl, angleDeg: 5, ...(cone ? { cone } : {}) });
+      const got = live.compute(t);
+      const want = pol === "u" ? ref.u : ref[pol];
+      for (let i = 0; i < wl.length; i++) {
+        expect(got.T[i]).toBeCloseTo(want.T[i]!, 12);
+        expect(got.R[i]).toBeCloseTo(want.R[i]!, 12);
+      }
+    }
   });
 });
