@@ -8,7 +8,7 @@ import type { Design } from "../core/index.ts";
 import { coneHalfAngleDeg } from "../core/spectrum.ts";
 import { bandConditionsText } from "./spec-conditions.ts";
 import { bandLimit, createSpecEvaluator, parseSpecMask } from "./spec.ts";
-import type { BandOutcome, SpecBand, SpecMaskInput, WorstPoint } from "./spec.ts";
+import type { BandOutcome, SpecBand, SpecBandInput, SpecMaskInput, WorstPoint } from "./spec.ts";
 
 /** Largest display grid of {@link bandView}. */
 export const MAX_VIEW_POINTS = 4001;
@@ -193,7 +193,7 @@ const f = (x: number): string => String(Math.round(x * 1000) / 1000);
  * incidence (single, range or cone), polarization and requirement, e.g.
  * "Transmittance: Tave ≥ 90 % over 1062–1066 nm; cone f/2 (half-angle 14.48°) about 0°; unpolarized".
  */
-export function describeBandIso(bandInput: SpecBand): string {
+export function describeBandIso(bandInput: SpecBandInput): string {
   const band = parseSpecMask({ bands: [bandInput] }).bands[0]!;
   const q = quantitySymbol[band.quantity];
   const unit = band.quantity === "OD" ? "" : " %";

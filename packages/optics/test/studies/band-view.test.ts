@@ -72,13 +72,13 @@ describe("angleScan", () => {
 
 describe("describeBandIso", () => {
   it("states quantity, wavelength range, angle or cone, polarization and requirement", () => {
-    expect(describeBandIso(band({ start: 1062, stop: 1066, quantity: "T", requirement: "avgMin", value: 90, cone: { fNumber: 2 } }) as never)).toBe(
+    expect(describeBandIso(band({ start: 1062, stop: 1066, quantity: "T", requirement: "avgMin", value: 90, cone: { fNumber: 2 } }))).toBe(
       "Transmittance: Tave ≥ 90 % over 1062–1066 nm; cone f/2 (half-angle 14.478°) about 0°; unpolarized",
     );
     expect(
-      describeBandIso(band({ start: 400, stop: 700, polarization: "sp", angleRange: { fromDeg: 0, toDeg: 30 }, value: 0.5, tolerance: 0.1 }) as never),
+      describeBandIso(band({ start: 400, stop: 700, polarization: "sp", angleRange: { fromDeg: 0, toDeg: 30 }, value: 0.5, tolerance: 0.1 })),
     ).toBe("Reflectance: R ≤ 0.5 % (tolerance 0.1 %) at every wavelength over 400–700 nm; angle of incidence 0–30° (every angle); s and p polarization each");
-    expect(describeBandIso(band({ quantity: "OD", requirement: "min", value: 4, angleDeg: 12 }) as never)).toBe(
+    expect(describeBandIso(band({ quantity: "OD", requirement: "min", value: 4, angleDeg: 12 }))).toBe(
       "Optical density: OD ≥ 4 at every wavelength at 550 nm; angle of incidence 12°; unpolarized",
     );
   });

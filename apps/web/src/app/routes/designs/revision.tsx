@@ -1,5 +1,5 @@
 // The design workspace of one revision: live spectrum against the spec mask, review threads beside it,
-// the layer editor, and tabs for tolerance studies, refinement, as-built data, history and sign-off.
+// the layer editor, and tabs for tolerance studies, Nudge (local optimizer), as-built data, history and sign-off.
 import { useCallback, useDeferredValue, useMemo, useReducer, useRef, useState } from "react";
 import type { ReactNode } from "react";
 import { Link, useNavigate, useParams } from "react-router";
@@ -187,7 +187,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
     },
     {
       id: "refine",
-      label: "Refine",
+      label: "Nudge",
       content: (
         <RefinementPanel
           design={deferred}
