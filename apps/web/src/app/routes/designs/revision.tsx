@@ -244,17 +244,21 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
       {program.protective ? <ProtectiveCaution application={program.application} /> : null}
       <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_380px]">
         <div className="min-w-0 space-y-4">
-          <SpectrumPanel
-            design={current}
-            mask={mask}
-            view={view}
-            onViewChange={setView}
-            overlays={overlays}
-            envelopes={envelopes}
-            markers={markers}
-            onSelectRange={(start, stop) => setProposed({ kind: "range", start, stop })}
-            bandAction={canThread ? bandAction : undefined}
-          />
+          {/* The chart stays in view (sticky) while the layer grid below it scrolls: both visible at 1280×800 and up. */}
+          <div className="lg:sticky lg:top-0 lg:z-10 lg:bg-paper lg:pb-1" data-testid="sticky-spectrum">
+            <SpectrumPanel
+              design={current}
+              mask={mask}
+              view={view}
+              onViewChange={setView}
+              overlays={overlays}
+              envelopes={envelopes}
+              markers={markers}
+              height={240}
+              onSelectRange={(start, stop) => setProposed({ kind: "range", start, stop })}
+              bandAction={canThread ? bandAction : undefined}
+            />
+          </div>
           {proposed?.kind === "range" ? (
             <p className="text-xs text-ink-700" role="status">
               Range {proposed.start}–{proposed.stop} nm selected for a new review thread (see the thread form).{" "}

@@ -316,7 +316,7 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
       ) : null}
       <Legend overlays={props.overlays ?? []} hasEnvelope={(props.envelopes ?? []).length > 0} primaryLabel={props.primaryLabel} />
       {verdicts?.ok && mask ? (
-        <ul className="mt-2 grid gap-1 text-xs sm:grid-cols-2" aria-label="Spec bands">
+        <ul className="mt-2 grid max-h-24 gap-1 overflow-y-auto text-xs sm:grid-cols-2" aria-label="Spec bands">
           {verdicts.bands.map((b) => {
             const band = mask.bands.find((x) => x.id === b.id);
             return (
