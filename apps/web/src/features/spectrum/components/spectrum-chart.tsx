@@ -4,7 +4,7 @@
 import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
 import type { KeyboardEvent, PointerEvent } from "react";
 import { scaleLinear } from "@visx/scale";
-import { LinePath, Area } from "@visx/shape";
+import { Area } from "@visx/shape";
 import { AxisBottom, AxisLeft } from "@visx/axis";
 import { GridRows, GridColumns } from "@visx/grid";
 import { Group } from "@visx/group";
