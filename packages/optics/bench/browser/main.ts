@@ -36,5 +36,5 @@ async function run(pool: Worker[], total: number): Promise<{ seconds: number; pa
   await run(pool, Math.min(500, trials)); // warm-up: JIT in every worker (the timed run includes compiling the study)
   const r = await run(pool, trials);
   pool.forEach((w) => w.terminate());
-  (window as unknown as { __bench: unknown }).__bench = { trials, workers, seconds: Number(r.seconds.toFixed(2)), yield: r.pass / trials };
+  (globalThis as unknown as { __bench: unknown }).__bench = { trials, workers, seconds: Number(r.seconds.toFixed(2)), yield: r.pass / trials };
 })();
