@@ -1,3 +1,4 @@
+import { bandConditionsText } from "@stackproof/optics";
 import type { SpecBand, SpecMask } from "../lib/types.ts";
 import { cx } from "./ui/cx.ts";
 
@@ -7,8 +8,6 @@ const requirementText: Record<SpecBand["requirement"], string> = {
   avgMin: "band average ≥",
   avgMax: "band average ≤",
 };
-
-const polText: Record<SpecBand["polarization"], string> = { s: "s", p: "p", u: "unpol." };
 
 function unit(q: SpecBand["quantity"]): string {
   return q === "OD" ? "" : " %";
@@ -75,7 +74,7 @@ export function SpecMaskTable({
               </td>
               <td className="py-2 pr-3 font-mono">{b.quantity}</td>
               <td className="py-2 pr-3 font-mono whitespace-nowrap">
-                {b.angleDeg}° {polText[b.polarization]}
+                {bandConditionsText(b)}
               </td>
               <td className="py-2">{describeRequirement(b)}</td>
             </tr>

@@ -39,8 +39,13 @@ export interface SpecBand {
   stop: number;
   step?: number;
   quantity: "R" | "T" | "A" | "OD";
-  polarization: "s" | "p" | "u";
+  /** "sp" = s and p each (both must pass) */
+  polarization: "s" | "p" | "u" | "sp";
+  /** single angle, or the cone's chief ray */
   angleDeg: number;
+  angleRange?: { fromDeg: number; toDeg: number; stepDeg?: number };
+  angleAverage?: boolean;
+  cone?: { halfAngleDeg: number } | { fNumber: number };
   requirement: "min" | "max" | "avgMin" | "avgMax";
   value: number;
   tolerance?: number;
