@@ -20,7 +20,9 @@ try {
     console.log(`Backed up ${database} to ${file} (${pages} pages).`);
   } else {
     await restoreDatabase(file, database);
-    console.log(`Restored ${file} into ${database} (the previous file is kept as ${database}.before-restore).`);
+    console.log(
+      `Restored ${file} into ${database} (the previous file is kept as ${database}.before-restore).`,
+    );
   }
 } catch (err) {
   console.error(`${command}: ${err instanceof Error ? err.message : String(err)}`);

@@ -6,9 +6,7 @@ import { fileURLToPath } from "node:url";
 const apiRoot = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 export const repoRoot = path.resolve(apiRoot, "../..");
 
-const boolish = z
-  .enum(["true", "false", "1", "0"])
-  .transform((v) => v === "true" || v === "1");
+const boolish = z.enum(["true", "false", "1", "0"]).transform((v) => v === "true" || v === "1");
 
 const EnvSchema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
@@ -66,11 +64,15 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
   }
   const env = parsed.data;
   if (env.EMBEDDED_WORKERS === 0 && !env.REDIS_URL)
-    throw new Error("Invalid configuration:\n  EMBEDDED_WORKERS: 0 needs REDIS_URL (worker processes to do the work)");
+    throw new Error(
+      "Invalid configuration:\n  EMBEDDED_WORKERS: 0 needs REDIS_URL (worker processes to do the work)",
+    );
   return env;
 }
 
 /** Log level: LOG_LEVEL, else silent in tests, debug in development, info in production. */
 export function logLevelOf(env: Env): string {
-  return env.LOG_LEVEL ?? (env.NODE_ENV === "test" ? "silent" : env.NODE_ENV === "development" ? "debug" : "info");
+  return (
+    env.LOG_LEVEL ?? (env.NODE_ENV === "test" ? "silent" : env.NODE_ENV === "development" ? "debug" : "info")
+  );
 }

@@ -51,7 +51,10 @@ async function shutdown(signal: string) {
   const drained = new Promise<void>((resolve) => server.close(() => resolve()));
   server.closeIdleConnections();
   const grace = setTimeout(() => {
-    ctx.log.warn({ graceMs: env.SHUTDOWN_GRACE_MS }, "requests still open after the grace period: closing them");
+    ctx.log.warn(
+      { graceMs: env.SHUTDOWN_GRACE_MS },
+      "requests still open after the grace period: closing them",
+    );
     server.closeAllConnections();
   }, env.SHUTDOWN_GRACE_MS);
   grace.unref();

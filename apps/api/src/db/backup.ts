@@ -10,7 +10,8 @@ import Database from "better-sqlite3";
  */
 export async function backupDatabase(source: string, destination: string): Promise<number> {
   if (!fs.existsSync(source)) throw new RangeError(`no database at ${source}`);
-  if (fs.existsSync(destination)) throw new RangeError(`${destination} exists: choose a new file for the backup`);
+  if (fs.existsSync(destination))
+    throw new RangeError(`${destination} exists: choose a new file for the backup`);
   fs.mkdirSync(path.dirname(path.resolve(destination)), { recursive: true });
   const db = new Database(source, { fileMustExist: true });
   try {
@@ -32,7 +33,8 @@ export async function restoreDatabase(backupFile: string, target: string): Promi
   const backup = new Database(backupFile, { readonly: true, fileMustExist: true });
   try {
     const check = backup.pragma("integrity_check", { simple: true });
-    if (check !== "ok") throw new RangeError(`${backupFile} fails SQLite's integrity check: ${String(check)}`);
+    if (check !== "ok")
+      throw new RangeError(`${backupFile} fails SQLite's integrity check: ${String(check)}`);
     fs.mkdirSync(path.dirname(path.resolve(target)), { recursive: true });
     if (fs.existsSync(target)) {
       // fold the old file's write-ahead log in so that the kept copy is whole

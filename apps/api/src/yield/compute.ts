@@ -1,7 +1,13 @@
 // Where pool tasks run: worker threads in this process (piscina), or worker processes through Redis (BullMQ).
 import { fileURLToPath } from "node:url";
 import { Queue, QueueEvents, Worker as BullWorker } from "bullmq";
-import { createNodePool, defaultWorkerCount, type NodePool, type PoolResults, type PoolTask } from "@stackproof/optics/node-pool";
+import {
+  createNodePool,
+  defaultWorkerCount,
+  type NodePool,
+  type PoolResults,
+  type PoolTask,
+} from "@stackproof/optics/node-pool";
 import type { Design, SpecMask, SpecResult } from "@stackproof/optics";
 import type { Env } from "../env.ts";
 import { QUEUE_NAME, RANGE_PREFIX, redisConnection, runTaskForQueue } from "./redis.ts";
@@ -70,7 +76,9 @@ export function createCompute(env: Env): Compute {
       : null;
   const ready = events.waitUntilReady();
 
-  const remote = async <K extends PoolTask["kind"]>(task: Extract<PoolTask, { kind: K }>): Promise<PoolResults[K]> => {
+  const remote = async <K extends PoolTask["kind"]>(
+    task: Extract<PoolTask, { kind: K }>,
+  ): Promise<PoolResults[K]> => {
     await ready;
     const job = await queue.add(task.kind, task, {
       // nominal evaluations are someone waiting on a page: ahead of chunks (lower number = sooner)
@@ -83,7 +91,9 @@ export function createCompute(env: Env): Compute {
       return (await job.waitUntilFinished(events)) as PoolResults[K];
     } catch (err) {
       const message = err instanceof Error ? err.message : String(err);
-      throw message.startsWith(RANGE_PREFIX) ? new RangeError(message.slice(RANGE_PREFIX.length)) : new Error(message);
+      throw message.startsWith(RANGE_PREFIX)
+        ? new RangeError(message.slice(RANGE_PREFIX.length))
+        : new Error(message);
     }
   };
 

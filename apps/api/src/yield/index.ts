@@ -118,7 +118,12 @@ function auditRun(db: DbOrTx, runId: string, action: string, summary: (label: st
 /** Runs scheduled at once; further runs wait queued (each still gets its turn within the caps). */
 const MAX_SCHEDULED_RUNS = 64;
 
-export function createJobService(deps: { env: Env; db: Db; mail: MailService; compute: Compute }): JobService {
+export function createJobService(deps: {
+  env: Env;
+  db: Db;
+  mail: MailService;
+  compute: Compute;
+}): JobService {
   const { db, compute, env } = deps;
   const scheduler = createFairScheduler(compute.slots);
   const queue: string[] = [];
@@ -179,7 +184,9 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService; co
       .where(eq(yieldChunks.runId, run.id))
       .all();
     const covered = stored.reduce((s, c) => s + c.count, 0);
-    const ranges = stored.map((c) => [c.startTrial, c.startTrial + c.count] as const).sort((a, b) => a[0] - b[0]);
+    const ranges = stored
+      .map((c) => [c.startTrial, c.startTrial + c.count] as const)
+      .sort((a, b) => a[0] - b[0]);
     const size = chunkSizeFor(run.trials);
     let cursor = 0;
     const gaps: [number, number][] = [];

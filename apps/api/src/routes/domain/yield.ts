@@ -76,7 +76,10 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       }),
       status: 202,
       response: z.object({ run: YieldRunSchema }),
-      errors: { 404: "No such revision", 429: "A cap on yield runs queued or running at once is reached (named in the message)" },
+      errors: {
+        404: "No such revision",
+        429: "A cap on yield runs queued or running at once is reached (named in the message)",
+      },
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
