@@ -1,7 +1,14 @@
 // The one worker-thread task module of Stackproof's Node pool (piscina): yield chunks, merges and nominal spec
 // evaluations. Used by the CLI and the API (threads, and the API's Redis worker processes). No I/O here.
 import { createYieldRunner, evaluateSpec, mergeYieldChunks } from "../studies/index.ts";
-import type { SpecMask, SpecResult, YieldChunk, YieldResult, YieldRunner, YieldStudy } from "../studies/index.ts";
+import type {
+  SpecMask,
+  SpecResult,
+  YieldChunk,
+  YieldResult,
+  YieldRunner,
+  YieldStudy,
+} from "../studies/index.ts";
 import type { Design } from "../core/index.ts";
 
 /** A unit of work for the pool. `key` names the study so that consecutive chunks reuse its compiled runner. */

@@ -41,19 +41,20 @@ export interface NodePool {
 }
 
 /**
- * Start a pool of `threads` worker threads (created lazily, kept warm for `idleTimeoutMs`). `filename` is the task
- * module (default: this package's pool-worker.ts; a bundle passes its compiled copy).
+ * Start a pool of `threads` worker threads, all started at once and kept (a thread's start and JIT warm-up would
+ * otherwise land on the first request). `filename` is the task module (default: this package's pool-worker.ts; a
+ * bundle passes its compiled copy).
  */
-export function createNodePool(options: { threads: number; filename?: string; idleTimeoutMs?: number }): NodePool {
+export function createNodePool(options: { threads: number; filename?: string }): NodePool {
   const { threads } = options;
   if (!Number.isInteger(threads) || threads < 1 || threads > 64)
     throw new RangeError(`workers must be an integer in 1..64, got ${threads}`);
   const filename = options.filename ?? new URL("./pool-worker.ts", import.meta.url).href;
   const piscina = new Piscina({
     filename,
-    minThreads: 0,
+    minThreads: threads,
     maxThreads: threads,
-    idleTimeout: options.idleTimeoutMs ?? 60_000,
+    idleTimeout: Infinity,
     execArgv: workerExecArgv(filename),
   });
   return {

@@ -41,7 +41,8 @@ interface Entry {
 
 /** A round-robin scheduler over `slots` concurrent executions (≥ 1). */
 export function createFairScheduler(slots: number): FairScheduler {
-  if (!Number.isInteger(slots) || slots < 1) throw new RangeError(`slots must be a positive integer, got ${slots}`);
+  if (!Number.isInteger(slots) || slots < 1)
+    throw new RangeError(`slots must be a positive integer, got ${slots}`);
   const entries: Entry[] = [];
   let cursor = 0;
   let busy = 0;
@@ -122,8 +123,15 @@ export function createFairScheduler(slots: number): FairScheduler {
       return busy;
     },
     add(run) {
-      if (entries.some((e) => e.run.id === run.id)) throw new RangeError(`run ${run.id} is already scheduled`);
-      const e: Entry = { run: run as FairRun<unknown>, inFlight: 0, stopped: false, failed: false, waiters: [] };
+      if (entries.some((e) => e.run.id === run.id))
+        throw new RangeError(`run ${run.id} is already scheduled`);
+      const e: Entry = {
+        run: run as FairRun<unknown>,
+        inFlight: 0,
+        stopped: false,
+        failed: false,
+        waiters: [],
+      };
       entries.push(e);
       if (run.pending.length === 0) maybeSettle(e);
       else fill();
