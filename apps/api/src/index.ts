@@ -1,4 +1,5 @@
 // Process entry: read configuration, open the database, listen; SIGTERM/SIGINT drain and exit.
+import net from "node:net";
 import { createApp } from "./app.ts";
 import { createContext } from "./context.ts";
 import { loadEnv } from "./env.ts";
@@ -48,8 +49,10 @@ async function shutdown(signal: string) {
   closing = true;
   const started = Date.now();
   ctx.log.info({ signal }, "shutting down: no new connections, draining requests in flight");
-  const drained = new Promise<void>((resolve) => server.close(() => resolve()));
-  server.closeIdleConnections();
+  // net.Server's close stops accepting but, unlike http.Server's, does not destroy "idle" connections (whose
+  // request may be queued behind others or not parsed yet: they would get a reset). Responses from now on carry
+  // "Connection: close"; keep-alive connections with nothing to do end by the server's keep-alive timeout (5 s).
+  const drained = new Promise<void>((resolve) => net.Server.prototype.close.call(server, () => resolve()));
   const grace = setTimeout(() => {
     ctx.log.warn(
       { graceMs: env.SHUTDOWN_GRACE_MS },
@@ -58,10 +61,7 @@ async function shutdown(signal: string) {
     server.closeAllConnections();
   }, env.SHUTDOWN_GRACE_MS);
   grace.unref();
-  // Keep-alive sockets that turn idle while draining are closed as they go.
-  const idle = setInterval(() => server.closeIdleConnections(), 100);
   await drained;
-  clearInterval(idle);
   clearTimeout(grace);
   try {
     await ctx.close();
