@@ -7,7 +7,7 @@ import { Worker } from "bullmq";
 import { pino } from "pino";
 import { runPoolTask, type PoolTask } from "@stackproof/optics/pool-worker";
 import { loadEnv, logLevelOf } from "./env.ts";
-import { QUEUE_NAME, redisConnection, runTaskForQueue } from "./yield/redis.ts";
+import { QUEUE_NAME, redisClient, runTaskForQueue } from "./yield/redis.ts";
 
 const env = loadEnv();
 const log = pino({ level: logLevelOf(env), base: { service: "stackproof-worker", pid: process.pid } });
@@ -21,7 +21,7 @@ const worker = new Worker(
   QUEUE_NAME,
   async (job) => runTaskForQueue(() => runPoolTask(job.data as PoolTask)),
   {
-    connection: redisConnection(env.REDIS_URL),
+    connection: redisClient(env.REDIS_URL),
     concurrency: env.WORKER_CONCURRENCY,
     lockDuration: env.WORKER_LOCK_MS,
     stalledInterval: env.WORKER_LOCK_MS,
@@ -29,6 +29,7 @@ const worker = new Worker(
   },
 );
 worker.on("ready", () => log.info({ queue: QUEUE_NAME }, "worker ready"));
+worker.on("completed", (job) => log.debug({ job: job.id, kind: job.name }, "task done"));
 worker.on("failed", (job, err) => log.warn({ job: job?.id, kind: job?.name, err }, "task failed"));
 worker.on("error", (err) => log.error({ err }, "worker error"));
 

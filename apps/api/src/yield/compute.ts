@@ -10,7 +10,8 @@ import {
 } from "@stackproof/optics/node-pool";
 import type { Design, SpecMask, SpecResult } from "@stackproof/optics";
 import type { Env } from "../env.ts";
-import { QUEUE_NAME, RANGE_PREFIX, redisConnection, runTaskForQueue } from "./redis.ts";
+import type { Redis } from "ioredis";
+import { QUEUE_NAME, RANGE_PREFIX, redisClient, runTaskForQueue } from "./redis.ts";
 
 /** Runs pool tasks; `slots` is how many chunks the fair scheduler keeps in flight. */
 export interface Compute {
@@ -60,14 +61,15 @@ export function createCompute(env: Env): Compute {
     };
   }
 
-  const connection = redisConnection(env.REDIS_URL);
-  const queue = new Queue(QUEUE_NAME, { connection });
-  const events = new QueueEvents(QUEUE_NAME, { connection });
+  const clients = [redisClient(env.REDIS_URL), redisClient(env.REDIS_URL), redisClient(env.REDIS_URL)];
+  const [queueClient, eventsClient, workerClient] = clients as [Redis, Redis, Redis];
+  const queue = new Queue(QUEUE_NAME, { connection: queueClient });
+  const events = new QueueEvents(QUEUE_NAME, { connection: eventsClient });
   // With local threads, this process is one of the Redis workers too (its threads take queued tasks).
   const local =
     pool && threads > 0
       ? new BullWorker(QUEUE_NAME, (job) => runTaskForQueue(() => runLocal(job.data as PoolTask)), {
-          connection,
+          connection: workerClient,
           concurrency: threads,
           lockDuration: env.WORKER_LOCK_MS,
           stalledInterval: env.WORKER_LOCK_MS,
@@ -108,6 +110,7 @@ export function createCompute(env: Env): Compute {
       await pool?.close();
       await events.close();
       await queue.close();
+      await Promise.all(clients.map((c) => c.quit().catch(() => c.disconnect())));
     },
   };
 }

@@ -1,22 +1,15 @@
 // BullMQ plumbing shared by the API (producer) and the worker processes (consumers).
-import type { ConnectionOptions } from "bullmq";
+import { Redis } from "ioredis";
 
 /** Queue of pool tasks (chunks, merges, nominal evaluations). */
 export const QUEUE_NAME = "stackproof-pool";
 
-/** ioredis options from a redis:// URL (BullMQ workers need maxRetriesPerRequest: null). */
-export function redisConnection(url: string): ConnectionOptions {
-  const u = new URL(url);
-  const db = u.pathname.length > 1 ? Number(u.pathname.slice(1)) : 0;
-  return {
-    host: u.hostname || "127.0.0.1",
-    port: u.port ? Number(u.port) : 6379,
-    username: u.username ? decodeURIComponent(u.username) : undefined,
-    password: u.password ? decodeURIComponent(u.password) : undefined,
-    db: Number.isInteger(db) ? db : 0,
-    tls: u.protocol === "rediss:" ? {} : undefined,
-    maxRetriesPerRequest: null,
-  };
+/**
+ * A Redis client for one BullMQ queue, worker or event stream (BullMQ needs maxRetriesPerRequest: null). Under ESM,
+ * BullMQ 6 takes a constructed client rather than connection options. Close it after the BullMQ object using it.
+ */
+export function redisClient(url: string): Redis {
+  return new Redis(url, { maxRetriesPerRequest: null });
 }
 
 /** BullMQ keeps only an error's message: a RangeError (bad input, the caller's 400) is marked by this prefix. */
