@@ -44,7 +44,10 @@ function reviveError(message: string, name: string | undefined): Error {
 
 export function createCompute(env: Env): Compute {
   const threads = threadsOf(env);
-  const pool: NodePool | null = threads > 0 ? createNodePool({ threads, filename: poolWorkerFile() }) : null;
+  const pool: NodePool | null =
+    threads > 0
+      ? createNodePool({ threads, filename: poolWorkerFile(), warm: env.NODE_ENV !== "test" })
+      : null;
   const runLocal = <K extends PoolTask["kind"]>(task: Extract<PoolTask, { kind: K }>) =>
     (pool as NodePool).run(task).catch((err: unknown) => {
       throw err instanceof Error ? reviveError(err.message, err.name) : err;

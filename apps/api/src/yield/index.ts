@@ -227,7 +227,14 @@ export function createJobService(deps: {
         exec: (start, count) => compute.run({ kind: "chunk", key: runId, study, start, count }),
         onChunk: (chunk) => {
           if (closed) return;
-          if (!storeChunk(runId, chunk)) void scheduler.stop(runId); // cancelled or failed meanwhile
+          let stored: boolean;
+          try {
+            stored = storeChunk(runId, chunk);
+          } catch (err) {
+            failSafely(runId, `trials could not be stored: ${messageOf(err)}`);
+            stored = false;
+          }
+          if (!stored) void scheduler.stop(runId); // cancelled, failed or not storable
         },
         onError: (err) => {
           if (!closed) failSafely(runId, `trials could not be computed: ${messageOf(err)}`);

@@ -42,17 +42,17 @@ export interface NodePool {
 
 /**
  * Start a pool of `threads` worker threads, all started at once and kept (a thread's start and JIT warm-up would
- * otherwise land on the first request). `filename` is the task module (default: this package's pool-worker.ts; a
+ * otherwise land on the first request); `warm: false` starts them on first use instead (tests). `filename` is the task module (default: this package's pool-worker.ts; a
  * bundle passes its compiled copy).
  */
-export function createNodePool(options: { threads: number; filename?: string }): NodePool {
+export function createNodePool(options: { threads: number; filename?: string; warm?: boolean }): NodePool {
   const { threads } = options;
   if (!Number.isInteger(threads) || threads < 1 || threads > 64)
     throw new RangeError(`workers must be an integer in 1..64, got ${threads}`);
   const filename = options.filename ?? new URL("./pool-worker.ts", import.meta.url).href;
   const piscina = new Piscina({
     filename,
-    minThreads: threads,
+    minThreads: options.warm === false ? 0 : threads,
     maxThreads: threads,
     idleTimeout: Infinity,
     execArgv: workerExecArgv(filename),
