@@ -11,7 +11,9 @@ import { openBrowser, startProduct } from "../browser/support/harness.ts";
 import { repoRoot } from "../browser/support/paths.ts";
 
 const ROUNDS = Number(process.argv[2] ?? 3);
-const asset = fs.readdirSync(path.join(repoRoot, "apps/web/dist/assets")).find((f) => /^yield\.worker-.*\.js$/.test(f));
+const asset = fs
+  .readdirSync(path.join(repoRoot, "apps/web/dist/assets"))
+  .find((f) => /^yield\.worker-.*\.js$/.test(f));
 if (!asset) throw new Error("build the web app first (no yield worker in apps/web/dist/assets)");
 
 const product = await startProduct({ demo: false, env: { LOG_LEVEL: "warn" } });
@@ -28,7 +30,9 @@ try {
         const pending = new Map<string, (v: unknown) => void>();
         worker.addEventListener("message", (e: MessageEvent) => {
           const d = e.data as { id: string; type: string; value: unknown };
-          pending.get(d.id)?.(d.type === "RAW" ? d.value : Promise.reject(new Error(JSON.stringify(d.value))));
+          pending.get(d.id)?.(
+            d.type === "RAW" ? d.value : Promise.reject(new Error(JSON.stringify(d.value))),
+          );
           pending.delete(d.id);
         });
         let n = 0;
@@ -36,7 +40,12 @@ try {
           new Promise((resolve) => {
             const id = `c${n++}`;
             pending.set(id, resolve);
-            worker.postMessage({ id, type: "APPLY", path: [method], argumentList: args.map((value) => ({ type: "RAW", value })) });
+            worker.postMessage({
+              id,
+              type: "APPLY",
+              path: [method],
+              argumentList: args.map((value) => ({ type: "RAW", value })),
+            });
           });
         return { call, worker };
       };
@@ -64,7 +73,13 @@ try {
         return ms;
       };
       await run(warmStudy, 1);
-      await Promise.all(pool.map(async (w) => { const k = key++; await w.call("init", k, warmStudy); await w.call("runChunk", k, 0, warmStudy.trials); }));
+      await Promise.all(
+        pool.map(async (w) => {
+          const k = key++;
+          await w.call("init", k, warmStudy);
+          await w.call("runChunk", k, 0, warmStudy.trials);
+        }),
+      );
       const out: Record<string, { one: number[]; two: number[] }> = {};
       for (const study of studies) {
         const row = { one: [] as number[], two: [] as number[] };

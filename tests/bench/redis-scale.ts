@@ -71,7 +71,11 @@ try {
     const t0 = performance.now();
     await go(TRIALS, `scale-${n}`);
     const seconds = (performance.now() - t0) / 1000;
-    rows.push({ workers: n, seconds: Number(seconds.toFixed(2)), trialsPerSecond: Math.round(TRIALS / seconds) });
+    rows.push({
+      workers: n,
+      seconds: Number(seconds.toFixed(2)),
+      trialsPerSecond: Math.round(TRIALS / seconds),
+    });
     for (const w of workers.splice(0)) w.kill("SIGTERM");
     await new Promise((r) => setTimeout(r, 1000));
   }

@@ -8,7 +8,9 @@ import { DEMO, startProduct } from "../browser/support/harness.ts";
 const CONNECTIONS = 10;
 const SECONDS = 10;
 
-const product = await startProduct({ env: { YIELD_WORKERS: "2", LOG_LEVEL: "warn", MAX_ACTIVE_RUNS_PER_USER: "10" } });
+const product = await startProduct({
+  env: { YIELD_WORKERS: "2", LOG_LEVEL: "warn", MAX_ACTIVE_RUNS_PER_USER: "10" },
+});
 try {
   const headers = { "Content-Type": "application/json", Origin: product.url };
   const signIn = await fetch(`${product.url}/api/v1/auth/sign-in`, {
@@ -50,11 +52,29 @@ try {
       duration: SECONDS,
       headers: withCookie ? { cookie } : {},
     });
-    return { path, rps: Math.round(r.requests.average), p50: r.latency.p50, p99: r.latency.p99, errors: r.errors, non2xx: r.non2xx };
+    return {
+      path,
+      rps: Math.round(r.requests.average),
+      p50: r.latency.p50,
+      p99: r.latency.p99,
+      errors: r.errors,
+      non2xx: r.non2xx,
+    };
   };
   const results = [await load("/api/health", false), await load(`/api/v1/programs`, true)];
   const status = await (await fetch(`${product.url}/api/v1/yield-runs/${runId}`, { headers: auth })).json();
-  console.log(JSON.stringify({ connections: CONNECTIONS, seconds: SECONDS, results, run: { status: status.status, progress: status.progress } }, null, 2));
+  console.log(
+    JSON.stringify(
+      {
+        connections: CONNECTIONS,
+        seconds: SECONDS,
+        results,
+        run: { status: status.status, progress: status.progress },
+      },
+      null,
+      2,
+    ),
+  );
 } finally {
   await product.stop();
 }
