@@ -18,7 +18,9 @@ export async function backupDatabase(source: string, destination: string): Promi
     db.pragma("busy_timeout = 5000");
     // Whole remaining file per step: a step is one read transaction (WAL lets writers go on meanwhile), whereas small
     // steps restart whenever another connection writes between them and never finish under steady writes.
-    const { totalPages } = await db.backup(destination, { progress: ({ totalPages: t }) => Math.max(100, t) });
+    const { totalPages } = await db.backup(destination, {
+      progress: ({ totalPages: t }) => Math.max(100, t),
+    });
     return totalPages;
   } finally {
     db.close();

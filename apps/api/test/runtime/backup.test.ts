@@ -62,7 +62,10 @@ describe("backup and restore", () => {
       await restoreDatabase(copy, target);
       const restored = new Database(target, { readonly: true });
       expect(restored.pragma("integrity_check", { simple: true })).toBe("ok");
-      const rows = restored.prepare("SELECT n FROM backup_probe WHERE n > 0 ORDER BY n").pluck().all() as number[];
+      const rows = restored
+        .prepare("SELECT n FROM backup_probe WHERE n > 0 ORDER BY n")
+        .pluck()
+        .all() as number[];
       const max = rows[rows.length - 1] ?? 0;
       expect(max).toBeGreaterThanOrEqual(before); // every row committed before the backup started
       expect(rows).toEqual(Array.from({ length: max }, (_, i) => i + 1)); // one consistent state: no gaps
