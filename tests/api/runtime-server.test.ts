@@ -97,7 +97,9 @@ describe("the built server", () => {
     const inFlight = Array.from({ length: 50 }, () =>
       api(`/api/v1/revisions/${revisionId}`).then(async (r) => ({ status: r.status, body: await r.json() })),
     );
-    await new Promise((r) => setTimeout(r, 300)); // every request has reached the server
+    // Give the server time to accept every connection (on a loaded machine connections can wait in the kernel's
+    // accept queue, and closing the listener resets those); the 50 evaluations take far longer than this.
+    await new Promise((r) => setTimeout(r, 2000));
     product.process.kill("SIGTERM");
     const answers = await Promise.all(
       inFlight.map((p) => p.catch((e: Error) => ({ status: -1, body: { error: String(e.cause ?? e) } }))),
