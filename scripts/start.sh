@@ -8,5 +8,7 @@ ensure_pnpm
 install_dependencies
 echo "==> building the web app"
 pnpm --filter @stackproof/web build
+echo "==> building the server"
+pnpm --filter @stackproof/api build
 echo "==> starting Stackproof"
 exec pnpm --filter @stackproof/api start

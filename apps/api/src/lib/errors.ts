@@ -35,7 +35,7 @@ interface BodyParserError extends Error {
   status?: number;
 }
 
-export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, _next) => {
+export const errorHandler: ErrorRequestHandler = (err: unknown, req, res, _next) => {
   if (err instanceof HttpError) {
     res.status(err.status).json({ error: { code: err.code, message: err.message, details: err.details } });
     return;
@@ -65,6 +65,9 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, _next
     res.status(413).json({ error: { code: "payload_too_large", message: "The request body is too large." } });
     return;
   }
-  console.error(err);
+  // With its stack at error level on the request's logger (pino-http), which carries the request id.
+  const log = (req as { log?: { error(obj: object, msg: string): void } }).log;
+  if (log) log.error({ err }, "unhandled error");
+  else console.error(err);
   res.status(500).json({ error: { code: "internal", message: "Something went wrong on the server." } });
 };

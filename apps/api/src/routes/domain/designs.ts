@@ -12,7 +12,15 @@ import { route } from "../../lib/route.ts";
 import { diffStacks } from "../../domain/diff.ts";
 import { loadDesign, loadRevision, stackOf } from "../../domain/load.ts";
 import { resolveDesign, workspaceMaterials } from "../../domain/materials.ts";
-import { createRevision, designView, overviewRows, revisionView } from "../../domain/revisions.ts";
+import {
+  createRevision,
+  designView,
+  notComputable,
+  overviewRows,
+  revisionInput,
+  revisionView,
+} from "../../domain/revisions.ts";
+import { nominalFor } from "../../yield/nominal.ts";
 import { workQueue } from "../../domain/queue.ts";
 import { parseLayerCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
@@ -102,9 +110,17 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       response: RevisionSchema,
       errors: { 404: "No such design in this workspace" },
     },
-    ({ req, params, body }) => {
+    async ({ req, params, body }) => {
       const auth = getAuth(req);
       const { design, program } = loadDesign(ctx.db, auth.workspaceId, params.id);
+      // Evaluated on the worker pool first: a heavy design never holds the request thread.
+      const input = revisionInput(ctx.db, {
+        workspaceId: auth.workspaceId,
+        program,
+        stack: body.stack,
+        specMask: body.specMask,
+      });
+      const nominal = await ctx.compute.evaluateSpec(input.stack, input.evalMask).catch(notComputable);
       const revision = ctx.db.transaction((tx) => {
         const revision = createRevision(tx, {
           workspaceId: auth.workspaceId,
@@ -114,6 +130,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
           specMask: body.specMask,
           note: body.note,
           authorId: auth.user.id,
+          evaluated: true,
         });
         recordAudit(tx, {
           workspaceId: auth.workspaceId,
@@ -126,7 +143,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         });
         return revision;
       });
-      return revisionView(ctx.db, { revision, design, program });
+      return revisionView(ctx.db, { revision, design, program }, nominal);
     },
   );
 
@@ -142,9 +159,10 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       response: RevisionSchema,
       errors: { 404: "No such revision in this workspace" },
     },
-    ({ req, params }) => {
+    async ({ req, params }) => {
       const auth = getAuth(req);
-      return revisionView(ctx.db, loadRevision(ctx.db, auth.workspaceId, params.id));
+      const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
+      return revisionView(ctx.db, rc, await nominalFor(ctx, rc));
     },
   );
 

@@ -76,11 +76,15 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       }),
       status: 202,
       response: z.object({ run: YieldRunSchema }),
-      errors: { 404: "No such revision" },
+      errors: {
+        404: "No such revision",
+        429: "A cap on yield runs queued or running at once is reached (named in the message)",
+      },
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
+      ctx.jobs.admit({ userId: auth.user.id, workspaceId: auth.workspaceId });
       const trials = body.trials ?? rc.program.studyDefaults.trials;
       const seed = body.seed ?? rc.program.studyDefaults.seed;
       const errorModel = (body.errorModel ?? rc.program.errorModel) as ErrorModel;
