@@ -2,7 +2,7 @@
 // and a 0–10° angle-range band. Trials per second in process and in the Node worker pool.
 // Run: `pnpm exec tsx bench/spec-conditions.ts [trials] [indexErrors 0|1]` (this package).
 import { pathToFileURL } from "node:url";
-import { createYieldPool } from "../src/cli/node-pool.ts";
+import { createYieldPool } from "../src/cli/pool.ts";
 import { createSpecEvaluator, createYieldRunner, planChunks } from "../src/studies/index.ts";
 import { conditionsStudy } from "./conditions-study.ts";
 export { conditionsStudy };
