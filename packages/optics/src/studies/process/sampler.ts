@@ -23,23 +23,39 @@ import type { GrowthCurve, MonitorVector } from "./monitor.ts";
 import { ProcessModelSchema } from "./schema.ts";
 import type { Control, MonitoringStep, ProcessModel } from "./schema.ts";
 
-/** Tolerance on |QWOT − integer| under which {@link defaultMonitoringPlan} calls a layer quarter-wave. */
-export const QUARTER_WAVE_TOLERANCE = 0.02;
+/**
+ * Largest distance, in QWOT at the monitoring wavelength, between a layer's nominal end and a turning
+ * point of its nominal signal for a turning-point cut to be accepted (0.02 QWOT, common practice, no source).
+ */
+export const TURNING_POINT_TOLERANCE_QWOT = 0.02;
+
+/** Distance (in QWOT, θ/π) from phase θ to the nearest turning point θ = mπ. */
+function turningDistance(theta: number): number {
+  return Math.abs(theta / Math.PI - Math.round(theta / Math.PI));
+}
 
 /**
- * Default monitoring plan of a design: every layer monitored on the part at the reference wavelength λ0;
- * turning points for layers whose QWOT at λ0 is within 0.02 of a whole number ≥ 1 (they end on a
- * turning point of the signal when everything below is quarter-wave), levels for the others
- * (common practice, no source).
+ * Default monitoring plan of a design: every layer monitored on the part at the reference wavelength
+ * λ0; a turning-point cut for each layer whose nominal end lies on a turning point of its signal on the
+ * nominal stack (within {@link TURNING_POINT_TOLERANCE_QWOT}) and that is at least half a quarter wave
+ * thick — the quarter-wave layers of an all-quarter-wave stack — and a level cut for the others
+ * (common practice, no source). Absorbing materials at λ0 get a level step (their monitoring is refused
+ * by the sampler).
  */
 export function defaultMonitoringPlan(design: Design): MonitoringStep[] {
   const lambda = design.referenceWavelength;
+  const ix = (id: string) => refractiveIndex(getMaterial(id, design.materials).model, lambda);
+  const ns = ix(design.substrate.material).n;
+  const v: MonitorVector = { br: 1, bi: 0, cr: ns, ci: 0 };
+  const g: GrowthCurve = { K: 0, A0: 0, rho: 0, phi: 0, n: 1, lambda, reflect: false };
   return design.layers.map((l) => {
-    const n = refractiveIndex(getMaterial(l.material, design.materials).model, lambda).n;
-    const q = (4 * n * l.thickness) / lambda;
-    const whole = Math.round(q);
-    const quarter = whole >= 1 && Math.abs(q - whole) <= QUARTER_WAVE_TOLERANCE;
-    return { wavelength: lambda, on: "part", criterion: quarter ? "turning" : "level" };
+    const n = ix(l.material).n;
+    growthCurve(v, ns, n, lambda, false, g);
+    const theta = thetaOfThickness(g, l.thickness);
+    const turning =
+      g.rho > 0 && (4 * n * l.thickness) / lambda >= 0.5 && turningDistance(theta) <= TURNING_POINT_TOLERANCE_QWOT;
+    applyLayer(v, n, l.thickness, lambda);
+    return { wavelength: lambda, on: "part", criterion: turning ? "turning" : "level" };
   });
 }
 
@@ -232,6 +248,12 @@ export function createProcessSampler(model: ErrorModel, design: Design): Process
         trigger[j] = c.signal === "R" ? 1 - t : t;
         dirT[j] = Math.sin(th) >= 0 ? 1 : -1;
         parity[j] = Math.abs(Math.round(th / Math.PI)) % 2;
+        const step = plan[j] as MonitoringStep;
+        const off = turningDistance(th);
+        if (step.criterion === "turning" && off > TURNING_POINT_TOLERANCE_QWOT)
+          throw new RangeError(
+            `errorModel.process.plan[${j}].criterion: the nominal layer ends ${off.toFixed(3)} QWOT from a turning point at ${sl.lambda} nm (more than ${TURNING_POINT_TOLERANCE_QWOT}); use "level", got "turning"`,
+          );
       }
       deposit(j, nominal[j] as number, 1);
     }
