@@ -168,6 +168,8 @@ function describeControl(c: Control, plan: readonly MonitoringStep[] | undefined
     );
   } else parts.push("monitoring plan from the design");
   parts.push(`${fmt(c.noisePct)} % photometric noise`);
+  if (c.detectionPct !== undefined && (!plan || plan.some((s) => s.criterion === "turning")))
+    parts.push(`turning points detected ${fmt(c.detectionPct)} % past the extremum`);
   if (c.driftPct > 0) parts.push(`${fmt(c.driftPct)} % signal drift per layer`);
   if (c.overshootNm !== 0 || c.overshootSigmaNm > 0)
     parts.push(`overshoot ${fmt(c.overshootNm)} ± ${fmt(c.overshootSigmaNm)} nm`);

@@ -38,6 +38,7 @@ export const METHOD_FIELDS: Record<Method, { key: string; label: string; unit: s
   ],
   optical: [
     { key: "noisePct", label: "Photometric noise", unit: "% of signal", step: 0.1 },
+    { key: "detectionPct", label: "Turning-point detection threshold", unit: "% of signal", step: 0.1 },
     { key: "driftPct", label: "Signal drift per layer", unit: "%", step: 0.05 },
     { key: "overshootNm", label: "Overshoot, mean", unit: "nm", step: 0.1 },
     { key: "overshootSigmaNm", label: "Overshoot, σ", unit: "nm", step: 0.1 },
@@ -55,7 +56,8 @@ export function defaultControl(method: Method): Control {
   if (method === "time")
     return { method, rateErrorPct: 1, rateDriftPct: 0.5, driftCorrelation: 0.8, withinLayerPct: 0.3, indexDriftPct: 0, shutterNm: 0.3 };
   if (method === "crystal") return { method, toolingPct: 0.5, noisePct: 0.5, terminationNm: 0.3 };
-  return { method, signal: "T", noisePct: 0.3, driftPct: 0, overshootNm: 0, overshootSigmaNm: 0.3 };
+  // detection threshold three times the noise: the engine's own default, written out so the editor shows it
+  return { method, signal: "T", noisePct: 0.3, detectionPct: 0.9, driftPct: 0, overshootNm: 0, overshootSigmaNm: 0.3 };
 }
 
 export function materialsOf(design: Design): string[] {
