@@ -23,6 +23,8 @@ describe("process panel", () => {
     const processes = defaultCandidates(design).map((c) => toProcess(c, plan, design));
     expect(processes[0]).toBeNull();
     for (const p of processes.slice(1)) expect(() => parseErrorModel({ ...errorModel, process: p })).not.toThrow();
+    const onPlate = toProcess({ ...defaultCandidates(design)[1]!, plate: { a: -2e-6, minMm: 150, maxMm: 20 } }, plan, design);
+    expect(parseErrorModel({ ...errorModel, process: onPlate }).process?.uniformity).toEqual({ a: -2e-6, radiusMm: { min: 20, max: 150 }, referenceRadiusMm: 0 });
   });
 
   it("shows the candidates, their plain-words description and the monitoring plan; switching a material's control changes its fields", async () => {

@@ -170,6 +170,20 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
                 );
               })
             )}
+            {c.independent ? null : (
+              <div className="grid grid-cols-3 gap-1">
+                <TextField
+                  label="Uniformity a (1/mm²)"
+                  hint="thickness ∝ 1 + a·r², calibrated at the centre; 0 = uniform"
+                  type="number"
+                  step={1e-6}
+                  value={String(c.plate.a)}
+                  onChange={(e) => update(c.id, (x) => ({ ...x, plate: { ...x.plate, a: num(e.target.value, 0) } }))}
+                />
+                <TextField label="Parts from r (mm)" type="number" min={0} value={String(c.plate.minMm)} onChange={(e) => update(c.id, (x) => ({ ...x, plate: { ...x.plate, minMm: Math.max(0, num(e.target.value, 0)) } }))} />
+                <TextField label="to r (mm)" type="number" min={0} value={String(c.plate.maxMm)} onChange={(e) => update(c.id, (x) => ({ ...x, plate: { ...x.plate, maxMm: Math.max(0, num(e.target.value, 0)) } }))} />
+              </div>
+            )}
             <p className="text-xs text-ink-600" data-testid="process-description">
               {descriptions[i]}
             </p>

@@ -13,6 +13,8 @@ export interface Candidate {
   independent: boolean;
   /** control per material id (process candidates only) */
   controls: Record<string, Control>;
+  /** chamber uniformity 1 + a·r² (a in 1/mm²; 0 = uniform) and the plate radii the parts are spread over (mm) */
+  plate: { a: number; minMm: number; maxMm: number };
 }
 
 export interface PlanState {
@@ -69,13 +71,13 @@ const nextId = () => `c${++counter}`;
 
 /** A process candidate with the same method for every material. */
 export function uniformCandidate(design: Design, method: Method, label: string): Candidate {
-  return { id: nextId(), label, independent: false, controls: Object.fromEntries(materialsOf(design).map((m) => [m, defaultControl(method)])) };
+  return { id: nextId(), label, independent: false, controls: Object.fromEntries(materialsOf(design).map((m) => [m, defaultControl(method)])), plate: { a: 0, minMm: 0, maxMm: 0 } };
 }
 
 /** The starting comparison: independent errors, quartz crystal, optical monitoring. */
 export function defaultCandidates(design: Design): Candidate[] {
   return [
-    { id: nextId(), label: "Independent errors (program model)", independent: true, controls: {} },
+    { id: nextId(), label: "Independent errors (program model)", independent: true, controls: {}, plate: { a: 0, minMm: 0, maxMm: 0 } },
     uniformCandidate(design, "crystal", "Quartz crystal"),
     uniformCandidate(design, "optical", "Optical monitoring"),
   ];
@@ -103,6 +105,15 @@ export function toProcess(c: Candidate, plan: PlanState, design: Design): Proces
     control: Object.fromEntries(controls),
     ...(optical ? { plan: steps } : {}),
     ...(witness ? { witness: { everyLayers: Math.max(1, Math.round(plan.witnessEvery)) } } : {}),
+    ...(c.plate.a !== 0
+      ? {
+          uniformity: {
+            a: c.plate.a,
+            radiusMm: { min: Math.max(0, Math.min(c.plate.minMm, c.plate.maxMm)), max: Math.max(0, c.plate.minMm, c.plate.maxMm) },
+            referenceRadiusMm: 0,
+          },
+        }
+      : {}),
   };
 }
 
