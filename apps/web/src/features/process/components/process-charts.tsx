@@ -28,7 +28,7 @@ export function YieldComparisonChart({ entries, target, width }: { entries: read
           const yy = y(i) ?? 0;
           const h = y.bandwidth();
           return (
-            <g key={i}>
+            <g key={i} data-testid="process-yield-row" data-pass-count={e.result.passCount} data-trials={e.result.trials}>
               <text x={-8} y={yy + h / 2 + 3} textAnchor="end" fontSize={11} fill="#13233a">
                 {e.label.length > 34 ? `${e.label.slice(0, 33)}…` : e.label}
               </text>

@@ -89,7 +89,9 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
     setTraces({ state: "idle" });
     try {
       const entries = await Promise.race([
-        handle.api.compare(study, processes, Comlink.proxy((done: number, total: number) => setRun({ state: "running", done, total }))),
+        handle.api.compare(study, processes, Comlink.proxy((done: number, total: number) => {
+          if (!handle.disposed()) setRun({ state: "running", done, total });
+        })),
         handle.cancelled,
       ]);
       setRun({ state: "done", entries, study });

@@ -9,6 +9,8 @@ export interface ProcessWorkerHandle {
   cancelled: Promise<never>;
   /** Terminate this job's worker (no effect on a newer job). */
   dispose: () => void;
+  /** True once disposed: messages the worker posted before it was terminated may still arrive; drop them. */
+  disposed: () => boolean;
 }
 
 /** Start jobs on a fresh process worker; starting a job or `stop()` terminates the current one. */
@@ -36,6 +38,7 @@ export function useProcessWorker(): { start: () => ProcessWorkerHandle; stop: ()
         reject(new DOMException("The job was cancelled.", "AbortError"));
         if (current.current === handle) current.current = null;
       },
+      disposed: () => done,
     };
     current.current = handle;
     return handle;
