@@ -219,5 +219,8 @@ describe("process model: format", () => {
     expect(() => createProcessSampler(parseErrorModel({ thickness: noErrors, process: { control: { method: "optical" }, plan: [{ wavelength: 600, criterion: "turning" }] } }), design)).toThrow(/plan\[0\]\.criterion: the nominal layer ends 0\.083 QWOT/);
     const metal: Design = { ...design, materials: [...design.materials!, { id: "abs", name: "absorbing", model: { kind: "constant", n: 2, k: 0.1 }, role: "layer", source: "test value" }], layers: [{ material: "abs", thickness: 20 }] };
     expect(() => createProcessSampler(parseErrorModel({ thickness: noErrors, process: { control: { method: "optical" } } }), metal)).toThrow(/absorbing material "abs"/);
+    // a weak absorption tail (k = 1e-5, like a titania film in the visible) is monitored as lossless
+    const tail: Design = { ...metal, materials: [...design.materials!, { id: "tail", name: "weak tail", model: { kind: "constant", n: 2.3, k: 1e-5 }, role: "layer", source: "test value" }], layers: [{ material: "tail", thickness: 550 / (4 * 2.3) }] };
+    expect(() => createProcessSampler(parseErrorModel({ thickness: noErrors, process: { control: { method: "optical" } } }), tail)).not.toThrow();
   });
 });

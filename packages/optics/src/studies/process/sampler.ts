@@ -29,6 +29,13 @@ import type { Control, MonitoringStep, ProcessModel } from "./schema.ts";
  */
 export const TURNING_POINT_TOLERANCE_QWOT = 0.02;
 
+/**
+ * Largest extinction coefficient k at the monitoring wavelength for which a layer or chip substrate is
+ * monitored as lossless (its k ignored in the monitoring signal only; the spectra keep it). A layer of
+ * physical thickness d then changes the signal by about 4πkd/λ, below 1e-3 for a quarter wave.
+ */
+export const MONITOR_MAX_K = 1e-3;
+
 /** Distance (in QWOT, θ/π) from phase θ to the nearest turning point θ = mπ. */
 function turningDistance(theta: number): number {
   return Math.abs(theta / Math.PI - Math.round(theta / Math.PI));
@@ -195,9 +202,9 @@ export function createProcessSampler(model: ErrorModel, design: Design): Process
     const witnessMaterial = process.witness?.substrate ?? design.substrate.material;
     const lossless = (id: string, lambda: number, where: string): number => {
       const v = refractiveIndex(getMaterial(id, design.materials).model, lambda);
-      if (v.k !== 0)
+      if (v.k > MONITOR_MAX_K)
         throw new RangeError(
-          `${where}: optical monitoring of absorbing material ${JSON.stringify(id)} (k = ${v.k} at ${lambda} nm) is not modelled`,
+          `${where}: optical monitoring of absorbing material ${JSON.stringify(id)} (k = ${v.k} at ${lambda} nm, above ${MONITOR_MAX_K}) is not modelled`,
         );
       return v.n;
     };
