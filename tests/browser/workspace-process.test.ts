@@ -3,7 +3,14 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { compareProcesses, defaultMonitoringPlan, parseDesign } from "@stackproof/optics";
 import type { Control, Design, ErrorModel, SpecMask } from "@stackproof/optics";
-import { DEMO, openBrowser, signInAs, startProduct, type BrowserSession, type Product } from "./support/harness.ts";
+import {
+  DEMO,
+  openBrowser,
+  signInAs,
+  startProduct,
+  type BrowserSession,
+  type Product,
+} from "./support/harness.ts";
 
 let product: Product;
 let browser: BrowserSession;
@@ -39,22 +46,53 @@ describe("process comparison (designer)", () => {
       const revision = await get(`/revisions/${id}`);
       const design = await get(`/designs/${revision.designId}`);
       const program = await get(`/programs/${design.program.id}`);
-      return { stack: revision.stack, mask: revision.specMask ?? program.specMask, errorModel: program.errorModel, seed: program.studyDefaults.seed };
+      return {
+        stack: revision.stack,
+        mask: revision.specMask ?? program.specMask,
+        errorModel: program.errorModel,
+        seed: program.studyDefaults.seed,
+      };
     }, revisionId);
     const design = parseDesign(data.stack) as Design;
     const materials = [...new Set(design.layers.map((l) => l.material))].sort();
     const each = (c: Control): Record<string, Control> => Object.fromEntries(materials.map((m) => [m, c]));
     // the panel's default candidates (apps/web/src/features/process/lib/process-form.ts)
     const node = await compareProcesses(
-      { design, mask: data.mask as SpecMask, errorModel: data.errorModel as ErrorModel, trials: 300, seed: data.seed as string, envelopeSamples: 0 },
+      {
+        design,
+        mask: data.mask as SpecMask,
+        errorModel: data.errorModel as ErrorModel,
+        trials: 300,
+        seed: data.seed as string,
+        envelopeSamples: 0,
+      },
       [
         null,
-        { version: 1, label: "Quartz crystal", control: each({ method: "crystal", toolingPct: 0.5, noisePct: 0.5, terminationNm: 0.3 }) },
-        { version: 1, label: "Optical monitoring", control: each({ method: "optical", signal: "T", noisePct: 0.3, detectionPct: 0.9, driftPct: 0, overshootNm: 0, overshootSigmaNm: 0.3 }), plan: defaultMonitoringPlan(design) },
+        {
+          version: 1,
+          label: "Quartz crystal",
+          control: each({ method: "crystal", toolingPct: 0.5, noisePct: 0.5, terminationNm: 0.3 }),
+        },
+        {
+          version: 1,
+          label: "Optical monitoring",
+          control: each({
+            method: "optical",
+            signal: "T",
+            noisePct: 0.3,
+            detectionPct: 0.9,
+            driftPct: 0,
+            overshootNm: 0,
+            overshootSigmaNm: 0.3,
+          }),
+          plan: defaultMonitoringPlan(design),
+        },
       ],
     );
     const rows = page.getByTestId("process-yield-row");
-    const browserCounts = await rows.evaluateAll((els) => els.map((e) => Number(e.getAttribute("data-pass-count"))));
+    const browserCounts = await rows.evaluateAll((els) =>
+      els.map((e) => Number(e.getAttribute("data-pass-count"))),
+    );
     expect(browserCounts).toEqual(node.map((e) => e.result.passCount));
     await page.getByTestId("monitoring-traces").waitFor({ timeout: 60_000 });
     expect(await page.getByTestId("monitoring-traces").locator("svg").count()).toBeGreaterThan(3);

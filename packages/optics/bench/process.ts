@@ -11,9 +11,28 @@ export function benchProcesses(design: Design): { name: string; process: Process
   const plan = defaultMonitoringPlan(design);
   return [
     { name: "independent errors", process: null },
-    { name: "time (AR(1) drift)", process: { control: { method: "time", rateErrorPct: 0.5, rateDriftPct: 0.8, driftCorrelation: 0.8, withinLayerPct: 0.3, indexDriftPct: 0.2, shutterNm: 0.3 } } },
-    { name: "quartz crystal", process: { control: { method: "crystal", toolingPct: 0.5, noisePct: 0.3, terminationNm: 0.3 } } },
-    { name: "optical, part, default plan", process: { control: { method: "optical", noisePct: 0.5, overshootSigmaNm: 0.3, driftPct: 0.1 }, plan } },
+    {
+      name: "time (AR(1) drift)",
+      process: {
+        control: {
+          method: "time",
+          rateErrorPct: 0.5,
+          rateDriftPct: 0.8,
+          driftCorrelation: 0.8,
+          withinLayerPct: 0.3,
+          indexDriftPct: 0.2,
+          shutterNm: 0.3,
+        },
+      },
+    },
+    {
+      name: "quartz crystal",
+      process: { control: { method: "crystal", toolingPct: 0.5, noisePct: 0.3, terminationNm: 0.3 } },
+    },
+    {
+      name: "optical, part, default plan",
+      process: { control: { method: "optical", noisePct: 0.5, overshootSigmaNm: 0.3, driftPct: 0.1 }, plan },
+    },
     {
       name: "optical, witness every 4, 2 wavelengths",
       process: {
@@ -26,10 +45,17 @@ export function benchProcesses(design: Design): { name: string; process: Process
 }
 
 /** Trials per second of each process (best of `rounds` timed runs of `trials` after a warm-up). */
-export function runProcessBench(trials = 4000, rounds = 3): { name: string; trialsPerSecond: number; relativeCost: number }[] {
+export function runProcessBench(
+  trials = 4000,
+  rounds = 3,
+): { name: string; trialsPerSecond: number; relativeCost: number }[] {
   const base = benchStudy(trials);
   const rows = benchProcesses(base.design as Design).map(({ name, process }) => {
-    const study: YieldStudy = { ...base, envelopeSamples: 0, errorModel: { ...base.errorModel, ...(process ? { process } : {}) } };
+    const study: YieldStudy = {
+      ...base,
+      envelopeSamples: 0,
+      errorModel: { ...base.errorModel, ...(process ? { process } : {}) },
+    };
     const runner = createYieldRunner(study);
     runner.runChunk(0, Math.min(trials, 1000)); // warm-up
     let best = 0;
@@ -48,5 +74,6 @@ export function runProcessBench(trials = 4000, rounds = 3): { name: string; tria
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
   const trials = Number(process.argv[2] ?? 4000);
   console.log(`| process | trials/s | cost vs independent |\n|---|---|---|`);
-  for (const r of runProcessBench(trials)) console.log(`| ${r.name} | ${r.trialsPerSecond.toFixed(0)} | ${r.relativeCost.toFixed(2)}× |`);
+  for (const r of runProcessBench(trials))
+    console.log(`| ${r.name} | ${r.trialsPerSecond.toFixed(0)} | ${r.relativeCost.toFixed(2)}× |`);
 }

@@ -2,7 +2,13 @@
 // error statistics, and the monitoring traces of one sample build. Cancel by terminating the worker.
 import * as Comlink from "comlink";
 import { compareProcesses, monitoringTraces } from "@stackproof/optics";
-import type { Design, ErrorModel, ProcessComparisonEntry, ProcessModelInput, YieldStudy } from "@stackproof/optics";
+import type {
+  Design,
+  ErrorModel,
+  ProcessComparisonEntry,
+  ProcessModelInput,
+  YieldStudy,
+} from "@stackproof/optics";
 
 const api = {
   async compare(

@@ -163,7 +163,8 @@ export function monitoringTraces(
   trial = 0,
   points = 120,
 ): { traces: MonitoringTrace[]; thicknesses: number[]; indexScale: number[] } {
-  if (!Number.isInteger(trial) || trial < 0) throw new RangeError(`trial must be an integer ≥ 0, got ${trial}`);
+  if (!Number.isInteger(trial) || trial < 0)
+    throw new RangeError(`trial must be an integer ≥ 0, got ${trial}`);
   const design = parseDesign(designInput);
   const sampler = createProcessSampler(parseErrorModel(errorModelInput), design);
   return sampler.traces(new TrialRandom(), seed, trial, points);
@@ -185,17 +186,28 @@ export function plateYield(studyInput: YieldStudy, radiiMm: readonly number[]): 
   const study = parseYieldStudy(studyInput);
   const process = study.errorModel.process;
   if (!process?.uniformity)
-    throw new RangeError("study.errorModel.process.uniformity: needed for the yield across the plate, got nothing");
+    throw new RangeError(
+      "study.errorModel.process.uniformity: needed for the yield across the plate, got nothing",
+    );
   const uniformity = process.uniformity;
   return radiiMm.map((r) => {
     if (!(r >= 0 && r <= 5000)) throw new RangeError(`radius must be in 0..5000 mm, got ${r}`);
     const runner = createYieldRunner({
       ...study,
-      errorModel: { ...study.errorModel, process: { ...process, uniformity: { ...uniformity, radiusMm: r } } },
+      errorModel: {
+        ...study.errorModel,
+        process: { ...process, uniformity: { ...uniformity, radiusMm: r } },
+      },
       envelopeSamples: 0,
     });
     let passCount = 0;
-    for (const [start, count] of planChunks(study.trials, 1000)) passCount += runner.runChunk(start, count).passCount;
-    return { radiusMm: r, passCount, yield: passCount / study.trials, interval: wilsonInterval(passCount, study.trials) };
+    for (const [start, count] of planChunks(study.trials, 1000))
+      passCount += runner.runChunk(start, count).passCount;
+    return {
+      radiusMm: r,
+      passCount,
+      yield: passCount / study.trials,
+      interval: wilsonInterval(passCount, study.trials),
+    };
   });
 }

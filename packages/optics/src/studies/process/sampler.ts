@@ -60,7 +60,9 @@ export function defaultMonitoringPlan(design: Design): MonitoringStep[] {
     growthCurve(v, ns, n, lambda, false, g);
     const theta = thetaOfThickness(g, l.thickness);
     const turning =
-      g.rho > 0 && (4 * n * l.thickness) / lambda >= 0.5 && turningDistance(theta) <= TURNING_POINT_TOLERANCE_QWOT;
+      g.rho > 0 &&
+      (4 * n * l.thickness) / lambda >= 0.5 &&
+      turningDistance(theta) <= TURNING_POINT_TOLERANCE_QWOT;
     applyLayer(v, n, l.thickness, lambda);
     return { wavelength: lambda, on: "part", criterion: turning ? "turning" : "level" };
   });
@@ -150,14 +152,18 @@ export function createProcessSampler(model: ErrorModel, design: Design): Process
   if (!("method" in process.control)) {
     for (const id of Object.keys(process.control))
       if (!materials.includes(id))
-        throw new RangeError(`errorModel.process.control names material ${JSON.stringify(id)}, which no layer uses`);
+        throw new RangeError(
+          `errorModel.process.control names material ${JSON.stringify(id)}, which no layer uses`,
+        );
   }
   const method = Int32Array.from(controls, (c) =>
     c.method === "time" ? Method.Time : c.method === "crystal" ? Method.Crystal : Method.Optical,
   );
   const anyOptical = controls.some((c) => c.method === "optical");
   if (process.plan && process.plan.length !== L)
-    throw new RangeError(`errorModel.process.plan: expected ${L} steps (one per layer), got ${process.plan.length}`);
+    throw new RangeError(
+      `errorModel.process.plan: expected ${L} steps (one per layer), got ${process.plan.length}`,
+    );
   const plan: MonitoringStep[] = process.plan ?? defaultMonitoringPlan(design);
   const witnessEvery = process.witness?.everyLayers ?? 0;
   if (anyOptical) {
@@ -193,7 +199,8 @@ export function createProcessSampler(model: ErrorModel, design: Design): Process
   // Uniformity: realised thickness on the part = controlled thickness · u(r) / u(r_ref).
   const uni = process.uniformity;
   const uRef = uni ? 1 + uni.a * uni.referenceRadiusMm * uni.referenceRadiusMm : 1;
-  if (uni && !(uRef > 0)) throw new RangeError(`errorModel.process.uniformity: 1 + a·r_ref² must be > 0, got ${uRef}`);
+  if (uni && !(uRef > 0))
+    throw new RangeError(`errorModel.process.uniformity: 1 + a·r_ref² must be > 0, got ${uRef}`);
 
   // Monitoring slots: one per distinct (wavelength, part/witness) used by an optically monitored layer.
   const slots: Slot[] = [];
@@ -280,7 +287,15 @@ export function createProcessSampler(model: ErrorModel, design: Design): Process
   }
 
   /** Grow optically monitored layer j on its slot; returns the controlled thickness (nm). */
-  function monitorLayer(j: number, scale: number, z1: number, z2: number, z3: number, z4: number, sink?: TraceSink): number {
+  function monitorLayer(
+    j: number,
+    scale: number,
+    z1: number,
+    z2: number,
+    z3: number,
+    z4: number,
+    sink?: TraceSink,
+  ): number {
     const dNom = nominal[j] as number;
     const c = optical[materialOf[j] as number] as NonNullable<(typeof optical)[number]>;
     gain += (c.driftPct / 100) * z3;
@@ -406,7 +421,9 @@ export function createProcessSampler(model: ErrorModel, design: Design): Process
       const how = method[m] as Method;
       if (how === Method.Optical && isOpticalLayer(j)) dc = monitorLayer(j, scale, z1, z2, z3, z4, sink);
       else if (how === Method.Time)
-        dc = d * (1 + (runErr[m] as number)) * (1 + (rateAr[m] as number)) * (1 + (layerA[m] as number) * z1) + (layerB[m] as number) * z2;
+        dc =
+          d * (1 + (runErr[m] as number)) * (1 + (rateAr[m] as number)) * (1 + (layerA[m] as number) * z1) +
+          (layerB[m] as number) * z2;
       else dc = d * (1 + (runErr[m] as number)) + d * (layerA[m] as number) * z1 + (layerB[m] as number) * z2;
       if (!(dc > 0)) dc = 0;
       controlled[j] = dc;
@@ -449,10 +466,12 @@ export function createProcessSampler(model: ErrorModel, design: Design): Process
       if (t) {
         const sl = slots[slotOf[j] as number] as Slot;
         growthCurve(sl.v, sl.ns, sl.n[j] as number, sl.lambda, t.signal === "R", curve);
-        out.push(t.thickness.map((d) => {
-          const v = transmittanceAtTheta(curve, thetaOfThickness(curve, d));
-          return t.signal === "R" ? 1 - v : v;
-        }));
+        out.push(
+          t.thickness.map((d) => {
+            const v = transmittanceAtTheta(curve, thetaOfThickness(curve, d));
+            return t.signal === "R" ? 1 - v : v;
+          }),
+        );
       }
       deposit(j, nominal[j] as number, 1);
     }

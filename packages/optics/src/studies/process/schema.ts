@@ -141,7 +141,9 @@ function describeControl(c: Control, plan: readonly MonitoringStep[] | undefined
   if (c.method === "time") {
     const parts = [`rate error ${fmt(c.rateErrorPct)} %`];
     if (c.rateDriftPct > 0)
-      parts.push(`rate drift ${fmt(c.rateDriftPct)} % (layer-to-layer correlation ${fmt(c.driftCorrelation)})`);
+      parts.push(
+        `rate drift ${fmt(c.rateDriftPct)} % (layer-to-layer correlation ${fmt(c.driftCorrelation)})`,
+      );
     if (c.withinLayerPct > 0) parts.push(`${fmt(c.withinLayerPct)} % within-layer fluctuation`);
     if (c.indexDriftPct > 0) parts.push(`index drift ${fmt(c.indexDriftPct)} %`);
     if (c.shutterNm > 0) parts.push(`${fmt(c.shutterNm)} nm shutter error`);
@@ -189,7 +191,8 @@ export function describeProcess(model: ProcessModelInput | ErrorModelLike): stri
     const parts = [
       `independent thickness errors ${fmt(t.relativePct)} % + ${fmt(t.absoluteNm)} nm per layer (${t.distribution})`,
     ];
-    if (m.systematicPct !== undefined) parts.push(`per-material scale ${describePerMaterial(m.systematicPct)}`);
+    if (m.systematicPct !== undefined)
+      parts.push(`per-material scale ${describePerMaterial(m.systematicPct)}`);
     return parts.join(", ") + indexSuffix(m);
   }
   const p = ProcessModelSchema.parse(model);
@@ -197,7 +200,9 @@ export function describeProcess(model: ProcessModelInput | ErrorModelLike): stri
   let text: string;
   if ("method" in p.control) text = describeControl(p.control as Control, plan);
   else {
-    const entries = Object.entries(p.control as Record<string, Control>).sort(([a], [b]) => a.localeCompare(b));
+    const entries = Object.entries(p.control as Record<string, Control>).sort(([a], [b]) =>
+      a.localeCompare(b),
+    );
     const byText = new Map<string, string[]>();
     for (const [m, c] of entries) {
       const d = describeControl(c, plan);
@@ -205,13 +210,16 @@ export function describeProcess(model: ProcessModelInput | ErrorModelLike): stri
     }
     text =
       byText.size === 1
-        ? [...byText.keys()][0] as string
+        ? ([...byText.keys()][0] as string)
         : [...byText.entries()].map(([d, ms]) => `${ms.join(", ")}: ${d}`).join("; ");
   }
   if (p.witness) text += `; witness chip changed every ${p.witness.everyLayers} layers`;
   if (p.uniformity) {
     const u = p.uniformity;
-    const r = typeof u.radiusMm === "number" ? `${fmt(u.radiusMm)} mm` : `${fmt(u.radiusMm.min)}–${fmt(u.radiusMm.max)} mm`;
+    const r =
+      typeof u.radiusMm === "number"
+        ? `${fmt(u.radiusMm)} mm`
+        : `${fmt(u.radiusMm.min)}–${fmt(u.radiusMm.max)} mm`;
     text += `; uniformity 1 + ${u.a.toExponential(2)}·r² (r in mm), part at ${r}, calibrated at ${fmt(u.referenceRadiusMm)} mm`;
   }
   return text;
@@ -236,7 +244,8 @@ function describePerMaterial(v: number | Record<string, number>): string {
 
 function indexSuffix(m: ErrorModelLike): string {
   const parts: string[] = [];
-  if (m.indexDriftPct !== undefined) parts.push(`index drift ${describePerMaterial(m.indexDriftPct)} per run`);
+  if (m.indexDriftPct !== undefined)
+    parts.push(`index drift ${describePerMaterial(m.indexDriftPct)} per run`);
   if (m.indexNoisePct) parts.push(`index noise ${fmt(m.indexNoisePct)} % per layer`);
   return parts.length ? `; ${parts.join(", ")}` : "";
 }
@@ -252,7 +261,12 @@ function scaleControl(c: Control, s: number): Control {
       shutterNm: c.shutterNm * s,
     };
   if (c.method === "crystal")
-    return { ...c, toolingPct: c.toolingPct * s, noisePct: c.noisePct * s, terminationNm: c.terminationNm * s };
+    return {
+      ...c,
+      toolingPct: c.toolingPct * s,
+      noisePct: c.noisePct * s,
+      terminationNm: c.terminationNm * s,
+    };
   const out: OpticalControl = {
     ...c,
     noisePct: c.noisePct * s,

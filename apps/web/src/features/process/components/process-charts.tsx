@@ -14,34 +14,81 @@ export function processColor(i: number): string {
   return PALETTE[i % PALETTE.length] as string;
 }
 
-export function YieldComparisonChart({ entries, target, width }: { entries: readonly ProcessComparisonEntry[]; target: number; width: number }) {
+export function YieldComparisonChart({
+  entries,
+  target,
+  width,
+}: {
+  entries: readonly ProcessComparisonEntry[];
+  target: number;
+  width: number;
+}) {
   const m = { top: 8, right: 56, bottom: 24, left: 210 };
   const rowH = 26;
   const height = m.top + m.bottom + entries.length * rowH;
   const iw = Math.max(40, width - m.left - m.right);
   const x = scaleLinear<number>({ domain: [0, 100], range: [0, iw] });
-  const y = scaleBand<number>({ domain: entries.map((_, i) => i), range: [0, entries.length * rowH], padding: 0.3 });
+  const y = scaleBand<number>({
+    domain: entries.map((_, i) => i),
+    range: [0, entries.length * rowH],
+    padding: 0.3,
+  });
   return (
-    <svg width={width} height={height} role="img" aria-label="Yield of the design under each process, with 95 % Wilson intervals and the target yield" data-testid="process-yield-chart">
+    <svg
+      width={width}
+      height={height}
+      role="img"
+      aria-label="Yield of the design under each process, with 95 % Wilson intervals and the target yield"
+      data-testid="process-yield-chart"
+    >
       <Group left={m.left} top={m.top}>
         {entries.map((e, i) => {
           const yy = y(i) ?? 0;
           const h = y.bandwidth();
           return (
-            <g key={i} data-testid="process-yield-row" data-pass-count={e.result.passCount} data-trials={e.result.trials}>
+            <g
+              key={i}
+              data-testid="process-yield-row"
+              data-pass-count={e.result.passCount}
+              data-trials={e.result.trials}
+            >
               <text x={-8} y={yy + h / 2 + 3} textAnchor="end" fontSize={11} fill="#13233a">
                 {e.label.length > 34 ? `${e.label.slice(0, 33)}…` : e.label}
               </text>
-              <Bar x={0} y={yy} width={x(e.result.yield * 100)} height={h} fill={processColor(i)} fillOpacity={0.85} />
-              <Line from={{ x: x(e.result.interval.low * 100), y: yy + h / 2 }} to={{ x: x(e.result.interval.high * 100), y: yy + h / 2 }} stroke="#13233a" strokeWidth={1.5} />
+              <Bar
+                x={0}
+                y={yy}
+                width={x(e.result.yield * 100)}
+                height={h}
+                fill={processColor(i)}
+                fillOpacity={0.85}
+              />
+              <Line
+                from={{ x: x(e.result.interval.low * 100), y: yy + h / 2 }}
+                to={{ x: x(e.result.interval.high * 100), y: yy + h / 2 }}
+                stroke="#13233a"
+                strokeWidth={1.5}
+              />
               <text x={iw + 4} y={yy + h / 2 + 3} fontSize={11} fill="#13233a">
                 {(e.result.yield * 100).toFixed(1)} %
               </text>
             </g>
           );
         })}
-        <Line from={{ x: x(target * 100), y: -4 }} to={{ x: x(target * 100), y: entries.length * rowH }} stroke="#b3362d" strokeDasharray="4 3" />
-        <AxisBottom top={entries.length * rowH} scale={x} numTicks={5} tickFormat={(v) => `${String(v)} %`} tickLabelProps={{ ...tick, textAnchor: "middle" }} stroke="#5a708f" />
+        <Line
+          from={{ x: x(target * 100), y: -4 }}
+          to={{ x: x(target * 100), y: entries.length * rowH }}
+          stroke="#b3362d"
+          strokeDasharray="4 3"
+        />
+        <AxisBottom
+          top={entries.length * rowH}
+          scale={x}
+          numTicks={5}
+          tickFormat={(v) => `${String(v)} %`}
+          tickLabelProps={{ ...tick, textAnchor: "middle" }}
+          stroke="#5a708f"
+        />
       </Group>
     </svg>
   );
@@ -53,12 +100,23 @@ export function LayerErrorTable({ entries }: { entries: readonly ProcessComparis
   return (
     <div className="max-h-80 overflow-auto rounded-md border border-ink-100">
       <table className="w-full text-right font-mono text-xs" data-testid="process-layer-table">
-        <caption className="sr-only">Realised thickness error per layer under each process: mean and σ in percent, correlation r with the previous layer</caption>
+        <caption className="sr-only">
+          Realised thickness error per layer under each process: mean and σ in percent, correlation r with the
+          previous layer
+        </caption>
         <thead className="sticky top-0 bg-paper text-ink-700">
           <tr>
-            <th scope="col" className="px-2 py-1 text-left font-sans">Layer</th>
+            <th scope="col" className="px-2 py-1 text-left font-sans">
+              Layer
+            </th>
             {entries.map((e, i) => (
-              <th key={i} scope="col" colSpan={3} className="border-l border-ink-100 px-2 py-1 text-center font-sans" style={{ color: processColor(i) }}>
+              <th
+                key={i}
+                scope="col"
+                colSpan={3}
+                className="border-l border-ink-100 px-2 py-1 text-center font-sans"
+                style={{ color: processColor(i) }}
+              >
                 {e.label}
               </th>
             ))}
@@ -66,9 +124,15 @@ export function LayerErrorTable({ entries }: { entries: readonly ProcessComparis
           <tr>
             <th />
             {entries.map((_, i) => [
-              <th key={`m${i}`} scope="col" className="border-l border-ink-100 px-2 font-sans font-normal">mean %</th>,
-              <th key={`s${i}`} scope="col" className="px-2 font-sans font-normal">σ %</th>,
-              <th key={`r${i}`} scope="col" className="px-2 font-sans font-normal">r prev.</th>,
+              <th key={`m${i}`} scope="col" className="border-l border-ink-100 px-2 font-sans font-normal">
+                mean %
+              </th>,
+              <th key={`s${i}`} scope="col" className="px-2 font-sans font-normal">
+                σ %
+              </th>,
+              <th key={`r${i}`} scope="col" className="px-2 font-sans font-normal">
+                r prev.
+              </th>,
             ])}
           </tr>
         </thead>
@@ -81,9 +145,15 @@ export function LayerErrorTable({ entries }: { entries: readonly ProcessComparis
               {entries.map((e, i) => {
                 const s = e.layers[l.layer];
                 return [
-                  <td key={`m${i}`} className="border-l border-ink-100 px-2">{s ? s.meanPct.toFixed(2) : "–"}</td>,
-                  <td key={`s${i}`} className="px-2">{s ? s.sigmaPct.toFixed(2) : "–"}</td>,
-                  <td key={`r${i}`} className="px-2">{s && l.layer > 0 ? s.correlationWithPrevious.toFixed(2) : "–"}</td>,
+                  <td key={`m${i}`} className="border-l border-ink-100 px-2">
+                    {s ? s.meanPct.toFixed(2) : "–"}
+                  </td>,
+                  <td key={`s${i}`} className="px-2">
+                    {s ? s.sigmaPct.toFixed(2) : "–"}
+                  </td>,
+                  <td key={`r${i}`} className="px-2">
+                    {s && l.layer > 0 ? s.correlationWithPrevious.toFixed(2) : "–"}
+                  </td>,
                 ];
               })}
             </tr>
@@ -95,11 +165,21 @@ export function LayerErrorTable({ entries }: { entries: readonly ProcessComparis
 }
 
 /** One small chart per monitored layer: signal against deposited thickness, nominal dashed, the cut marked. */
-export function MonitoringTraceGrid({ traces, width }: { traces: readonly MonitoringTrace[]; width: number }) {
+export function MonitoringTraceGrid({
+  traces,
+  width,
+}: {
+  traces: readonly MonitoringTrace[];
+  width: number;
+}) {
   const cellW = 170;
   const cols = Math.max(1, Math.floor(width / cellW));
   return (
-    <div className="grid gap-1" style={{ gridTemplateColumns: `repeat(${cols}, minmax(0, 1fr))` }} data-testid="monitoring-traces">
+    <div
+      className="grid gap-1"
+      style={{ gridTemplateColumns: `repeat(${cols}, minmax(0, 1fr))` }}
+      data-testid="monitoring-traces"
+    >
       {traces.map((t) => (
         <TraceCell key={t.layer} trace={t} width={Math.floor(width / cols) - 4} />
       ))}
@@ -133,14 +213,48 @@ function TraceCell({ trace, width }: { trace: MonitoringTrace; width: number }) 
         {`L${trace.layer + 1} ${trace.material} · ${trace.criterion === "turning" ? "TP" : "level"} ${trace.wavelength} nm · ${err >= 0 ? "+" : ""}${err.toFixed(2)} nm`}
       </text>
       <Group left={m.left} top={m.top}>
-        <LinePath data={nom} x={(p) => x(p[0])} y={(p) => y(p[1])} stroke="#9fb0c6" strokeDasharray="3 2" strokeWidth={1} />
+        <LinePath
+          data={nom}
+          x={(p) => x(p[0])}
+          y={(p) => y(p[1])}
+          stroke="#9fb0c6"
+          strokeDasharray="3 2"
+          strokeWidth={1}
+        />
         <LinePath data={pts} x={(p) => x(p[0])} y={(p) => y(p[1])} stroke="#1f7f7a" strokeWidth={1.5} />
-        {trace.trigger !== null ? <Line from={{ x: 0, y: y(trace.trigger * 100) }} to={{ x: iw, y: y(trace.trigger * 100) }} stroke="#d98a2b" strokeDasharray="2 2" /> : null}
-        <Line from={{ x: x(trace.nominalThickness), y: 0 }} to={{ x: x(trace.nominalThickness), y: ih }} stroke="#9fb0c6" />
+        {trace.trigger !== null ? (
+          <Line
+            from={{ x: 0, y: y(trace.trigger * 100) }}
+            to={{ x: iw, y: y(trace.trigger * 100) }}
+            stroke="#d98a2b"
+            strokeDasharray="2 2"
+          />
+        ) : null}
+        <Line
+          from={{ x: x(trace.nominalThickness), y: 0 }}
+          to={{ x: x(trace.nominalThickness), y: ih }}
+          stroke="#9fb0c6"
+        />
         <circle cx={x(trace.cut.thickness)} cy={y(trace.cut.value * 100)} r={3} fill="#b3362d" />
-        <Line from={{ x: x(trace.finalThickness), y: 0 }} to={{ x: x(trace.finalThickness), y: ih }} stroke="#b3362d" strokeDasharray="2 2" />
-        <AxisLeft scale={y} numTicks={3} tickLabelProps={{ ...tick, fontSize: 8, textAnchor: "end", dx: -2, dy: 3 }} stroke="#5a708f" />
-        <AxisBottom top={ih} scale={x} numTicks={3} tickLabelProps={{ ...tick, fontSize: 8, textAnchor: "middle" }} stroke="#5a708f" />
+        <Line
+          from={{ x: x(trace.finalThickness), y: 0 }}
+          to={{ x: x(trace.finalThickness), y: ih }}
+          stroke="#b3362d"
+          strokeDasharray="2 2"
+        />
+        <AxisLeft
+          scale={y}
+          numTicks={3}
+          tickLabelProps={{ ...tick, fontSize: 8, textAnchor: "end", dx: -2, dy: 3 }}
+          stroke="#5a708f"
+        />
+        <AxisBottom
+          top={ih}
+          scale={x}
+          numTicks={3}
+          tickLabelProps={{ ...tick, fontSize: 8, textAnchor: "middle" }}
+          stroke="#5a708f"
+        />
       </Group>
     </svg>
   );

@@ -4,7 +4,16 @@
 import { memo, useMemo, useState } from "react";
 import * as Comlink from "comlink";
 import { describeProcess } from "@stackproof/optics";
-import type { Control, Design, ErrorModel, MonitoringStep, MonitoringTrace, ProcessComparisonEntry, SpecMask, YieldStudy } from "@stackproof/optics";
+import type {
+  Control,
+  Design,
+  ErrorModel,
+  MonitoringStep,
+  MonitoringTrace,
+  ProcessComparisonEntry,
+  SpecMask,
+  YieldStudy,
+} from "@stackproof/optics";
 import { Button, Notice, SelectField, TextField } from "../../../components/ui/index.ts";
 import { useProcessWorker } from "../hooks/use-process-worker.ts";
 import { useElementWidth } from "../hooks/use-width.ts";
@@ -20,7 +29,12 @@ import {
   usesOptical,
 } from "../lib/process-form.ts";
 import type { Candidate, Method, PlanState } from "../lib/process-form.ts";
-import { LayerErrorTable, MonitoringTraceGrid, processColor, YieldComparisonChart } from "./process-charts.tsx";
+import {
+  LayerErrorTable,
+  MonitoringTraceGrid,
+  processColor,
+  YieldComparisonChart,
+} from "./process-charts.tsx";
 
 export interface ProcessPanelProps {
   design: Design;
@@ -38,7 +52,11 @@ type Run =
   | { state: "error"; message: string }
   | { state: "cancelled" };
 
-type Traces = { state: "idle" } | { state: "running" } | { state: "done"; candidate: string; traces: MonitoringTrace[] } | { state: "error"; message: string };
+type Traces =
+  | { state: "idle" }
+  | { state: "running" }
+  | { state: "done"; candidate: string; traces: MonitoringTrace[] }
+  | { state: "error"; message: string };
 
 const num = (v: string, fallback: number) => {
   const x = Number(v);
@@ -61,9 +79,14 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
     [plan, design],
   );
   const steps = planState.steps;
-  const anyOptical = candidates.some((c) => !c.independent && Object.values(c.controls).some((x) => x.method === "optical"));
+  const anyOptical = candidates.some(
+    (c) => !c.independent && Object.values(c.controls).some((x) => x.method === "optical"),
+  );
 
-  const processes = useMemo(() => candidates.map((c) => toProcess(c, planState, design)), [candidates, planState, design]);
+  const processes = useMemo(
+    () => candidates.map((c) => toProcess(c, planState, design)),
+    [candidates, planState, design],
+  );
   const descriptions = useMemo(
     () =>
       processes.map((p) => {
@@ -76,22 +99,34 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
     [processes, props.errorModel],
   );
 
-  const update = (id: string, f: (c: Candidate) => Candidate) => setCandidates((cs) => cs.map((c) => (c.id === id ? f(c) : c)));
+  const update = (id: string, f: (c: Candidate) => Candidate) =>
+    setCandidates((cs) => cs.map((c) => (c.id === id ? f(c) : c)));
   const setStep = (j: number, patch: Partial<MonitoringStep>) =>
     setPlan({ ...planState, steps: steps.map((s, k) => (k === j ? { ...s, ...patch } : s)) });
 
   const start = async () => {
     const base: ErrorModel = { ...props.errorModel };
     delete base.process;
-    const study: YieldStudy = { design, mask: props.mask, errorModel: base, trials, seed: props.defaults.seed, envelopeSamples: 0 };
+    const study: YieldStudy = {
+      design,
+      mask: props.mask,
+      errorModel: base,
+      trials,
+      seed: props.defaults.seed,
+      envelopeSamples: 0,
+    };
     const handle = worker.start();
     setRun({ state: "running", done: 0, total: trials * processes.length });
     setTraces({ state: "idle" });
     try {
       const entries = await Promise.race([
-        handle.api.compare(study, processes, Comlink.proxy((done: number, total: number) => {
-          if (!handle.disposed()) setRun({ state: "running", done, total });
-        })),
+        handle.api.compare(
+          study,
+          processes,
+          Comlink.proxy((done: number, total: number) => {
+            if (!handle.disposed()) setRun({ state: "running", done, total });
+          }),
+        ),
         handle.cancelled,
       ]);
       setRun({ state: "done", entries, study });
@@ -108,10 +143,17 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
     setTraces({ state: "running" });
     const handle = worker.start();
     try {
-      const out = await Promise.race([handle.api.traces(design, entry.errorModel, study.seed, 0), handle.cancelled]);
+      const out = await Promise.race([
+        handle.api.traces(design, entry.errorModel, study.seed, 0),
+        handle.cancelled,
+      ]);
       setTraces({ state: "done", candidate: entry.label, traces: out.traces });
     } catch (e) {
-      setTraces(e instanceof DOMException && e.name === "AbortError" ? { state: "idle" } : { state: "error", message: e instanceof Error ? e.message : String(e) });
+      setTraces(
+        e instanceof DOMException && e.name === "AbortError"
+          ? { state: "idle" }
+          : { state: "error", message: e instanceof Error ? e.message : String(e) },
+      );
     } finally {
       handle.dispose();
     }
@@ -125,18 +167,32 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
           Process comparison
         </h2>
         <p className="text-xs text-ink-600">
-          Yield of this design under the way the chamber controls each layer: time, quartz crystal or optical monitoring (each layer grown on the stack as
-          actually built). The program's index drift and noise apply to every process.
+          Yield of this design under the way the chamber controls each layer: time, quartz crystal or optical
+          monitoring (each layer grown on the stack as actually built). The program's index drift and noise
+          apply to every process.
         </p>
       </div>
 
-      <div className="grid gap-3" style={{ gridTemplateColumns: `repeat(${Math.max(1, Math.min(candidates.length, Math.floor(width / 300)))}, minmax(0, 1fr))` }}>
+      <div
+        className="grid gap-3"
+        style={{
+          gridTemplateColumns: `repeat(${Math.max(1, Math.min(candidates.length, Math.floor(width / 300)))}, minmax(0, 1fr))`,
+        }}
+      >
         {candidates.map((c, i) => (
-          <fieldset key={c.id} className="space-y-2 rounded-lg border border-ink-100 p-3" data-testid="process-candidate">
+          <fieldset
+            key={c.id}
+            className="space-y-2 rounded-lg border border-ink-100 p-3"
+            data-testid="process-candidate"
+          >
             <legend className="px-1 text-sm font-medium" style={{ color: processColor(i) }}>
               Process {i + 1}
             </legend>
-            <TextField label="Name" value={c.label} onChange={(e) => update(c.id, (x) => ({ ...x, label: e.target.value }))} />
+            <TextField
+              label="Name"
+              value={c.label}
+              onChange={(e) => update(c.id, (x) => ({ ...x, label: e.target.value }))}
+            />
             {c.independent ? (
               <p className="text-xs text-ink-600">The program's independent-error model.</p>
             ) : (
@@ -147,8 +203,16 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
                     <SelectField
                       label={`${m}: control`}
                       value={ctl.method}
-                      options={(Object.keys(METHOD_LABELS) as Method[]).map((k) => ({ value: k, label: METHOD_LABELS[k] }))}
-                      onChange={(e) => update(c.id, (x) => ({ ...x, controls: { ...x.controls, [m]: defaultControl(e.target.value as Method) } }))}
+                      options={(Object.keys(METHOD_LABELS) as Method[]).map((k) => ({
+                        value: k,
+                        label: METHOD_LABELS[k],
+                      }))}
+                      onChange={(e) =>
+                        update(c.id, (x) => ({
+                          ...x,
+                          controls: { ...x.controls, [m]: defaultControl(e.target.value as Method) },
+                        }))
+                      }
                     />
                     <div className="grid grid-cols-2 gap-1">
                       {METHOD_FIELDS[ctl.method].map((f) => (
@@ -162,7 +226,10 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
                           onChange={(e) =>
                             update(c.id, (x) => ({
                               ...x,
-                              controls: { ...x.controls, [m]: { ...ctl, [f.key]: num(e.target.value, 0) } as Control },
+                              controls: {
+                                ...x.controls,
+                                [m]: { ...ctl, [f.key]: num(e.target.value, 0) } as Control,
+                              },
                             }))
                           }
                         />
@@ -180,17 +247,45 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
                   type="number"
                   step={1e-6}
                   value={String(c.plate.a)}
-                  onChange={(e) => update(c.id, (x) => ({ ...x, plate: { ...x.plate, a: num(e.target.value, 0) } }))}
+                  onChange={(e) =>
+                    update(c.id, (x) => ({ ...x, plate: { ...x.plate, a: num(e.target.value, 0) } }))
+                  }
                 />
-                <TextField label="Parts from r (mm)" type="number" min={0} value={String(c.plate.minMm)} onChange={(e) => update(c.id, (x) => ({ ...x, plate: { ...x.plate, minMm: Math.max(0, num(e.target.value, 0)) } }))} />
-                <TextField label="to r (mm)" type="number" min={0} value={String(c.plate.maxMm)} onChange={(e) => update(c.id, (x) => ({ ...x, plate: { ...x.plate, maxMm: Math.max(0, num(e.target.value, 0)) } }))} />
+                <TextField
+                  label="Parts from r (mm)"
+                  type="number"
+                  min={0}
+                  value={String(c.plate.minMm)}
+                  onChange={(e) =>
+                    update(c.id, (x) => ({
+                      ...x,
+                      plate: { ...x.plate, minMm: Math.max(0, num(e.target.value, 0)) },
+                    }))
+                  }
+                />
+                <TextField
+                  label="to r (mm)"
+                  type="number"
+                  min={0}
+                  value={String(c.plate.maxMm)}
+                  onChange={(e) =>
+                    update(c.id, (x) => ({
+                      ...x,
+                      plate: { ...x.plate, maxMm: Math.max(0, num(e.target.value, 0)) },
+                    }))
+                  }
+                />
               </div>
             )}
             <p className="text-xs text-ink-600" data-testid="process-description">
               {descriptions[i]}
             </p>
             {candidates.length > 1 ? (
-              <Button variant="ghost" size="sm" onClick={() => setCandidates((cs) => cs.filter((x) => x.id !== c.id))}>
+              <Button
+                variant="ghost"
+                size="sm"
+                onClick={() => setCandidates((cs) => cs.filter((x) => x.id !== c.id))}
+              >
                 Remove
               </Button>
             ) : null}
@@ -200,10 +295,20 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
       <div className="flex flex-wrap items-end gap-2">
         {candidates.length < 6 ? (
           <>
-            <Button variant="secondary" size="sm" onClick={() => setCandidates((cs) => [...cs, uniformCandidate(design, "time", "Time / rate")])}>
+            <Button
+              variant="secondary"
+              size="sm"
+              onClick={() => setCandidates((cs) => [...cs, uniformCandidate(design, "time", "Time / rate")])}
+            >
               Add time control
             </Button>
-            <Button variant="secondary" size="sm" onClick={() => setCandidates((cs) => [...cs, uniformCandidate(design, "optical", "Optical monitoring")])}>
+            <Button
+              variant="secondary"
+              size="sm"
+              onClick={() =>
+                setCandidates((cs) => [...cs, uniformCandidate(design, "optical", "Optical monitoring")])
+              }
+            >
               Add optical monitoring
             </Button>
           </>
@@ -212,14 +317,19 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
 
       {anyOptical ? (
         <details className="rounded-lg border border-ink-100 p-3" open={design.layers.length <= 30}>
-          <summary className="cursor-pointer text-sm font-medium">Monitoring plan ({steps.filter((s) => s.criterion === "turning").length} turning points, {steps.filter((s) => s.criterion === "level").length} levels)</summary>
+          <summary className="cursor-pointer text-sm font-medium">
+            Monitoring plan ({steps.filter((s) => s.criterion === "turning").length} turning points,{" "}
+            {steps.filter((s) => s.criterion === "level").length} levels)
+          </summary>
           <div className="mt-2 flex flex-wrap items-end gap-3">
             <TextField
               label="Witness chip changed every (layers)"
               type="number"
               min={1}
               value={String(planState.witnessEvery)}
-              onChange={(e) => setPlan({ ...planState, witnessEvery: Math.max(1, Math.round(num(e.target.value, 4))) })}
+              onChange={(e) =>
+                setPlan({ ...planState, witnessEvery: Math.max(1, Math.round(num(e.target.value, 4))) })
+              }
               wrapperClassName="w-56"
             />
             <Button variant="ghost" size="sm" onClick={() => setPlan(defaultPlan(design))}>
@@ -228,30 +338,62 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
           </div>
           <div className="mt-2 max-h-72 overflow-auto">
             <table className="w-full text-xs" data-testid="monitoring-plan">
-              <caption className="sr-only">Monitoring plan per layer, used for layers under optical monitoring</caption>
+              <caption className="sr-only">
+                Monitoring plan per layer, used for layers under optical monitoring
+              </caption>
               <thead className="sticky top-0 bg-white text-left text-ink-700">
                 <tr>
-                  <th scope="col" className="px-1">Layer</th>
-                  <th scope="col" className="px-1">Wavelength (nm)</th>
-                  <th scope="col" className="px-1">Monitored on</th>
-                  <th scope="col" className="px-1">Cut</th>
+                  <th scope="col" className="px-1">
+                    Layer
+                  </th>
+                  <th scope="col" className="px-1">
+                    Wavelength (nm)
+                  </th>
+                  <th scope="col" className="px-1">
+                    Monitored on
+                  </th>
+                  <th scope="col" className="px-1">
+                    Cut
+                  </th>
                 </tr>
               </thead>
               <tbody>
                 {steps.map((s, j) => (
                   <tr key={j}>
-                    <th scope="row" className="px-1 text-left font-normal">{`L${j + 1} ${design.layers[j]?.material ?? ""}`}</th>
+                    <th
+                      scope="row"
+                      className="px-1 text-left font-normal"
+                    >{`L${j + 1} ${design.layers[j]?.material ?? ""}`}</th>
                     <td className="px-1">
-                      <input aria-label={`Layer ${j + 1} monitoring wavelength, nm`} type="number" min={1} className="w-24 rounded border border-ink-200 px-1" value={s.wavelength} onChange={(e) => setStep(j, { wavelength: Math.max(1, num(e.target.value, s.wavelength)) })} />
+                      <input
+                        aria-label={`Layer ${j + 1} monitoring wavelength, nm`}
+                        type="number"
+                        min={1}
+                        className="w-24 rounded border border-ink-200 px-1"
+                        value={s.wavelength}
+                        onChange={(e) =>
+                          setStep(j, { wavelength: Math.max(1, num(e.target.value, s.wavelength)) })
+                        }
+                      />
                     </td>
                     <td className="px-1">
-                      <select aria-label={`Layer ${j + 1} monitored on`} className="rounded border border-ink-200" value={s.on} onChange={(e) => setStep(j, { on: e.target.value as "part" | "witness" })}>
+                      <select
+                        aria-label={`Layer ${j + 1} monitored on`}
+                        className="rounded border border-ink-200"
+                        value={s.on}
+                        onChange={(e) => setStep(j, { on: e.target.value as "part" | "witness" })}
+                      >
                         <option value="part">part</option>
                         <option value="witness">witness chip</option>
                       </select>
                     </td>
                     <td className="px-1">
-                      <select aria-label={`Layer ${j + 1} cut criterion`} className="rounded border border-ink-200" value={s.criterion} onChange={(e) => setStep(j, { criterion: e.target.value as "turning" | "level" })}>
+                      <select
+                        aria-label={`Layer ${j + 1} cut criterion`}
+                        className="rounded border border-ink-200"
+                        value={s.criterion}
+                        onChange={(e) => setStep(j, { criterion: e.target.value as "turning" | "level" })}
+                      >
                         <option value="turning">turning point</option>
                         <option value="level">level</option>
                       </select>
@@ -265,7 +407,15 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
       ) : null}
 
       <div className="flex flex-wrap items-end gap-3">
-        <TextField label="Trials per process" type="number" min={100} max={200000} value={String(trials)} onChange={(e) => setTrials(Math.max(100, Math.min(200000, Math.round(num(e.target.value, 2000)))))} wrapperClassName="w-44" />
+        <TextField
+          label="Trials per process"
+          type="number"
+          min={100}
+          max={200000}
+          value={String(trials)}
+          onChange={(e) => setTrials(Math.max(100, Math.min(200000, Math.round(num(e.target.value, 2000)))))}
+          wrapperClassName="w-44"
+        />
         <p className="pb-2 text-xs text-ink-600">Seed {props.defaults.seed}</p>
         {running ? (
           <Button variant="secondary" onClick={() => worker.stop()}>
@@ -279,15 +429,28 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
       </div>
       {run.state === "running" ? (
         <div className="flex items-center gap-3 text-xs text-ink-700" data-testid="process-progress">
-          <progress className="h-2 flex-1 accent-film-teal" max={run.total} value={run.done} aria-label="Trials simulated" />
+          <progress
+            className="h-2 flex-1 accent-film-teal"
+            max={run.total}
+            value={run.done}
+            aria-label="Trials simulated"
+          />
           <span className="tabular" aria-live="polite">{`${run.done} / ${run.total} trials`}</span>
         </div>
       ) : null}
       {run.state === "cancelled" ? <Notice tone="info">Comparison cancelled.</Notice> : null}
-      {run.state === "error" ? <Notice tone="error" title="The comparison could not run">{run.message}</Notice> : null}
+      {run.state === "error" ? (
+        <Notice tone="error" title="The comparison could not run">
+          {run.message}
+        </Notice>
+      ) : null}
       {run.state === "done" ? (
         <div className="space-y-4" data-testid="process-results">
-          <YieldComparisonChart entries={run.entries} target={props.targetYield} width={Math.max(320, width)} />
+          <YieldComparisonChart
+            entries={run.entries}
+            target={props.targetYield}
+            width={Math.max(320, width)}
+          />
           <p className="text-xs text-ink-600">
             {`${run.study.trials} trials per process, seed ${run.study.seed}. Bars: yield; black line: 95 % Wilson interval; dashed red: the program's target.`}
           </p>

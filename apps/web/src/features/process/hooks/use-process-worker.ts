@@ -21,7 +21,10 @@ export function useProcessWorker(): { start: () => ProcessWorkerHandle; stop: ()
   }, []);
   const start = useCallback((): ProcessWorkerHandle => {
     current.current?.dispose();
-    const worker = new Worker(new URL("../../../workers/process.worker.ts", import.meta.url), { type: "module", name: "stackproof-process" });
+    const worker = new Worker(new URL("../../../workers/process.worker.ts", import.meta.url), {
+      type: "module",
+      name: "stackproof-process",
+    });
     let reject: (e: unknown) => void = () => {};
     const cancelled = new Promise<never>((_, r) => {
       reject = r;

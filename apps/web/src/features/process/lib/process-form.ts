@@ -56,10 +56,26 @@ export const METHOD_LABELS: Record<Method, string> = {
 /** Typical starting values of each method (1σ; common practice, no source). */
 export function defaultControl(method: Method): Control {
   if (method === "time")
-    return { method, rateErrorPct: 1, rateDriftPct: 0.5, driftCorrelation: 0.8, withinLayerPct: 0.3, indexDriftPct: 0, shutterNm: 0.3 };
+    return {
+      method,
+      rateErrorPct: 1,
+      rateDriftPct: 0.5,
+      driftCorrelation: 0.8,
+      withinLayerPct: 0.3,
+      indexDriftPct: 0,
+      shutterNm: 0.3,
+    };
   if (method === "crystal") return { method, toolingPct: 0.5, noisePct: 0.5, terminationNm: 0.3 };
   // detection threshold three times the noise: the engine's own default, written out so the editor shows it
-  return { method, signal: "T", noisePct: 0.3, detectionPct: 0.9, driftPct: 0, overshootNm: 0, overshootSigmaNm: 0.3 };
+  return {
+    method,
+    signal: "T",
+    noisePct: 0.3,
+    detectionPct: 0.9,
+    driftPct: 0,
+    overshootNm: 0,
+    overshootSigmaNm: 0.3,
+  };
 }
 
 export function materialsOf(design: Design): string[] {
@@ -71,13 +87,25 @@ const nextId = () => `c${++counter}`;
 
 /** A process candidate with the same method for every material. */
 export function uniformCandidate(design: Design, method: Method, label: string): Candidate {
-  return { id: nextId(), label, independent: false, controls: Object.fromEntries(materialsOf(design).map((m) => [m, defaultControl(method)])), plate: { a: 0, minMm: 0, maxMm: 0 } };
+  return {
+    id: nextId(),
+    label,
+    independent: false,
+    controls: Object.fromEntries(materialsOf(design).map((m) => [m, defaultControl(method)])),
+    plate: { a: 0, minMm: 0, maxMm: 0 },
+  };
 }
 
 /** The starting comparison: independent errors, quartz crystal, optical monitoring. */
 export function defaultCandidates(design: Design): Candidate[] {
   return [
-    { id: nextId(), label: "Independent errors (program model)", independent: true, controls: {}, plate: { a: 0, minMm: 0, maxMm: 0 } },
+    {
+      id: nextId(),
+      label: "Independent errors (program model)",
+      independent: true,
+      controls: {},
+      plate: { a: 0, minMm: 0, maxMm: 0 },
+    },
     uniformCandidate(design, "crystal", "Quartz crystal"),
     uniformCandidate(design, "optical", "Optical monitoring"),
   ];
@@ -88,7 +116,14 @@ export function defaultPlan(design: Design): PlanState {
   try {
     return { steps: defaultMonitoringPlan(design), witnessEvery: 4 };
   } catch {
-    return { steps: design.layers.map(() => ({ wavelength: design.referenceWavelength, on: "part", criterion: "level" })), witnessEvery: 4 };
+    return {
+      steps: design.layers.map(() => ({
+        wavelength: design.referenceWavelength,
+        on: "part",
+        criterion: "level",
+      })),
+      witnessEvery: 4,
+    };
   }
 }
 
@@ -98,7 +133,11 @@ export function toProcess(c: Candidate, plan: PlanState, design: Design): Proces
   const controls = materialsOf(design).map((m) => [m, c.controls[m] ?? defaultControl("crystal")] as const);
   const optical = controls.some(([, x]) => x.method === "optical");
   const steps = plan.steps.length === design.layers.length ? plan.steps : defaultPlan(design).steps;
-  const witness = optical && steps.some((s, j) => s.on === "witness" && c.controls[design.layers[j]?.material ?? ""]?.method === "optical");
+  const witness =
+    optical &&
+    steps.some(
+      (s, j) => s.on === "witness" && c.controls[design.layers[j]?.material ?? ""]?.method === "optical",
+    );
   return {
     version: 1,
     label: c.label,
@@ -109,7 +148,10 @@ export function toProcess(c: Candidate, plan: PlanState, design: Design): Proces
       ? {
           uniformity: {
             a: c.plate.a,
-            radiusMm: { min: Math.max(0, Math.min(c.plate.minMm, c.plate.maxMm)), max: Math.max(0, c.plate.minMm, c.plate.maxMm) },
+            radiusMm: {
+              min: Math.max(0, Math.min(c.plate.minMm, c.plate.maxMm)),
+              max: Math.max(0, c.plate.minMm, c.plate.maxMm),
+            },
             referenceRadiusMm: 0,
           },
         }
