@@ -34,7 +34,7 @@ describe("process comparison (designer)", () => {
     await page.waitForURL(/\/designs\/[^/]+\/revisions\/[^/]+$/);
     await page.getByRole("tab", { name: "Process" }).click();
     expect(await page.getByTestId("process-candidate").count()).toBe(3);
-    await page.getByLabel("Trials per process").fill("300");
+    await page.getByLabel("Simulated builds per process").fill("300");
     await page.getByTestId("run-process-comparison").click();
     await page.getByTestId("process-results").waitFor({ timeout: 240_000 });
     expect(await page.getByTestId("process-yield-chart").locator("rect").count()).toBeGreaterThanOrEqual(3);
@@ -102,7 +102,7 @@ describe("process comparison (designer)", () => {
 
   it("cancels a running comparison", async () => {
     const { page } = browser;
-    await page.getByLabel("Trials per process").fill("50000");
+    await page.getByLabel("Simulated builds per process").fill("50000");
     await page.getByTestId("run-process-comparison").click();
     await page.getByTestId("process-progress").waitFor();
     await page.getByRole("button", { name: "Cancel" }).click();

@@ -189,7 +189,7 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
               Process {i + 1}
             </legend>
             <TextField
-              label="Name"
+              label="Process name"
               value={c.label}
               onChange={(e) => update(c.id, (x) => ({ ...x, label: e.target.value }))}
             />
@@ -408,7 +408,7 @@ export const ProcessPanel = memo(function ProcessPanel(props: ProcessPanelProps)
 
       <div className="flex flex-wrap items-end gap-3">
         <TextField
-          label="Trials per process"
+          label="Simulated builds per process"
           type="number"
           min={100}
           max={200000}
