@@ -9,7 +9,9 @@ import {
   describeProcess,
   monitoringTraces,
   processErrorStats,
+  resolveControl,
 } from "../../src/studies/process/index.ts";
+import type { Control } from "../../src/studies/process/index.ts";
 import { TrialRandom } from "../../src/studies/random.ts";
 import { qwotDesign } from "./fixtures.ts";
 
@@ -368,8 +370,15 @@ describe("process model: format", () => {
         plan: [{ wavelength: 905, criterion: "turning" }],
       },
     });
-    expect(m.process?.version).toBe(1);
-    expect(m.process?.plan?.[0]?.on).toBe("part");
+    // parsing keeps what was written (input and output types of an error model are the same); the
+    // defaults (version 1, monitored on the part, parameters 0) are filled where the model is used
+    expect(m.process?.plan?.[0]).toEqual({ wavelength: 905, criterion: "turning" });
+    expect(resolveControl(m.process!.control as Control)).toMatchObject({
+      method: "optical",
+      signal: "T",
+      noisePct: 0.5,
+      driftPct: 0,
+    });
     expect(() => parseErrorModel({ ...old, process: { control: { method: "plasma" } } })).toThrow(RangeError);
     expect(() =>
       parseErrorModel({ ...old, process: { control: { method: "optical", noisePct: -1 } } }),

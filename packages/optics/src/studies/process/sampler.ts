@@ -21,7 +21,8 @@ import {
 } from "./monitor.ts";
 import type { GrowthCurve, MonitorVector } from "./monitor.ts";
 import { ProcessModelSchema } from "./schema.ts";
-import type { Control, MonitoringStep, ProcessModel } from "./schema.ts";
+import { resolveControl } from "./schema.ts";
+import type { Control, MonitoringStep, ProcessModel, ResolvedControl } from "./schema.ts";
 
 /**
  * Largest distance, in QWOT at the monitoring wavelength, between a layer's nominal end and a turning
@@ -143,11 +144,11 @@ export function createProcessSampler(model: ErrorModel, design: Design): Process
   const materials = [...new Set(layerMaterials)].sort();
   const M = materials.length;
   const materialOf = Int32Array.from(layerMaterials, (m) => materials.indexOf(m));
-  const controls: Control[] = materials.map((m) => {
-    if ("method" in process.control) return process.control as Control;
+  const controls: ResolvedControl[] = materials.map((m) => {
+    if ("method" in process.control) return resolveControl(process.control as Control);
     const c = (process.control as Record<string, Control>)[m];
     if (!c) throw new RangeError(`errorModel.process.control: no control for material ${JSON.stringify(m)}`);
-    return c;
+    return resolveControl(c);
   });
   if (!("method" in process.control)) {
     for (const id of Object.keys(process.control))
@@ -198,7 +199,8 @@ export function createProcessSampler(model: ErrorModel, design: Design): Process
 
   // Uniformity: realised thickness on the part = controlled thickness · u(r) / u(r_ref).
   const uni = process.uniformity;
-  const uRef = uni ? 1 + uni.a * uni.referenceRadiusMm * uni.referenceRadiusMm : 1;
+  const rRef = uni?.referenceRadiusMm ?? 0;
+  const uRef = uni ? 1 + uni.a * rRef * rRef : 1;
   if (uni && !(uRef > 0))
     throw new RangeError(`errorModel.process.uniformity: 1 + a·r_ref² must be > 0, got ${uRef}`);
 
@@ -360,7 +362,7 @@ export function createProcessSampler(model: ErrorModel, design: Design): Process
       layer: j,
       material: layerMaterials[j] as string,
       wavelength: sl.lambda,
-      on: step.on,
+      on: step.on ?? "part",
       criterion: step.criterion,
       signal,
       thickness,

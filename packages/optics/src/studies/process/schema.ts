@@ -21,70 +21,99 @@ const pct = z.number().min(0).max(50);
  * - indexDriftPct: index drift per material, the same autoregressive process (same ρ) on the whole N.
  * - shutterNm: shutter timing error per layer, nm.
  */
-export const TimeControlSchema = z.object({
-  method: z.literal("time"),
-  rateErrorPct: pct.default(0),
-  rateDriftPct: pct.default(0),
-  driftCorrelation: z.number().min(0).max(0.9999).default(0.9),
-  withinLayerPct: pct.default(0),
-  indexDriftPct: pct.default(0),
-  shutterNm: z.number().min(0).max(100).default(0),
-});
+// Each control schema is built twice: the public one (every parameter optional, so an error model's input
+// and output types stay identical) and the resolved one that fills the documented defaults.
+function controlSchemas<R extends boolean>(resolved: R) {
+  const d = <S extends z.ZodType>(schema: S, value: z.output<S>) =>
+    (resolved ? schema.default(value as never) : schema.optional()) as R extends true
+      ? z.ZodDefault<S>
+      : z.ZodOptional<S>;
+  const time = z.object({
+    method: z.literal("time"),
+    rateErrorPct: d(pct, 0),
+    rateDriftPct: d(pct, 0),
+    driftCorrelation: d(z.number().min(0).max(0.9999), 0.9),
+    withinLayerPct: d(pct, 0),
+    indexDriftPct: d(pct, 0),
+    shutterNm: d(z.number().min(0).max(100), 0),
+  });
+  const crystal = z.object({
+    method: z.literal("crystal"),
+    toolingPct: d(pct, 0),
+    noisePct: d(pct, 0),
+    terminationNm: d(z.number().min(0).max(100), 0),
+  });
+  const optical = z.object({
+    method: z.literal("optical"),
+    signal: d(z.enum(["T", "R"]), "T"),
+    noisePct: d(pct, 0),
+    detectionPct: pct.optional(),
+    driftPct: d(pct, 0),
+    overshootNm: d(z.number().min(-100).max(100), 0),
+    overshootSigmaNm: d(z.number().min(0).max(100), 0),
+  });
+  return { time, crystal, optical, control: z.discriminatedUnion("method", [time, crystal, optical]) };
+}
+
+const publicControls = controlSchemas(false);
+const resolvedControls = controlSchemas(true);
 
 /**
- * Quartz-crystal control: the crystal's thickness reading, scaled by the material's tooling factor.
+ * Time / rate control: the layer stops after the time computed from the nominal rate (defaults 0, ρ 0.9).
+ * - rateErrorPct: rate calibration error per material per run (same for every layer of that material).
+ * - rateDriftPct, driftCorrelation: slow rate drift per material source, a stationary first-order
+ *   autoregressive process x_j = ρ x_{j−1} + √(1 − ρ²) σ z_j stepped once per deposited layer
+ *   (ρ = driftCorrelation, σ = rateDriftPct / 100), so the rate of consecutive layers is correlated.
+ * - withinLayerPct: the layer-average of fast rate fluctuations inside one layer (independent per layer).
+ * - indexDriftPct: index drift per material, the same autoregressive process (same ρ) on the whole N.
+ * - shutterNm: shutter timing error per layer, nm.
+ */
+export const TimeControlSchema = publicControls.time;
+
+/**
+ * Quartz-crystal control (defaults 0):
  * - toolingPct: tooling-factor error per material per run (every layer of the material, one draw per run).
  * - noisePct: crystal noise per layer (relative, independent per layer).
  * - terminationNm: termination error per layer, nm.
  */
-export const CrystalControlSchema = z.object({
-  method: z.literal("crystal"),
-  toolingPct: pct.default(0),
-  noisePct: pct.default(0),
-  terminationNm: z.number().min(0).max(100).default(0),
-});
+export const CrystalControlSchema = publicControls.crystal;
 
 /**
  * Optical monitoring: a photometer watches the signal of the part (or a witness chip) at the layer's
  * monitoring wavelength while the layer grows on the stack as actually built; the layer stops where the
  * noisy criterion of the monitoring plan fires.
- * - signal: "T" or "R" of the monitored chip at normal incidence (front surface only).
+ * - signal: "T" (default) or "R" of the monitored chip at normal incidence (front surface only).
  * - noisePct: photometric noise, σ in % of the signal.
  * - detectionPct: turning-point detection threshold, % of the signal at the extremum: the cut happens
  *   when the noisy signal has retreated this far from the extremum. Default 3 × noisePct.
- * - driftPct: photometer gain drift, σ in % per layer, a random walk from the start of the run.
+ * - driftPct: photometer gain drift, σ in % per monitored layer, a random walk from the start of the run.
  * - overshootNm, overshootSigmaNm: termination overshoot (shutter delay × rate), mean and σ, nm.
  */
-export const OpticalControlSchema = z.object({
-  method: z.literal("optical"),
-  signal: z.enum(["T", "R"]).default("T"),
-  noisePct: pct.default(0),
-  detectionPct: pct.optional(),
-  driftPct: pct.default(0),
-  overshootNm: z.number().min(-100).max(100).default(0),
-  overshootSigmaNm: z.number().min(0).max(100).default(0),
-});
+export const OpticalControlSchema = publicControls.optical;
 
-/** One control method with its parameters, discriminated on `method`. */
-export const ControlSchema = z.discriminatedUnion("method", [
-  TimeControlSchema,
-  CrystalControlSchema,
-  OpticalControlSchema,
-]);
+/** One control method with its parameters, discriminated on `method` (omitted parameters take their defaults). */
+export const ControlSchema = publicControls.control;
 export type Control = z.output<typeof ControlSchema>;
-export type TimeControl = z.output<typeof TimeControlSchema>;
-export type CrystalControl = z.output<typeof CrystalControlSchema>;
-export type OpticalControl = z.output<typeof OpticalControlSchema>;
+/** A control with every default filled in. */
+export type ResolvedControl = z.output<typeof resolvedControls.control>;
+export type TimeControl = z.output<typeof resolvedControls.time>;
+export type CrystalControl = z.output<typeof resolvedControls.crystal>;
+export type OpticalControl = z.output<typeof resolvedControls.optical>;
+
+/** Fill the documented defaults of a control. */
+export function resolveControl(c: Control): ResolvedControl {
+  return resolvedControls.control.parse(c);
+}
 
 /**
  * Monitoring of one layer (used only for layers whose material is under optical control):
- * wavelength (nm, vacuum), where (the part itself or the witness chip in place) and the cut criterion
+ * wavelength (nm, vacuum), where (the part itself, the default, or the witness chip in place) and the cut criterion
  * ("turning": stop at the turning point the nominal layer ends on; "level": stop where the signal
  * reaches the trigger value, the nominal stack's signal at the nominal thickness).
  */
 export const MonitoringStepSchema = z.object({
   wavelength: z.number().positive().max(100000),
-  on: z.enum(["part", "witness"]).default("part"),
+  on: z.enum(["part", "witness"]).optional(),
   criterion: z.enum(["turning", "level"]),
 });
 export type MonitoringStep = z.output<typeof MonitoringStepSchema>;
@@ -93,7 +122,7 @@ export type MonitoringStep = z.output<typeof MonitoringStepSchema>;
  * Chamber uniformity: the thickness at radius r (mm) is proportional to 1 + a·r² (a in 1/mm²). The
  * process is calibrated (crystal tooling, or the monitored chip/part) at `referenceRadiusMm`; the part
  * sits at `radiusMm`, a fixed radius or a range [min, max] over which parts are spread uniformly by
- * plate area (one position drawn per trial: the yield is then the yield across the plate).
+ * plate area (one position drawn per trial; referenceRadiusMm defaults to 0: the yield is then the yield across the plate).
  */
 export const UniformitySchema = z.object({
   a: z.number().min(-1).max(1),
@@ -103,7 +132,7 @@ export const UniformitySchema = z.object({
       .object({ min: z.number().min(0).max(5000), max: z.number().min(0).max(5000) })
       .refine((r) => r.max >= r.min, { error: "expected max ≥ min", path: ["max"] }),
   ]),
-  referenceRadiusMm: z.number().min(0).max(5000).default(0),
+  referenceRadiusMm: z.number().min(0).max(5000).optional(),
 });
 export type Uniformity = z.output<typeof UniformitySchema>;
 
@@ -111,7 +140,7 @@ export type Uniformity = z.output<typeof UniformitySchema>;
 export const PROCESS_VERSION = 1;
 
 /**
- * A process model (version 1).
+ * A process model (version 1; `version` may be omitted and then means 1).
  * - control: one control for every material, or a record naming each material of the design.
  * - plan: per layer (deposition order) the monitoring step; required length = number of layers when
  *   given; when absent and a material is optically monitored, {@link defaultMonitoringPlan} is used.
@@ -120,7 +149,7 @@ export const PROCESS_VERSION = 1;
  * - uniformity: radial thickness profile and the part's position.
  */
 export const ProcessModelSchema = z.object({
-  version: z.literal(PROCESS_VERSION).default(PROCESS_VERSION),
+  version: z.literal(PROCESS_VERSION).optional(),
   label: z.string().max(200).optional(),
   control: z.union([ControlSchema, z.record(z.string(), ControlSchema)]),
   plan: z.array(MonitoringStepSchema).max(10000).optional(),
@@ -137,7 +166,8 @@ export type ProcessModelInput = z.input<typeof ProcessModelSchema>;
 
 const fmt = (v: number): string => String(Number(v.toPrecision(3)));
 
-function describeControl(c: Control, plan: readonly MonitoringStep[] | undefined): string {
+function describeControl(input: Control, plan: readonly MonitoringStep[] | undefined): string {
+  const c = resolveControl(input);
   if (c.method === "time") {
     const parts = [`rate error ${fmt(c.rateErrorPct)} %`];
     if (c.rateDriftPct > 0)
@@ -159,7 +189,7 @@ function describeControl(c: Control, plan: readonly MonitoringStep[] | undefined
   if (plan && plan.length > 0) {
     const groups = new Map<string, number>();
     for (const s of plan) {
-      const key = `${s.criterion === "turning" ? "turning points" : "levels"} at ${fmt(s.wavelength)} nm on the ${s.on === "part" ? "part" : "witness chip"}`;
+      const key = `${s.criterion === "turning" ? "turning points" : "levels"} at ${fmt(s.wavelength)} nm on the ${s.on === "witness" ? "witness chip" : "part"}`;
       groups.set(key, (groups.get(key) ?? 0) + 1);
     }
     const sorted = [...groups.entries()].sort((a, b) => b[1] - a[1]);
@@ -220,7 +250,7 @@ export function describeProcess(model: ProcessModelInput | ErrorModelLike): stri
       typeof u.radiusMm === "number"
         ? `${fmt(u.radiusMm)} mm`
         : `${fmt(u.radiusMm.min)}–${fmt(u.radiusMm.max)} mm`;
-    text += `; uniformity 1 + ${u.a.toExponential(2)}·r² (r in mm), part at ${r}, calibrated at ${fmt(u.referenceRadiusMm)} mm`;
+    text += `; uniformity 1 + ${u.a.toExponential(2)}·r² (r in mm), part at ${r}, calibrated at ${fmt(u.referenceRadiusMm ?? 0)} mm`;
   }
   return text;
 }
@@ -250,7 +280,8 @@ function indexSuffix(m: ErrorModelLike): string {
   return parts.length ? `; ${parts.join(", ")}` : "";
 }
 
-function scaleControl(c: Control, s: number): Control {
+function scaleControl(input: Control, s: number): Control {
+  const c = resolveControl(input);
   if (c.method === "time")
     return {
       ...c,
