@@ -1,0 +1,3 @@
+// As-built analysis: fits of measured parts, lot verdicts, calibration of the process model, witness films.
+export * from "./measurement.ts";
+export * from "./fit.ts";
