@@ -10,3 +10,4 @@ export * from "./refine.ts";
 export * from "./fit.ts";
 export * from "./sensitivity.ts";
 export { parseWith, describeValue } from "./validate.ts";
+export * from "./asbuilt/index.ts";
