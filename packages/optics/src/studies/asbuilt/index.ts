@@ -3,3 +3,4 @@ export * from "./measurement.ts";
 export * from "./fit.ts";
 export * from "./verdict.ts";
 export * from "./calibrate.ts";
+export * from "./film.ts";
