@@ -47,8 +47,8 @@ function lotCsv(sep: string, decimalComma: boolean, fraction: boolean) {
   return lines.join("\r\n") + "\r\n";
 }
 
-const lotFields = (req: ReturnType<Team["members"]["designer"]["agent"]["post"]>, extra: Record<string, string> = {}) => {
-  const fields: Record<string, string> = {
+const lotFields = (req: ReturnType<Team["members"]["designer"]["agent"]["post"]>, extra: Record<string, string | undefined> = {}) => {
+  const fields: Record<string, string | undefined> = {
     runId: "R-2026-118",
     runDate: "2026-11-30",
     chamber: "Box coater 2",
@@ -59,7 +59,7 @@ const lotFields = (req: ReturnType<Team["members"]["designer"]["agent"]["post"]>
     scale: "percent",
     ...extra,
   };
-  for (const [k, v] of Object.entries(fields)) req.field(k, v);
+  for (const [k, v] of Object.entries(fields)) if (v !== undefined) req.field(k, v);
   return req;
 };
 
@@ -137,7 +137,7 @@ describe("lot upload", () => {
 });
 
 describe("refusals store nothing", () => {
-  const refuse = async (csv: string, extra: Record<string, string>, status: number, message: RegExp) => {
+  const refuse = async (csv: string, extra: Record<string, string | undefined>, status: number, message: RegExp) => {
     const before = snapshot();
     const res = await lotFields(team.members.designer.agent.post(`${API}/revisions/${revisionId}/lots`), extra)
       .attach("file", Buffer.from(csv), "bad.csv")
@@ -151,6 +151,8 @@ describe("refusals store nothing", () => {
   it("no wavelength column", () => refuse("x;P1\n500;1\n600;2\n", {}, 422, /no wavelength column/));
   it("wavelengths out of order", () => refuse("nm,P1\n500,1\n600,2\n550,1\n", {}, 422, /strictly ascending or strictly descending/));
   it("a column named twice", () => refuse("nm,P1,P1\n500,1,1\n600,2,2\n", {}, 422, /appears twice/));
+  it("no confirmed scale (percent or fraction)", () => refuse(lotCsv(",", false, false), { scale: undefined }, 400, /scale.*required/));
+  it("no run id", () => refuse(lotCsv(",", false, false), { runId: undefined }, 400, /runId.*required/));
   it("a bad run date", () => refuse(lotCsv(",", false, false), { runDate: "30.11.2026" }, 400, /YYYY-MM-DD/));
   it("a band outside the measured range is not a pass (part incomplete), and the upload is stored honestly", async () => {
     const res = await lotFields(team.members.designer.agent.post(`${API}/revisions/${revisionId}/lots`), { angleDeg: "45" })

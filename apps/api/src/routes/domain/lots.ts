@@ -36,8 +36,9 @@ const TAG = "Measured lots";
 
 const SpectraFields = {
   file: fileField("Spectrophotometer CSV: a wavelength column and one column per part (at most 1 MB)"),
-  scale: z.enum(["percent", "fraction"]).meta({ description: "How the values are written; POST /lots/preview detects it for the user to confirm" }),
-  quantity: z.enum(["R", "T"]),
+  // required, but checked after the lot or revision is found (another workspace gets 404 before any 400)
+  scale: z.enum(["percent", "fraction"]).optional().meta({ description: "Required: how the values are written; POST /lots/preview detects it for the user to confirm" }),
+  quantity: z.enum(["R", "T"]).optional().meta({ description: "Required" }),
   angleDeg: z.coerce.number().min(0).lt(90).default(0),
   polarization: z.enum(["s", "p", "u"]).default("u"),
   uncertaintyPct: z.coerce.number().positive().max(50).default(0.2),
@@ -45,8 +46,8 @@ const SpectraFields = {
 
 const LotBody = z.object({
   ...SpectraFields,
-  runId: z.string().trim().min(1).max(100),
-  runDate: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: "use YYYY-MM-DD" }),
+  runId: z.string().trim().min(1).max(100).optional().meta({ description: "Required" }),
+  runDate: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: "use YYYY-MM-DD" }).optional().meta({ description: "Required" }),
   chamber: z.string().trim().max(100).default(""),
   notes: z.string().trim().max(2000).default(""),
   guardK: z.coerce.number().min(0).max(5).default(2),
@@ -76,14 +77,22 @@ const LotOut = z.object({
   parts: z.array(PartOut).optional(),
 });
 
+/** The required fields the schema leaves optional (so that scoping answers first). */
+function required<T>(value: T | undefined, name: string, expected: string): T {
+  if (value === undefined)
+    throw new HttpError(400, "validation_failed", `body.${name}: required field is missing (expected ${expected})`, [{ path: name, message: `required: ${expected}` }]);
+  return value;
+}
+
 function partsFrom(table: SpectraTable, body: z.output<z.ZodObject<typeof SpectraFields>>, fileName: string): MeasuredPart[] {
+  const quantity = required(body.quantity, "quantity", '"R" or "T"');
   return table.columns.map((c) => ({
     id: c.name,
     measurements: [
       {
         wavelengths: table.wavelengths,
         values: c.values,
-        quantity: body.quantity,
+        quantity,
         angleDeg: body.angleDeg,
         polarization: body.polarization,
         uncertaintyPct: body.uncertaintyPct,
@@ -189,14 +198,18 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
     ({ req, params, body }) => {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
+      const scale = required(body.scale, "scale", '"percent" or "fraction"');
+      required(body.quantity, "quantity", '"R" or "T"');
+      const runId = required(body.runId, "runId", "the chamber's run id");
+      const runDate = required(body.runDate, "runDate", "a date YYYY-MM-DD");
       const file = uploadedText(req);
-      const table = parseSpectraTable(file.text, body.scale);
+      const table = parseSpectraTable(file.text, scale);
       const id = createLot(
         ctx.db,
         auth.workspaceId,
         auth.user,
         rc,
-        { runId: body.runId, runDate: body.runDate, chamber: body.chamber, notes: body.notes, guardK: body.guardK },
+        { runId, runDate, chamber: body.chamber, notes: body.notes, guardK: body.guardK },
         partsFrom(table, body, file.name),
       );
       return lotView(loadLot(auth.workspaceId, id), true);
@@ -222,8 +235,10 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       const auth = getAuth(req);
       const lot = loadLot(auth.workspaceId, params.id);
       const rc = loadRevision(ctx.db, auth.workspaceId, lot.revisionId);
+      const scale = required(body.scale, "scale", '"percent" or "fraction"');
+      required(body.quantity, "quantity", '"R" or "T"');
       const file = uploadedText(req);
-      const table = parseSpectraTable(file.text, body.scale);
+      const table = parseSpectraTable(file.text, scale);
       addSpectra(ctx.db, auth.workspaceId, auth.user, rc, lot, partsFrom(table, body, file.name));
       return lotView(loadLot(auth.workspaceId, lot.id), true);
     },
