@@ -135,6 +135,26 @@ describe("fitBuiltPart: joint fits, global stage, baseline", () => {
     for (const p of fit.models[0]!.parameters) expect(p.value).toBeCloseTo(0.02, 4);
   });
 
+  it("reports progress by stage and stops when asked (the web's cancel terminates the worker instead)", () => {
+    const d = bandpass905();
+    const wl = grid(850, 960, 2);
+    const T = referenceSpectrum(d, wl, "T", 0, "u", () => 1.01);
+    const stages: string[] = [];
+    const fractions: number[] = [];
+    fitBuiltPart(d, [meas(wl, T, "T")], {
+      errorModel: { thickness: { relativePct: 0.5, absoluteNm: 0, distribution: "normal" } },
+      onProgress: (f, s) => {
+        fractions.push(f);
+        stages.push(s);
+      },
+    });
+    expect(stages).toEqual(["scan", "tooling", "tooling+index", "layers", "done"]);
+    expect(fractions[fractions.length - 1]).toBe(1);
+    expect([...fractions].sort((a, b) => a - b)).toEqual(fractions);
+    let calls = 0;
+    expect(() => fitBuiltPart(d, [meas(wl, T, "T")], { shouldStop: () => ++calls > 20 })).toThrow(/fit cancelled/);
+  });
+
   it("refuses bad input with a RangeError naming the value", () => {
     const d = bandpass905();
     expect(() => fitBuiltPart(d, [])).toThrow(/measurements: expected at least one/);

@@ -154,7 +154,11 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
           </div>
           {!props.errorModel ? <p className="text-xs text-ink-500">Without the program’s error model only the tooling models are fitted.</p> : null}
           {job.state.s === "error" ? <p role="alert" className="text-xs text-verdict-fail">{job.state.message}</p> : null}
-          {fitted ? <FitReport fit={fitted} width={Math.min(props.width, 620)} /> : null}
+          {fitted ? (
+            <div data-testid="asbuilt-worker-fit">
+              <FitReport fit={fitted} width={Math.min(props.width, 620)} />
+            </div>
+          ) : null}
         </div>
       ) : null}
       {m && typeof model === "string" ? <p role="alert" className="text-xs text-verdict-fail">The model cannot be evaluated at the measured wavelengths: {model}</p> : null}
