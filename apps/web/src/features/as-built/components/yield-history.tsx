@@ -65,6 +65,8 @@ function HistoryChart({ history, width }: { history: CalibrationView["history"];
   const x = scaleLinear<number>({ domain: t0 === t1 ? [t0 - 864e5, t1 + 864e5] : [t0, t1], range: [0, iw] });
   const y = scaleLinear<number>({ domain: [0, 100], range: [ih, 0] });
   const idx = history.map((_, i) => i);
+  // one tick per run date while they fit; sub-day ticks would repeat the same date
+  const days = [...new Set(t)].sort((a, b) => a - b);
   const pred = idx.filter((i) => history[i]!.summary.predicted);
   const act = idx.filter((i) => history[i]!.summary.yield !== null);
   return (
@@ -88,7 +90,7 @@ function HistoryChart({ history, width }: { history: CalibrationView["history"];
           );
         })}
         <AxisLeft scale={y} numTicks={5} label="Yield (%)" labelOffset={28} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "end", dx: -2, dy: 3 }} labelProps={{ fontSize: 11, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
-        <AxisBottom top={ih} scale={x} numTicks={5} tickFormat={(v) => new Date(Number(v)).toISOString().slice(0, 10)} label="Run date — grey dashed: predicted; amber: actual with 95 % interval" labelOffset={10} tickLabelProps={{ fontSize: 9, fill: "#2c4669", textAnchor: "middle" }} labelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
+        <AxisBottom top={ih} scale={x} tickValues={days.length > 8 ? undefined : days} numTicks={5} tickFormat={(v) => new Date(Number(v)).toISOString().slice(0, 10)} label="Run date — grey dashed: predicted; amber: actual with 95 % interval" labelOffset={10} tickLabelProps={{ fontSize: 9, fill: "#2c4669", textAnchor: "middle" }} labelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
       </Group>
     </svg>
   );
