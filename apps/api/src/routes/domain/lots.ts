@@ -3,19 +3,13 @@
 import type { Router } from "express";
 import { asc, desc, eq, and } from "drizzle-orm";
 import { z } from "zod";
-import {
-  ErrorModelSchema,
-  fitBuiltPart,
-  fitWitnessFilm,
-  parseErrorModel,
-  type BuiltFitResult,
-  type MeasuredPart,
-  type MeasuredSpectrum,
-} from "@stackproof/optics";
+import { ErrorModelSchema, parseErrorModel, type MeasuredPart, type MeasuredSpectrum } from "@stackproof/optics";
+import { fitFilmOffThread, fitPartOffThread } from "../../asbuilt/index.ts";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
-import { measuredLots, measuredParts } from "../../db/schema.ts";
-import { HttpError, notFound } from "../../lib/errors.ts";
+import { materials, measuredLots, measuredParts } from "../../db/schema.ts";
+import { isBuiltIn } from "../../domain/materials.ts";
+import { HttpError, conflict, notFound } from "../../lib/errors.ts";
 import { route } from "../../lib/route.ts";
 import { loadProgram, loadRevision, maskOf, stackOf } from "../../domain/load.ts";
 import {
@@ -306,23 +300,24 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       response: PartOut,
       errors: { 400: "Bad input (the message names it)", 404: "No such part" },
     },
-    ({ req, params, body }) => {
+    async ({ req, params, body }) => {
       const auth = getAuth(req);
       const part = ctx.db.select().from(measuredParts).where(eq(measuredParts.id, params.id)).get();
       if (!part) throw notFound("Part");
       const lot = loadLot(auth.workspaceId, part.lotId);
       const rc = loadRevision(ctx.db, auth.workspaceId, lot.revisionId);
-      let fit: BuiltFitResult;
+      let errorModel;
       try {
-        fit = fitBuiltPart(stackOf(rc.revision), part.measurements as MeasuredSpectrum[], {
-          errorModel: parseErrorModel(rc.program.errorModel),
-          fitIndexScale: body.fitIndexScale,
-          baseline: body.baseline,
-        });
+        errorModel = parseErrorModel(rc.program.errorModel);
       } catch (err) {
         if (err instanceof RangeError) throw new HttpError(400, "invalid_input", err.message);
         throw err;
       }
+      const fit = await fitPartOffThread(stackOf(rc.revision), part.measurements as MeasuredSpectrum[], {
+        errorModel,
+        fitIndexScale: body.fitIndexScale,
+        baseline: body.baseline,
+      });
       storePartFit(ctx.db, auth.workspaceId, auth.user, lot, part, fit);
       return partView(ctx.db.select().from(measuredParts).where(eq(measuredParts.id, part.id)).get()!);
     },
@@ -388,7 +383,7 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       response: z.object({ materialId: z.string(), fit: z.unknown() }),
       errors: { 400: "Bad field (the message names it)", 409: "The id is taken", 422: "Bad file" },
     },
-    ({ req, body }) => {
+    async ({ req, body }) => {
       const auth = getAuth(req);
       const file = uploadedText(req);
       const table = parseSpectraTable(file.text, body.scale, "witness film");
@@ -406,20 +401,17 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
         polarization: "u",
         uncertaintyPct: body.uncertaintyPct,
       }));
-      let fit;
-      try {
-        fit = fitWitnessFilm(ms, {
-          substrate: body.substrate,
-          substrateThicknessMm: body.substrateThicknessMm,
-          backside: body.backside === "true",
-          thicknessRangeNm: [body.minThicknessNm, body.maxThicknessNm],
-          materialId: body.id,
-          materialName: body.name,
-        });
-      } catch (err) {
-        if (err instanceof RangeError) throw new HttpError(400, "invalid_input", err.message);
-        throw err;
-      }
+      // a taken id is refused before the fit runs (and again, atomically, when storing)
+      if (isBuiltIn(body.id) || ctx.db.select({ id: materials.id }).from(materials).where(and(eq(materials.workspaceId, auth.workspaceId), eq(materials.materialId, body.id))).get())
+        throw conflict(`The material id "${body.id}" is taken; materials are not replaced, choose another id.`);
+      const fit = await fitFilmOffThread(ms, {
+        substrate: body.substrate,
+        substrateThicknessMm: body.substrateThicknessMm,
+        backside: body.backside === "true",
+        thicknessRangeNm: [body.minThicknessNm, body.maxThicknessNm],
+        materialId: body.id,
+        materialName: body.name,
+      });
       storeFilmMaterial(ctx.db, auth.workspaceId, auth.user, body.id, body.name, fit, file.name);
       return { materialId: body.id, fit: { ...fit, fitted: undefined } };
     },
