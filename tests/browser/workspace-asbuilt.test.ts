@@ -72,6 +72,7 @@ describe("as built (designer)", () => {
     await report.waitFor({ timeout: 60_000 });
     await expect(report.innerText()).resolves.toMatch(/Tooling \(thickness scale per material\) — chosen/);
     await expect(report.innerText()).resolves.toMatch(/tooling Ta2O5: \+1\.50 %/);
+    await page.getByTestId("part-spectrum").waitFor();
     await browser.screenshot("asbuilt-2-part-fit");
   });
 

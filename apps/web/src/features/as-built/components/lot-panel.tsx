@@ -2,7 +2,11 @@
 // the lot table with per-part, per-band verdicts, actual yield next to predicted, and server fits of parts.
 import { useState } from "react";
 import type { FormEvent } from "react";
-import type { Design } from "@stackproof/optics";
+import type { Design, MeasuredSpectrum } from "@stackproof/optics";
+import { scaleLinear } from "@visx/scale";
+import { LinePath, Line } from "@visx/shape";
+import { AxisBottom, AxisLeft } from "@visx/axis";
+import { Group } from "@visx/group";
 import { ApiError } from "../../../lib/api-client.ts";
 import { useFitPart, useLot, usePreviewSpectra, useProgramLots, useUploadLot, type Lot, type SpectraPreview } from "../api/lots.ts";
 import { FitReport } from "./fit-report.tsx";
@@ -119,7 +123,14 @@ function LotDetail({ lotId, programId, canFit, width }: { lotId: string; program
         A band passes only when its margin exceeds {l.guardK} × the measurement uncertainty (guard band): a part exactly at a limit fails.
       </p>
       {fit.error ? <p role="alert" className="text-xs text-verdict-fail">{fit.error.message}</p> : null}
-      {part?.fit ? <FitReport fit={part.fit} width={Math.min(width, 620)} /> : null}
+      {part?.fit ? (
+        <div className="space-y-2">
+          {part.measurements.map((m, k) => (
+            <PartSpectrumChart key={k} m={m} fitted={part.fit!.models[part.fit!.chosen]?.fitted[k] ?? null} width={Math.min(width, 620)} />
+          ))}
+          <FitReport fit={part.fit} width={Math.min(width, 620)} />
+        </div>
+      ) : null}
     </div>
   );
 }
@@ -195,5 +206,38 @@ function LotUploadForm({ revisionId, programId }: { revisionId: string; programI
       ) : null}
       {preview.error || upload.error ? <p className="col-span-2 text-ink-500 md:col-span-4">Nothing was stored; fix the file and try again.</p> : null}
     </form>
+  );
+}
+
+/** Measured and fitted spectrum of one measurement of a part, and their residual (measured − fit) below. */
+function PartSpectrumChart({ m, fitted, width }: { m: MeasuredSpectrum; fitted: number[] | null; width: number }) {
+  const mg = { top: 8, right: 16, bottom: 40, left: 44 };
+  const h1 = 150;
+  const h2 = 60;
+  const height = mg.top + h1 + 12 + h2 + mg.bottom;
+  const iw = Math.max(10, width - mg.left - mg.right);
+  const wl = Array.from(m.wavelengths);
+  const v = Array.from(m.values);
+  const idx = wl.map((_, i) => i);
+  const x = scaleLinear<number>({ domain: [wl[0] ?? 0, wl[wl.length - 1] ?? 1], range: [0, iw] });
+  const y = scaleLinear<number>({ domain: [0, Math.max(100, ...v)], range: [h1, 0] });
+  const res = fitted ? v.map((val, i) => val - (fitted[i] ?? 0)) : [];
+  const lim = Math.max(0.2, ...res.map(Math.abs));
+  const yr = scaleLinear<number>({ domain: [-lim, lim], range: [h2, 0] });
+  const tick = { fontSize: 9, fill: "#2c4669", textAnchor: "end" as const, dx: -2, dy: 3 };
+  return (
+    <svg width={width} height={height} role="img" aria-label={`Measured and fitted ${m.quantity} at ${m.angleDeg}° with the residual`} data-testid="part-spectrum">
+      <Group left={mg.left} top={mg.top}>
+        <LinePath<number> data={idx} x={(i) => x(wl[i] ?? 0)} y={(i) => y(v[i] ?? 0)} stroke="#d98a2b" strokeWidth={1.5} fill="none" />
+        {fitted ? <LinePath<number> data={idx} x={(i) => x(wl[i] ?? 0)} y={(i) => y(fitted[i] ?? 0)} stroke="#1f7f7a" strokeWidth={1.2} strokeDasharray="4 3" fill="none" /> : null}
+        <AxisLeft scale={y} numTicks={4} label={`${m.quantity} (%)`} labelOffset={26} tickLabelProps={tick} labelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
+        <Group top={h1 + 12}>
+          <Line from={{ x: 0, y: yr(0) }} to={{ x: iw, y: yr(0) }} stroke="#a9b6c8" />
+          {fitted ? <LinePath<number> data={idx} x={(i) => x(wl[i] ?? 0)} y={(i) => yr(res[i] ?? 0)} stroke="#14233a" strokeWidth={1} fill="none" /> : null}
+          <AxisLeft scale={yr} numTicks={2} label="resid." labelOffset={26} tickLabelProps={tick} labelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
+          <AxisBottom top={h2} scale={x} numTicks={6} label={`Wavelength (nm) — amber: measured, teal dashed: fit; below: measured − fit (pp), ${m.polarization === "u" ? "unpolarized" : m.polarization}`} labelOffset={8} tickLabelProps={{ fontSize: 9, fill: "#2c4669", textAnchor: "middle" }} labelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
+        </Group>
+      </Group>
+    </svg>
   );
 }
