@@ -45,21 +45,3 @@ export function validateMeasured(m: MeasuredSpectrum, where: string): void {
   if (u !== undefined && (!(u > 0) || !Number.isFinite(u)))
     throw new RangeError(`${where}.uncertaintyPct: expected a positive number of percentage points, got ${u}`);
 }
-
-/** Linear interpolation of (x, y) at `at` (x strictly increasing); NaN outside the table. */
-export function interpolate(x: ArrayLike<number>, y: ArrayLike<number>, at: number): number {
-  const n = x.length;
-  if (!(at >= (x[0] as number) && at <= (x[n - 1] as number))) return NaN;
-  let lo = 0;
-  let hi = n - 1;
-  while (hi - lo > 1) {
-    const mid = (lo + hi) >> 1;
-    if ((x[mid] as number) <= at) lo = mid;
-    else hi = mid;
-  }
-  const x0 = x[lo] as number;
-  const x1 = x[hi] as number;
-  const y0 = y[lo] as number;
-  const y1 = y[hi] as number;
-  return x1 === x0 ? y0 : y0 + ((y1 - y0) * (at - x0)) / (x1 - x0);
-}
