@@ -1,7 +1,8 @@
 // Witness-film n, k, d from its transmittance: a film like Swanepoel's worked example, made by the
 // independent reference of asbuilt-reference.ts, with the back surface of the plate counted incoherently.
 import { describe, expect, it } from "vitest";
-import { cauchyUrbach, fitWitnessFilm, HC_EV_NM, type CauchyUrbach } from "../../src/studies/asbuilt/index.ts";
+import { HC_EV_NM, refractiveIndex } from "../../src/core/index.ts";
+import { cauchyUrbach, fitWitnessFilm, type CauchyUrbach } from "../../src/studies/asbuilt/index.ts";
 import { grid, normals, referenceRT } from "./asbuilt-reference.ts";
 
 // Swanepoel, J. Phys. E 16, 1214 (1983): a computed a-Si:H-like film, d = 1000 nm, on a glass substrate with
@@ -68,9 +69,15 @@ describe("fitWitnessFilm", () => {
     expect(Math.abs(nFit / nEnv - 1)).toBeLessThan(0.005);
   });
 
-  it("returns the film as a table material ready to store", () => {
-    expect(fit.material.model.kind).toBe("table");
+  it("returns the film as a Cauchy material with an Urbach tail that the engine evaluates like the fit", () => {
+    expect(fit.material.model.kind).toBe("cauchy");
     expect(fit.material.id).toBe("witness-film");
+    for (const w of [600, 900, 1500]) {
+      const a = refractiveIndex(fit.material.model, w);
+      const b = cauchyUrbach(fit.model, w);
+      expect(a.n).toBeCloseTo(b.n, 12);
+      expect(a.k).toBeCloseTo(b.k, 12);
+    }
   });
 
   it("refuses bad options with a RangeError naming the value", () => {

@@ -3,7 +3,7 @@
 import type { Router } from "express";
 import { asc, desc, eq, and } from "drizzle-orm";
 import { z } from "zod";
-import { ErrorModelSchema, parseErrorModel, type MeasuredPart, type MeasuredSpectrum } from "@stackproof/optics";
+import { parseErrorModel, type MeasuredPart, type MeasuredSpectrum } from "@stackproof/optics";
 import { fitFilmOffThread, fitPartOffThread } from "../../asbuilt/index.ts";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
@@ -24,7 +24,16 @@ import {
 } from "../../domain/lots.ts";
 import { parseSpectraTable, type SpectraTable } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
-import { IdParams, fileField } from "./schemas.ts";
+import {
+  CalibrationResponse,
+  IdParams,
+  LotListResponse,
+  LotPartSchema,
+  LotSchema,
+  SpectraPreviewSchema,
+  WitnessFitResponse,
+  fileField,
+} from "@stackproof/contracts";
 
 const TAG = "Measured lots";
 
@@ -45,30 +54,6 @@ const LotBody = z.object({
   chamber: z.string().trim().max(100).default(""),
   notes: z.string().trim().max(2000).default(""),
   guardK: z.coerce.number().min(0).max(5).default(2),
-});
-
-const PartOut = z.object({
-  id: z.string(),
-  label: z.string(),
-  status: z.enum(["pass", "fail", "incomplete"]),
-  verdict: z.unknown(),
-  measurements: z.unknown(),
-  fit: z.unknown().nullable(),
-  fittedAt: z.string().nullable(),
-});
-
-const LotOut = z.object({
-  id: z.string(),
-  programId: z.string(),
-  revisionId: z.string(),
-  runId: z.string(),
-  runDate: z.string(),
-  chamber: z.string(),
-  notes: z.string(),
-  guardK: z.number(),
-  createdAt: z.string(),
-  summary: z.unknown(),
-  parts: z.array(PartOut).optional(),
 });
 
 /** The required fields the schema leaves optional (so that scoping answers first). */
@@ -147,7 +132,7 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       multipart: true,
       before: [singleFile],
       body: z.object({ file: fileField("Spectrophotometer CSV (at most 1 MB)") }),
-      response: z.unknown(),
+      response: SpectraPreviewSchema,
       errors: { 413: "File over 1 MB", 415: "Binary (non-text) file", 422: "Bad file (details: row, column, message)" },
     },
     ({ req }) => {
@@ -179,7 +164,7 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       before: [singleFile],
       body: LotBody,
       status: 201,
-      response: LotOut,
+      response: LotSchema,
       errors: {
         400: "Bad field or spectrum (the message names it)",
         404: "No such revision",
@@ -222,7 +207,7 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       multipart: true,
       before: [singleFile],
       body: z.object(SpectraFields),
-      response: LotOut,
+      response: LotSchema,
       errors: { 400: "Bad field or spectrum", 404: "No such lot", 409: "A part appears twice", 422: "Bad file" },
     },
     ({ req, params, body }) => {
@@ -247,7 +232,7 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({ items: z.array(LotOut) }),
+      response: LotListResponse,
       errors: { 404: "No such program" },
     },
     ({ req, params }) => {
@@ -272,7 +257,7 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: LotOut,
+      response: LotSchema,
       errors: { 404: "No such lot" },
     },
     ({ req, params }) => lotView(loadLot(getAuth(req).workspaceId, params.id), true),
@@ -297,7 +282,7 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
           })
           .default({}),
       }),
-      response: PartOut,
+      response: LotPartSchema,
       errors: { 400: "Bad input (the message names it)", 404: "No such part" },
     },
     async ({ req, params, body }) => {
@@ -332,12 +317,7 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({
-        current: ErrorModelSchema,
-        calibration: z.unknown().nullable(),
-        history: z.array(z.unknown()),
-        adoptWith: z.string(),
-      }),
+      response: CalibrationResponse,
       errors: { 404: "No such program" },
     },
     ({ req, params }) => {
@@ -380,7 +360,7 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
         maxThicknessNm: z.coerce.number().positive().default(3000),
       }),
       status: 201,
-      response: z.object({ materialId: z.string(), fit: z.unknown() }),
+      response: WitnessFitResponse,
       errors: { 400: "Bad field (the message names it)", 409: "The id is taken", 422: "Bad file" },
     },
     async ({ req, body }) => {

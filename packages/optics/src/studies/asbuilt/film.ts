@@ -1,7 +1,8 @@
 /**
  * n, k and thickness of a single witness film on a known substrate from its T (and R) spectra.
  *
- * Dispersion (local to this module until the materials module carries an absorbing-dielectric model):
+ * Dispersion: the materials module's Cauchy model with its Urbach tail (the fit evaluates it here, per
+ * wavelength, so that the tail's parameters can be varied freely):
  *   n(λ) = A + B/λ² + C/λ⁴ (λ in µm; Cauchy), k(λ) = k₀ exp((E − E₀)/E_U) (Urbach tail; Urbach, Phys.
  *   Rev. 92:1324, 1953), E = hc/λ = 1239.84198/λ[nm] eV, E₀ the photon energy at the shortest measured
  *   wavelength (so k₀ is k there), E_U the Urbach energy.
@@ -12,13 +13,10 @@
  * (J. Phys. E 16:1214, 1983) gives the same n at the transmission extrema  of a weakly absorbing film,
  * n = √(M + √(M² − s²)), M = 2s/T_m − (s² + 1)/2 (tested).
  */
-import { createStackEvaluator, parseDesign, type Design, type Material } from "../../core/index.ts";
+import { createStackEvaluator, HC_EV_NM, MaterialSchema, parseDesign, type Design, type Material } from "../../core/index.ts";
 import { levenbergMarquardt } from "../least-squares.ts";
 import { gram, invertSpd } from "./linalg.ts";
 import { DEFAULT_UNCERTAINTY_PCT, validateMeasured, type MeasuredSpectrum } from "./measurement.ts";
-
-/** hc in eV·nm (CODATA 2018). */
-export const HC_EV_NM = 1239.84198;
 
 /** Cauchy n with an Urbach absorption tail (see the module comment). */
 export interface CauchyUrbach {
@@ -69,7 +67,7 @@ export interface FilmFitResult {
   model: CauchyUrbach;
   /** standard errors of A, B, C, k0, Eu (0 for terms not fitted) */
   modelSe: { A: number; B: number; C: number; k0: number; Eu: number };
-  /** the fitted film as a table material (n, k at the measured wavelengths), ready to store */
+  /** the fitted film as a Cauchy material with an Urbach tail, valid over the measured range, ready to store */
   material: Material;
   residualRmsPct: number;
   /** χ²/(n − p) with the stated uncertainties */
@@ -249,7 +247,20 @@ export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFi
     thicknessSeNm: se("d"),
     model: p,
     modelSe: { A: se("A"), B: se("B"), C: se("C"), k0: p.k0 * se("lnk0"), Eu: se("Eu") },
-    material: tableOf(p),
+    material: MaterialSchema.parse({
+      id: filmId,
+      name: options.materialName ?? "Witness film (fitted)",
+      role: "layer",
+      source: "fitted to measured spectra (Cauchy + Urbach tail)",
+      model: {
+        kind: "cauchy",
+        A: p.A,
+        B: p.B,
+        C: p.C,
+        ...(absorbing ? { urbach: { k0: p.k0, E0: p.E0, Eu: p.Eu } } : {}),
+        range: [all[0] as number, all[all.length - 1] as number],
+      },
+    }),
     residualRmsPct: Math.sqrt(rss / n),
     residualVariance: s2,
     fitted,

@@ -1,69 +1,37 @@
 // Measured lots, part fits, calibration: one request shape per export, keys under ["programs", id, ...] and ["lots", id].
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import type { BuiltFitResult, Calibration, ErrorModel, LotYield, MeasuredSpectrum, PartVerdict } from "@stackproof/optics";
+import type { ErrorModel } from "@stackproof/optics";
+import {
+  CalibrationResponse,
+  LotListResponse,
+  LotPartSchema,
+  LotSchema,
+  SpectraPreviewSchema,
+  type CalibrationView,
+  type Lot,
+  type LotPart,
+  type LotSummary,
+  type SpectraPreview,
+} from "@stackproof/contracts";
 import { api } from "../../../lib/api-client.ts";
 
-export interface LotSummary extends LotYield {
-  predictedRunId: string | null;
-}
-
-export interface LotPart {
-  id: string;
-  label: string;
-  status: "pass" | "fail" | "incomplete";
-  verdict: PartVerdict;
-  measurements: MeasuredSpectrum[];
-  fit: Omit<BuiltFitResult, "design"> | null;
-  fittedAt: string | null;
-}
-
-export interface Lot {
-  id: string;
-  programId: string;
-  revisionId: string;
-  runId: string;
-  runDate: string;
-  chamber: string;
-  notes: string;
-  guardK: number;
-  createdAt: string;
-  summary: LotSummary;
-  parts?: LotPart[];
-}
-
-export interface SpectraPreview {
-  fileName: string;
-  delimiter: "," | ";" | "tab";
-  decimalComma: boolean;
-  detectedScale: "percent" | "fraction";
-  reversed: boolean;
-  rows: number;
-  wavelengthRange: [number, number];
-  columns: string[];
-}
-
-export interface CalibrationView {
-  current: ErrorModel;
-  calibration: Calibration | null;
-  history: { lotId: string; runId: string; runDate: string; revisionId: string; summary: LotSummary }[];
-  adoptWith: string;
-}
+export type { CalibrationView, Lot, LotPart, LotSummary, SpectraPreview };
 
 export const programLotsQueryOptions = (programId: string) =>
   queryOptions({
     queryKey: ["programs", programId, "lots"],
-    queryFn: () => api.get<{ items: Lot[] }>(`/programs/${programId}/lots`).then((r) => r.items),
+    queryFn: () => api.get(`/programs/${programId}/lots`, { schema: LotListResponse }).then((r) => r.items),
   });
 export const useProgramLots = (programId: string) => useQuery(programLotsQueryOptions(programId));
 
 export const lotQueryOptions = (lotId: string) =>
-  queryOptions({ queryKey: ["lots", lotId], queryFn: () => api.get<Lot>(`/lots/${lotId}`) });
+  queryOptions({ queryKey: ["lots", lotId], queryFn: () => api.get(`/lots/${lotId}`, { schema: LotSchema }) });
 export const useLot = (lotId: string | null) => useQuery({ ...lotQueryOptions(lotId ?? ""), enabled: lotId !== null });
 
 export const calibrationQueryOptions = (programId: string) =>
   queryOptions({
     queryKey: ["programs", programId, "calibration"],
-    queryFn: () => api.get<CalibrationView>(`/programs/${programId}/calibration`),
+    queryFn: () => api.get(`/programs/${programId}/calibration`, { schema: CalibrationResponse }),
   });
 export const useCalibration = (programId: string) => useQuery(calibrationQueryOptions(programId));
 
@@ -72,7 +40,7 @@ export const usePreviewSpectra = () =>
     mutationFn: (file: File) => {
       const form = new FormData();
       form.append("file", file);
-      return api.post<SpectraPreview>(`/lots/preview`, form);
+      return api.post(`/lots/preview`, form, { schema: SpectraPreviewSchema });
     },
   });
 
@@ -95,7 +63,7 @@ export function useUploadLot(revisionId: string, programId: string) {
       const form = new FormData();
       form.append("file", u.file);
       for (const [k, v] of Object.entries(u)) if (k !== "file") form.append(k, String(v));
-      return api.post<Lot>(`/revisions/${revisionId}/lots`, form);
+      return api.post(`/revisions/${revisionId}/lots`, form, { schema: LotSchema });
     },
     onSuccess: () => qc.invalidateQueries({ queryKey: ["programs", programId] }),
   });
@@ -104,7 +72,7 @@ export function useUploadLot(revisionId: string, programId: string) {
 export function useFitPart(lotId: string, programId: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (partId: string) => api.post<LotPart>(`/parts/${partId}/fit`, {}),
+    mutationFn: (partId: string) => api.post(`/parts/${partId}/fit`, {}, { schema: LotPartSchema }),
     onSuccess: () => {
       void qc.invalidateQueries({ queryKey: ["lots", lotId] });
       void qc.invalidateQueries({ queryKey: ["programs", programId, "calibration"] });
