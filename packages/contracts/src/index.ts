@@ -2,3 +2,4 @@
 export * from "./access.ts";
 export * from "./domain.ts";
 export * from "./json.ts";
+export * from "./lots.ts";

@@ -12,3 +12,4 @@ export * from "./fit.ts";
 export * from "./sensitivity.ts";
 export * from "./process/index.ts";
 export { parseWith, describeValue } from "./validate.ts";
+export * from "./asbuilt/index.ts";

@@ -277,3 +277,58 @@ export const releases = sqliteTable(
   },
   (t) => [index("releases_workspace_idx").on(t.workspaceId)],
 );
+
+export const PART_STATUSES = ["pass", "fail", "incomplete"] as const;
+export type PartStatus = (typeof PART_STATUSES)[number];
+
+/** A lot of measured parts from one coating run, measured against a revision (usually the released one). */
+export const measuredLots = sqliteTable(
+  "measured_lots",
+  {
+    id: text("id").primaryKey(),
+    workspaceId: text("workspace_id")
+      .notNull()
+      .references(() => workspaces.id, { onDelete: "cascade" }),
+    programId: text("program_id")
+      .notNull()
+      .references(() => programs.id, { onDelete: "cascade" }),
+    revisionId: text("revision_id")
+      .notNull()
+      .references(() => revisions.id, { onDelete: "cascade" }),
+    /** The chamber's run id, as the team writes it. */
+    runId: text("run_id").notNull(),
+    /** Date of the coating run, YYYY-MM-DD. */
+    runDate: text("run_date").notNull(),
+    chamber: text("chamber").notNull().default(""),
+    notes: text("notes").notNull().default(""),
+    /** Guard-band coverage factor used for the verdicts. */
+    guardK: real("guard_k").notNull(),
+    createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index("measured_lots_program_idx").on(t.programId),
+    index("measured_lots_revision_idx").on(t.revisionId),
+  ],
+);
+
+/** A measured part of a lot: its spectra (optics MeasuredSpectrum[], percent), verdict and optional fit. */
+export const measuredParts = sqliteTable(
+  "measured_parts",
+  {
+    id: text("id").primaryKey(),
+    lotId: text("lot_id")
+      .notNull()
+      .references(() => measuredLots.id, { onDelete: "cascade" }),
+    /** The part's name in the lot (a column header of the uploaded file). */
+    label: text("label").notNull(),
+    measurements: text("measurements", { mode: "json" }).$type<unknown>().notNull(),
+    status: text("status", { enum: PART_STATUSES }).notNull(),
+    verdict: text("verdict", { mode: "json" }).$type<unknown>().notNull(),
+    /** The as-built fit (optics BuiltFitResult without spectra), when one was run. */
+    fit: text("fit", { mode: "json" }).$type<unknown>(),
+    fittedAt: integer("fitted_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("measured_parts_lot_label_unique").on(t.lotId, t.label)],
+);

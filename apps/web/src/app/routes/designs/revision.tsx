@@ -211,7 +211,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
     {
       id: "asbuilt",
       label: "As built",
-      content: <AsBuiltPanel revisionId={revision.id} design={savedStack} canUpload={isDesigner} width={tabsWidth} onOverlay={setMeasured} />,
+      content: <AsBuiltPanel revisionId={revision.id} design={savedStack} canUpload={isDesigner} width={tabsWidth} onOverlay={setMeasured} errorModel={program.errorModel} programId={program.id} mask={mask} />,
     },
     { id: "history", label: `Revisions (${design.revisions.length})`, content: <RevisionHistory designId={design.id} revisions={design.revisions} currentId={revision.id} /> },
   ];
