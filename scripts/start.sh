@@ -9,6 +9,8 @@ ensure_pnpm
 install_dependencies
 echo "==> building the web app"
 pnpm --filter @stackproof/web build
+echo "==> building the server"
+pnpm --filter @stackproof/api build
 echo "==> starting Stackproof"
 export DEMO_DATA="${DEMO_DATA:-true}"
 if [ -z "${SMTP_HOST:-}" ]; then export MAIL_CAPTURE="${MAIL_CAPTURE:-true}"; fi

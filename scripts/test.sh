@@ -21,7 +21,22 @@ if [ ! -x "$CHROMIUM" ]; then
   fi
 fi
 
+# The scale-out suite starts its own redis-server on a loopback port (Debian's package; nothing listens by default).
+if ! command -v redis-server >/dev/null 2>&1; then
+  if [ "$(id -u)" = "0" ] && command -v apt-get >/dev/null 2>&1; then
+    echo "==> installing Debian's redis-server for the scale-out tests"
+    export DEBIAN_FRONTEND=noninteractive
+    apt-get update -qq
+    apt-get install -y -qq redis-server >/dev/null
+  else
+    echo "The scale-out tests need Debian's redis-server. Install it with: sudo apt-get install -y redis-server" >&2
+    exit 1
+  fi
+fi
+
 echo "==> building the web app"
 pnpm --filter @stackproof/web build
+echo "==> building the server"
+pnpm --filter @stackproof/api build
 echo "==> running the tests"
 exec node scripts/run-tests.mjs

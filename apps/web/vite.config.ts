@@ -8,5 +8,5 @@ export default defineConfig({
   plugins: [react(), tailwindcss()],
   server: { port: 5173, proxy: { "/api": { target: apiTarget, changeOrigin: false } } },
   worker: { format: "es" },
-  build: { sourcemap: true, chunkSizeWarningLimit: 1500 },
+  build: { sourcemap: false, chunkSizeWarningLimit: 1500 },
 });

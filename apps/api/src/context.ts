@@ -4,6 +4,8 @@ import type { Env } from "./env.ts";
 import { openDatabase, runMigrations, type Db } from "./db/client.ts";
 import { createMailService, type MailService } from "./mail/index.ts";
 import { createJobService, type JobService } from "./yield/index.ts";
+import { createCompute, type Compute } from "./yield/compute.ts";
+import { createLogger, type Logger } from "./lib/log.ts";
 import { isNewDatabase, seedDemo, type DemoSummary } from "./demo/index.ts";
 
 export interface AppContext {
@@ -11,9 +13,13 @@ export interface AppContext {
   db: Db;
   mail: MailService;
   jobs: JobService;
+  /** The worker pool (threads here, or worker processes through Redis): yield chunks and nominal evaluations. */
+  compute: Compute;
+  /** pino logger (JSON lines; the level comes from LOG_LEVEL). */
+  log: Logger;
   /** Set when this start-up loaded the demo workspace into a new database. */
   demo: DemoSummary | null;
-  /** Closes mail, workers and the database. */
+  /** Closes the job service, the pool, mail and the database (after the chunks and tasks in flight are back). */
   close(): Promise<void>;
 }
 
@@ -24,15 +30,19 @@ export async function createContext(env: Env): Promise<AppContext> {
   // Demo data only into a new database (no workspace yet), before the job service looks for runs to resume.
   const demo = env.DEMO_DATA && isNewDatabase(db) ? await seedDemo(db) : null;
   const mail = await createMailService(env);
-  const jobs = createJobService({ env, db, mail });
+  const compute = createCompute(env);
+  const jobs = createJobService({ env, db, mail, compute });
   return {
     env,
     db,
     mail,
     jobs,
+    compute,
+    log: createLogger(env),
     demo,
     async close() {
       await jobs.close();
+      await compute.close();
       await mail.close();
       db.$client.close();
     },

@@ -6,9 +6,7 @@ import { fileURLToPath } from "node:url";
 const apiRoot = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 export const repoRoot = path.resolve(apiRoot, "../..");
 
-const boolish = z
-  .enum(["true", "false", "1", "0"])
-  .transform((v) => v === "true" || v === "1");
+const boolish = z.enum(["true", "false", "1", "0"]).transform((v) => v === "true" || v === "1");
 
 const EnvSchema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
@@ -67,8 +65,28 @@ const EnvSchema = z.object({
   MAIL_FROM: z.string().default("Stackproof <no-reply@stackproof.local>"),
   /** Port of the local capture SMTP server (0 = any free port). */
   CAPTURE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(0),
-  /** Worker threads for verified yield runs; defaults to the number of cores. */
+  /** Worker threads for verified yield runs; defaults to the number of cores. Older name of EMBEDDED_WORKERS. */
   YIELD_WORKERS: z.coerce.number().int().min(1).max(64).optional(),
+  /**
+   * Worker threads in the API process for verified-run chunks, merges and nominal evaluations (default: the number
+   * of cores, or YIELD_WORKERS). 0 is allowed only with REDIS_URL: then worker processes do all of it.
+   */
+  EMBEDDED_WORKERS: z.coerce.number().int().min(0).max(64).optional(),
+  /** With a Redis URL, verified-run chunks go through BullMQ to worker processes (`node apps/api/dist/worker.js`). */
+  REDIS_URL: z.string().url().optional(),
+  /** Chunks the API keeps queued in Redis at once (the fair scheduler's slots when workers are remote). */
+  REDIS_CHUNKS_IN_FLIGHT: z.coerce.number().int().min(1).max(1024).default(16),
+  /** Worker process: chunks computed at once (one thread each). */
+  WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(1),
+  /** Worker process: ms after which a chunk whose worker stopped answering is handed to another worker. */
+  WORKER_LOCK_MS: z.coerce.number().int().min(1000).max(600_000).default(30_000),
+  /** Caps on verified runs queued or running at once, per requester and per workspace (a 429 names the cap). */
+  MAX_ACTIVE_RUNS_PER_USER: z.coerce.number().int().min(1).max(1000).default(4),
+  MAX_ACTIVE_RUNS_PER_WORKSPACE: z.coerce.number().int().min(1).max(10_000).default(16),
+  /** pino log level; tests default to "silent". */
+  LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).optional(),
+  /** Milliseconds SIGTERM waits for requests in flight before closing the remaining connections. */
+  SHUTDOWN_GRACE_MS: z.coerce.number().int().min(0).max(600_000).default(25_000),
 });
 
 type ParsedEnv = z.infer<typeof EnvSchema>;
@@ -89,6 +107,10 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
   }
   const data = parsed.data;
   const production = data.NODE_ENV === "production";
+  if (data.EMBEDDED_WORKERS === 0 && !data.REDIS_URL)
+    throw new Error(
+      "Invalid configuration:\n  EMBEDDED_WORKERS: 0 needs REDIS_URL (worker processes to do the work)",
+    );
   if (data.SMTP_HOST && data.MAIL_CAPTURE === true) {
     throw new Error(
       "Invalid configuration:\n  MAIL_CAPTURE=true and SMTP_HOST are both set: choose a real mail server or the local capture.",
@@ -104,4 +126,11 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
     );
   }
   return { ...data, DEMO_DATA: data.DEMO_DATA ?? !production, MAIL_CAPTURE: capture };
+}
+
+/** Log level: LOG_LEVEL, else silent in tests, debug in development, info in production. */
+export function logLevelOf(env: Env): string {
+  return (
+    env.LOG_LEVEL ?? (env.NODE_ENV === "test" ? "silent" : env.NODE_ENV === "development" ? "debug" : "info")
+  );
 }

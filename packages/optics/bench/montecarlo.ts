@@ -3,7 +3,7 @@
 import { isDeepStrictEqual } from "node:util";
 import { pathToFileURL } from "node:url";
 import { designFromQwots } from "../src/core/index.ts";
-import { createYieldPool } from "../src/cli/node-pool.ts";
+import { createYieldPool } from "../src/cli/pool.ts";
 import { createYieldRunner, planChunks } from "../src/studies/index.ts";
 import type { YieldStudy } from "../src/studies/index.ts";
 

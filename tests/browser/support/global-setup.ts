@@ -1,4 +1,4 @@
-// Before the integration suites: the browser must be installed and the built web app must be current.
+// Before the integration suites: the browser must be installed and the built web app and server must be current.
 import fs from "node:fs";
 import path from "node:path";
 import { execFileSync } from "node:child_process";
@@ -32,5 +32,16 @@ export default function setup(): void {
   // A stale build would test yesterday's app: rebuild when any source is newer than the build.
   if (sources > built) {
     execFileSync("pnpm", ["--filter", "@stackproof/web", "build"], { cwd: repoRoot, stdio: "inherit" });
+  }
+  // The suites run the compiled server (apps/api/dist), as production does: rebuild it when a source is newer.
+  const server = path.join(repoRoot, "apps/api/dist/index.js");
+  const serverBuilt = fs.existsSync(server) ? fs.statSync(server).mtimeMs : 0;
+  const serverSources = Math.max(
+    newest(path.join(repoRoot, "apps/api/src")),
+    newest(path.join(repoRoot, "packages/optics/src")),
+    fs.statSync(path.join(repoRoot, "apps/api/tsup.config.ts")).mtimeMs,
+  );
+  if (serverSources > serverBuilt) {
+    execFileSync("pnpm", ["--filter", "@stackproof/api", "build"], { cwd: repoRoot, stdio: "inherit" });
   }
 }

@@ -11,6 +11,8 @@ import { artifactsDir, CHROMIUM_PATH, repoRoot } from "./paths.ts";
 export interface Product {
   url: string;
   dataDir: string;
+  /** The server process (plain node on apps/api/dist/index.js). */
+  process: ChildProcess;
   /** Everything the server printed so far. */
   output(): string;
   stop(): Promise<void>;
@@ -48,7 +50,8 @@ export async function startProduct(options: { demo?: boolean; env?: Record<strin
   const port = await freePort();
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-browser-"));
   let log = "";
-  const child = spawn(process.execPath, ["--import", "tsx", "src/index.ts"], {
+  // The compiled server, started the way the README's start command starts it (plain node on dist/index.js).
+  const child = spawn(process.execPath, ["dist/index.js"], {
     cwd: path.join(repoRoot, "apps/api"),
     env: {
       ...process.env,
@@ -60,6 +63,7 @@ export async function startProduct(options: { demo?: boolean; env?: Record<strin
       // Production refuses to start without a mail server unless the local capture is asked for.
       MAIL_CAPTURE: "true",
       YIELD_WORKERS: "2",
+      LOG_LEVEL: "warn",
       ...options.env,
     },
     stdio: ["ignore", "pipe", "pipe"],
@@ -71,6 +75,7 @@ export async function startProduct(options: { demo?: boolean; env?: Record<strin
   return {
     url,
     dataDir,
+    process: child,
     output: () => log,
     async stop() {
       if (child.exitCode === null) {

@@ -7,9 +7,10 @@ import * as zxcvbnEn from "@zxcvbn-ts/language-en";
 
 const OPTIONS = { memoryCost: 19456, timeCost: 2, parallelism: 1, outputLen: 32 } as const;
 
-/** At least 12 characters (OWASP ASVS 5.0 V6.2.1 asks for 8 at least; 12 is the common-practice floor here). */
-export const PASSWORD_MIN = 12;
-export const PASSWORD_MAX = 200;
+// The length bounds live in the contracts (the request schemas and the web forms use them too).
+import { PASSWORD_MAX, PASSWORD_MIN } from "@stackproof/contracts";
+export { PASSWORD_MAX, PASSWORD_MIN };
+
 /** zxcvbn score a new password must reach: 3 = "safely unguessable: moderate protection from offline attack". */
 export const PASSWORD_MIN_SCORE = 3;
 

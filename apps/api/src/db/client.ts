@@ -8,7 +8,12 @@ import * as schema from "./schema.ts";
 
 export type Db = BetterSQLite3Database<typeof schema> & { $client: Database.Database };
 
-export const MIGRATIONS_DIR = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../../drizzle");
+// src/db/client.ts in development, dist/index.js when built: the committed migrations are apps/api/drizzle either way.
+const here = path.dirname(fileURLToPath(import.meta.url));
+export const MIGRATIONS_DIR =
+  [path.resolve(here, "../../drizzle"), path.resolve(here, "../drizzle")].find((d) =>
+    fs.existsSync(path.join(d, "meta/_journal.json")),
+  ) ?? path.resolve(here, "../../drizzle");
 
 /** Opens (creating if needed) the SQLite file with WAL, foreign keys and a busy timeout. */
 export function openDatabase(file: string): Db {

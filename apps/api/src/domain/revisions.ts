@@ -1,6 +1,12 @@
 // Creating revisions (immutable content + content hash) and the JSON views of programs, designs and revisions.
 import { and, count, desc, eq, inArray, max } from "drizzle-orm";
-import { SpecMaskSchema, evaluateSpec, type SpecMask, type YieldResult } from "@stackproof/optics";
+import {
+  SpecMaskSchema,
+  evaluateSpec,
+  type SpecMask,
+  type SpecResult,
+  type YieldResult,
+} from "@stackproof/optics";
 import { designs, revisions, threads, yieldRuns } from "../db/schema.ts";
 import type { DbOrTx } from "../lib/audit.ts";
 import { HttpError } from "../lib/errors.ts";
@@ -42,6 +48,32 @@ export interface NewRevision {
   specMask?: unknown;
   note: string;
   authorId: string;
+  /** Set when the caller has already evaluated the design on the worker pool ({@link checkRevisionInput}). */
+  evaluated?: boolean;
+}
+
+/** The stack (self-contained) and mask a new revision would store, and the mask it is evaluated against. */
+export function revisionInput(
+  db: DbOrTx,
+  input: Pick<NewRevision, "workspaceId" | "program" | "stack" | "specMask">,
+) {
+  assertWithinLimits(designLimitProblems(input.stack));
+  const stack = resolveDesign(db, input.workspaceId, input.stack);
+  assertWithinLimits(maskLimitProblems(input.specMask ?? input.program.specMask));
+  const mask = parseMask(input.specMask ?? input.program.specMask);
+  const { protective: _drop, ...storedMask } = mask;
+  return { stack, storedMask, evalMask: { ...storedMask, protective: input.program.protective } };
+}
+
+/** A design that cannot be evaluated against its mask is the caller's 400. */
+export function notComputable(err: unknown): never {
+  if (err instanceof RangeError)
+    throw new HttpError(
+      400,
+      "not_computable",
+      `The design cannot be evaluated against the spec mask: ${err.message}`,
+    );
+  throw err;
 }
 
 /**
@@ -50,21 +82,13 @@ export interface NewRevision {
  * must be computable against the mask (e.g. tabulated materials must cover the bands), else 400.
  */
 export function createRevision(tx: DbOrTx, input: NewRevision): RevisionRow {
-  assertWithinLimits(designLimitProblems(input.stack));
-  const stack = resolveDesign(tx, input.workspaceId, input.stack);
-  assertWithinLimits(maskLimitProblems(input.specMask ?? input.program.specMask));
-  const mask = parseMask(input.specMask ?? input.program.specMask);
-  const { protective: _drop, ...storedMask } = mask;
-  try {
-    evaluateSpec(stack, { ...storedMask, protective: input.program.protective });
-  } catch (err) {
-    if (err instanceof RangeError)
-      throw new HttpError(
-        400,
-        "not_computable",
-        `The design cannot be evaluated against the spec mask: ${err.message}`,
-      );
-    throw err;
+  const { stack, storedMask, evalMask } = revisionInput(tx, input);
+  if (!input.evaluated) {
+    try {
+      evaluateSpec(stack, evalMask);
+    } catch (err) {
+      notComputable(err);
+    }
   }
   const last = tx
     .select({ n: max(revisions.number) })
@@ -176,11 +200,11 @@ export function revisionSummary(db: DbOrTx, rows: readonly RevisionContext[]) {
 
 export type RevisionSummary = ReturnType<typeof revisionSummary>[number];
 
-/** Full revision with its nominal verdict computed by the optics package. */
-export function revisionView(db: DbOrTx, rc: RevisionContext) {
+/** Full revision with its nominal verdict computed by the optics package (`given`: already computed on the pool). */
+export function revisionView(db: DbOrTx, rc: RevisionContext, given?: SpecResult) {
   const r = rc.revision;
   const mask = maskOf(r, rc.program);
-  const nominal = evaluateSpec(stackOf(r), mask);
+  const nominal = given ?? evaluateSpec(stackOf(r), mask);
   const names = userNames(db, [r.authorId]);
   return {
     id: r.id,
@@ -306,7 +330,7 @@ export function overviewRows(db: DbOrTx, rows: readonly { design: DesignRow; pro
       .from(yieldRuns)
       .where(inArray(yieldRuns.id, [...newestRun.values()]))
       .all()) {
-      if (r.result) results.set(r.id, r.result as YieldResult);
+      if (r.result) results.set(r.id, r.result);
     }
   }
   const names = userNames(

@@ -129,9 +129,10 @@ export function threadViews(
   db: Db | DbOrTx,
   rows: readonly ThreadRow[],
   on: RevisionContext | null,
+  given?: SpecResult | null,
 ): ThreadView[] {
   if (rows.length === 0) return [];
-  const nominal = on ? nominalOf(on) : null;
+  const nominal = on ? (given ?? nominalOf(on)) : null;
   const mask = on ? maskOf(on.revision, on.program) : null;
   // Every comment of these threads in one query, oldest first within each thread.
   const byThread = new Map<string, (typeof comments.$inferSelect)[]>(rows.map((t) => [t.id, []]));

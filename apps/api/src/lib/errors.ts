@@ -61,7 +61,7 @@ function clientStatus(e: ClientError): number | null {
   return typeof status === "number" && Number.isInteger(status) && status >= 400 && status < 500 ? status : null;
 }
 
-export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, _next) => {
+export const errorHandler: ErrorRequestHandler = (err: unknown, req, res, _next) => {
   if (err instanceof HttpError) {
     res.status(err.status).json({ error: { code: err.code, message: err.message, details: err.details } });
     return;
@@ -96,6 +96,9 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, _next
     res.status(status).json({ error: { code: known?.code ?? "bad_request", message } });
     return;
   }
-  console.error(err);
+  // With its stack at error level on the request's logger (pino-http), which carries the request id.
+  const log = (req as { log?: { error(obj: object, msg: string): void } }).log;
+  if (log) log.error({ err }, "unhandled error");
+  else console.error(err);
   res.status(500).json({ error: { code: "internal", message: "Something went wrong on the server." } });
 };

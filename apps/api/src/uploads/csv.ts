@@ -316,3 +316,155 @@ export function parseSpectrumCsv(text: string): {
     );
   return { quantity: column === "r" ? "R" : "T", wavelengths, values };
 }
+
+// ---- Spectrophotometer exports: one wavelength column and one or more spectra columns -------------------
+
+/** How the values of a spectra file are written: percent (0–100) or fraction (0–1). */
+export type ValueScale = "percent" | "fraction";
+
+/** A spectrophotometer file read into spectra (values always in percent). */
+export interface SpectraTable {
+  delimiter: "," | ";" | "\t";
+  decimalComma: boolean;
+  /** the scale used: the explicit choice, or the detected one */
+  scale: ValueScale;
+  /** what the values look like, whatever was chosen: "fraction" when every value is within −0.01..1.01 */
+  detectedScale: ValueScale;
+  /** the wavelengths were given in descending order and have been put in ascending order */
+  reversed: boolean;
+  wavelengths: number[];
+  /** one per spectra column, in file order, header as written */
+  columns: { name: string; values: number[] }[];
+}
+
+const WAVELENGTH_HEADER = /^(wavelength|wave length|wl|lambda|λ|nm)\s*(\[\s*nm\s*\]|\(\s*nm\s*\)|_nm|nm)?$/i;
+const WAVELENGTH_UM_HEADER = /^(wavelength|wl|lambda|λ)\s*(\[\s*[uµ]m\s*\]|\(\s*[uµ]m\s*\)|_[uµ]m)$/i;
+
+function detectDelimiter(firstLine: string): "," | ";" | "\t" {
+  if (firstLine.includes("\t")) return "\t";
+  if (firstLine.includes(";")) return ";";
+  return ",";
+}
+
+/**
+ * Read a spectrophotometer export: comma-, semicolon- or tab-separated (detected from the header line),
+ * decimal point or — with semicolon or tab separators — decimal comma, lines starting with "#" ignored,
+ * header row first. The wavelength column is the first column whose header reads like "wavelength",
+ * "Wavelength (nm)", "λ [nm]", "nm" or "wavelength_um"/"(µm)" (converted to nm); every other column is a
+ * spectrum named by its header. Values are percent or fraction: `scale` is the caller's explicit choice, or
+ * "auto" to take the detected one (a caller that shows the detection should ask the user to confirm it and
+ * send the choice back). Wavelengths may be ascending or descending (put in ascending order) but not mixed.
+ * Refusals are 422 with every problem's row and column; nothing is kept from a refused file.
+ */
+export function parseSpectraTable(text: string, scale: ValueScale | "auto", what = "spectra"): SpectraTable {
+  const lines = text.split(/\r\n|\n|\r/);
+  const headerLine = lines.find((l) => l.trim() !== "" && !l.trimStart().startsWith("#")) ?? "";
+  const delimiter = detectDelimiter(headerLine);
+  let records: { info: { lines: number }; record: string[] }[];
+  try {
+    records = parse(text, {
+      info: true,
+      delimiter,
+      skip_empty_lines: true,
+      relax_column_count: true,
+      trim: true,
+      comment: "#",
+      comment_no_infix: true,
+    }) as unknown as { info: { lines: number }; record: string[] }[];
+  } catch (err) {
+    if (err instanceof CsvError) {
+      const line = (err as CsvError & { lines?: number }).lines ?? 1;
+      throw new CsvProblems(what, [{ row: line, column: "-", message: err.message }]);
+    }
+    throw err;
+  }
+  const [head, ...rest] = records;
+  if (!head) throw new CsvProblems(what, [{ row: 1, column: "-", message: "the file has no header row" }]);
+  if (rest.length > MAX_ROWS)
+    throw new CsvProblems(what, [{ row: MAX_ROWS + 2, column: "-", message: `more than ${MAX_ROWS} data rows` }]);
+  const header = head.record;
+  const problems: CellProblem[] = [];
+  let wlCol = header.findIndex((h) => WAVELENGTH_HEADER.test(h));
+  let wlScale = 1;
+  if (wlCol < 0) {
+    wlCol = header.findIndex((h) => WAVELENGTH_UM_HEADER.test(h));
+    wlScale = 1000;
+  }
+  if (wlCol < 0)
+    throw new CsvProblems(what, [
+      {
+        row: head.info.lines,
+        column: header[0] || "#1",
+        message: `no wavelength column: name one column "wavelength_nm", "Wavelength (nm)", "λ [nm]" or "wavelength_um" (got ${header.map((h) => `"${h}"`).join(", ")})`,
+      },
+    ]);
+  const specCols = header.map((h, i) => ({ h, i })).filter((c) => c.i !== wlCol);
+  if (specCols.length === 0)
+    throw new CsvProblems(what, [{ row: head.info.lines, column: header[wlCol]!, message: "no spectrum column next to the wavelength column" }]);
+  const seen = new Set<string>();
+  for (const c of specCols) {
+    if (c.h === "") problems.push({ row: head.info.lines, column: `#${c.i + 1}`, message: "a spectrum column has no name" });
+    else if (seen.has(c.h)) problems.push({ row: head.info.lines, column: c.h, message: `column "${c.h}" appears twice` });
+    seen.add(c.h);
+  }
+  if (rest.length < 2) problems.push({ row: head.info.lines + 1, column: "-", message: "expected at least 2 data rows" });
+  if (problems.length > 0) throw new CsvProblems(what, problems);
+  const decimalComma = delimiter !== "," && rest.some((r) => r.record.some((c) => /^[-+]?\d+,\d*([eE][-+]?\d+)?$/.test(c)));
+  const num = (raw: string): number => {
+    const s = decimalComma ? raw.replace(",", ".") : raw;
+    return /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(s) ? Number(s) : Number.NaN;
+  };
+  const wavelengths: number[] = [];
+  const columns = specCols.map((c) => ({ name: c.h, values: [] as number[] }));
+  for (const r of rest) {
+    if (r.record.length !== header.length) {
+      problems.push({ row: r.info.lines, column: "-", message: `expected ${header.length} cells, got ${r.record.length}` });
+      continue;
+    }
+    const w = num(r.record[wlCol]!);
+    if (!(w > 0)) problems.push({ row: r.info.lines, column: header[wlCol]!, message: `expected a positive wavelength, got "${r.record[wlCol]}"` });
+    wavelengths.push(w * wlScale);
+    specCols.forEach((c, k) => {
+      const v = num(r.record[c.i]!);
+      if (!Number.isFinite(v))
+        problems.push({ row: r.info.lines, column: c.h, message: `expected a number, got "${r.record[c.i]}"${delimiter === "," && /^\d+,\d+$/.test(r.record[c.i]!) ? " (a decimal comma needs ; or tab as separator)" : ""}` });
+      columns[k]!.values.push(v);
+    });
+  }
+  if (problems.length > 0) throw new CsvProblems(what, problems);
+  // order
+  const asc = wavelengths.every((w, i) => i === 0 || w > wavelengths[i - 1]!);
+  const desc = wavelengths.every((w, i) => i === 0 || w < wavelengths[i - 1]!);
+  if (!asc && !desc) {
+    const i = wavelengths.findIndex((w, j) => j > 1 && (w - wavelengths[j - 1]!) * (wavelengths[1]! - wavelengths[0]!) <= 0);
+    throw new CsvProblems(what, [
+      { row: rest[Math.max(i, 1)]!.info.lines, column: header[wlCol]!, message: "wavelengths must be strictly ascending or strictly descending (no repeats)" },
+    ]);
+  }
+  if (desc) {
+    wavelengths.reverse();
+    for (const c of columns) c.values.reverse();
+  }
+  const all = columns.flatMap((c) => c.values);
+  const detectedScale: ValueScale = all.every((v) => v >= -0.01 && v <= 1.01) ? "fraction" : "percent";
+  const used: ValueScale = scale === "auto" ? detectedScale : scale;
+  const lo = used === "fraction" ? -0.01 : -1;
+  const hi = used === "fraction" ? 1.01 : 101;
+  for (const c of columns) {
+    const i = c.values.findIndex((v) => v < lo || v > hi);
+    if (i >= 0) {
+      const row = desc ? rest[rest.length - 1 - i]! : rest[i]!;
+      problems.push({
+        row: row.info.lines,
+        column: c.name,
+        message:
+          used === "fraction"
+            ? `expected a fraction between 0 and 1, got ${c.values[i]} (is the file in percent?)`
+            : `expected a percentage between 0 and 100, got ${c.values[i]}`,
+      });
+    }
+  }
+  if (problems.length > 0) throw new CsvProblems(what, problems);
+  if (used === "fraction") for (const c of columns) c.values = c.values.map((v) => v * 100);
+  return { delimiter, decimalComma, scale: used, detectedScale, reversed: desc, wavelengths, columns };
+}

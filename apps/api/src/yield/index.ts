@@ -1,15 +1,14 @@
-// Verified yield runs: persisted jobs executed in a pool of worker threads.
+// Verified yield runs: persisted jobs whose chunks run on the pool (worker threads here, or worker processes
+// through Redis; see compute.ts).
 //
-// A run is split into chunks of trials; each finished chunk is stored (yield_chunks) with the progress, so a
+// A run is split into small chunks of trials; each finished chunk is stored (yield_chunks) with the progress, so a
 // process that stops mid-run resumes where it was. The optics package's chunking-independent merge makes the
-// result identical for any chunk size or worker count. Runs are processed one at a time, FIFO, with all
-// workers on the run's chunks. Cancellation takes effect between chunks.
-import os from "node:os";
-import { Worker } from "node:worker_threads";
-import { and, asc, eq, inArray } from "drizzle-orm";
+// result identical for any chunk size, worker count or machine. Runs share the pool round-robin, a chunk at a
+// time (the fair scheduler), so a large run holds a small one back by at most one chunk per slot; cancellation
+// takes effect when the chunks in flight (about 50 ms of work each) are back.
+import { and, asc, count, eq, inArray } from "drizzle-orm";
 import {
   ENGINE_VERSION,
-  type ErrorModel,
   type YieldChunk,
   type YieldResult,
   type YieldStudy,
@@ -20,27 +19,31 @@ import type { MailService } from "../mail/index.ts";
 import { designs, programs, revisions, yieldChunks, yieldRuns } from "../db/schema.ts";
 import { maskOf, stackOf, type YieldRunRow } from "../domain/load.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
-import type { WorkerReply, WorkerRequest } from "./protocol.ts";
+import { createFairScheduler, FAIR_CHUNK_TRIALS } from "@stackproof/optics/node-pool";
+import { HttpError } from "../lib/errors.ts";
+import type { Compute } from "./compute.ts";
 import { ClientResultSchema, verifyClientResult } from "./verify.ts";
 
 export interface JobService {
-  /** Number of worker threads the pool uses. */
+  /** Number of worker threads in this process (0 when only Redis workers compute). */
   readonly size: number;
+  /** Refuses a new run that would exceed a cap on runs queued or running (429 naming the cap). */
+  admit(requester: { userId: string; workspaceId: string }): void;
   /** Schedule a run stored with status "queued". */
   enqueue(runId: string): void;
-  /** Stop a run between chunks (its row is already marked cancelled by the caller). */
+  /** Stop a run: no more of its chunks start (its row is already marked cancelled by the caller). */
   cancel(runId: string): void;
   /** Resolves when the run reaches done, failed or cancelled (or when the service closes). */
   settled(runId: string): Promise<void>;
   /** What start-up did with runs left queued or running by a previous process. */
   readonly recovered: { resumed: string[]; failed: string[] };
-  /** Stops the workers; runs in progress stay stored and are resumed by the next process. */
+  /** Stops scheduling, waits for chunks in flight; runs in progress stay stored and are resumed by the next process. */
   close(): Promise<void>;
 }
 
-/** Trials per chunk: about eight chunks per worker for progress and cancellation, within 25..2000. */
-export function chunkSizeFor(trials: number, workers: number): number {
-  return Math.max(25, Math.min(2000, Math.ceil(trials / (workers * 8))));
+/** Trials per chunk: small and fixed (about 50 ms of one thread) so that runs interleave and stop quickly. */
+export function chunkSizeFor(trials: number): number {
+  return Math.max(1, Math.min(FAIR_CHUNK_TRIALS, trials));
 }
 
 /** Study of a stored run: the revision's stack and mask, the run's error model, trials and seed. */
@@ -56,7 +59,7 @@ export function studyForRun(db: Db, run: YieldRunRow): YieldStudy | null {
   return {
     design: stackOf(row.revision),
     mask: maskOf(row.revision, row.program),
-    errorModel: run.errorModel as ErrorModel,
+    errorModel: run.errorModel,
     trials: run.trials,
     seed: run.seed,
   };
@@ -75,7 +78,7 @@ export function finishedRunValues(run: YieldRunRow, result: YieldResult) {
       ({ verified, mismatch } = verifyClientResult(result, parsed.data, {
         trials: run.trials,
         seed: run.seed,
-        errorModel: run.errorModel as ErrorModel,
+        errorModel: run.errorModel,
       }));
     }
   }
@@ -89,12 +92,6 @@ export function finishedRunValues(run: YieldRunRow, result: YieldResult) {
     finishedAt: new Date(),
   };
 }
-
-type WorkerRequestBody = WorkerRequest extends infer R
-  ? R extends WorkerRequest
-    ? Omit<R, "taskId">
-    : never
-  : never;
 
 /** Audit entry for a state the job service gave a run (the system is the actor). */
 function auditRun(db: DbOrTx, runId: string, action: string, summary: (label: string) => string) {
@@ -117,78 +114,27 @@ function auditRun(db: DbOrTx, runId: string, action: string, summary: (label: st
   });
 }
 
-interface PoolWorker {
-  worker: Worker;
-  busy: boolean;
-}
+/** Runs scheduled at once; further runs wait queued (each still gets its turn within the caps). */
+const MAX_SCHEDULED_RUNS = 64;
 
-interface ActiveRun {
-  run: YieldRunRow;
-  study: YieldStudy;
-  pending: [number, number][];
-  inFlight: number;
-  stopped: boolean;
-}
-
-export function createJobService(deps: { env: Env; db: Db; mail: MailService }): JobService {
-  const { db } = deps;
-  const size = deps.env.YIELD_WORKERS ?? Math.max(1, os.availableParallelism());
-  const workers: PoolWorker[] = [];
-  const tasks = new Map<number, { worker: PoolWorker; resolve: (r: WorkerReply) => void }>();
+export function createJobService(deps: {
+  env: Env;
+  db: Db;
+  mail: MailService;
+  compute: Compute;
+}): JobService {
+  const { db, compute, env } = deps;
+  const scheduler = createFairScheduler(compute.slots);
   const queue: string[] = [];
+  const scheduled = new Set<string>();
+  const merging = new Set<Promise<void>>();
   const waiters = new Map<string, (() => void)[]>();
-  let nextTask = 1;
-  let active: ActiveRun | null = null;
   let closed = false;
 
   const release = (runId: string) => {
     for (const w of waiters.get(runId) ?? []) w();
     waiters.delete(runId);
   };
-
-  function spawn(): PoolWorker {
-    // worker-boot.mjs registers tsx in the worker and imports worker.ts (works under tsx and under vitest).
-    const worker = new Worker(new URL("./worker-boot.mjs", import.meta.url));
-    const pw: PoolWorker = { worker, busy: false };
-    worker.on("message", (reply: WorkerReply) => {
-      const task = tasks.get(reply.taskId);
-      if (!task) return;
-      tasks.delete(reply.taskId);
-      pw.busy = false;
-      task.resolve(reply);
-    });
-    const lost = (why: string) => {
-      const i = workers.indexOf(pw);
-      if (i >= 0) workers.splice(i, 1);
-      for (const [id, t] of tasks) {
-        if (t.worker === pw) {
-          tasks.delete(id);
-          t.resolve({ taskId: id, ok: false, error: why });
-        }
-      }
-    };
-    worker.on("error", (err) => lost(`worker failed: ${err.message}`));
-    worker.on("exit", (code) => {
-      if (!closed) lost(`worker stopped (exit code ${code})`);
-    });
-    workers.push(pw);
-    return pw;
-  }
-
-  function idleWorker(): PoolWorker | null {
-    const free = workers.find((w) => !w.busy);
-    if (free) return free;
-    return workers.length < size ? spawn() : null;
-  }
-
-  function send(pw: PoolWorker, request: WorkerRequestBody): Promise<WorkerReply> {
-    const taskId = nextTask++;
-    pw.busy = true;
-    return new Promise((resolve) => {
-      tasks.set(taskId, { worker: pw, resolve });
-      pw.worker.postMessage({ ...request, taskId } as WorkerRequest);
-    });
-  }
 
   function loadRun(runId: string): YieldRunRow | undefined {
     return db.select().from(yieldRuns).where(eq(yieldRuns.id, runId)).get();
@@ -206,83 +152,6 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
     });
   }
 
-  function finishActive() {
-    const runId = active?.run.id;
-    active = null;
-    if (runId) {
-      const status = loadRun(runId)?.status;
-      if (status !== "queued" && status !== "running")
-        db.delete(yieldChunks).where(eq(yieldChunks.runId, runId)).run();
-      release(runId);
-    }
-    setImmediate(pump);
-  }
-
-  function pump() {
-    if (closed || active) return;
-    const runId = queue.shift();
-    if (!runId) return;
-    const run = loadRun(runId);
-    if (!run || (run.status !== "queued" && run.status !== "running")) {
-      release(runId);
-      setImmediate(pump);
-      return;
-    }
-    const study = studyForRun(db, run);
-    if (!study) {
-      fail(runId, "the revision of this run no longer exists");
-      release(runId);
-      setImmediate(pump);
-      return;
-    }
-    const chunkSize = chunkSizeFor(run.trials, size);
-    const stored = db
-      .select({ startTrial: yieldChunks.startTrial, count: yieldChunks.count })
-      .from(yieldChunks)
-      .where(eq(yieldChunks.runId, runId))
-      .all();
-    // Chunks stored by a previous process keep their sizes; the rest of the trials are planned afresh.
-    const covered = stored.reduce((s, c) => s + c.count, 0);
-    const pending: [number, number][] = [];
-    const ranges = stored
-      .map((c) => [c.startTrial, c.startTrial + c.count] as const)
-      .sort((a, b) => a[0] - b[0]);
-    let cursor = 0;
-    const gaps: [number, number][] = [];
-    for (const [s, e] of ranges) {
-      if (s > cursor) gaps.push([cursor, s]);
-      cursor = Math.max(cursor, e);
-    }
-    if (cursor < run.trials) gaps.push([cursor, run.trials]);
-    for (const [s, e] of gaps)
-      for (let t = s; t < e; t += chunkSize) pending.push([t, Math.min(chunkSize, e - t)]);
-    db.update(yieldRuns)
-      .set({ status: "running", progressDone: covered, startedAt: run.startedAt ?? new Date() })
-      .where(and(eq(yieldRuns.id, runId), inArray(yieldRuns.status, ["queued", "running"])))
-      .run();
-    active = { run, study, pending, inFlight: 0, stopped: false };
-    dispatch();
-  }
-
-  function dispatch() {
-    const a = active;
-    if (!a || closed) return;
-    if (a.stopped) {
-      if (a.inFlight === 0) finishActive();
-      return;
-    }
-    while (a.pending.length > 0) {
-      const pw = idleWorker();
-      if (!pw) break;
-      const [start, count] = a.pending.shift() as [number, number];
-      a.inFlight++;
-      void send(pw, { type: "chunk", runId: a.run.id, study: a.study, start, count }).then((reply) =>
-        onChunk(a, reply),
-      );
-    }
-    if (a.pending.length === 0 && a.inFlight === 0) void merge(a);
-  }
-
   /** Fails a run without throwing (a run must never be left running because storing its outcome threw). */
   function failSafely(runId: string, error: string) {
     try {
@@ -294,100 +163,166 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
 
   const messageOf = (err: unknown) => (err instanceof Error ? err.message : String(err));
 
-  function onChunk(a: ActiveRun, reply: WorkerReply) {
-    a.inFlight--;
-    if (closed) return;
-    if (a.stopped) return dispatch();
-    if (!reply.ok) {
-      a.stopped = true;
-      failSafely(a.run.id, `trials could not be computed: ${reply.error}`);
-      return dispatch();
+  /** A run left the scheduler: drop its chunks unless it is still to be resumed, wake its waiters, take the next. */
+  function finish(runId: string) {
+    scheduled.delete(runId);
+    if (!closed) {
+      const status = loadRun(runId)?.status;
+      if (status !== "queued" && status !== "running")
+        db.delete(yieldChunks).where(eq(yieldChunks.runId, runId)).run();
+      release(runId);
+      setImmediate(pump);
     }
-    if (!("chunk" in reply)) {
-      a.stopped = true;
-      failSafely(a.run.id, "a worker answered a chunk without trials");
-      return dispatch();
-    }
-    try {
-      storeChunk(a, reply.chunk);
-    } catch (err) {
-      a.stopped = true;
-      failSafely(a.run.id, `trials could not be stored: ${messageOf(err)}`);
-    }
-    dispatch();
   }
 
-  function storeChunk(a: ActiveRun, chunk: YieldChunk) {
-    const stillRunning = db.transaction((tx) => {
+  /** Ranges of a run not yet covered by stored chunks (a resumed run keeps what it has). */
+  function pendingRanges(run: YieldRunRow): { pending: [number, number][]; covered: number } {
+    const stored = db
+      .select({ startTrial: yieldChunks.startTrial, count: yieldChunks.count })
+      .from(yieldChunks)
+      .where(eq(yieldChunks.runId, run.id))
+      .all();
+    const covered = stored.reduce((s, c) => s + c.count, 0);
+    const ranges = stored
+      .map((c) => [c.startTrial, c.startTrial + c.count] as const)
+      .sort((a, b) => a[0] - b[0]);
+    const size = chunkSizeFor(run.trials);
+    let cursor = 0;
+    const gaps: [number, number][] = [];
+    for (const [s, e] of ranges) {
+      if (s > cursor) gaps.push([cursor, s]);
+      cursor = Math.max(cursor, e);
+    }
+    if (cursor < run.trials) gaps.push([cursor, run.trials]);
+    const pending: [number, number][] = [];
+    for (const [s, e] of gaps) for (let t = s; t < e; t += size) pending.push([t, Math.min(size, e - t)]);
+    return { pending, covered };
+  }
+
+  function pump() {
+    while (!closed && scheduled.size < MAX_SCHEDULED_RUNS && queue.length > 0) {
+      const runId = queue.shift() as string;
+      if (scheduled.has(runId)) continue;
+      const run = loadRun(runId);
+      if (!run || (run.status !== "queued" && run.status !== "running")) {
+        release(runId);
+        continue;
+      }
+      const study = studyForRun(db, run);
+      if (!study) {
+        failSafely(runId, "the revision of this run no longer exists");
+        release(runId);
+        continue;
+      }
+      const { pending, covered } = pendingRanges(run);
+      db.update(yieldRuns)
+        .set({ status: "running", progressDone: covered, startedAt: run.startedAt ?? new Date() })
+        .where(and(eq(yieldRuns.id, runId), inArray(yieldRuns.status, ["queued", "running"])))
+        .run();
+      scheduled.add(runId);
+      scheduler.add<YieldChunk>({
+        id: runId,
+        pending,
+        exec: (start, count) => compute.run({ kind: "chunk", key: runId, study, start, count }),
+        onChunk: (chunk) => {
+          if (closed) return;
+          let stored: boolean;
+          try {
+            stored = storeChunk(runId, chunk);
+          } catch (err) {
+            failSafely(runId, `trials could not be stored: ${messageOf(err)}`);
+            stored = false;
+          }
+          if (!stored) void scheduler.stop(runId); // cancelled, failed or not storable
+        },
+        onError: (err) => {
+          if (!closed) failSafely(runId, `trials could not be computed: ${messageOf(err)}`);
+        },
+        onSettled: (complete) => {
+          if (complete && !closed) {
+            const merge = mergeAndStore(run, study)
+              .catch((err: unknown) => {
+                if (!closed) failSafely(runId, `the result could not be stored: ${messageOf(err)}`);
+              })
+              .finally(() => {
+                merging.delete(merge);
+                finish(runId);
+              });
+            merging.add(merge);
+          } else finish(runId);
+        },
+      });
+    }
+  }
+
+  /** Stores a chunk and the progress; false when the run is no longer running. */
+  function storeChunk(runId: string, chunk: YieldChunk): boolean {
+    return db.transaction((tx) => {
       const row = tx
         .select({ status: yieldRuns.status, progressDone: yieldRuns.progressDone })
         .from(yieldRuns)
-        .where(eq(yieldRuns.id, a.run.id))
+        .where(eq(yieldRuns.id, runId))
         .get();
       if (!row || row.status !== "running") return false;
       tx.insert(yieldChunks)
-        .values({ runId: a.run.id, startTrial: chunk.startTrial, count: chunk.count, data: chunk })
+        .values({ runId, startTrial: chunk.startTrial, count: chunk.count, data: chunk })
         .onConflictDoNothing()
         .run();
       tx.update(yieldRuns)
         .set({ progressDone: row.progressDone + chunk.count })
-        .where(eq(yieldRuns.id, a.run.id))
+        .where(eq(yieldRuns.id, runId))
         .run();
       return true;
     });
-    if (!stillRunning) a.stopped = true;
   }
 
-  async function merge(a: ActiveRun) {
-    a.stopped = true; // nothing more to dispatch for this run
-    a.inFlight++;
-    try {
-      await mergeAndStore(a);
-    } catch (err) {
-      if (!closed) failSafely(a.run.id, `the result could not be stored: ${messageOf(err)}`);
-    } finally {
-      a.inFlight--;
-    }
-    if (!closed) finishActive();
-  }
-
-  async function mergeAndStore(a: ActiveRun) {
+  async function mergeAndStore(run: YieldRunRow, study: YieldStudy) {
     const chunks = db
       .select({ data: yieldChunks.data })
       .from(yieldChunks)
-      .where(eq(yieldChunks.runId, a.run.id))
+      .where(eq(yieldChunks.runId, run.id))
       .orderBy(asc(yieldChunks.startTrial))
       .all()
       .map((c) => c.data as YieldChunk);
-    const pw = idleWorker();
-    let reply: WorkerReply;
-    if (!pw) reply = { taskId: 0, ok: false, error: "no worker available" };
-    else reply = await send(pw, { type: "merge", runId: a.run.id, study: a.study, chunks });
-    if (closed) return;
-    if (!reply.ok) fail(a.run.id, `trials could not be merged: ${reply.error}`);
-    else if (!("result" in reply)) fail(a.run.id, "a worker answered the merge without a result");
-    else {
-      const current = loadRun(a.run.id);
-      if (current && current.status === "running") {
-        db.transaction((tx) => {
-          const values = finishedRunValues(current, reply.result);
-          tx.update(yieldRuns)
-            .set(values)
-            .where(and(eq(yieldRuns.id, a.run.id), eq(yieldRuns.status, "running")))
-            .run();
-          tx.delete(yieldChunks).where(eq(yieldChunks.runId, a.run.id)).run();
-          const pct = (x: number) => `${(x * 100).toFixed(1)} %`;
-          auditRun(
-            tx,
-            a.run.id,
-            "yield_run.finished",
-            (label) =>
-              `A ${current.trials}-trial yield run on ${label} finished: ${pct(reply.result.yield)}, ` +
-              (values.verified ? "verified" : `not verified (${values.mismatch ?? "mismatch"})`),
-          );
-        });
-      }
+    let result: YieldResult;
+    try {
+      result = await compute.run({ kind: "merge", study, chunks });
+    } catch (err) {
+      if (!closed) fail(run.id, `trials could not be merged: ${messageOf(err)}`);
+      return;
     }
+    if (closed) return;
+    const current = loadRun(run.id);
+    if (!current || current.status !== "running") return;
+    db.transaction((tx) => {
+      const values = finishedRunValues(current, result);
+      tx.update(yieldRuns)
+        .set(values)
+        .where(and(eq(yieldRuns.id, run.id), eq(yieldRuns.status, "running")))
+        .run();
+      tx.delete(yieldChunks).where(eq(yieldChunks.runId, run.id)).run();
+      const pct = (x: number) => `${(x * 100).toFixed(1)} %`;
+      auditRun(
+        tx,
+        run.id,
+        "yield_run.finished",
+        (label) =>
+          `A ${current.trials}-trial yield run on ${label} finished: ${pct(result.yield)}, ` +
+          (values.verified ? "verified" : `not verified (${values.mismatch ?? "mismatch"})`),
+      );
+    });
+  }
+
+  function activeCount(where: ReturnType<typeof eq>): number {
+    const row = db
+      .select({ n: count() })
+      .from(yieldRuns)
+      .innerJoin(revisions, eq(yieldRuns.revisionId, revisions.id))
+      .innerJoin(designs, eq(revisions.designId, designs.id))
+      .innerJoin(programs, eq(designs.programId, programs.id))
+      .where(and(where, inArray(yieldRuns.status, ["queued", "running"])))
+      .get();
+    return row?.n ?? 0;
   }
 
   // Start-up: runs a previous process left queued or running are resumed, or failed with the reason.
@@ -415,8 +350,26 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
   if (queue.length > 0) setImmediate(pump);
 
   return {
-    size,
+    size: compute.threads,
     recovered,
+    admit({ userId, workspaceId }) {
+      const mine = activeCount(eq(yieldRuns.requestedBy, userId));
+      if (mine >= env.MAX_ACTIVE_RUNS_PER_USER)
+        throw new HttpError(
+          429,
+          "run_cap",
+          `You already have ${mine} yield runs queued or running; the cap is ${env.MAX_ACTIVE_RUNS_PER_USER} per member (MAX_ACTIVE_RUNS_PER_USER). Wait for one to finish or cancel one.`,
+          { cap: "MAX_ACTIVE_RUNS_PER_USER", limit: env.MAX_ACTIVE_RUNS_PER_USER, active: mine },
+        );
+      const theirs = activeCount(eq(programs.workspaceId, workspaceId));
+      if (theirs >= env.MAX_ACTIVE_RUNS_PER_WORKSPACE)
+        throw new HttpError(
+          429,
+          "run_cap",
+          `The workspace already has ${theirs} yield runs queued or running; the cap is ${env.MAX_ACTIVE_RUNS_PER_WORKSPACE} (MAX_ACTIVE_RUNS_PER_WORKSPACE).`,
+          { cap: "MAX_ACTIVE_RUNS_PER_WORKSPACE", limit: env.MAX_ACTIVE_RUNS_PER_WORKSPACE, active: theirs },
+        );
+    },
     enqueue(runId) {
       if (closed) return;
       queue.push(runId);
@@ -428,10 +381,7 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
         queue.splice(i, 1);
         release(runId);
       }
-      if (active?.run.id === runId) {
-        active.stopped = true;
-        dispatch();
-      }
+      if (scheduler.has(runId)) void scheduler.stop(runId);
     },
     settled(runId) {
       const run = loadRun(runId);
@@ -443,11 +393,12 @@ export function createJobService(deps: { env: Env; db: Db; mail: MailService }):
       });
     },
     async close() {
+      if (closed) return;
       closed = true;
       for (const id of [...waiters.keys()]) release(id);
-      await Promise.all(workers.map((w) => w.worker.terminate()));
-      workers.length = 0;
-      tasks.clear();
+      await Promise.all([...scheduled].map((id) => scheduler.stop(id)));
+      await scheduler.drained();
+      await Promise.all([...merging]);
     },
   };
 }

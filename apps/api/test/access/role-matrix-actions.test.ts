@@ -406,7 +406,17 @@ describe("another workspace", () => {
       .expect(201);
     const inv = await team.members.admin.agent.get(`${API}/invitations`).expect(200);
     const runs = await agentOf("approver").get(`${API}/revisions/${rel.revisionId}/yield-runs`).expect(200);
+    const lot = await agentOf("designer")
+      .post(`${API}/revisions/${rel.revisionId}/lots`)
+      .field("scale", "percent")
+      .field("quantity", "R")
+      .field("runId", "R-1")
+      .field("runDate", "2026-11-30")
+      .attach("file", Buffer.from("wavelength_nm,P1\n450,1.4\n650,1.45\n"), "lot.csv")
+      .expect(201);
     Object.assign(ids, {
+      lots: lot.body.id as string,
+      parts: (lot.body.parts[0] as { id: string }).id,
       programs: programId,
       designs: later.design.id,
       revisions: rel.revisionId,

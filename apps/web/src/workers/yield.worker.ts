@@ -1,18 +1,24 @@
-// Monte Carlo worker: compiles a yield study once, then runs the chunks of trials the pool hands it.
+// Monte Carlo worker: one of the page's warm pool. Keeps the compiled runner of each study it is working on (the
+// pool may interleave two studies), runs the chunks of trials the pool hands it.
 import * as Comlink from "comlink";
 import { createYieldRunner, yieldSweep } from "@stackproof/optics";
 import type { SweepPoint, YieldChunk, YieldRunner, YieldStudy } from "@stackproof/optics";
 
-let runner: YieldRunner | null = null;
+const runners = new Map<number, YieldRunner>();
 
 const api = {
-  init(study: YieldStudy): number {
-    runner = createYieldRunner(study);
+  init(key: number, study: YieldStudy): number {
+    const runner = createYieldRunner(study);
+    runners.set(key, runner);
     return runner.study.trials;
   },
-  runChunk(startTrial: number, count: number): YieldChunk {
+  runChunk(key: number, startTrial: number, count: number): YieldChunk {
+    const runner = runners.get(key);
     if (!runner) throw new Error("yield worker: init() the study first");
     return runner.runChunk(startTrial, count);
+  },
+  release(key: number): void {
+    runners.delete(key);
   },
   /** One point of the yield-vs-process sweep (every σ of the error model times `scale`). */
   sweepPoint(study: YieldStudy, scale: number): SweepPoint {

@@ -3,7 +3,7 @@ import { readFile } from "node:fs/promises";
 import { resolve } from "node:path";
 import { computeSpectrum, parseDesign } from "../core/index.ts";
 import { parseYieldStudy, runYield } from "../studies/index.ts";
-import { runYieldWithWorkers } from "./node-pool.ts";
+import { runYieldWithWorkers } from "./pool.ts";
 
 /** Where the CLI writes. */
 export interface CliIo {

@@ -63,6 +63,10 @@ function validateMeasurement(m: Measurement): void {
 }
 
 /**
+ * Unregularised per-layer fit of one spectrum, kept for refinement checks. For measured parts use
+ * {@link fitBuiltPart} (studies/asbuilt): this one reports no uncertainty and cannot say which layers the
+ * measurement does not determine.
+ *
  * Reverse-engineer a built coating: fit per-layer thickness factors (and optionally one index factor per
  * material) so that the model R or T (percent) matches a measured spectrum, by bounded Levenberg–Marquardt
  * from the nominal design. Layers of zero nominal thickness are left out. Residuals: model − measured, in percent.

@@ -1,3 +1,5 @@
+// Hand-written: ml-levenberg-marquardt (npm) has no bounds and returns neither the Jacobian nor a covariance,
+// which the as-built fits need for standard errors; the fits compute their Jacobian at the solution themselves.
 /**
  * A bounded nonlinear least-squares problem: minimise Σ r_k(x)² subject to lower ≤ x ≤ upper.
  * `residuals` writes r(x) into `out` (length residualCount) and must not keep references to `x`.

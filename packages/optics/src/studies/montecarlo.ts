@@ -2,11 +2,12 @@ import { z } from "zod";
 import { DesignSchema, parseDesign } from "../core/index.ts";
 import type { Design } from "../core/index.ts";
 import { ENGINE_VERSION } from "../version.ts";
-import { createTrialSampler, ErrorModelSchema, scaleErrorModel } from "./error-model.ts";
+import { ErrorModelSchema, scaleErrorModel } from "./error-model.ts";
+import { createStudySampler } from "./process/sampler.ts";
 import type { ErrorModel } from "./error-model.ts";
 import { TrialRandom } from "./random.ts";
 import { createSpecEvaluator, meritOf, PROTECTIVE_CAUTION, quantityValue, SpecMaskSchema } from "./spec.ts";
-import type { GroupPlan, Polarization, SpecEvaluator, SpecQuantity } from "./spec.ts";
+import type { BandPolarization, GroupPlan, SpecEvaluator, SpecQuantity } from "./spec.ts";
 import { parseWith } from "./validate.ts";
 import { wilsonInterval } from "./wilson.ts";
 import type { ProportionInterval } from "./wilson.ts";
@@ -75,7 +76,9 @@ export interface YieldChunk {
 /** Percentile envelope of one quantity at one (angle, polarization) over the union of its bands' samples. */
 export interface YieldEnvelope {
   quantity: SpecQuantity;
-  polarization: Polarization;
+  polarization: BandPolarization;
+  /** the band conditions in words (angle range, cone, polarization) */
+  conditions: string;
   angleDeg: number;
   wavelengths: number[];
   /** Percentiles p (0–100) by linear interpolation between order statistics (type 7). */
@@ -173,10 +176,7 @@ export function createYieldRunner(studyInput: YieldStudy): YieldRunner {
   const study = parseYieldStudy(studyInput);
   const design = study.design as Design;
   const evaluator = createSpecEvaluator(design, study.mask);
-  const sampler = createTrialSampler(
-    study.errorModel,
-    design.layers.map((l) => l.material),
-  );
+  const sampler = createStudySampler(study.errorModel, design);
   const envelopes = planEnvelopes(evaluator);
   const envelopeSamples = Math.min(study.trials, study.envelopeSamples ?? DEFAULT_ENVELOPE_SAMPLES);
   const nominal = evaluator.nominalThicknesses;
@@ -401,6 +401,7 @@ export function mergeYieldChunks(studyInput: YieldStudy, chunks: readonly YieldC
     return {
       quantity: plan.quantity,
       polarization: g.polarization,
+      conditions: g.conditions,
       angleDeg: g.angleDeg,
       wavelengths: plan.wavelengths,
       percentiles: out,

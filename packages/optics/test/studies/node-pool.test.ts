@@ -1,6 +1,6 @@
 // The Node worker-thread pool with real threads: results equal the single-thread merge, runs reuse the pool.
 import { describe, expect, it } from "vitest";
-import { createYieldPool } from "../../src/cli/node-pool.ts";
+import { createYieldPool } from "../../src/cli/pool.ts";
 import { mergeYieldChunks, runYieldChunk } from "../../src/studies/index.ts";
 import type { YieldStudy } from "../../src/studies/index.ts";
 import { htwAr4 } from "./fixtures.ts";

@@ -1,6 +1,8 @@
 // Programs, designs, revisions, studies, review threads and release decisions.
 // JSON columns hold values in the optics package's formats (design, spec mask, error model, yield result).
 import { sql } from "drizzle-orm";
+import type { Design, ErrorModel, MaterialModel, SpecMask, YieldResult } from "@stackproof/optics";
+import type { ClientResult } from "../../yield/verify.ts";
 import { index, integer, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 import { users, workspaces } from "./auth.ts";
 
@@ -49,8 +51,8 @@ export const programs = sqliteTable(
     application: text("application").notNull().default(""),
     protective: integer("protective", { mode: "boolean" }).notNull().default(false),
     targetYield: real("target_yield").notNull(),
-    specMask: text("spec_mask", { mode: "json" }).$type<unknown>().notNull(),
-    errorModel: text("error_model", { mode: "json" }).$type<unknown>().notNull(),
+    specMask: text("spec_mask", { mode: "json" }).$type<SpecMask>().notNull(),
+    errorModel: text("error_model", { mode: "json" }).$type<ErrorModel>().notNull(),
     studyDefaults: text("study_defaults", { mode: "json" }).$type<StudyDefaults>().notNull(),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
@@ -81,8 +83,8 @@ export const revisions = sqliteTable(
       .notNull()
       .references(() => designs.id, { onDelete: "cascade" }),
     number: integer("number").notNull(),
-    stack: text("stack", { mode: "json" }).$type<unknown>().notNull(),
-    specMask: text("spec_mask", { mode: "json" }).$type<unknown>().notNull(),
+    stack: text("stack", { mode: "json" }).$type<Design>().notNull(),
+    specMask: text("spec_mask", { mode: "json" }).$type<SpecMask>().notNull(),
     note: text("note").notNull().default(""),
     authorId: text("author_id")
       .notNull()
@@ -111,7 +113,7 @@ export const materials = sqliteTable(
     name: text("name").notNull(),
     role: text("role").notNull(),
     source: text("source").notNull(),
-    model: text("model", { mode: "json" }).$type<unknown>().notNull(),
+    model: text("model", { mode: "json" }).$type<MaterialModel>().notNull(),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
   },
@@ -149,9 +151,9 @@ export const yieldRuns = sqliteTable(
     progressDone: integer("progress_done").notNull().default(0),
     trials: integer("trials").notNull(),
     seed: text("seed").notNull(),
-    errorModel: text("error_model", { mode: "json" }).$type<unknown>().notNull(),
-    clientResult: text("client_result", { mode: "json" }).$type<unknown>(),
-    result: text("result", { mode: "json" }).$type<unknown>(),
+    errorModel: text("error_model", { mode: "json" }).$type<ErrorModel>().notNull(),
+    clientResult: text("client_result", { mode: "json" }).$type<ClientResult>(),
+    result: text("result", { mode: "json" }).$type<YieldResult>(),
     verified: integer("verified", { mode: "boolean" }),
     mismatch: text("mismatch"),
     engineVersion: text("engine_version").notNull(),
@@ -274,4 +276,59 @@ export const releases = sqliteTable(
     snapshot: text("snapshot", { mode: "json" }).$type<unknown>().notNull(),
   },
   (t) => [index("releases_workspace_idx").on(t.workspaceId)],
+);
+
+export const PART_STATUSES = ["pass", "fail", "incomplete"] as const;
+export type PartStatus = (typeof PART_STATUSES)[number];
+
+/** A lot of measured parts from one coating run, measured against a revision (usually the released one). */
+export const measuredLots = sqliteTable(
+  "measured_lots",
+  {
+    id: text("id").primaryKey(),
+    workspaceId: text("workspace_id")
+      .notNull()
+      .references(() => workspaces.id, { onDelete: "cascade" }),
+    programId: text("program_id")
+      .notNull()
+      .references(() => programs.id, { onDelete: "cascade" }),
+    revisionId: text("revision_id")
+      .notNull()
+      .references(() => revisions.id, { onDelete: "cascade" }),
+    /** The chamber's run id, as the team writes it. */
+    runId: text("run_id").notNull(),
+    /** Date of the coating run, YYYY-MM-DD. */
+    runDate: text("run_date").notNull(),
+    chamber: text("chamber").notNull().default(""),
+    notes: text("notes").notNull().default(""),
+    /** Guard-band coverage factor used for the verdicts. */
+    guardK: real("guard_k").notNull(),
+    createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index("measured_lots_program_idx").on(t.programId),
+    index("measured_lots_revision_idx").on(t.revisionId),
+  ],
+);
+
+/** A measured part of a lot: its spectra (optics MeasuredSpectrum[], percent), verdict and optional fit. */
+export const measuredParts = sqliteTable(
+  "measured_parts",
+  {
+    id: text("id").primaryKey(),
+    lotId: text("lot_id")
+      .notNull()
+      .references(() => measuredLots.id, { onDelete: "cascade" }),
+    /** The part's name in the lot (a column header of the uploaded file). */
+    label: text("label").notNull(),
+    measurements: text("measurements", { mode: "json" }).$type<unknown>().notNull(),
+    status: text("status", { enum: PART_STATUSES }).notNull(),
+    verdict: text("verdict", { mode: "json" }).$type<unknown>().notNull(),
+    /** The as-built fit (optics BuiltFitResult without spectra), when one was run. */
+    fit: text("fit", { mode: "json" }).$type<unknown>(),
+    fittedAt: integer("fitted_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("measured_parts_lot_label_unique").on(t.lotId, t.label)],
 );

@@ -17,9 +17,12 @@ import {
   assertFreshBase,
   createRevision,
   designView,
+  notComputable,
   overviewRows,
+  revisionInput,
   revisionView,
 } from "../../domain/revisions.ts";
+import { nominalFor } from "../../yield/nominal.ts";
 import { workQueue } from "../../domain/queue.ts";
 import { parseLayerCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
@@ -30,7 +33,7 @@ import {
   RevisionSchema,
   RevisionSummarySchema,
   fileField,
-} from "./schemas.ts";
+} from "@stackproof/contracts";
 
 const TAG = "Designs and revisions";
 
@@ -112,9 +115,19 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         409: "The base revision is not the design's latest (stale_base); details name both revisions",
       },
     },
-    ({ req, params, body }) => {
+    async ({ req, params, body }) => {
       const auth = getAuth(req);
       const { design, program } = loadDesign(ctx.db, auth.workspaceId, params.id);
+      // A stale save is refused before any computing; checked again in the transaction below (a save may land meanwhile).
+      assertFreshBase(ctx.db, design.id, body.baseRevisionId);
+      // Evaluated on the worker pool first: a heavy design never holds the request thread.
+      const input = revisionInput(ctx.db, {
+        workspaceId: auth.workspaceId,
+        program,
+        stack: body.stack,
+        specMask: body.specMask,
+      });
+      const nominal = await ctx.compute.evaluateSpec(input.stack, input.evalMask).catch(notComputable);
       const revision = ctx.db.transaction((tx) => {
         assertFreshBase(tx, design.id, body.baseRevisionId);
         const revision = createRevision(tx, {
@@ -125,6 +138,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
           specMask: body.specMask,
           note: body.note,
           authorId: auth.user.id,
+          evaluated: true,
         });
         recordAudit(tx, {
           workspaceId: auth.workspaceId,
@@ -137,7 +151,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         });
         return revision;
       });
-      return revisionView(ctx.db, { revision, design, program });
+      return revisionView(ctx.db, { revision, design, program }, nominal);
     },
   );
 
@@ -153,9 +167,10 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       response: RevisionSchema,
       errors: { 404: "No such revision in this workspace" },
     },
-    ({ req, params }) => {
+    async ({ req, params }) => {
       const auth = getAuth(req);
-      return revisionView(ctx.db, loadRevision(ctx.db, auth.workspaceId, params.id));
+      const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
+      return revisionView(ctx.db, rc, await nominalFor(ctx, rc));
     },
   );
 

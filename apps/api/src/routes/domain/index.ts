@@ -2,6 +2,7 @@
 import { Router } from "express";
 import type { AppContext } from "../../context.ts";
 import { designRoutes } from "./designs.ts";
+import { lotRoutes } from "./lots.ts";
 import { materialRoutes } from "./materials.ts";
 import { programRoutes } from "./programs.ts";
 import { threadRoutes } from "./threads.ts";
@@ -16,5 +17,6 @@ export function domainRoutes(ctx: AppContext): Router {
   yieldRoutes(ctx, router);
   threadRoutes(ctx, router);
   workflowRoutes(ctx, router);
+  lotRoutes(ctx, router);
   return router;
 }

@@ -12,6 +12,8 @@ import { newId } from "../../domain/canonical.ts";
 import { loadProgram } from "../../domain/load.ts";
 import {
   createRevision,
+  notComputable,
+  revisionInput,
   designView,
   overviewRows,
   programDesigns,
@@ -26,7 +28,7 @@ import {
   ProgramPatchBody,
   ProgramSchema,
   RevisionSchema,
-} from "./schemas.ts";
+} from "@stackproof/contracts";
 
 const TAG = "Programs";
 
@@ -215,9 +217,17 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       response: DesignSchemaOut.extend({ design: DesignSchemaOut, revision: RevisionSchema }),
       errors: { 404: "No such program in this workspace" },
     },
-    ({ req, params, body }) => {
+    async ({ req, params, body }) => {
       const auth = getAuth(req);
       const program = loadProgram(ctx.db, auth.workspaceId, params.id);
+      // Evaluated on the worker pool first: a heavy design never holds the request thread.
+      const input = revisionInput(ctx.db, {
+        workspaceId: auth.workspaceId,
+        program,
+        stack: body.stack,
+        specMask: body.specMask,
+      });
+      const nominal = await ctx.compute.evaluateSpec(input.stack, input.evalMask).catch(notComputable);
       const { design, revision } = ctx.db.transaction((tx) => {
         const design = {
           id: newId(),
@@ -235,6 +245,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
           specMask: body.specMask,
           note: body.note,
           authorId: auth.user.id,
+          evaluated: true,
         });
         recordAudit(tx, {
           workspaceId: auth.workspaceId,
@@ -249,7 +260,11 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       });
       const view = designView(ctx.db, design, program);
       // The design's own fields at the top level too, so the answer reads like GET /designs/:id.
-      return { ...view, design: view, revision: revisionView(ctx.db, { revision, design, program }) };
+      return {
+        ...view,
+        design: view,
+        revision: revisionView(ctx.db, { revision, design, program }, nominal),
+      };
     },
   );
 }

@@ -12,8 +12,9 @@ import { route } from "../../lib/route.ts";
 import { newId } from "../../domain/canonical.ts";
 import { loadRevision, loadThread, maskOf, stackOf, type RevisionContext } from "../../domain/load.ts";
 import { mailMention } from "../../domain/notify.ts";
+import { nominalFor } from "../../yield/nominal.ts";
 import { findMentions, threadViews, threadsForRevision, workspaceMembers } from "../../domain/threads.ts";
-import { AnchorSchema, CommentBodySchema, IdParams, ThreadSchema } from "./schemas.ts";
+import { AnchorSchema, CommentBodySchema, IdParams, ThreadListResponse, ThreadSchema } from "@stackproof/contracts";
 
 const TAG = "Review threads";
 
@@ -47,13 +48,13 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({ items: z.array(ThreadSchema) }),
+      response: ThreadListResponse,
       errors: { 404: "No such revision" },
     },
-    ({ req, params }) => {
+    async ({ req, params }) => {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
-      return { items: threadViews(ctx.db, threadsForRevision(ctx.db, rc), rc) };
+      return { items: threadViews(ctx.db, threadsForRevision(ctx.db, rc), rc, await nominalFor(ctx, rc)) };
     },
   );
 
@@ -75,7 +76,7 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
       response: ThreadSchema,
       errors: { 404: "No such revision", 422: "The anchor names a band or layer the revision does not have" },
     },
-    ({ req, params, body }) => {
+    async ({ req, params, body }) => {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
       const anchor = body.anchor;
@@ -122,7 +123,7 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
       });
       for (const m of mentioned) mailMention(ctx, rc, m, auth.user.name, body.body);
       const row = ctx.db.select().from(threads).where(eq(threads.id, id)).get();
-      return threadViews(ctx.db, row ? [row] : [], rc)[0];
+      return threadViews(ctx.db, row ? [row] : [], rc, await nominalFor(ctx, rc))[0];
     },
   );
 
@@ -143,7 +144,7 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
         404: "No such thread",
       },
     },
-    ({ req, params, body }) => {
+    async ({ req, params, body }) => {
       const auth = getAuth(req);
       if (!auth.roles.some((r) => r !== "admin"))
         throw forbidden("Commenting needs a designer, reviewer or approver role.");
@@ -163,7 +164,7 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
       });
       for (const m of mentioned) mailMention(ctx, rc, m, auth.user.name, body.body);
       const row = ctx.db.select().from(threads).where(eq(threads.id, thread.id)).get();
-      return threadViews(ctx.db, row ? [row] : [], rc)[0];
+      return threadViews(ctx.db, row ? [row] : [], rc, await nominalFor(ctx, rc))[0];
     },
   );
 
@@ -185,7 +186,7 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
           409: `The thread is already ${action === "resolve" ? "resolved" : "open"}`,
         },
       },
-      ({ req, params, body }) => {
+      async ({ req, params, body }) => {
         const auth = getAuth(req);
         const { thread } = loadThread(ctx.db, auth.workspaceId, params.id);
         if (
@@ -231,7 +232,7 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
           .get();
         const on = latest ? { ...rc, revision: latest } : rc;
         const row = ctx.db.select().from(threads).where(eq(threads.id, thread.id)).get();
-        return threadViews(ctx.db, row ? [row] : [], on)[0];
+        return threadViews(ctx.db, row ? [row] : [], on, await nominalFor(ctx, on))[0];
       },
     );
   }

@@ -11,8 +11,9 @@ import { route } from "../../lib/route.ts";
 import { loadRevision } from "../../domain/load.ts";
 import { releasePrintHtml } from "../../domain/release-print.ts";
 import { revisionView } from "../../domain/revisions.ts";
+import { nominalFor } from "../../yield/nominal.ts";
 import { applyTransition, decisionViews, evaluateGate, type ReleaseSnapshot } from "../../domain/workflow.ts";
-import { DecisionSchema, GateSchema, IdParams, RevisionSchema } from "./schemas.ts";
+import { DecisionSchema, GateSchema, IdParams, RevisionSchema } from "@stackproof/contracts";
 
 const TAG = "Workflow and release";
 
@@ -115,12 +116,16 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
         422: "Approval refused by the gate; details.checks lists every failed check",
       },
     },
-    ({ req, params, body }) => {
+    async ({ req, params, body }) => {
       const auth = getAuth(req);
       const out = applyTransition(ctx, auth, params.id, body);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
       const decision = decisionViews(ctx.db, params.id).find((d) => d.id === out.decision.id);
-      return { revision: revisionView(ctx.db, rc), decision, releaseId: out.releaseId };
+      return {
+        revision: revisionView(ctx.db, rc, await nominalFor(ctx, rc)),
+        decision,
+        releaseId: out.releaseId,
+      };
     },
   );
 

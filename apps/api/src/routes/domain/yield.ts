@@ -28,7 +28,7 @@ import {
   type YieldRunRow,
 } from "../../domain/load.ts";
 import { ClientResultSchema } from "../../yield/verify.ts";
-import { IdParams, YieldRunSchema } from "./schemas.ts";
+import { IdParams, YieldRunSchema } from "@stackproof/contracts";
 
 const TAG = "Yield runs";
 
@@ -82,11 +82,15 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       }),
       status: 202,
       response: z.object({ run: YieldRunSchema }),
-      errors: { 404: "No such revision" },
+      errors: {
+        404: "No such revision",
+        429: "A cap on yield runs queued or running at once is reached (named in the message)",
+      },
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
+      ctx.jobs.admit({ userId: auth.user.id, workspaceId: auth.workspaceId });
       const trials = body.trials ?? rc.program.studyDefaults.trials;
       const seed = body.seed ?? rc.program.studyDefaults.seed;
       const errorModel = (body.errorModel ?? rc.program.errorModel) as ErrorModel;

@@ -22,6 +22,7 @@ import { hasRole, useSession } from "../../lib/session.ts";
 import { formatDate, formatTarget, formatYield } from "../../lib/format.ts";
 import { cx } from "../../components/ui/cx.ts";
 import { ReleaseList } from "../../features/releases/components/release-list.tsx";
+import { YieldHistory } from "../../features/as-built/components/yield-history.tsx";
 
 export function loader({ params }: LoaderFunctionArgs) {
   if (params.programId) void queryClient.prefetchQuery(programQueryOptions(params.programId));
@@ -148,6 +149,10 @@ export function Component() {
           </Card>
         </div>
       </div>
+
+      <Card title="Measured lots" description="Actual yield of built parts against the predicted yield, and the error model they imply.">
+        <YieldHistory programId={p.id} canAdopt={canEdit} />
+      </Card>
 
       <Card title="Spec mask" description="A design passes when every band passes.">
         <SpecMaskTable mask={p.specMask} caption={`Spec mask of ${p.name}`} />

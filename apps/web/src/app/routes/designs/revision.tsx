@@ -1,5 +1,5 @@
 // The design workspace of one revision: live spectrum against the spec mask, review threads beside it,
-// the layer editor, and tabs for tolerance studies, refinement, as-built data, history and sign-off.
+// the layer editor, and tabs for tolerance studies, Nudge (local optimizer), as-built data, history and sign-off.
 import { useCallback, useDeferredValue, useMemo, useReducer, useRef, useState } from "react";
 import type { ReactNode } from "react";
 import { Link, useNavigate, useParams } from "react-router";
@@ -17,7 +17,7 @@ import { designQueryOptions, useDesign } from "../../../features/workspace/api/g
 import { programQueryOptions, useProgram } from "../../../features/workspace/api/get-program.ts";
 import { materialsQueryOptions, useMaterials } from "../../../features/workspace/api/get-materials.ts";
 import { staleBaseOf, useCreateRevision } from "../../../features/workspace/api/create-revision.ts";
-import type { Program, Revision, DesignDetail } from "../../../features/workspace/api/types.ts";
+import type { DesignDetail, Program, Revision } from "@stackproof/contracts";
 import { editorReducer, initEditor, sameDesign } from "../../../features/workspace/lib/editor-state.ts";
 import { libraryOptions, withWorkspaceMaterials } from "../../../features/workspace/lib/materials.ts";
 import type { MaterialOption } from "../../../features/workspace/lib/materials.ts";
@@ -33,6 +33,7 @@ import { spectrumCurves } from "../../../features/spectrum/lib/curves.ts";
 import { useElementWidth } from "../../../features/spectrum/components/use-element-width.ts";
 import { StudiesPanel } from "../../../features/studies/components/studies-panel.tsx";
 import { RefinementPanel } from "../../../features/refinement/components/refinement-panel.tsx";
+import { ProcessPanel } from "../../../features/process/components/process-panel.tsx";
 import { ReviewPanel } from "../../../features/review/components/review-panel.tsx";
 import { useThreads } from "../../../features/review/api/threads.ts";
 import type { ThreadAnchor } from "../../../features/review/api/threads.ts";
@@ -75,7 +76,7 @@ export function Component() {
   );
 }
 
-type TabId = "study" | "refine" | "asbuilt" | "history";
+type TabId = "study" | "process" | "refine" | "asbuilt" | "history";
 
 function Workspace({ revision, design, program, materials }: { revision: Revision; design: DesignDetail; program: Program; materials: MaterialOption[] }) {
   const session = useSession();
@@ -194,8 +195,13 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
       ),
     },
     {
+      id: "process",
+      label: "Process",
+      content: <ProcessPanel design={deferred} mask={mask} errorModel={program.errorModel} defaults={program.studyDefaults} targetYield={program.targetYield} />,
+    },
+    {
       id: "refine",
-      label: "Refine",
+      label: "Nudge",
       content: (
         <RefinementPanel
           design={deferred}
@@ -213,7 +219,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
     {
       id: "asbuilt",
       label: "As built",
-      content: <AsBuiltPanel revisionId={revision.id} design={savedStack} canUpload={isDesigner} width={tabsWidth} onOverlay={setMeasured} />,
+      content: <AsBuiltPanel revisionId={revision.id} design={savedStack} canUpload={isDesigner} width={tabsWidth} onOverlay={setMeasured} errorModel={program.errorModel} programId={program.id} mask={mask} />,
     },
     { id: "history", label: `Revisions (${design.revisions.length})`, content: <RevisionHistory designId={design.id} revisions={design.revisions} currentId={revision.id} /> },
   ];
@@ -241,7 +247,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
             ) : null}
           </h1>
           <p className="text-xs text-ink-700">
-            {revision.author.name} · {new Date(revision.createdAt).toLocaleString()} · “{revision.note}” · <span className="font-mono" title="Revision hash">{revision.hash.slice(0, 12)}</span>
+            {revision.author?.name ?? "unknown author"} · {new Date(revision.createdAt).toLocaleString()} · “{revision.note}” · <span className="font-mono" title="Revision hash">{revision.hash.slice(0, 12)}</span>
           </p>
         </div>
         <div className="ml-auto flex min-w-72 flex-col items-end gap-2">
@@ -252,17 +258,21 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
       {program.protective ? <ProtectiveCaution application={program.application} /> : null}
       <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_380px]">
         <div className="min-w-0 space-y-4">
-          <SpectrumPanel
-            design={current}
-            mask={mask}
-            view={view}
-            onViewChange={setView}
-            overlays={overlays}
-            envelopes={envelopes}
-            markers={markers}
-            onSelectRange={(start, stop) => setProposed({ kind: "range", start, stop })}
-            bandAction={canThread ? bandAction : undefined}
-          />
+          {/* The chart stays in view (sticky) while the layer grid below it scrolls: both visible at 1280×800 and up. */}
+          <div className="lg:sticky lg:top-0 lg:z-10 lg:bg-paper lg:pb-1" data-testid="sticky-spectrum">
+            <SpectrumPanel
+              design={current}
+              mask={mask}
+              view={view}
+              onViewChange={setView}
+              overlays={overlays}
+              envelopes={envelopes}
+              markers={markers}
+              height={240}
+              onSelectRange={(start, stop) => setProposed({ kind: "range", start, stop })}
+              bandAction={canThread ? bandAction : undefined}
+            />
+          </div>
           {proposed?.kind === "range" ? (
             <p className="text-xs text-ink-700" role="status">
               Range {proposed.start}–{proposed.stop} nm selected for a new review thread (see the thread form).{" "}
@@ -335,7 +345,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
             revisionId={revision.id}
             designId={design.id}
             status={status}
-            authorId={revision.author.id}
+            authorId={revision.author?.id ?? ""}
             onTransition={onTransition}
           />
           <ReviewPanel

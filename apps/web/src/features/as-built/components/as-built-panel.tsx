@@ -1,14 +1,16 @@
-// As-built: measured spectra of built coatings against the revision's curve, their difference, and a fit
-// (in a worker) that estimates each layer's thickness error.
+// As-built: measured spectra of built coatings against the revision's curve, their difference, a fit (in a
+// worker, with progress and cancel) that reports what the measurement can tell, and the lots of measured parts.
 import { useMemo, useState, memo } from "react";
 import type { FormEvent } from "react";
 import { createStackEvaluator } from "@stackproof/optics";
-import type { Design, FitResult } from "@stackproof/optics";
-import { scaleBand, scaleLinear } from "@visx/scale";
-import { Bar, LinePath, Line } from "@visx/shape";
+import type { BuiltFitResult, Design, ErrorModel, SpecMask } from "@stackproof/optics";
+import { scaleLinear } from "@visx/scale";
+import { LinePath, Line } from "@visx/shape";
 import { AxisBottom, AxisLeft } from "@visx/axis";
 import { Group } from "@visx/group";
-import { runEngineJob } from "../../../workers/pool.ts";
+import { useFitJob } from "../hooks/use-fit-job.ts";
+import { FitReport } from "./fit-report.tsx";
+import { LotPanel } from "./lot-panel.tsx";
 import { ApiError } from "../../../lib/api-client.ts";
 import { useMeasurements, useUploadMeasurement } from "../api/measurements.ts";
 import type { MeasuredSpectrum } from "../api/measurements.ts";
@@ -28,6 +30,10 @@ export interface AsBuiltPanelProps {
   design: Design;
   canUpload: boolean;
   width: number;
+  /** the program's error model: the prior of the per-layer fit */
+  errorModel?: ErrorModel;
+  programId?: string;
+  mask?: SpecMask;
   onOverlay: (overlays: MeasuredOverlay[]) => void;
 }
 
@@ -49,7 +55,8 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
   const list = useMeasurements(props.revisionId);
   const upload = useUploadMeasurement(props.revisionId);
   const [selected, setSelected] = useState<string | null>(null);
-  const [fit, setFit] = useState<{ s: "idle" } | { s: "running" } | { s: "done"; r: FitResult; id: string } | { s: "error"; message: string }>({ s: "idle" });
+  const job = useFitJob();
+  const [baseline, setBaseline] = useState({ offset: false, shift: false });
   const [form, setForm] = useState({ label: "", angleDeg: "0", polarization: "u" as "s" | "p" | "u", file: null as File | null });
   const [formError, setFormError] = useState<string | null>(null);
   // Bumped after an upload so the file input forgets the file it held.
@@ -57,11 +64,12 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
   const m = (list.data ?? []).find((x) => x.id === selected) ?? null;
   const model = useMemo(() => (m ? modelValues(props.design, m) : null), [m, props.design]);
 
-  const show = (next: MeasuredSpectrum | null, fitted?: FitResult) => {
+  const show = (next: MeasuredSpectrum | null, fitted?: BuiltFitResult) => {
     setSelected(next?.id ?? null);
     if (!next) return props.onOverlay([]);
     const overlays: MeasuredOverlay[] = [{ id: `measured-${next.id}`, label: `Measured ${next.quantity}: ${next.label}`, quantity: next.quantity, wavelengths: next.wavelengths, values: next.values, kind: "measured" }];
-    if (fitted) overlays.push({ id: `fitted-${next.id}`, label: `Fitted ${next.quantity}`, quantity: next.quantity, wavelengths: next.wavelengths, values: fitted.fittedSpectrum, kind: "fitted" });
+    const fv = fitted?.models[fitted.chosen]?.fitted[0];
+    if (fv) overlays.push({ id: `fitted-${next.id}`, label: `Fitted ${next.quantity}`, quantity: next.quantity, wavelengths: next.wavelengths, values: fv, kind: "fitted" });
     props.onOverlay(overlays);
   };
 
@@ -85,17 +93,20 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
 
   const runFit = async () => {
     if (!m) return;
-    setFit({ s: "running" });
-    try {
-      const r = await runEngineJob((api) => api.fitAsBuilt(props.design, { wavelengths: m.wavelengths, values: m.values, quantity: m.quantity, angleDeg: m.angleDeg, polarization: m.polarization }));
-      setFit({ s: "done", r, id: m.id });
-      show(m, r);
-    } catch (e) {
-      setFit({ s: "error", message: e instanceof Error ? e.message : String(e) });
-    }
+    const r = await job.run(
+      m.id,
+      props.design,
+      [{ wavelengths: m.wavelengths, values: m.values, quantity: m.quantity, angleDeg: m.angleDeg, polarization: m.polarization }],
+      {
+        ...(props.errorModel ? { errorModel: props.errorModel } : {}),
+        baseline: { ...(baseline.offset ? { offset: "fit" as const } : {}), ...(baseline.shift ? { shiftNm: "fit" as const } : {}) },
+      },
+    );
+    if (r) show(m, r);
   };
+  const fitted = job.state.s === "done" && job.state.key === m?.id ? job.state.result : null;
+  const fittedSpectrum = fitted?.models[fitted.chosen]?.fitted[0] ?? null;
 
-  const fitted = fit.s === "done" && fit.id === m?.id ? fit.r : null;
   return (
     <section aria-labelledby="asbuilt-h" className="space-y-3">
       <h2 id="asbuilt-h" className="text-base font-semibold">
@@ -117,15 +128,37 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
       ) : null}
       {m && Array.isArray(model) ? (
         <div className="space-y-2">
-          <DifferenceChart m={m} model={model} fitted={fitted?.fittedSpectrum ?? null} width={Math.min(props.width, 620)} />
-          <div className="flex items-center gap-2">
-            <button type="button" onClick={() => void runFit()} disabled={fit.s === "running"} className="rounded bg-ink-900 px-3 py-1.5 text-sm font-semibold text-paper disabled:opacity-40">
-              {fit.s === "running" ? "Fitting in a worker…" : "Estimate layer errors"}
+          <DifferenceChart m={m} model={model} fitted={fittedSpectrum} width={Math.min(props.width, 620)} />
+          <div className="flex flex-wrap items-center gap-3 text-xs">
+            <button type="button" onClick={() => void runFit()} disabled={job.state.s === "running"} className="rounded bg-ink-900 px-3 py-1.5 text-sm font-semibold text-paper disabled:opacity-40">
+              {job.state.s === "running" ? "Fitting in a worker…" : "Fit the built part"}
             </button>
-            {fitted ? <span className="text-xs text-ink-700">RMS residual {fitted.residualRms.toFixed(2)} % after {fitted.iterations} iterations</span> : null}
+            {job.state.s === "running" ? (
+              <>
+                <progress max={1} value={job.state.fraction} aria-label="Fit progress" className="w-32" />
+                <span>{job.state.stage}</span>
+                <button type="button" onClick={job.cancel} className="rounded border border-ink-300 bg-white px-2 py-1">
+                  Cancel
+                </button>
+              </>
+            ) : null}
+            <label className="flex items-center gap-1">
+              <input type="checkbox" checked={baseline.offset} onChange={(e) => setBaseline({ ...baseline, offset: e.target.checked })} />
+              fit a baseline offset
+            </label>
+            <label className="flex items-center gap-1">
+              <input type="checkbox" checked={baseline.shift} onChange={(e) => setBaseline({ ...baseline, shift: e.target.checked })} />
+              fit a wavelength shift
+            </label>
+            {job.state.s === "cancelled" ? <span>Fit cancelled.</span> : null}
           </div>
-          {fit.s === "error" ? <p role="alert" className="text-xs text-verdict-fail">{fit.message}</p> : null}
-          {fitted ? <LayerErrorBars errors={fitted.thicknessErrorsPct} materials={props.design.layers.map((l) => l.material)} width={Math.min(props.width, 620)} /> : null}
+          {!props.errorModel ? <p className="text-xs text-ink-500">Without the program’s error model only the tooling models are fitted.</p> : null}
+          {job.state.s === "error" ? <p role="alert" className="text-xs text-verdict-fail">{job.state.message}</p> : null}
+          {fitted ? (
+            <div data-testid="asbuilt-worker-fit">
+              <FitReport fit={fitted} width={Math.min(props.width, 620)} />
+            </div>
+          ) : null}
         </div>
       ) : null}
       {m && typeof model === "string" ? <p role="alert" className="text-xs text-verdict-fail">The model cannot be evaluated at the measured wavelengths: {model}</p> : null}
@@ -171,6 +204,7 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
           {upload.error ? <p className="col-span-2 text-ink-500 md:col-span-5">Nothing was stored; fix the file and upload it again.</p> : null}
         </form>
       ) : null}
+      {props.programId && props.mask ? <LotPanel revisionId={props.revisionId} programId={props.programId} design={props.design} canUpload={props.canUpload} width={props.width} /> : null}
     </section>
   );
 });
@@ -209,30 +243,6 @@ function DifferenceChart({ m, model, fitted, width }: { m: MeasuredSpectrum; mod
         {diffFit ? <LinePath<number> data={idx} x={(i) => x(m.wavelengths[i] ?? 0)} y={(i) => y(diffFit[i] ?? 0)} stroke="#1f7f7a" strokeWidth={1.2} strokeDasharray="4 3" fill="none" /> : null}
         <AxisLeft scale={y} numTicks={4} label={`Δ${m.quantity} (%)`} labelOffset={26} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "end", dx: -2, dy: 3 }} labelProps={{ fontSize: 11, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
         <AxisBottom top={ih} scale={x} numTicks={6} label="Wavelength (nm) — amber: measured − design, teal dashed: measured − fit" labelOffset={8} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} labelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
-      </Group>
-    </svg>
-  );
-}
-
-function LayerErrorBars({ errors, materials, width }: { errors: number[]; materials: string[]; width: number }) {
-  const mg = { top: 8, right: 10, bottom: 30, left: 44 };
-  const height = 170;
-  const iw = Math.max(10, width - mg.left - mg.right);
-  const ih = height - mg.top - mg.bottom;
-  const lim = Math.max(1, ...errors.map(Math.abs));
-  const x = scaleBand<number>({ domain: errors.map((_, i) => i), range: [0, iw], padding: 0.2 });
-  const y = scaleLinear<number>({ domain: [-lim, lim], range: [ih, 0] });
-  return (
-    <svg width={width} height={height} role="img" aria-label="Estimated thickness error of each layer, percent" data-testid="asbuilt-errors">
-      <Group left={mg.left} top={mg.top}>
-        <Line from={{ x: 0, y: y(0) }} to={{ x: iw, y: y(0) }} stroke="#5a708f" />
-        {errors.map((e, i) => (
-          <Bar key={i} x={x(i) ?? 0} width={x.bandwidth()} y={Math.min(y(0), y(e))} height={Math.abs(y(e) - y(0))} fill={Math.abs(e) > 2 ? "#b3362d" : "#1f7f7a"}>
-            <title>{`Layer ${i + 1} (${materials[i] ?? ""}): ${e >= 0 ? "+" : ""}${e.toFixed(2)} %`}</title>
-          </Bar>
-        ))}
-        <AxisLeft scale={y} numTicks={4} label="Thickness error (%)" labelOffset={26} tickLabelProps={{ fontSize: 10, fill: "#2c4669", textAnchor: "end", dx: -2, dy: 3 }} labelProps={{ fontSize: 11, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
-        <AxisBottom top={ih} scale={x} tickFormat={(i) => String(Number(i) + 1)} numTicks={Math.min(errors.length, 20)} tickLabelProps={{ fontSize: 9, fill: "#2c4669", textAnchor: "middle" }} stroke="#5a708f" />
       </Group>
     </svg>
   );

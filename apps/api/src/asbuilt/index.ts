@@ -1,0 +1,70 @@
+// As-built fits off the request thread: each fit runs in its own worker thread (at most FIT_THREADS at once,
+// the rest wait), so one long fit does not stall other requests. A RangeError from the optics package comes
+// back as a 400 naming the value; a fit running past FIT_TIMEOUT_MS is stopped (503).
+import { Worker } from "node:worker_threads";
+import type {
+  BuiltFitOptions,
+  BuiltFitResult,
+  Design,
+  FilmFitOptions,
+  FilmFitResult,
+  MeasuredSpectrum,
+} from "@stackproof/optics";
+import { HttpError } from "../lib/errors.ts";
+
+export type FitRequest =
+  | { kind: "part"; design: Design; measurements: MeasuredSpectrum[]; options: Omit<BuiltFitOptions, "onProgress" | "shouldStop"> }
+  | { kind: "film"; measurements: MeasuredSpectrum[]; options: FilmFitOptions };
+
+export type FitReply =
+  | { ok: true; result: BuiltFitResult | FilmFitResult }
+  | { ok: false; range: boolean; message: string };
+
+/** Fits running at once (the machine's two cores; more would only slow each other). */
+export const FIT_THREADS = 2;
+/** A fit is stopped after this long. */
+export const FIT_TIMEOUT_MS = 120_000;
+
+let running = 0;
+const waiting: (() => void)[] = [];
+
+async function slot(): Promise<() => void> {
+  if (running >= FIT_THREADS) await new Promise<void>((resolve) => waiting.push(resolve));
+  running++;
+  return () => {
+    running--;
+    waiting.shift()?.();
+  };
+}
+
+async function run(req: FitRequest): Promise<BuiltFitResult | FilmFitResult> {
+  const done = await slot();
+  try {
+    const worker = new Worker(new URL("./fit-boot.mjs", import.meta.url));
+    const reply = await new Promise<FitReply>((resolve) => {
+      const timer = setTimeout(() => resolve({ ok: false, range: false, message: `the fit did not finish within ${FIT_TIMEOUT_MS / 1000} s` }), FIT_TIMEOUT_MS);
+      const finish = (r: FitReply) => {
+        clearTimeout(timer);
+        resolve(r);
+      };
+      worker.once("message", finish);
+      worker.once("error", (err) => finish({ ok: false, range: false, message: `fit thread failed: ${err.message}` }));
+      worker.once("exit", (code) => finish({ ok: false, range: false, message: `fit thread stopped (exit code ${code})` }));
+      worker.postMessage(req);
+    });
+    await worker.terminate();
+    if (reply.ok) return reply.result;
+    if (reply.range) throw new HttpError(400, "invalid_input", reply.message);
+    throw new HttpError(503, "fit_failed", `The fit could not be completed: ${reply.message}.`);
+  } finally {
+    done();
+  }
+}
+
+/** {@link fitBuiltPart} in a worker thread. */
+export const fitPartOffThread = (design: Design, measurements: MeasuredSpectrum[], options: Omit<BuiltFitOptions, "onProgress" | "shouldStop">) =>
+  run({ kind: "part", design, measurements, options }) as Promise<BuiltFitResult>;
+
+/** {@link fitWitnessFilm} in a worker thread. */
+export const fitFilmOffThread = (measurements: MeasuredSpectrum[], options: FilmFitOptions) =>
+  run({ kind: "film", measurements, options }) as Promise<FilmFitResult>;
