@@ -211,6 +211,8 @@ describe("production defaults", () => {
     const smtp = loadEnv({ NODE_ENV: "production", SMTP_HOST: "smtp.halvorsen-thinfilm.test" });
     expect(smtp.MAIL_CAPTURE).toBe(false);
     expect(smtp.DEMO_DATA).toBe(false);
+    // Processes that send no mail (the Redis worker, the backup command) start without one; the server does not.
+    expect(loadEnv({ NODE_ENV: "production" }, { sendsMail: false })).toMatchObject({ MAIL_CAPTURE: false });
     // Outside production the capture and the demo stay on by default.
     expect(loadEnv({ NODE_ENV: "development" })).toMatchObject({ MAIL_CAPTURE: true, DEMO_DATA: true });
   });

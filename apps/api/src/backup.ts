@@ -6,7 +6,7 @@ import { loadEnv } from "./env.ts";
 import { backupDatabase, restoreDatabase } from "./db/backup.ts";
 
 const [command, file] = process.argv.slice(2);
-const env = loadEnv();
+const env = loadEnv(process.env, { sendsMail: false });
 const database = env.DATABASE_FILE ?? path.join(env.DATA_DIR, "stackproof.db");
 const usage = "usage: backup.js backup <new-file> | backup.js restore <backup-file>";
 

@@ -20,13 +20,19 @@ const EnvSchema = z.object({
     .optional()
     .transform((v, c) => {
       const out: string[] = [];
-      for (const item of (v ?? "").split(",").map((s) => s.trim()).filter(Boolean)) {
+      for (const item of (v ?? "")
+        .split(",")
+        .map((s) => s.trim())
+        .filter(Boolean)) {
         try {
           const origin = new URL(item).origin;
           if (origin === "null") throw new Error("opaque");
           out.push(origin);
         } catch {
-          c.addIssue({ code: "custom", message: `"${item}" is not an origin like https://stackproof.example` });
+          c.addIssue({
+            code: "custom",
+            message: `"${item}" is not an origin like https://stackproof.example`,
+          });
         }
       }
       return out;
@@ -99,7 +105,11 @@ export type Env = Omit<ParsedEnv, "DEMO_DATA" | "MAIL_CAPTURE"> & {
   MAIL_CAPTURE: boolean;
 };
 
-export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
+/**
+ * Parses and checks the configuration. `sendsMail: false` is for processes that never send e-mail (the Redis worker,
+ * the backup command): they start without a mail server.
+ */
+export function loadEnv(source: NodeJS.ProcessEnv = process.env, options: { sendsMail?: boolean } = {}): Env {
   const parsed = EnvSchema.safeParse(source);
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`);
@@ -117,7 +127,7 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
     );
   }
   const capture = !data.SMTP_HOST && (data.MAIL_CAPTURE ?? !production);
-  if (!data.SMTP_HOST && !capture) {
+  if (!data.SMTP_HOST && !capture && options.sendsMail !== false) {
     // Refusing to start beats silently dropping password-reset and invitation mail.
     throw new Error(
       "Invalid configuration:\n  Stackproof has nowhere to send e-mail. Set SMTP_HOST (and SMTP_PORT, SMTP_USER, " +

@@ -9,7 +9,7 @@ import { runPoolTask, type PoolTask } from "@stackproof/optics/pool-worker";
 import { loadEnv, logLevelOf } from "./env.ts";
 import { QUEUE_NAME, redisClient, runTaskForQueue } from "./yield/redis.ts";
 
-const env = loadEnv();
+const env = loadEnv(process.env, { sendsMail: false });
 const log = pino({ level: logLevelOf(env), base: { service: "stackproof-worker", pid: process.pid } });
 if (!env.REDIS_URL) {
   log.fatal("REDIS_URL is not set: a worker process takes its work from Redis");

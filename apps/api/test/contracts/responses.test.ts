@@ -25,7 +25,16 @@ let admin: Agent, designer: Agent, reviewer: Agent, approver: Agent;
 
 beforeAll(async () => {
   dir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-contracts-"));
-  ctx = await createContext(loadEnv({ NODE_ENV: "test", DATA_DIR: dir, DEMO_DATA: "true", YIELD_WORKERS: "1" }));
+  ctx = await createContext(
+    loadEnv({
+      NODE_ENV: "test",
+      DATA_DIR: dir,
+      DEMO_DATA: "true",
+      YIELD_WORKERS: "1",
+      // The origin the support agents send (support/auth.ts TEST_ORIGIN).
+      ALLOWED_ORIGINS: "http://stackproof.test",
+    }),
+  );
   server = { ctx, app: createApp(ctx), dir, close: async () => {} };
   admin = await signIn(server, "admin@halvorsen.example", DEMO_PASSWORD);
   designer = await signIn(server, "designer@halvorsen.example", DEMO_PASSWORD);
