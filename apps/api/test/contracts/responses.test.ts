@@ -147,7 +147,10 @@ describe("responses match their contracts", () => {
     const thicker = singleLayerAr();
     thicker.layers[0]!.thickness += 2;
     const rev2 = check(
-      await designer.post(`${API}/designs/${created.design.id}/revisions`).send({ stack: thicker, note: "thicker" }).expect(201),
+      await designer
+        .post(`${API}/designs/${created.design.id}/revisions`)
+        .send({ baseRevisionId: created.revision.id, stack: thicker, note: "thicker" })
+        .expect(201),
       C.RevisionSchema,
       "POST /designs/:id/revisions",
     );
