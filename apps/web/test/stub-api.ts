@@ -62,7 +62,7 @@ export function stubApi(routes: Record<string, StubAnswer | ((call: StubCall) =>
 
 export const demoSession = {
   user: { id: "u-designer", email: "designer@halvorsen.example", name: "Ingrid Solberg" },
-  workspace: { id: "w1", name: "Halvorsen Thinfilm Works" },
+  workspace: { id: "w1", name: "Halvorsen Thinfilm Works", demo: true },
   roles: ["designer"],
 };
 

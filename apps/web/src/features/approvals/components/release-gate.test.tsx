@@ -38,7 +38,7 @@ function setup(
   const stub = stubApi({
     "GET /api/v1/auth/me": {
       user: { id: userId, email: "x@halvorsen.example", name: "Test Person" },
-      workspace: { id: "w", name: "Halvorsen Thinfilm Works" },
+      workspace: { id: "w", name: "Halvorsen Thinfilm Works", demo: true },
       roles,
     },
     "GET /api/v1/revisions/rev1/gate": gate,
