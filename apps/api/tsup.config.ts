@@ -7,6 +7,7 @@ export default defineConfig({
   entry: {
     index: "src/index.ts", // the server
     "pool-worker": "src/yield/pool-worker.ts", // piscina task module (worker threads load this compiled file)
+    "fit-worker": "src/asbuilt/fit-worker.ts", // as-built fit thread (asbuilt/index.ts loads this compiled file)
     worker: "src/worker.ts", // Redis (BullMQ) worker process
     backup: "src/backup.ts", // online backup and restore command
   },

@@ -40,7 +40,10 @@ async function slot(): Promise<() => void> {
 async function run(req: FitRequest): Promise<BuiltFitResult | FilmFitResult> {
   const done = await slot();
   try {
-    const worker = new Worker(new URL("./fit-boot.mjs", import.meta.url));
+    // From source: the tsx boot file; in the compiled server (dist/): the bundled fit-worker.js beside this chunk.
+    const here = import.meta.url;
+    const entry = here.endsWith(".ts") ? new URL("./fit-boot.mjs", here) : new URL("./fit-worker.js", here);
+    const worker = new Worker(entry);
     const reply = await new Promise<FitReply>((resolve) => {
       const timer = setTimeout(() => resolve({ ok: false, range: false, message: `the fit did not finish within ${FIT_TIMEOUT_MS / 1000} s` }), FIT_TIMEOUT_MS);
       const finish = (r: FitReply) => {
