@@ -11,6 +11,12 @@ export const StudyDefaultsSchema = z.object({
 
 const text = (maxLen: number) => z.string().trim().max(maxLen);
 
+/** Smallest minimum of evidence trials a program may set (below it the Wilson bound says little). */
+export const MIN_EVIDENCE_TRIALS_FLOOR = 100;
+export const MinEvidenceTrials = z.number().int().min(MIN_EVIDENCE_TRIALS_FLOOR).max(MAX_TRIALS);
+/** Two-sided confidence of the Wilson interval whose lower limit the gate compares with the target. */
+export const Confidence = z.number().min(0.5).max(0.999);
+
 export const ProgramCreateBody = z.object({
   name: text(200).min(1),
   customer: text(200).default(""),
@@ -18,6 +24,8 @@ export const ProgramCreateBody = z.object({
   application: text(200).default(""),
   protective: z.boolean().default(false),
   targetYield: z.number().min(0).max(1),
+  minEvidenceTrials: MinEvidenceTrials.default(2000),
+  confidence: Confidence.default(0.95),
   specMask: SpecMaskSchema,
   errorModel: ErrorModelSchema,
   studyDefaults: StudyDefaultsSchema.default({ trials: 2000, seed: "stackproof" }),
@@ -31,12 +39,18 @@ export const ProgramPatchBody = z
     application: text(200),
     protective: z.boolean(),
     targetYield: z.number().min(0).max(1),
+    minEvidenceTrials: MinEvidenceTrials,
+    confidence: Confidence,
     specMask: SpecMaskSchema,
     errorModel: ErrorModelSchema,
     studyDefaults: StudyDefaultsSchema,
+    /** Why the evidence rules change (kept with the new program version). */
+    note: text(2000),
   })
   .partial()
-  .refine((b) => Object.keys(b).length > 0, { message: "give at least one field to change" });
+  .refine((b) => Object.keys(b).filter((k) => k !== "note").length > 0, {
+    message: "give at least one field to change",
+  });
 
 export const ProgramSchema = z.object({
   id: z.string(),
@@ -46,9 +60,25 @@ export const ProgramSchema = z.object({
   application: z.string(),
   protective: z.boolean(),
   targetYield: z.number(),
+  minEvidenceTrials: z.number(),
+  confidence: z.number(),
+  version: z.number(),
   specMask: z.unknown(),
   errorModel: z.unknown(),
   studyDefaults: StudyDefaultsSchema,
+  createdAt: z.string(),
+});
+
+export const ProgramVersionSchema = z.object({
+  version: z.number(),
+  targetYield: z.number(),
+  minEvidenceTrials: z.number(),
+  confidence: z.number(),
+  specMask: z.unknown(),
+  errorModel: z.unknown(),
+  changes: z.record(z.string(), z.object({ before: z.unknown(), after: z.unknown() })),
+  changedBy: z.object({ id: z.string(), name: z.string() }).nullable(),
+  note: z.string(),
   createdAt: z.string(),
 });
 
@@ -174,6 +204,8 @@ export const YieldRunSchema = z.object({
   clientSubmitted: z.boolean(),
   mismatch: z.string().nullable(),
   engineVersion: z.string(),
+  kind: z.enum(["evidence", "what_if"]),
+  programVersion: z.number().nullable(),
   error: z.string().nullable(),
   requestedBy: PersonSchema,
   createdAt: z.string(),
@@ -183,20 +215,59 @@ export const YieldRunSchema = z.object({
 
 export const DecisionSchema = z.object({
   id: z.string(),
-  action: z.enum(["submit", "request_changes", "approve", "release", "withdraw"]),
+  action: z.enum(["submit", "request_changes", "approve", "release", "withdraw", "return_to_review"]),
   fromStatus: RevisionStatusSchema,
   toStatus: RevisionStatusSchema,
   actor: z.object({ id: z.string(), name: z.string() }),
   at: z.string(),
   revisionHash: z.string(),
   yieldRunId: z.string().nullable(),
+  programVersion: z.number().nullable(),
   note: z.string(),
+});
+
+const PersonRef = z.object({ id: z.string(), name: z.string() });
+
+export const DeviationSchema = z.object({
+  id: z.string(),
+  revisionId: z.string(),
+  programVersion: z.number(),
+  bands: z.array(z.object({ id: z.string(), change: z.string() })),
+  reason: z.string(),
+  requestedBy: PersonRef.nullable(),
+  requestedAt: z.string(),
+  status: z.enum(["pending", "accepted", "rejected"]),
+  decidedBy: PersonRef.nullable(),
+  decidedAt: z.string().nullable(),
+  decisionNote: z.string(),
+});
+
+export const EvidenceFiguresSchema = z.object({
+  trials: z.number(),
+  passCount: z.number(),
+  yield: z.number(),
+  lowerBound: z.number(),
+  confidence: z.number(),
+  targetYield: z.number(),
+  minTrials: z.number(),
+  pass: z.boolean(),
+});
+
+export const EvidencePlanSchema = z.object({
+  programVersion: z.number(),
+  seed: z.string(),
+  trials: z.number(),
+  errorModel: z.unknown(),
+  errorModelVersion: z.string(),
+  confidence: z.number(),
+  targetYield: z.number(),
+  seedRule: z.string(),
 });
 
 export const GateSchema = z.object({
   checks: z.array(
     z.object({
-      id: z.enum(["verified_yield", "blocking_threads", "independent_approver", "state"]),
+      id: z.enum(["verified_yield", "spec_deviation", "blocking_threads", "independent_approver", "state"]),
       ok: z.boolean(),
       message: z.string(),
     }),
@@ -204,6 +275,25 @@ export const GateSchema = z.object({
   canApprove: z.boolean(),
   canRelease: z.boolean(),
   yieldRunId: z.string().nullable(),
+  evidence: z.object({
+    programVersion: z.number(),
+    targetYield: z.number(),
+    confidence: z.number(),
+    minTrials: z.number(),
+    seed: z.string(),
+    seedRule: z.string(),
+    errorModelVersion: z.string(),
+    run: z
+      .object({ id: z.string(), status: z.string(), trials: z.number(), engineVersion: z.string() })
+      .nullable(),
+    figures: EvidenceFiguresSchema.nullable(),
+  }),
+  deviation: z.object({
+    required: z.boolean(),
+    accepted: z.boolean(),
+    bands: z.array(z.object({ id: z.string(), change: z.string() })),
+    current: DeviationSchema.nullable(),
+  }),
 });
 
 /** The uploaded file of a multipart route, for the OpenAPI document (multer puts it in req.file, not the body). */
