@@ -8,7 +8,7 @@
 // by content: the same revision under the same model always gets the same seed, and switching the model away and
 // back cannot produce a fresh seed to try. Every other run is a what-if study and never counts.
 import { createHash } from "node:crypto";
-import { and, asc, desc, eq, inArray } from "drizzle-orm";
+import { and, asc, eq, inArray } from "drizzle-orm";
 import {
   ENGINE_VERSION,
   parseYieldStudy,
@@ -253,21 +253,30 @@ export interface DeviationState {
 }
 
 export function deviationState(db: DbOrTx, rc: RevisionContext): DeviationState {
-  const bands = maskDifferences(rc.revision.specMask, rc.program.specMask);
-  const required = bands.length > 0;
-  const current =
-    db
-      .select()
-      .from(specDeviations)
-      .where(
-        and(
-          eq(specDeviations.revisionId, rc.revision.id),
-          eq(specDeviations.programMaskHash, programMaskHash(rc.program)),
-        ),
-      )
-      .orderBy(desc(specDeviations.requestedAt), desc(specDeviations.id))
-      .get() ?? null;
-  return { required, bands, current, accepted: required && current?.status === "accepted" };
+  return deviationStatesFor(db, [rc]).get(rc.revision.id) as DeviationState;
+}
+
+/** deviationState for many revisions from one query (lists). */
+export function deviationStatesFor(db: DbOrTx, list: readonly RevisionContext[]): Map<string, DeviationState> {
+  const out = new Map<string, DeviationState>();
+  const differing = list
+    .map((rc) => ({ rc, bands: maskDifferences(rc.revision.specMask, rc.program.specMask) }))
+    .filter((x) => {
+      if (x.bands.length === 0) out.set(x.rc.revision.id, { required: false, bands: [], current: null, accepted: false });
+      return x.bands.length > 0;
+    });
+  const rows = deviationsOf(
+    db,
+    differing.map((x) => x.rc.revision.id),
+  );
+  for (const { rc, bands } of differing) {
+    const hash = programMaskHash(rc.program);
+    // Newest first among those written against the program's current mask.
+    const current =
+      rows.filter((d) => d.revisionId === rc.revision.id && d.programMaskHash === hash).at(-1) ?? null;
+    out.set(rc.revision.id, { required: true, bands, current, accepted: current?.status === "accepted" });
+  }
+  return out;
 }
 
 export function deviationsOf(db: DbOrTx, revisionIds: readonly string[]): DeviationRow[] {

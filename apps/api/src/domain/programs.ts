@@ -1,7 +1,7 @@
 // Programs and their versions. A change of an evidence rule (mask, error model, target yield, minimum evidence
 // trials, confidence) makes a new program version, audited with old and new values; an approved revision of the
 // program goes back to review, because its approval was made against rules that no longer hold.
-import { and, asc, eq } from "drizzle-orm";
+import { and, asc, eq, inArray } from "drizzle-orm";
 import {
   EVIDENCE_RULE_FIELDS,
   decisions,
@@ -243,9 +243,33 @@ export function programVersionsOf(db: DbOrTx, programId: string): ProgramVersion
  * not sign off a revision against the current version (separation of duties).
  */
 export function currentRuleSetters(db: DbOrTx, program: ProgramRow): Map<string, EvidenceRuleField[]> {
+  return ruleSettersOf(program, programVersionsOf(db, program.id));
+}
+
+/** currentRuleSetters for many programs from one query (lists). */
+export function ruleSettersFor(
+  db: DbOrTx,
+  list: readonly ProgramRow[],
+): Map<string, Map<string, EvidenceRuleField[]>> {
+  const ids = [...new Set(list.map((p) => p.id))];
+  const out = new Map<string, Map<string, EvidenceRuleField[]>>();
+  if (ids.length === 0) return out;
+  const rows = db
+    .select()
+    .from(programVersions)
+    .where(inArray(programVersions.programId, ids))
+    .orderBy(asc(programVersions.version))
+    .all();
+  for (const p of list) {
+    if (!out.has(p.id)) out.set(p.id, ruleSettersOf(p, rows.filter((r) => r.programId === p.id)));
+  }
+  return out;
+}
+
+function ruleSettersOf(program: ProgramRow, versions: readonly ProgramVersionRow[]) {
   const setters = new Map<string, EvidenceRuleField[]>();
   const lastSetBy = new Map<EvidenceRuleField, string | null>();
-  for (const v of programVersionsOf(db, program.id)) {
+  for (const v of versions) {
     if (v.version > program.version) break;
     for (const f of Object.keys(v.changes) as EvidenceRuleField[]) lastSetBy.set(f, v.changedBy);
   }

@@ -7,8 +7,8 @@ import type { DbOrTx } from "../lib/audit.ts";
 import type { RevisionContext, ThreadRow, YieldRunRow } from "./load.ts";
 import { revisionSummary, type RevisionSummary } from "./revisions.ts";
 import { gateOf } from "./workflow.ts";
-import { deviationState } from "./evidence.ts";
-import { currentRuleSetters } from "./programs.ts";
+import { deviationStatesFor } from "./evidence.ts";
+import { ruleSettersFor } from "./programs.ts";
 
 /** Latest revision number of every design, as a subquery to join on. */
 export function latestRevisionNumbers(db: DbOrTx) {
@@ -115,14 +115,24 @@ export function workQueue(db: DbOrTx, auth: AuthContext): WorkQueue {
         .all(),
       (t: ThreadRow) => t.designId,
     );
+    const deviations = deviationStatesFor(db, candidates);
+    const setters = ruleSettersFor(
+      db,
+      candidates.map((rc) => rc.program),
+    );
     decision = candidates.filter((rc) => {
       const counting = (blocking.get(rc.design.id) ?? []).filter(
         (t) => t.revisionNumber <= rc.revision.number,
       );
-      const dev = deviationState(db, rc);
+      const dev = deviations.get(rc.revision.id);
       return gateOf(rc, auth, runs.get(rc.revision.id) ?? [], counting, {
-        deviation: { required: dev.required, accepted: dev.accepted, bands: dev.bands, current: null },
-        ruleSetters: currentRuleSetters(db, rc.program),
+        deviation: {
+          required: dev?.required ?? false,
+          accepted: dev?.accepted ?? false,
+          bands: dev?.bands ?? [],
+          current: null,
+        },
+        ruleSetters: setters.get(rc.program.id) ?? new Map(),
       }).canApprove;
     });
   }
