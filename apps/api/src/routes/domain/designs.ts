@@ -12,7 +12,13 @@ import { route } from "../../lib/route.ts";
 import { diffStacks } from "../../domain/diff.ts";
 import { loadDesign, loadRevision, stackOf } from "../../domain/load.ts";
 import { resolveDesign, workspaceMaterials } from "../../domain/materials.ts";
-import { createRevision, designView, overviewRows, revisionView } from "../../domain/revisions.ts";
+import {
+  createRevision,
+  designView,
+  overviewRows,
+  revisionView,
+  specDeviationSummary,
+} from "../../domain/revisions.ts";
 import { workQueue } from "../../domain/queue.ts";
 import { parseLayerCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
@@ -22,6 +28,7 @@ import {
   NewRevisionBody,
   RevisionSchema,
   RevisionSummarySchema,
+  SpecDeviationSummarySchema,
   fileField,
 } from "./schemas.ts";
 
@@ -167,6 +174,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         other: z.array(z.string()),
         totalThicknessDeltaNm: z.number(),
         specMaskChanged: z.boolean(),
+        specDeviation: z.object({ before: SpecDeviationSummarySchema, after: SpecDeviationSummarySchema }),
         summary: z.string(),
         before: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
         after: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
@@ -183,6 +191,10 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       return {
         ...diff,
         specMaskChanged,
+        specDeviation: {
+          before: specDeviationSummary(ctx.db, before),
+          after: specDeviationSummary(ctx.db, after),
+        },
         summary: specMaskChanged ? `${diff.summary}; spec mask changed` : diff.summary,
         before: { id: before.revision.id, number: before.revision.number, hash: before.revision.hash },
         after: { id: after.revision.id, number: after.revision.number, hash: after.revision.hash },

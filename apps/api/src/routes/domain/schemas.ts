@@ -109,6 +109,14 @@ export const RevisionSummarySchema = z.object({
   programName: z.string(),
 });
 
+/** A revision's mask against its program's: differing bands and the state of its deviation (null: none asked). */
+export const SpecDeviationSummarySchema = z.object({
+  required: z.boolean(),
+  bands: z.array(z.object({ id: z.string(), change: z.string() })),
+  status: z.enum(["pending", "accepted", "rejected"]).nullable(),
+  reason: z.string().nullable(),
+});
+
 export const RevisionSchema = z.object({
   id: z.string(),
   designId: z.string(),
@@ -130,6 +138,7 @@ export const RevisionSchema = z.object({
     merit: z.number(),
     cautions: z.array(z.string()),
   }),
+  specDeviation: SpecDeviationSummarySchema,
 });
 
 export const DesignSchemaOut = z.object({
