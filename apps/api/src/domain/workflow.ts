@@ -9,7 +9,14 @@
 // read>, append the decision and the audit entry. Of two racing requests exactly one changes the row; the other
 // sees the new state (or zero changed rows) and gets 409.
 import { and, asc, desc, eq, max } from "drizzle-orm";
-import { PROTECTIVE_CAUTION, evaluateSpec, type YieldResult } from "@stackproof/optics";
+import {
+  PROTECTIVE_CAUTION,
+  computeSpectrum,
+  evaluateSpec,
+  quantityValue,
+  type Design,
+  type YieldResult,
+} from "@stackproof/optics";
 import type { AuthContext } from "../auth/types.ts";
 import type { AppContext } from "../context.ts";
 import {
@@ -41,6 +48,7 @@ import {
   evidenceFigures,
   evidencePlan,
   pickEvidenceRun,
+  SEED_RULE,
   type DeviationView,
   type EvidenceFigures,
 } from "./evidence.ts";
@@ -538,6 +546,8 @@ export function releaseSnapshot(
   const result = run?.result as YieldResult | undefined;
   const mask = maskOf(rc.revision, rc.program);
   const nominal = evaluateSpec(stackOf(rc.revision), mask);
+  const dev = deviationState(db, rc);
+  const devNames = userNames(db, [dev.current?.requestedBy, dev.current?.decidedBy]);
   const threads = threadsForRevision(db, rc);
   const names = userNames(db, [rc.revision.authorId, ...threads.map((t) => t.authorId)]);
   return {
@@ -553,6 +563,10 @@ export function releaseSnapshot(
       description: rc.program.description,
       protective: rc.program.protective,
       targetYield: rc.program.targetYield,
+      version: rc.program.version,
+      minEvidenceTrials: rc.program.minEvidenceTrials,
+      confidence: rc.program.confidence,
+      specMask: rc.program.specMask,
     },
     design: { id: rc.design.id, name: rc.design.name },
     revision: {
@@ -584,6 +598,23 @@ export function releaseSnapshot(
             finishedAt: run.finishedAt ? run.finishedAt.toISOString() : null,
           }
         : null,
+    /** The evidence as the gate read it: the run's kind, the seed rule, and the bound at the program's confidence. */
+    evidence:
+      run && result
+        ? {
+            kind: run.kind,
+            programVersion: run.programVersion ?? rc.program.version,
+            seedRule: SEED_RULE,
+            figures: evidenceFigures(result, rc.program),
+          }
+        : null,
+    deviation: {
+      required: dev.required,
+      bands: dev.bands,
+      current: dev.current ? deviationView(dev.current, devNames) : null,
+    },
+    /** Nominal spectrum and the evidence run's 5–95 % envelope per (quantity, polarization, angle), for the plot. */
+    plot: result ? plotSeries(stackOf(rc.revision), result) : [],
     decisions: decisionViews(db, rc.revision.id),
     threads: {
       total: threads.length,
@@ -603,6 +634,49 @@ export function releaseSnapshot(
 }
 
 export type ReleaseSnapshot = ReturnType<typeof releaseSnapshot>;
+
+export interface PlotSeries {
+  quantity: string;
+  polarization: string;
+  angleDeg: number;
+  wavelengths: number[];
+  nominal: (number | null)[];
+  low: (number | null)[] | null;
+  high: (number | null)[] | null;
+  lowP: number | null;
+  highP: number | null;
+}
+
+/** The nominal curve at the envelope's wavelengths, with the 5th and 95th percentile curves of the run. */
+function plotSeries(design: Design, result: YieldResult): PlotSeries[] {
+  const finite = (x: number) => (Number.isFinite(x) ? x : null);
+  return (result.envelopes ?? []).map((env) => {
+    const spectrum = computeSpectrum(design, { wavelengths: env.wavelengths, angleDeg: env.angleDeg });
+    const rta = env.polarization === "u" ? spectrum.u : spectrum[env.polarization];
+    const nominal = env.wavelengths.map((_, i) =>
+      finite(quantityValue(env.quantity, rta.R[i] ?? NaN, rta.T[i] ?? NaN, rta.A[i] ?? NaN)),
+    );
+    const pick = (target: number, fallback: "min" | "max") => {
+      const exact = env.percentiles.find((p) => p.p === target);
+      if (exact) return exact;
+      const sorted = [...env.percentiles].sort((a, b) => a.p - b.p);
+      return fallback === "min" ? sorted[0] : sorted.at(-1);
+    };
+    const lo = pick(5, "min");
+    const hi = pick(95, "max");
+    return {
+      quantity: env.quantity,
+      polarization: env.polarization,
+      angleDeg: env.angleDeg,
+      wavelengths: env.wavelengths,
+      nominal,
+      low: lo ? lo.values.map(finite) : null,
+      high: hi ? hi.values.map(finite) : null,
+      lowP: lo?.p ?? null,
+      highP: hi?.p ?? null,
+    };
+  });
+}
 
 /** How the gate names a revision's state in a sentence ("The revision has changes requested"). */
 const STATE_PHRASE: Record<string, string> = {

@@ -17,6 +17,7 @@ import {
   requestDeviation,
 } from "../../domain/evidence.ts";
 import { releasePrintHtml } from "../../domain/release-print.ts";
+import { releasePdf } from "../../domain/release-pdf.ts";
 import { revisionView } from "../../domain/revisions.ts";
 import { applyTransition, decisionViews, evaluateGate, type ReleaseSnapshot } from "../../domain/workflow.ts";
 import { DecisionSchema, DeviationSchema, GateSchema, IdParams, RevisionSchema } from "./schemas.ts";
@@ -31,7 +32,16 @@ const ReleaseSummary = z.object({
   program: z.object({ id: z.string(), name: z.string(), protective: z.boolean() }),
   design: z.object({ id: z.string(), name: z.string() }),
   revision: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
-  yield: z.object({ yield: z.number(), low: z.number(), high: z.number(), trials: z.number() }).nullable(),
+  yield: z
+    .object({
+      yield: z.number(),
+      low: z.number(),
+      high: z.number(),
+      trials: z.number(),
+      lowerBound: z.number().nullable(),
+      confidence: z.number().nullable(),
+    })
+    .nullable(),
 });
 
 function loadRelease(ctx: AppContext, workspaceId: string, id: string) {
@@ -64,6 +74,9 @@ function summary(snapshot: ReleaseSnapshot, status: string) {
           low: snapshot.yieldRun.interval.low,
           high: snapshot.yieldRun.interval.high,
           trials: snapshot.yieldRun.trials,
+          // Releases made before evidence rules were recorded have no bound.
+          lowerBound: snapshot.evidence?.figures.lowerBound ?? null,
+          confidence: snapshot.evidence?.figures.confidence ?? null,
         }
       : null,
   };
@@ -315,6 +328,32 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
         .type("html")
         .set("Content-Security-Policy", "default-src 'none'; style-src 'unsafe-inline'; img-src data:")
         .send(releasePrintHtml(snapshot, status));
+      return undefined;
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "get",
+      path: "/releases/:id/pdf",
+      summary: "The release record as a PDF (spectrum with the evidence run's envelope, margins, evidence, deviations, decisions)",
+      tag: TAG,
+      access: "member",
+      params: IdParams,
+      errors: { 404: "No such release" },
+    },
+    async ({ req, res, params }) => {
+      const auth = getAuth(req);
+      const { snapshot, status } = loadRelease(ctx, auth.workspaceId, params.id);
+      const pdf = await releasePdf(snapshot, status);
+      const r = snapshot as { design?: { name?: string }; revision?: { number?: number } };
+      const file = `release-${String(r.design?.name ?? "record").replace(/[^A-Za-z0-9._-]+/g, "-")}-rev${r.revision?.number ?? ""}.pdf`;
+      res
+        .status(200)
+        .type("application/pdf")
+        .set("Content-Disposition", `attachment; filename="${file}"`)
+        .send(pdf);
       return undefined;
     },
   );
