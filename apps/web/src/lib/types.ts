@@ -69,4 +69,9 @@ export interface YieldEstimate {
   yield: number;
   low: number;
   high: number;
+  /** Evidence runs: trials, the lower Wilson bound at the program's confidence, and whether it meets the target. */
+  trials?: number;
+  lowerBound?: number;
+  confidence?: number;
+  pass?: boolean;
 }

@@ -60,7 +60,7 @@ describe("ReleaseGate", () => {
     const list = await screen.findByRole("list", { name: "Sign-off conditions" });
     expect(within(list).getAllByRole("listitem")).toHaveLength(4);
     const yieldCheck = list.querySelector('[data-check="verified_yield"]');
-    expect(yieldCheck).toHaveTextContent("Verified yield meets the target: not met");
+    expect(yieldCheck).toHaveTextContent("Evidence run: lower yield bound meets the target: not met");
     expect(within(list).getByText("Verified yield 91.2 % is below the target 95 %.")).toBeInTheDocument();
   });
 
