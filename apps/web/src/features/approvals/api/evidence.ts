@@ -35,7 +35,10 @@ export function useStartEvidenceRun(revisionId: string) {
 
 export function useRequestDeviation(revisionId: string) {
   const refresh = useRefreshGate(revisionId);
-  return useMutation({ mutationFn: (reason: string) => requestDeviation(revisionId, reason), onSettled: refresh });
+  return useMutation({
+    mutationFn: (reason: string) => requestDeviation(revisionId, reason),
+    onSettled: refresh,
+  });
 }
 
 export function useDecideDeviation(revisionId: string) {

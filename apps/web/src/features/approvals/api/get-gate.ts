@@ -2,11 +2,7 @@ import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
 
 export type GateCheckId =
-  | "verified_yield"
-  | "spec_deviation"
-  | "blocking_threads"
-  | "independent_approver"
-  | "state";
+  "verified_yield" | "spec_deviation" | "blocking_threads" | "independent_approver" | "state";
 
 export interface GateCheck {
   id: GateCheckId | (string & {});
@@ -74,7 +70,8 @@ export interface Gate {
 export const getGate = (revisionId: string) =>
   api.get<Gate>(`/revisions/${encodeURIComponent(revisionId)}/gate`);
 
-const running = (g: Gate | undefined) => g?.evidence?.run?.status === "queued" || g?.evidence?.run?.status === "running";
+const running = (g: Gate | undefined) =>
+  g?.evidence?.run?.status === "queued" || g?.evidence?.run?.status === "running";
 
 /** The gate; polled every 1.5 s while its evidence run is still computing. */
 export const gateQueryOptions = (revisionId: string) =>

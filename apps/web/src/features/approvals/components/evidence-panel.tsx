@@ -64,9 +64,9 @@ export function EvidencePanel({ revisionId, gate }: { revisionId: string; gate: 
         </p>
       )}
       <p className="mt-2 break-all text-xs text-ink-500">
-        Seed <span className="font-mono">{e.seed}</span>, assigned by the server from the revision's content and the
-        program's error model. Runs with any other seed, trial count or error model are what-if studies and do not
-        count.
+        Seed <span className="font-mono">{e.seed}</span>, assigned by the server from the revision's content
+        and the program's error model. Runs with any other seed, trial count or error model are what-if
+        studies and do not count.
       </p>
       {!e.run && canStart ? (
         <div className="mt-2">
@@ -148,7 +148,9 @@ export function DeviationPanel({
           </div>
           {cur.decidedBy ? (
             <div>
-              <dt className="inline text-ink-500">{cur.status === "accepted" ? "Accepted" : "Rejected"} by: </dt>
+              <dt className="inline text-ink-500">
+                {cur.status === "accepted" ? "Accepted" : "Rejected"} by:{" "}
+              </dt>
               <dd className="inline">
                 {cur.decidedBy.name}
                 {cur.decidedAt ? `, ${new Date(cur.decidedAt).toLocaleString("en-GB")}` : ""}
@@ -159,7 +161,8 @@ export function DeviationPanel({
         </dl>
       ) : (
         <p className="mt-1 text-sm text-verdict-fail">
-          No deviation has been asked for. It needs a written reason and acceptance by someone other than its author.
+          No deviation has been asked for. It needs a written reason and acceptance by someone other than its
+          author.
         </p>
       )}
       {canAsk ? (
@@ -194,9 +197,18 @@ export function DeviationPanel({
       ) : null}
       {canDecide && cur ? (
         <div className="mt-2 flex flex-col gap-2">
-          <TextArea label="Decision note (optional)" value={note} onChange={(ev) => setNote(ev.target.value)} rows={2} />
+          <TextArea
+            label="Decision note (optional)"
+            value={note}
+            onChange={(ev) => setNote(ev.target.value)}
+            rows={2}
+          />
           <div className="flex gap-2">
-            <Button size="sm" onClick={() => decide.mutate({ deviationId: cur.id, accept: true, note })} loading={decide.isPending}>
+            <Button
+              size="sm"
+              onClick={() => decide.mutate({ deviationId: cur.id, accept: true, note })}
+              loading={decide.isPending}
+            >
               Accept the deviation
             </Button>
             <Button

@@ -25,7 +25,10 @@ export function YieldVersusTarget({ estimate, target, className }: YieldVersusTa
   const straddles = pass && estimate.lowerBound === undefined && estimate.low < target;
   return (
     <span
-      className={cx("inline-flex flex-wrap items-baseline gap-x-1.5 font-mono text-sm tabular xl:flex-nowrap xl:whitespace-nowrap", className)}
+      className={cx(
+        "inline-flex flex-wrap items-baseline gap-x-1.5 font-mono text-sm tabular xl:flex-nowrap xl:whitespace-nowrap",
+        className,
+      )}
       title={straddles ? "At the target, but the lower end of the interval is below it." : undefined}
     >
       <span className={cx("font-semibold", pass ? "text-verdict-pass" : "text-verdict-fail")}>

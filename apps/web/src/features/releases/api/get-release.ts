@@ -29,14 +29,28 @@ export interface BandOutcome {
 
 export interface Decision {
   id: string;
-  action: "submit" | "request_changes" | "approve" | "release" | "withdraw";
+  action: "submit" | "request_changes" | "approve" | "release" | "withdraw" | "return_to_review";
   fromStatus?: RevisionStatus;
   toStatus?: RevisionStatus;
   actor: PersonRef;
   at: string;
   revisionHash: string;
   yieldRunId: string | null;
+  programVersion?: number | null;
   note: string;
+}
+
+/** Nominal curve and the evidence run's 5–95 % envelope at one (quantity, polarization, angle); nulls where not finite. */
+export interface PlotSeries {
+  quantity: string;
+  polarization: string;
+  angleDeg: number;
+  wavelengths: number[];
+  nominal: (number | null)[];
+  low: (number | null)[] | null;
+  high: (number | null)[] | null;
+  lowP: number | null;
+  highP: number | null;
 }
 
 /** GET /releases/:id: the snapshot filed at release time, plus the revision's status now. */
@@ -54,6 +68,10 @@ export interface ReleaseRecord {
     description: string;
     protective: boolean;
     targetYield: number;
+    /** Absent on releases filed before program versions existed. */
+    version?: number;
+    minEvidenceTrials?: number;
+    confidence?: number;
   };
   design: { id: string; name: string };
   revision: {
@@ -82,6 +100,36 @@ export interface ReleaseRecord {
     clientVerified?: boolean;
     finishedAt: string | null;
   } | null;
+  /** Absent on releases filed before evidence rules existed. */
+  evidence?: {
+    kind: string;
+    programVersion: number;
+    seedRule: string;
+    figures: {
+      trials: number;
+      passCount: number;
+      yield: number;
+      lowerBound: number;
+      confidence: number;
+      targetYield: number;
+      minTrials: number;
+      pass: boolean;
+    };
+  } | null;
+  deviation?: {
+    required: boolean;
+    bands: { id: string; change: string }[];
+    current: {
+      status: string;
+      reason: string;
+      requestedBy: PersonRef | null;
+      requestedAt: string;
+      decidedBy: PersonRef | null;
+      decidedAt: string | null;
+      decisionNote: string;
+    } | null;
+  };
+  plot?: PlotSeries[];
   decisions: Decision[];
   threads: {
     total: number;
@@ -108,3 +156,6 @@ export const useRelease = (id: string) => useQuery(releaseQueryOptions(id));
 
 /** The server's printable HTML of the same record. */
 export const releasePrintUrl = (id: string) => `/api/v1/releases/${encodeURIComponent(id)}/print`;
+
+/** The same record as a PDF download. */
+export const releasePdfUrl = (id: string) => `/api/v1/releases/${encodeURIComponent(id)}/pdf`;
