@@ -25,6 +25,10 @@ export interface Program {
   application: string;
   protective: boolean;
   targetYield: number;
+  minEvidenceTrials?: number;
+  confidence?: number;
+  /** Program version: every change of mask, error model, target, minimum trials or confidence makes a new one. */
+  version?: number;
   specMask: SpecMask;
   errorModel: ErrorModel;
   studyDefaults: { trials: number; seed: string };

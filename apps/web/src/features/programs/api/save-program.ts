@@ -11,6 +11,9 @@ export interface ProgramBody {
   application: string;
   protective: boolean;
   targetYield: number;
+  /** Evidence rules: minimum trials of the evidence run and the confidence of the Wilson bound (fraction). */
+  minEvidenceTrials: number;
+  confidence: number;
   specMask: SpecMask;
   errorModel: ErrorModel;
   studyDefaults: { trials: number; seed: string };
