@@ -138,7 +138,7 @@ function plot(doc: Doc, p: RecordPlot) {
     const xv = x0 + ((x1 - x0) * k) / 4;
     doc.text(xv.toFixed(0), X(xv) - 15, ay0 + 3, { width: 30, align: "center", lineBreak: false });
     const yv = y0 + ((y1 - y0) * k) / 4;
-    doc.text(yv.toFixed(p.quantity === "OD" ? 1 : 0), LEFT, Y(yv) - 3, { width: m.l - 4, align: "right", lineBreak: false });
+    doc.text(yv.toFixed(p.quantity === "OD" || y1 - y0 < 5 ? 1 : 0), LEFT, Y(yv) - 3, { width: m.l - 4, align: "right", lineBreak: false });
   }
   doc.fontSize(8).text("Wavelength (nm)", LEFT + m.l, ay0 + 13, { width: WIDTH - m.l, align: "center", lineBreak: false });
   doc.y = top + H;

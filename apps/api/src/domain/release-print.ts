@@ -74,7 +74,7 @@ function plotSvg(p: RecordPlot): string {
         `<text x="${X(x).toFixed(1)}" y="${H - m.b + 12}" font-size="9" text-anchor="middle">${x.toFixed(0)}</text>`,
     ),
     ...ticks(y0, y1).map(
-      (y) => `<text x="${m.l - 4}" y="${(Y(y) + 3).toFixed(1)}" font-size="9" text-anchor="end">${y.toFixed(p.quantity === "OD" ? 1 : 0)}</text>`,
+      (y) => `<text x="${m.l - 4}" y="${(Y(y) + 3).toFixed(1)}" font-size="9" text-anchor="end">${y.toFixed(p.quantity === "OD" || y1 - y0 < 5 ? 1 : 0)}</text>`,
     ),
     `<text x="${(m.l + W - m.r) / 2}" y="${H - 4}" font-size="10" text-anchor="middle">Wavelength (nm)</text>`,
     `<text x="12" y="${(m.t + H - m.b) / 2}" font-size="10" text-anchor="middle" transform="rotate(-90 12 ${(m.t + H - m.b) / 2})">${esc(p.quantity)}${p.quantity === "OD" ? "" : " (%)"}</text>`,

@@ -119,7 +119,7 @@ function EnvelopePlot({
         ))}
         {ticks(y0, y1).map((y) => (
           <text key={`y${y}`} x={m.l - 4} y={Y(y) + 3} fontSize={9} textAnchor="end">
-            {y.toFixed(od ? 1 : 0)}
+            {y.toFixed(od || y1 - y0 < 5 ? 1 : 0)}
           </text>
         ))}
         <text x={(m.l + W - m.r) / 2} y={H - 4} fontSize={10} textAnchor="middle">
