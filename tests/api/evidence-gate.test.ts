@@ -56,8 +56,13 @@ describe("evidence runs", () => {
     expect(one).toMatchObject({ status: "done", verified: true, result: { yield: 1, trials: 1 } });
 
     const before = await gateOf(team.members.approver.agent, revision.id);
-    expect(check(before, "verified_yield")).toMatchObject({ ok: false, message: expect.stringMatching(/No evidence run/) });
-    const refused = await act(team.members.approver.agent, revision.id, "approve", { yieldRunId: one.id }).expect(422);
+    expect(check(before, "verified_yield")).toMatchObject({
+      ok: false,
+      message: expect.stringMatching(/No evidence run/),
+    });
+    const refused = await act(team.members.approver.agent, revision.id, "approve", {
+      yieldRunId: one.id,
+    }).expect(422);
     expect(refused.body.error.details.checks[0].message).toMatch(/what-if study/);
 
     // The evidence run tells the truth, and the gate shows the bound it compared.
@@ -71,13 +76,20 @@ describe("evidence runs", () => {
       wilsonLowerBound(evidence.result.passCount, 200, 0.95),
       12,
     );
-    expect(check(after, "verified_yield")?.message).toMatch(/lower 95\.0 % bound .* below the target 90\.0 %/);
+    expect(check(after, "verified_yield")?.message).toMatch(
+      /lower 95\.0 % bound .* below the target 90\.0 %/,
+    );
     await act(team.members.approver.agent, revision.id, "approve").expect(422);
   });
 
   it("never counts a run below the program's minimum trials, even when every trial passes; the minimum has a floor", async () => {
     // avgMask(2) leaves the single layer a wide margin: yield 1 with these errors.
-    const program = await newProgram(team, { specMask: avgMask(2), errorModel: MEDIUM, targetYield: 0.8, minEvidenceTrials: 300 });
+    const program = await newProgram(team, {
+      specMask: avgMask(2),
+      errorModel: MEDIUM,
+      targetYield: 0.8,
+      minEvidenceTrials: 300,
+    });
     const revision = await newDesign(team, program.id);
     const designer = team.members.designer.agent;
     await act(designer, revision.id, "submit").expect(200);
@@ -94,10 +106,19 @@ describe("evidence runs", () => {
     await act(team.members.approver.agent, revision.id, "approve", { yieldRunId: done.id }).expect(422);
 
     // A program cannot set the minimum to 1 (or anything under 100) to make such runs count.
-    await team.members.approver.agent.patch(`${API}/programs/${program.id}`).send({ minEvidenceTrials: 1 }).expect(400);
+    await team.members.approver.agent
+      .patch(`${API}/programs/${program.id}`)
+      .send({ minEvidenceTrials: 1 })
+      .expect(400);
     const tiny = await team.members.approver.agent
       .post(`${API}/programs`)
-      .send({ name: "Tiny", targetYield: 0.5, minEvidenceTrials: 5, specMask: avgMask(2), errorModel: MEDIUM });
+      .send({
+        name: "Tiny",
+        targetYield: 0.5,
+        minEvidenceTrials: 5,
+        specMask: avgMask(2),
+        errorModel: MEDIUM,
+      });
     expect(tiny.status).toBe(400);
     expect(JSON.stringify(tiny.body)).toMatch(/minEvidenceTrials/);
 
@@ -110,7 +131,12 @@ describe("evidence runs", () => {
   });
 
   it("assigns the seed on the server: the same revision gives the same run, and a client's own seed is a what-if", async () => {
-    const program = await newProgram(team, { specMask: avgMask(2), errorModel: MEDIUM, targetYield: 0.8, minEvidenceTrials: 120 });
+    const program = await newProgram(team, {
+      specMask: avgMask(2),
+      errorModel: MEDIUM,
+      targetYield: 0.8,
+      minEvidenceTrials: 120,
+    });
     const revision = await newDesign(team, program.id);
     const designer = team.members.designer.agent;
     const a = await designer.get(`${API}/revisions/${revision.id}/evidence`).expect(200);
@@ -126,7 +152,10 @@ describe("evidence runs", () => {
       .post(`${API}/revisions/${revision.id}/evidence-run`)
       .send({ seed: "my-own-seed", trials: 1 })
       .expect(202);
-    expect(second.body).toMatchObject({ reused: true, run: { id: first.body.run.id, seed: a.body.plan.seed, trials: 120 } });
+    expect(second.body).toMatchObject({
+      reused: true,
+      run: { id: first.body.run.id, seed: a.body.plan.seed, trials: 120 },
+    });
     // Asking through /yield-runs with the plan's parameters is the same run too.
     const third = await designer
       .post(`${API}/revisions/${revision.id}/yield-runs`)
@@ -156,7 +185,12 @@ describe("evidence runs", () => {
   it("reads the evidence run only, not the best of several runs", async () => {
     // Honest yield about 92 % against a 90 % target: the point yield of many runs reaches 90 %, but with 200 trials
     // the lower bound of the evidence run cannot.
-    const program = await newProgram(team, { specMask: avgMask(1.32), errorModel: MEDIUM, targetYield: 0.9, minEvidenceTrials: 200 });
+    const program = await newProgram(team, {
+      specMask: avgMask(1.32),
+      errorModel: MEDIUM,
+      targetYield: 0.9,
+      minEvidenceTrials: 200,
+    });
     const revision = await newDesign(team, program.id);
     const designer = team.members.designer.agent;
     await act(designer, revision.id, "submit").expect(200);
@@ -184,7 +218,9 @@ describe("evidence runs", () => {
     expect(gate.canApprove).toBe(false);
     expect(gate.evidence.figures?.yield).toBe(evidence.result.yield);
     expect(check(gate, "verified_yield")?.message).toContain("below the target");
-    const pinned = await act(team.members.approver.agent, revision.id, "approve", { yieldRunId: shoppedDone.id }).expect(422);
+    const pinned = await act(team.members.approver.agent, revision.id, "approve", {
+      yieldRunId: shoppedDone.id,
+    }).expect(422);
     expect(pinned.body.error.details.checks[0].message).toMatch(/what-if study/);
     const queue = await team.members.approver.agent.get(`${API}/queue`).expect(200);
     expect(queue.body.readyForDecision.map((r: { id: string }) => r.id)).not.toContain(revision.id);

@@ -60,7 +60,12 @@ export async function newProgram(team: Team, body: Record<string, unknown>, by =
   return res.body as { id: string; version: number; minEvidenceTrials: number; confidence: number };
 }
 
-export async function newDesign(team: Team, programId: string, specMask?: SpecMask, by = team.members.designer) {
+export async function newDesign(
+  team: Team,
+  programId: string,
+  specMask?: SpecMask,
+  by = team.members.designer,
+) {
   const res = await by.agent
     .post(`${API}/programs/${programId}/designs`)
     .send({ name: "AR window", stack: singleAr(), ...(specMask ? { specMask } : {}) });
@@ -68,8 +73,12 @@ export async function newDesign(team: Team, programId: string, specMask?: SpecMa
   return res.body.revision as { id: string; hash: string; specMask: SpecMask; stack: YieldStudy["design"] };
 }
 
-export const act = (agent: MemberAgent, revisionId: string, action: string, extra: Record<string, unknown> = {}) =>
-  agent.post(`${API}/revisions/${revisionId}/transitions`).send({ action, ...extra });
+export const act = (
+  agent: MemberAgent,
+  revisionId: string,
+  action: string,
+  extra: Record<string, unknown> = {},
+) => agent.post(`${API}/revisions/${revisionId}/transitions`).send({ action, ...extra });
 
 export async function evidenceRun(agent: MemberAgent, revisionId: string) {
   const res = await agent.post(`${API}/revisions/${revisionId}/evidence-run`).send({});

@@ -4,7 +4,14 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import fs from "node:fs";
 import { request, type APIRequestContext } from "playwright-core";
-import { DEMO, openBrowser, signInAs, startProduct, type BrowserSession, type Product } from "./support/harness.ts";
+import {
+  DEMO,
+  openBrowser,
+  signInAs,
+  startProduct,
+  type BrowserSession,
+  type Product,
+} from "./support/harness.ts";
 
 let product: Product;
 let browser: BrowserSession;
@@ -92,7 +99,10 @@ describe("evidence at the gate (approver)", () => {
     await page.getByTestId("release-evidence").waitFor();
     await page.getByTestId("release-plot").first().waitFor();
     await browser.screenshot("evidence-4-release-record");
-    const [download] = await Promise.all([page.waitForEvent("download"), page.getByTestId("release-pdf").click()]);
+    const [download] = await Promise.all([
+      page.waitForEvent("download"),
+      page.getByTestId("release-pdf").click(),
+    ]);
     expect(download.suggestedFilename()).toMatch(/^release-.*\.pdf$/);
     const file = await download.path();
     const bytes = fs.readFileSync(file);

@@ -142,15 +142,15 @@ export interface EvidenceRequest {
  * A browser result is attached to a run that has none yet, so the server compares it when the run finishes.
  * Returns whether a new run was created; the caller enqueues it.
  */
-export function requestEvidenceRun(
-  db: DbOrTx,
-  req: EvidenceRequest,
-): { run: YieldRunRow; created: boolean } {
+export function requestEvidenceRun(db: DbOrTx, req: EvidenceRequest): { run: YieldRunRow; created: boolean } {
   const { rc, actor } = req;
   const plan = evidencePlan(rc);
   const existing = findEvidenceRun(db, rc);
   if (existing) {
-    if (req.clientResult !== undefined && (existing.clientResult === null || existing.clientResult === undefined)) {
+    if (
+      req.clientResult !== undefined &&
+      (existing.clientResult === null || existing.clientResult === undefined)
+    ) {
       // The first browser result is kept with the run and compared; the server's result stays the evidence.
       const set: Partial<typeof yieldRuns.$inferInsert> = { clientResult: req.clientResult };
       if (existing.status === "done" && existing.result) {
@@ -225,7 +225,10 @@ export function programMaskHash(program: ProgramRow): string {
 }
 
 /** Bands of the revision's mask that differ from the program's: added, removed or changed (by id). */
-export function maskDifferences(revisionMask: unknown, programMask: unknown): { id: string; change: string }[] {
+export function maskDifferences(
+  revisionMask: unknown,
+  programMask: unknown,
+): { id: string; change: string }[] {
   const bandsOf = (m: unknown) =>
     new Map(((m as SpecMask | null)?.bands ?? []).map((b: SpecBand) => [b.id, canonicalJson(b)]));
   const rev = bandsOf(revisionMask);
@@ -237,7 +240,8 @@ export function maskDifferences(revisionMask: unknown, programMask: unknown): { 
     else if (r !== text) out.push({ id, change: "changed" });
   }
   for (const id of rev.keys()) if (!prog.has(id)) out.push({ id, change: "added" });
-  if (out.length === 0 && maskKey(revisionMask) !== maskKey(programMask)) out.push({ id: "(mask)", change: "changed" });
+  if (out.length === 0 && maskKey(revisionMask) !== maskKey(programMask))
+    out.push({ id: "(mask)", change: "changed" });
   return out;
 }
 
@@ -257,12 +261,16 @@ export function deviationState(db: DbOrTx, rc: RevisionContext): DeviationState 
 }
 
 /** deviationState for many revisions from one query (lists). */
-export function deviationStatesFor(db: DbOrTx, list: readonly RevisionContext[]): Map<string, DeviationState> {
+export function deviationStatesFor(
+  db: DbOrTx,
+  list: readonly RevisionContext[],
+): Map<string, DeviationState> {
   const out = new Map<string, DeviationState>();
   const differing = list
     .map((rc) => ({ rc, bands: maskDifferences(rc.revision.specMask, rc.program.specMask) }))
     .filter((x) => {
-      if (x.bands.length === 0) out.set(x.rc.revision.id, { required: false, bands: [], current: null, accepted: false });
+      if (x.bands.length === 0)
+        out.set(x.rc.revision.id, { required: false, bands: [], current: null, accepted: false });
       return x.bands.length > 0;
     });
   const rows = deviationsOf(
@@ -323,7 +331,12 @@ export function requestDeviation(
     subjectType: "revision",
     subjectId: rc.revision.id,
     summary: `${actor.name} asked for a spec deviation on ${rc.design.name} rev ${rc.revision.number} (${state.bands.map((b) => `${b.id} ${b.change}`).join(", ")}): ${input.reason.slice(0, 160)}`,
-    data: { deviationId: row.id, bands: state.bands, reason: input.reason, programVersion: rc.program.version },
+    data: {
+      deviationId: row.id,
+      bands: state.bands,
+      reason: input.reason,
+      programVersion: rc.program.version,
+    },
   });
   return db.select().from(specDeviations).where(eq(specDeviations.id, row.id)).get() as DeviationRow;
 }
@@ -347,12 +360,14 @@ export function decideDeviation(
     .where(and(eq(specDeviations.id, input.deviationId), eq(specDeviations.revisionId, rc.revision.id)))
     .get();
   if (!row) throw new HttpError(404, "not_found", "No such deviation on this revision.");
-  if (!actor.roles.includes("approver")) throw forbidden("Accepting or rejecting a deviation needs the approver role.");
+  if (!actor.roles.includes("approver"))
+    throw forbidden("Accepting or rejecting a deviation needs the approver role.");
   if (row.requestedBy === actor.id)
     throw forbidden("You asked for this deviation; someone else must accept or reject it.");
   if (rc.revision.authorId === actor.id)
     throw forbidden("You are the author of this revision; someone else must accept or reject its deviation.");
-  if (row.status !== "pending") throw conflict(`The deviation is already ${row.status}.`, { status: row.status });
+  if (row.status !== "pending")
+    throw conflict(`The deviation is already ${row.status}.`, { status: row.status });
   if (row.programMaskHash !== programMaskHash(rc.program))
     throw conflict("The program's mask changed since this deviation was written; ask for a new one.");
   const status = input.accept ? ("accepted" as const) : ("rejected" as const);

@@ -58,12 +58,22 @@ function describeChange(field: EvidenceRuleField, c: RuleChange): string {
     : `${RULE_LABEL[field]} ${fmt(c.before)} → ${fmt(c.after)}`;
 }
 
-export function createProgram(db: DbOrTx, input: { workspaceId: string; actor: Actor; program: ProgramInput }) {
+export function createProgram(
+  db: DbOrTx,
+  input: { workspaceId: string; actor: Actor; program: ProgramInput },
+) {
   const id = newId();
   const at = new Date();
   const p = input.program;
   db.insert(programs)
-    .values({ id, workspaceId: input.workspaceId, ...p, version: 1, createdBy: input.actor.id, createdAt: at })
+    .values({
+      id,
+      workspaceId: input.workspaceId,
+      ...p,
+      version: 1,
+      createdBy: input.actor.id,
+      createdAt: at,
+    })
     .run();
   db.insert(programVersions)
     .values({
@@ -261,7 +271,14 @@ export function ruleSettersFor(
     .orderBy(asc(programVersions.version))
     .all();
   for (const p of list) {
-    if (!out.has(p.id)) out.set(p.id, ruleSettersOf(p, rows.filter((r) => r.programId === p.id)));
+    if (!out.has(p.id))
+      out.set(
+        p.id,
+        ruleSettersOf(
+          p,
+          rows.filter((r) => r.programId === p.id),
+        ),
+      );
   }
   return out;
 }

@@ -19,8 +19,8 @@ const SPELL: Record<string, string> = {
   "−": "-",
   "—": "-",
   "–": "-",
-  "σ": "sigma",
-  "λ": "lambda",
+  σ: "sigma",
+  λ: "lambda",
   "…": "...",
   "‘": "'",
   "’": "'",
@@ -50,7 +50,12 @@ function heading(doc: Doc, text: string) {
   doc.moveDown(0.6);
   doc.font("Helvetica-Bold").fontSize(12).fillColor("#1b1f1d").text(pdfText(text), LEFT);
   const y = doc.y + 1;
-  doc.moveTo(LEFT, y).lineTo(LEFT + WIDTH, y).lineWidth(0.8).strokeColor("#1b1f1d").stroke();
+  doc
+    .moveTo(LEFT, y)
+    .lineTo(LEFT + WIDTH, y)
+    .lineWidth(0.8)
+    .strokeColor("#1b1f1d")
+    .stroke();
   doc.moveDown(0.4);
   doc.font("Helvetica").fontSize(9.5);
 }
@@ -71,14 +76,22 @@ function table(doc: Doc, widths: number[], header: string[], rows: string[][]) {
     const y = doc.y;
     let x = LEFT;
     let bottom = y;
-    doc.font(bold ? "Helvetica-Bold" : "Helvetica").fontSize(8.5).fillColor("#1b1f1d");
+    doc
+      .font(bold ? "Helvetica-Bold" : "Helvetica")
+      .fontSize(8.5)
+      .fillColor("#1b1f1d");
     cells.forEach((c, i) => {
       const w = widths[i] ?? 60;
       doc.text(pdfText(c), x + 2, y, { width: w - 4 });
       bottom = Math.max(bottom, doc.y);
       x += w;
     });
-    doc.moveTo(LEFT, bottom + 2).lineTo(LEFT + WIDTH, bottom + 2).lineWidth(0.3).strokeColor("#c9cfcb").stroke();
+    doc
+      .moveTo(LEFT, bottom + 2)
+      .lineTo(LEFT + WIDTH, bottom + 2)
+      .lineWidth(0.3)
+      .strokeColor("#c9cfcb")
+      .stroke();
     doc.y = bottom + 4;
     doc.x = LEFT;
   };
@@ -107,15 +120,28 @@ function plot(doc: Doc, p: RecordPlot) {
           .reverse()
           .map((i): [number, number] => [X(p.wavelengths[i] as number), Y(lo[i] as number)]),
       ];
-      doc.polygon(...pts).fillOpacity(0.55).fill("#9fb7c9").fillOpacity(1);
+      doc
+        .polygon(...pts)
+        .fillOpacity(0.55)
+        .fill("#9fb7c9")
+        .fillOpacity(1);
     }
   }
   for (const b of p.bands) {
     if (b.value === null) continue;
-    doc.moveTo(X(b.start), Y(b.value)).lineTo(X(b.stop), Y(b.value)).lineWidth(2).strokeColor("#b3261e").stroke();
-    doc.font("Helvetica").fontSize(7).fillColor("#b3261e").text(pdfText(b.id), X(b.start), Y(b.value) - 9, {
-      lineBreak: false,
-    });
+    doc
+      .moveTo(X(b.start), Y(b.value))
+      .lineTo(X(b.stop), Y(b.value))
+      .lineWidth(2)
+      .strokeColor("#b3261e")
+      .stroke();
+    doc
+      .font("Helvetica")
+      .fontSize(7)
+      .fillColor("#b3261e")
+      .text(pdfText(b.id), X(b.start), Y(b.value) - 9, {
+        lineBreak: false,
+      });
   }
   let pen = false;
   p.wavelengths.forEach((x, i) => {
@@ -132,50 +158,88 @@ function plot(doc: Doc, p: RecordPlot) {
   // axes
   const ax0 = LEFT + m.l;
   const ay0 = top + H - m.b;
-  doc.moveTo(ax0, top + m.t).lineTo(ax0, ay0).lineTo(LEFT + WIDTH - m.r, ay0).lineWidth(0.6).strokeColor("#1b1f1d").stroke();
+  doc
+    .moveTo(ax0, top + m.t)
+    .lineTo(ax0, ay0)
+    .lineTo(LEFT + WIDTH - m.r, ay0)
+    .lineWidth(0.6)
+    .strokeColor("#1b1f1d")
+    .stroke();
   doc.font("Helvetica").fontSize(7).fillColor("#1b1f1d");
   for (let k = 0; k <= 4; k++) {
     const xv = x0 + ((x1 - x0) * k) / 4;
     doc.text(xv.toFixed(0), X(xv) - 15, ay0 + 3, { width: 30, align: "center", lineBreak: false });
     const yv = y0 + ((y1 - y0) * k) / 4;
-    doc.text(yv.toFixed(p.quantity === "OD" || y1 - y0 < 5 ? 1 : 0), LEFT, Y(yv) - 3, { width: m.l - 4, align: "right", lineBreak: false });
+    doc.text(yv.toFixed(p.quantity === "OD" || y1 - y0 < 5 ? 1 : 0), LEFT, Y(yv) - 3, {
+      width: m.l - 4,
+      align: "right",
+      lineBreak: false,
+    });
   }
-  doc.fontSize(8).text("Wavelength (nm)", LEFT + m.l, ay0 + 13, { width: WIDTH - m.l, align: "center", lineBreak: false });
+  doc
+    .fontSize(8)
+    .text("Wavelength (nm)", LEFT + m.l, ay0 + 13, { width: WIDTH - m.l, align: "center", lineBreak: false });
   doc.y = top + H;
   doc.x = LEFT;
-  doc.font("Helvetica").fontSize(8).fillColor("#4a524e").text(
-    pdfText(
-      `${p.quantity}${p.quantity === "OD" ? "" : " (%)"} at ${p.angleDeg} deg, polarization ${p.polarization}: nominal (black line), ${p.lowP ?? 5}-${p.highP ?? 95} % envelope of the evidence run (shaded), band limits (red).`,
-    ),
-    LEFT,
-    doc.y,
-    { width: WIDTH },
-  );
+  doc
+    .font("Helvetica")
+    .fontSize(8)
+    .fillColor("#4a524e")
+    .text(
+      pdfText(
+        `${p.quantity}${p.quantity === "OD" ? "" : " (%)"} at ${p.angleDeg} deg, polarization ${p.polarization}: nominal (black line), ${p.lowP ?? 5}-${p.highP ?? 95} % envelope of the evidence run (shaded), band limits (red).`,
+      ),
+      LEFT,
+      doc.y,
+      { width: WIDTH },
+    );
   doc.moveDown(0.6);
 }
 
 function write(doc: Doc, r: ReleaseRecord) {
-  doc.font("Helvetica-Bold").fontSize(16).fillColor("#1b1f1d").text(pdfText(`Release record - ${r.design} rev ${r.revision.number ?? "?"}`), LEFT);
-  doc.font("Helvetica").fontSize(9).fillColor("#4a524e").text(
-    pdfText(
-      `${r.workspace} · program ${r.program.name}${r.program.customer ? ` for ${r.program.customer}` : ""} · released ${when(r.releasedAt)} by ${r.releasedBy} · status ${r.status.toUpperCase()}`,
-    ),
-  );
+  doc
+    .font("Helvetica-Bold")
+    .fontSize(16)
+    .fillColor("#1b1f1d")
+    .text(pdfText(`Release record - ${r.design} rev ${r.revision.number ?? "?"}`), LEFT);
+  doc
+    .font("Helvetica")
+    .fontSize(9)
+    .fillColor("#4a524e")
+    .text(
+      pdfText(
+        `${r.workspace} · program ${r.program.name}${r.program.customer ? ` for ${r.program.customer}` : ""} · released ${when(r.releasedAt)} by ${r.releasedBy} · status ${r.status.toUpperCase()}`,
+      ),
+    );
   if (r.caution || r.status === "withdrawn") {
     doc.moveDown(0.5);
     const msgs = [
       r.caution ? `Caution: ${r.caution}` : "",
-      r.status === "withdrawn" ? "This release has since been withdrawn and must not be used for production." : "",
+      r.status === "withdrawn"
+        ? "This release has since been withdrawn and must not be used for production."
+        : "",
     ].filter(Boolean);
     const y = doc.y;
-    doc.font("Helvetica-Bold").fontSize(9.5).fillColor("#1b1f1d").text(pdfText(msgs.join(" ")), LEFT + 8, y + 6, { width: WIDTH - 16 });
-    doc.rect(LEFT, y, WIDTH, doc.y - y + 6).lineWidth(1.2).strokeColor("#1b1f1d").stroke();
+    doc
+      .font("Helvetica-Bold")
+      .fontSize(9.5)
+      .fillColor("#1b1f1d")
+      .text(pdfText(msgs.join(" ")), LEFT + 8, y + 6, { width: WIDTH - 16 });
+    doc
+      .rect(LEFT, y, WIDTH, doc.y - y + 6)
+      .lineWidth(1.2)
+      .strokeColor("#1b1f1d")
+      .stroke();
     doc.y += 8;
     doc.x = LEFT;
   }
 
   heading(doc, "Identity");
-  field(doc, "Program", `${r.program.name}${r.program.application ? ` - ${r.program.application}` : ""}${r.program.version !== null ? `, version ${r.program.version}` : ""}`);
+  field(
+    doc,
+    "Program",
+    `${r.program.name}${r.program.application ? ` - ${r.program.application}` : ""}${r.program.version !== null ? `, version ${r.program.version}` : ""}`,
+  );
   field(doc, "Design", `${r.design}, revision ${r.revision.number ?? "?"}`);
   field(doc, "Author", `${r.revision.author} (${when(r.revision.createdAt)})`);
   field(doc, "Content hash (sha-256)", r.revision.hash);
@@ -187,35 +251,60 @@ function write(doc: Doc, r: ReleaseRecord) {
   const e = r.evidence;
   if (!y) doc.text("No yield run is recorded.");
   else {
-    field(doc, "Point yield", `${pct(y.yield)} (${y.passCount ?? "-"} of ${y.trials ?? "-"} simulated builds pass every band)`);
+    field(
+      doc,
+      "Point yield",
+      `${pct(y.yield)} (${y.passCount ?? "-"} of ${y.trials ?? "-"} simulated builds pass every band)`,
+    );
     if (e) {
       field(
         doc,
         "Lower bound",
         `${pct(e.lowerBound, 2)} (two-sided Wilson interval at ${pct(e.confidence)} confidence) against the target ${pct(e.targetYield)}: ${e.pass === true ? "meets the target" : e.pass === false ? "below the target" : "-"}`,
       );
-      field(doc, "Evidence rules", `at least ${e.minTrials ?? "-"} trials; bound at ${pct(e.confidence)} >= target; program version ${e.programVersion ?? "-"}`);
+      field(
+        doc,
+        "Evidence rules",
+        `at least ${e.minTrials ?? "-"} trials; bound at ${pct(e.confidence)} >= target; program version ${e.programVersion ?? "-"}`,
+      );
       field(doc, "Seed rule", e.seedRule);
     } else {
-      field(doc, "Evidence rules", "Released before evidence rules were recorded: no lower bound is stored with this release.");
+      field(
+        doc,
+        "Evidence rules",
+        "Released before evidence rules were recorded: no lower bound is stored with this release.",
+      );
     }
     field(doc, "95 % interval (Wilson)", `${pct(y.low95)} - ${pct(y.high95)}`);
     field(doc, "Trials", String(y.trials ?? "-"));
     field(doc, "Seed", y.seed);
     field(doc, "Error model", y.errorModel);
     field(doc, "Engine version", y.engineVersion);
-    field(doc, "Run", `${y.id}${y.clientVerified ? " - browser result verified by the server's re-run" : " - computed by the server"}`);
+    field(
+      doc,
+      "Run",
+      `${y.id}${y.clientVerified ? " - browser result verified by the server's re-run" : " - computed by the server"}`,
+    );
   }
 
   heading(doc, "Spectrum against the mask");
-  if (r.plots.length === 0) doc.text("No spectrum is stored with this release (released before plots were recorded).");
+  if (r.plots.length === 0)
+    doc.text("No spectrum is stored with this release (released before plots were recorded).");
   for (const p of r.plots) plot(doc, p);
 
   heading(doc, "Specification, margins and nominal result");
   table(
     doc,
     [70, 60, 70, 110, 70, 45, 70],
-    ["Band", "Range (nm)", "Quantity", "Requirement", "Nominal margin", "Nominal", "Failures in evidence run"],
+    [
+      "Band",
+      "Range (nm)",
+      "Quantity",
+      "Requirement",
+      "Nominal margin",
+      "Nominal",
+      "Failures in evidence run",
+    ],
     r.bands.map((b) => [
       b.label ? `${b.label} (${b.id})` : b.id,
       `${b.start}-${b.stop}`,
@@ -235,7 +324,11 @@ function write(doc: Doc, r: ReleaseRecord) {
     field(doc, "Status", d.status ?? "none asked for");
     field(doc, "Reason", d.reason);
     field(doc, "Asked for by", `${d.requestedBy} (${when(d.requestedAt)})`);
-    field(doc, "Decided by", `${d.decidedBy || "-"}${d.decidedAt ? ` (${when(d.decidedAt)})` : ""}${d.decisionNote ? `: ${d.decisionNote}` : ""}`);
+    field(
+      doc,
+      "Decided by",
+      `${d.decidedBy || "-"}${d.decidedAt ? ` (${when(d.decidedAt)})` : ""}${d.decisionNote ? `: ${d.decisionNote}` : ""}`,
+    );
   }
 
   heading(doc, "Layer stack");
@@ -245,7 +338,12 @@ function write(doc: Doc, r: ReleaseRecord) {
     doc,
     [40, 200, 160, 95],
     ["#", "Material", "Physical thickness (nm)", "Locked"],
-    r.revision.layers.map((l, i) => [String(i + 1), l.material, l.thickness === null ? "-" : l.thickness.toFixed(2), l.locked ? "yes" : ""]),
+    r.revision.layers.map((l, i) => [
+      String(i + 1),
+      l.material,
+      l.thickness === null ? "-" : l.thickness.toFixed(2),
+      l.locked ? "yes" : "",
+    ]),
   );
 
   heading(doc, "Decisions");
@@ -253,7 +351,13 @@ function write(doc: Doc, r: ReleaseRecord) {
     doc,
     [130, 110, 90, 45, 120],
     ["When (UTC)", "Decision", "By", "Program version", "Note"],
-    r.decisions.map((x) => [when(x.at), ACTION_LABEL[x.action] ?? x.action, x.actor, String(x.programVersion ?? "-"), x.note]),
+    r.decisions.map((x) => [
+      when(x.at),
+      ACTION_LABEL[x.action] ?? x.action,
+      x.actor,
+      String(x.programVersion ?? "-"),
+      x.note,
+    ]),
   );
 
   heading(doc, "Review threads");
@@ -262,12 +366,15 @@ function write(doc: Doc, r: ReleaseRecord) {
     LEFT,
   );
   doc.moveDown(1);
-  doc.fontSize(8).fillColor("#4a524e").text(
-    pdfText(
-      `Generated by Stackproof from the stored release record ${r.id}. Computed results depend on the optical constants and the error model stated above.`,
-    ),
-    LEFT,
-  );
+  doc
+    .fontSize(8)
+    .fillColor("#4a524e")
+    .text(
+      pdfText(
+        `Generated by Stackproof from the stored release record ${r.id}. Computed results depend on the optical constants and the error model stated above.`,
+      ),
+      LEFT,
+    );
 }
 
 /** The release record as PDF bytes. A record that cannot be laid out in full still gives a PDF naming it. */
@@ -291,11 +398,14 @@ export function releasePdf(snapshot: unknown, status: string): Promise<Buffer> {
       try {
         if (full) write(doc, r);
         else
-          doc.font("Helvetica").fontSize(11).text(
-            pdfText(
-              `Release record ${r.id}: design ${r.design}, revision ${r.revision.number ?? "?"}, content hash ${r.revision.hash}, status ${status}. This record could not be laid out in full; see the printable page.`,
-            ),
-          );
+          doc
+            .font("Helvetica")
+            .fontSize(11)
+            .text(
+              pdfText(
+                `Release record ${r.id}: design ${r.design}, revision ${r.revision.number ?? "?"}, content hash ${r.revision.hash}, status ${status}. This record could not be laid out in full; see the printable page.`,
+              ),
+            );
         doc.end();
       } catch (err) {
         reject(err);

@@ -50,7 +50,9 @@ function plotSvg(p: RecordPlot): string {
     const hi = p.high;
     const idx = p.wavelengths.map((_, i) => i).filter((i) => lo[i] !== null && hi[i] !== null);
     if (idx.length > 1) {
-      const top = idx.map((i) => `${X(p.wavelengths[i] as number).toFixed(1)},${Y(hi[i] as number).toFixed(1)}`);
+      const top = idx.map(
+        (i) => `${X(p.wavelengths[i] as number).toFixed(1)},${Y(hi[i] as number).toFixed(1)}`,
+      );
       const bottom = idx
         .slice()
         .reverse()
@@ -74,7 +76,8 @@ function plotSvg(p: RecordPlot): string {
         `<text x="${X(x).toFixed(1)}" y="${H - m.b + 12}" font-size="9" text-anchor="middle">${x.toFixed(0)}</text>`,
     ),
     ...ticks(y0, y1).map(
-      (y) => `<text x="${m.l - 4}" y="${(Y(y) + 3).toFixed(1)}" font-size="9" text-anchor="end">${y.toFixed(p.quantity === "OD" || y1 - y0 < 5 ? 1 : 0)}</text>`,
+      (y) =>
+        `<text x="${m.l - 4}" y="${(Y(y) + 3).toFixed(1)}" font-size="9" text-anchor="end">${y.toFixed(p.quantity === "OD" || y1 - y0 < 5 ? 1 : 0)}</text>`,
     ),
     `<text x="${(m.l + W - m.r) / 2}" y="${H - 4}" font-size="10" text-anchor="middle">Wavelength (nm)</text>`,
     `<text x="12" y="${(m.t + H - m.b) / 2}" font-size="10" text-anchor="middle" transform="rotate(-90 12 ${(m.t + H - m.b) / 2})">${esc(p.quantity)}${p.quantity === "OD" ? "" : " (%)"}</text>`,
@@ -135,7 +138,11 @@ ${rows(
     `${esc(b.quantity)}, ${b.angleDeg}°, ${esc(b.polarization)}`,
     `${esc(REQUIREMENT_LABEL[b.requirement] ?? b.requirement)} ${esc(b.value ?? "—")}${unitOf(b.quantity)}${b.tolerance ? ` (tol. ${b.tolerance})` : ""}`,
     b.nominalMargin !== null ? `${b.nominalMargin.toFixed(3)}${unitOf(b.quantity)}` : "—",
-    b.nominalPass === null ? "—" : b.nominalPass ? `<span class="pass">pass</span>` : `<span class="fail">fail</span>`,
+    b.nominalPass === null
+      ? "—"
+      : b.nominalPass
+        ? `<span class="pass">pass</span>`
+        : `<span class="fail">fail</span>`,
     b.failures === null ? "" : String(b.failures),
   ]),
 )}

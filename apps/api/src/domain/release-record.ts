@@ -3,8 +3,6 @@
 // value that was not finite was stored as null. Reading never throws, so every stored release renders.
 import type { ReleaseSnapshot } from "./workflow.ts";
 
-type Person = { id: string; name: string } | null;
-
 export interface RecordBand {
   id: string;
   label: string;
@@ -103,7 +101,8 @@ export interface ReleaseRecord {
 const obj = (v: unknown): Record<string, unknown> =>
   v !== null && typeof v === "object" && !Array.isArray(v) ? (v as Record<string, unknown>) : {};
 const arr = (v: unknown): unknown[] => (Array.isArray(v) ? v : []);
-const str = (v: unknown, d = ""): string => (typeof v === "string" ? v : typeof v === "number" ? String(v) : d);
+const str = (v: unknown, d = ""): string =>
+  typeof v === "string" ? v : typeof v === "number" ? String(v) : d;
 const num = (v: unknown): number | null => (typeof v === "number" && Number.isFinite(v) ? v : null);
 const bool = (v: unknown): boolean => v === true;
 const name = (v: unknown): string => str(obj(v).name, "");
@@ -117,9 +116,7 @@ export function readReleaseRecord(snapshot: ReleaseSnapshot | unknown, status: s
   const stack = obj(revision.stack);
   const substrate = obj(stack.substrate);
   const mask = obj(revision.specMask);
-  const nominal = new Map(
-    arr(obj(s.nominal).bands).map((b) => [str(obj(b).id), obj(b)] as const),
-  );
+  const nominal = new Map(arr(obj(s.nominal).bands).map((b) => [str(obj(b).id), obj(b)] as const));
   const run = s.yieldRun ? obj(s.yieldRun) : null;
   const failures = new Map(arr(run?.bandFailures).map((b) => [str(obj(b).id), num(obj(b).count)] as const));
   const bands: RecordBand[] = arr(mask.bands).map((raw) => {
@@ -267,7 +264,7 @@ export function plotRange(p: RecordPlot): { x0: number; x1: number; y0: number; 
   const ys: number[] = [];
   for (const c of [p.nominal, p.low ?? [], p.high ?? []]) for (const v of c) if (v !== null) ys.push(v);
   for (const b of p.bands) if (b.value !== null) ys.push(b.value);
-  let x0 = xs.length ? Math.min(...xs) : 0;
+  const x0 = xs.length ? Math.min(...xs) : 0;
   let x1 = xs.length ? Math.max(...xs) : 1;
   let y0 = ys.length ? Math.min(...ys) : 0;
   let y1 = ys.length ? Math.max(...ys) : 1;

@@ -274,7 +274,10 @@ export function overviewRows(db: DbOrTx, rows: readonly { design: DesignRow; pro
   return rows.map(({ design, program }) => {
     const latest = latestByDesign.get(design.id);
     const run = latest
-      ? pickEvidenceRun(evidenceRuns.get(latest.id) ?? [], evidencePlan({ revision: latest, design, program }))
+      ? pickEvidenceRun(
+          evidenceRuns.get(latest.id) ?? [],
+          evidencePlan({ revision: latest, design, program }),
+        )
       : null;
     const result = (run?.result ?? null) as YieldResult | null;
     const figures = result ? evidenceFigures(result, program) : null;

@@ -30,7 +30,7 @@ import {
 } from "../db/schema.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError, conflict, forbidden } from "../lib/errors.ts";
-import { canonicalJson, newId } from "./canonical.ts";
+import { newId } from "./canonical.ts";
 import {
   loadRevision,
   maskOf,
@@ -55,11 +55,7 @@ import {
 import { RULE_LABEL, currentRuleSetters } from "./programs.ts";
 
 export type GateCheckId =
-  | "verified_yield"
-  | "spec_deviation"
-  | "blocking_threads"
-  | "independent_approver"
-  | "state";
+  "verified_yield" | "spec_deviation" | "blocking_threads" | "independent_approver" | "state";
 
 export interface GateCheck {
   id: GateCheckId;
@@ -201,7 +197,11 @@ export function gateOf(
 
   const bandList = deviation.bands.map((b) => `${b.id} ${b.change}`).join(", ");
   const deviationCheck: GateCheck = !deviation.required
-    ? { id: "spec_deviation", ok: true, message: `The revision is judged against the program's mask (version ${program.version}).` }
+    ? {
+        id: "spec_deviation",
+        ok: true,
+        message: `The revision is judged against the program's mask (version ${program.version}).`,
+      }
     : deviation.accepted
       ? {
           id: "spec_deviation",
@@ -248,7 +248,8 @@ export function gateOf(
         : {
             id: "independent_approver",
             ok: true,
-            message: "You are an approver, not the author of this revision, and did not set the program's rules.",
+            message:
+              "You are an approver, not the author of this revision, and did not set the program's rules.",
           };
 
   const superseded = latestNumber !== undefined && latestNumber > revision.number;
@@ -281,7 +282,9 @@ export function gateOf(
       seed: plan.seed,
       seedRule: plan.seedRule,
       errorModelVersion: plan.errorModelVersion,
-      run: run ? { id: run.id, status: run.status, trials: run.trials, engineVersion: run.engineVersion } : null,
+      run: run
+        ? { id: run.id, status: run.status, trials: run.trials, engineVersion: run.engineVersion }
+        : null,
       figures,
     },
     deviation,

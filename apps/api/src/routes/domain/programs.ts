@@ -5,12 +5,7 @@ import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { designs, programs } from "../../db/schema.ts";
-import {
-  createProgram,
-  programVersionsOf,
-  updateProgram,
-  type ProgramInput,
-} from "../../domain/programs.ts";
+import { createProgram, programVersionsOf, updateProgram, type ProgramInput } from "../../domain/programs.ts";
 import { recordAudit } from "../../lib/audit.ts";
 import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
@@ -123,7 +118,8 @@ export function programRoutes(ctx: AppContext, router: Router): void {
     {
       method: "patch",
       path: "/programs/:id",
-      summary: "Edit a program; a change of an evidence rule (mask, error model, target, minimum trials, confidence) makes a new version",
+      summary:
+        "Edit a program; a change of an evidence rule (mask, error model, target, minimum trials, confidence) makes a new version",
       tag: TAG,
       access: ["admin", "approver"],
       params: IdParams,
@@ -152,7 +148,8 @@ export function programRoutes(ctx: AppContext, router: Router): void {
     {
       method: "get",
       path: "/programs/:id/versions",
-      summary: "Every version of the program's evidence rules, oldest first, with who changed what from what to what",
+      summary:
+        "Every version of the program's evidence rules, oldest first, with who changed what from what to what",
       tag: TAG,
       access: "member",
       params: IdParams,

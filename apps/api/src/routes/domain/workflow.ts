@@ -171,7 +171,11 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
         ctx.db,
         rows.flatMap((d) => [d.requestedBy, d.decidedBy]),
       );
-      return { required: state.required, bands: state.bands, items: rows.map((d) => deviationView(d, names)) };
+      return {
+        required: state.required,
+        bands: state.bands,
+        items: rows.map((d) => deviationView(d, names)),
+      };
     },
   );
 
@@ -180,14 +184,20 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
     {
       method: "post",
       path: "/revisions/:id/deviations",
-      summary: "Ask for the revision's mask to be accepted as a deviation from the program's mask (written reason)",
+      summary:
+        "Ask for the revision's mask to be accepted as a deviation from the program's mask (written reason)",
       tag: TAG,
       access: ["designer", "approver"],
       params: IdParams,
-      body: z.object({ reason: z.string().trim().min(10, { message: "write the reason (10 characters or more)" }).max(5000) }),
+      body: z.object({
+        reason: z.string().trim().min(10, { message: "write the reason (10 characters or more)" }).max(5000),
+      }),
       status: 201,
       response: DeviationSchema,
-      errors: { 404: "No such revision", 409: "The mask is the program's, or a deviation is pending or accepted" },
+      errors: {
+        404: "No such revision",
+        409: "The mask is the program's, or a deviation is pending or accepted",
+      },
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
@@ -208,7 +218,8 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
     {
       method: "post",
       path: "/revisions/:id/deviations/:deviationId/decision",
-      summary: "Accept or reject a spec deviation (an approver other than its author and the revision's author)",
+      summary:
+        "Accept or reject a spec deviation (an approver other than its author and the revision's author)",
       tag: TAG,
       access: ["approver"],
       params: z.object({ id: z.string().min(1).max(100), deviationId: z.string().min(1).max(100) }),
@@ -337,7 +348,8 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
     {
       method: "get",
       path: "/releases/:id/pdf",
-      summary: "The release record as a PDF (spectrum with the evidence run's envelope, margins, evidence, deviations, decisions)",
+      summary:
+        "The release record as a PDF (spectrum with the evidence run's envelope, margins, evidence, deviations, decisions)",
       tag: TAG,
       access: "member",
       params: IdParams,
