@@ -152,7 +152,9 @@ export function requestEvidenceRun(db: DbOrTx, req: EvidenceRequest): { run: Yie
       (existing.clientResult === null || existing.clientResult === undefined)
     ) {
       // The first browser result is kept with the run and compared; the server's result stays the evidence.
-      const set: Partial<typeof yieldRuns.$inferInsert> = { clientResult: req.clientResult };
+      const set: Partial<typeof yieldRuns.$inferInsert> = {
+        clientResult: req.clientResult as YieldRunRow["clientResult"],
+      };
       if (existing.status === "done" && existing.result) {
         const parsed = ClientResultSchema.safeParse(req.clientResult);
         const v = parsed.success
@@ -192,7 +194,7 @@ export function requestEvidenceRun(db: DbOrTx, req: EvidenceRequest): { run: Yie
       trials: plan.trials,
       seed: plan.seed,
       errorModel: plan.errorModel,
-      clientResult: req.clientResult ?? null,
+      clientResult: (req.clientResult ?? null) as YieldRunRow["clientResult"],
       engineVersion: ENGINE_VERSION,
       kind: "evidence",
       programVersion: plan.programVersion,

@@ -13,6 +13,7 @@ import {
   type RuleChange,
   type StudyDefaults,
 } from "../db/schema.ts";
+import type { ErrorModel, SpecMask } from "@stackproof/optics";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { conflict } from "../lib/errors.ts";
 import { canonicalJson, newId } from "./canonical.ts";
@@ -34,8 +35,8 @@ export interface ProgramInput {
   targetYield: number;
   minEvidenceTrials: number;
   confidence: number;
-  specMask: unknown;
-  errorModel: unknown;
+  specMask: SpecMask;
+  errorModel: ErrorModel;
   studyDefaults: StudyDefaults;
 }
 

@@ -505,7 +505,7 @@ export function applyTransition(
       .from(yieldRuns)
       .where(eq(yieldRuns.id, outcome.decision.yieldRunId ?? ""))
       .get();
-    const result = run?.result as YieldResult | undefined;
+    const result = run?.result ?? undefined;
     const yieldText = result
       ? `${pct(result.yield)} (95 % interval ${pct(result.interval.low)}–${pct(result.interval.high)}, ${result.trials} trials)`
       : "";
@@ -546,7 +546,7 @@ export function releaseSnapshot(
   at: Date,
 ) {
   const run = db.select().from(yieldRuns).where(eq(yieldRuns.id, yieldRunId)).get();
-  const result = run?.result as YieldResult | undefined;
+  const result = run?.result ?? undefined;
   const mask = maskOf(rc.revision, rc.program);
   const nominal = evaluateSpec(stackOf(rc.revision), mask);
   const dev = deviationState(db, rc);

@@ -1,4 +1,4 @@
-import type { SpecBand, SpecMask } from "../lib/types.ts";
+import type { SpecBand, SpecMask } from "@stackproof/optics";
 import { cx } from "./ui/cx.ts";
 
 const requirementText: Record<SpecBand["requirement"], string> = {

@@ -8,7 +8,7 @@
  */
 import { z } from "zod";
 import { getMaterial } from "./library.ts";
-import { MaterialSchema, refractiveIndex, type Material } from "./materials.ts";
+import { assertPhysicalIndex, indexTable, MaterialSchema, refractiveIndex, type Material } from "./materials.ts";
 
 /** Format tag written in every design file. */
 export const DESIGN_FORMAT = "stackproof.design/v1";
@@ -17,12 +17,23 @@ const positiveNm = z
   .number({ error: "expected a number" })
   .positive({ error: "expected a number > 0" });
 
+/**
+ * Largest physical thickness of one layer, nm (1 mm). Thin-film layers are at most a few µm; a
+ * coherent "layer" thicker than a millimetre is a plate, whose interference no real source
+ * resolves (use the incoherent substrate), and the bound keeps the phase 2πnd/λ well inside the
+ * range where double-precision trigonometry is exact to ~1e-10.
+ */
+export const MAX_LAYER_THICKNESS_NM = 1e6;
+/** Largest substrate thickness, mm (1 m): far beyond any coated part, small enough for exp(−αd). */
+export const MAX_SUBSTRATE_THICKNESS_MM = 1e3;
+
 /** One layer: a material id and its physical thickness in nm. */
 export const LayerSchema = z.object({
   material: z.string({ error: "expected a material id" }).min(1, { error: "expected a material id" }),
   thickness: z
     .number({ error: "expected a number ≥ 0" })
-    .min(0, { error: "expected a number ≥ 0" }),
+    .min(0, { error: "expected a number ≥ 0" })
+    .max(MAX_LAYER_THICKNESS_NM, { error: `expected at most ${MAX_LAYER_THICKNESS_NM} nm (1 mm)` }),
   locked: z.boolean({ error: "expected true or false" }).optional(),
   label: z.string({ error: "expected a string" }).optional(),
 });
@@ -34,7 +45,8 @@ export const SubstrateSchema = z.object({
   material: z.string({ error: "expected a material id" }).min(1, { error: "expected a material id" }),
   thicknessMm: z
     .number({ error: "expected a number ≥ 0" })
-    .min(0, { error: "expected a number ≥ 0" }),
+    .min(0, { error: "expected a number ≥ 0" })
+    .max(MAX_SUBSTRATE_THICKNESS_MM, { error: `expected at most ${MAX_SUBSTRATE_THICKNESS_MM} mm` }),
   backside: z.boolean({ error: "expected true or false" }),
 });
 /** The validated substrate (thickness in mm). */
@@ -199,4 +211,59 @@ export function layerQwots(design: Design): number[] {
     const n = refractiveIndex(getMaterial(l.material, design.materials).model, design.referenceWavelength).n;
     return thicknessToQwot(l.thickness, n, design.referenceWavelength);
   });
+}
+
+/**
+ * Check the physical inputs of a design before it is stored or evaluated: every layer thickness
+ * finite, 0 ≤ d ≤ {@link MAX_LAYER_THICKNESS_NM} nm, the substrate 0 ≤ d ≤
+ * {@link MAX_SUBSTRATE_THICKNESS_MM} mm, and every material the design uses (incident medium,
+ * layers, substrate, exit medium) giving finite n with 0 < n ≤ 1000 and finite k with
+ * 0 ≤ k ≤ 1000 at every wavelength the design is evaluated at (N = n − ik). Call it when a
+ * revision is saved, with the wavelengths of its spec mask and chart.
+ *
+ * @param design  a design (validated or not: it is parsed first)
+ * @param wavelengths  evaluation wavelengths, nm
+ * @returns the parsed design
+ * @throws RangeError naming the field and value, or the material, its model kind and the
+ *   wavelength, e.g. `layers[2].material: material "HiN" (cauchy model) gives n = -0.2 at 1800 nm …`
+ */
+export function checkDesignInputs(design: unknown, wavelengths: ArrayLike<number>): Design {
+  const d = parseDesign(design);
+  d.layers.forEach((l, i) => {
+    if (!Number.isFinite(l.thickness) || l.thickness < 0 || l.thickness > MAX_LAYER_THICKNESS_NM) {
+      throw new RangeError(
+        `layers[${i}].thickness: expected a finite number 0–${MAX_LAYER_THICKNESS_NM} nm, got ${String(l.thickness)}`,
+      );
+    }
+  });
+  const sub = d.substrate.thicknessMm;
+  if (!Number.isFinite(sub) || sub < 0 || sub > MAX_SUBSTRATE_THICKNESS_MM) {
+    throw new RangeError(`substrate.thicknessMm: expected a finite number 0–${MAX_SUBSTRATE_THICKNESS_MM} mm, got ${String(sub)}`);
+  }
+  for (let i = 0; i < wavelengths.length; i++) {
+    const w = wavelengths[i] as number;
+    if (!(w > 0) || !Number.isFinite(w)) {
+      throw new RangeError(`wavelengths[${i}]: expected a finite number > 0 nm, got ${String(w)}`);
+    }
+  }
+  const uses: [string, string][] = [["incident", d.incident]];
+  d.layers.forEach((l, i) => uses.push([`layers[${i}].material`, l.material]));
+  uses.push(["substrate.material", d.substrate.material], ["exit", d.exit]);
+  const seen = new Set<string>();
+  for (const [where, id] of uses) {
+    if (seen.has(id)) continue;
+    seen.add(id);
+    const m = getMaterial(id, d.materials);
+    try {
+      const t = indexTable(m.model, wavelengths);
+      assertPhysicalIndex(id, m.model, wavelengths, t);
+    } catch (e) {
+      if (e instanceof RangeError) {
+        const msg = e.message.startsWith("material ") ? e.message : `material "${id}" (${m.model.kind} model): ${e.message}`;
+        throw new RangeError(`${where}: ${msg}`);
+      }
+      throw e;
+    }
+  }
+  return d;
 }

@@ -7,11 +7,21 @@ export {
   SellmeierModelSchema,
   TablePointSchema,
   TableModelSchema,
+  TaucLorentzModelSchema,
+  DrudeLorentzModelSchema,
+  LorentzOscillatorSchema,
+  UrbachTailSchema,
+  ValidRangeSchema,
   MaterialModelSchema,
   MaterialRoleSchema,
   MaterialSchema,
   refractiveIndex,
   indexTable,
+  validRange,
+  taucLorentzEpsilon,
+  assertPhysicalIndex,
+  HC_EV_NM,
+  MAX_INDEX,
 } from "./materials.ts";
 export type {
   MaterialModel,
@@ -21,6 +31,8 @@ export type {
   MaterialInput,
   IndexValue,
   IndexTable,
+  ValidRange,
+  UrbachTail,
 } from "./materials.ts";
 export { MATERIAL_LIBRARY, getMaterial } from "./library.ts";
 export {
@@ -34,6 +46,9 @@ export {
   designFromQwots,
   layerQwots,
   designJsonSchema,
+  checkDesignInputs,
+  MAX_LAYER_THICKNESS_NM,
+  MAX_SUBSTRATE_THICKNESS_MM,
 } from "./design.ts";
 export type { Layer, Substrate, Design, DesignInput, QwotLayer, QwotDesignSpec } from "./design.ts";
 // named StackPolarization here so the studies half may keep its own identical alias
@@ -59,3 +74,33 @@ export type {
 } from "./spectrum.ts";
 export { fieldProfile } from "./field.ts";
 export type { FieldProfileOptions, FieldProfile } from "./field.ts";
+export { parseFormula, designFromFormula, MAX_FORMULA_LAYERS } from "./formula.ts";
+export type { FormulaLayer, FormulaDesignSpec } from "./formula.ts";
+export {
+  COLOUR_WAVELENGTHS,
+  ObserverSchema,
+  IlluminantSchema,
+  ColourBoxXySchema,
+  ColourBoxLabSchema,
+  ColourDeltaESchema,
+  ColourRequirementSchema,
+  illuminantA,
+  labFromXyz,
+  colourFromSamples,
+  colourOfSpectrum,
+  colourOfDesign,
+  colourSwatch,
+  deltaE,
+  evaluateColourRequirement,
+} from "./colour.ts";
+export type {
+  Observer,
+  Illuminant,
+  ColourCoordinates,
+  ColourOptions,
+  DesignColourOptions,
+  ColourRequirement,
+  ColourRequirementInput,
+  ColourVerdict,
+} from "./colour.ts";
+export { CIE_START_NM, CIE_STEP_NM, CIE_ROWS } from "./cie-tables.ts";

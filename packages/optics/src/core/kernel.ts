@@ -19,7 +19,7 @@
  */
 import type { Design } from "./design.ts";
 import { getMaterial } from "./library.ts";
-import { indexTable } from "./materials.ts";
+import { assertPhysicalIndex, indexTable, validRange } from "./materials.ts";
 // Inlined sine/cosine and exponential. Accurate to about 1 ulp for the arguments the engine
 // produces (|x| < 1e9 rad for sin/cos, −150 ≤ x ≤ 150 for exp). Method: Cody–Waite reduction
 // by π/2 (two-part constant) and the minimax kernels of the freely distributable fdlibm (Sun
@@ -197,12 +197,21 @@ export function prepareStack(
     let t;
     try {
       t = indexTable(mat.model, wavelengths);
+      // a non-finite or non-physical n, k would turn into NaN spectra that no comparison catches
+      assertPhysicalIndex(id, mat.model, wavelengths, t);
     } catch (e) {
       if (e instanceof RangeError) throw new RangeError(`${where} (${id}): ${e.message}`);
       throw e;
     }
     if (t.extrapolated > 0) {
       warnings.push(`${id}: optical constants held constant beyond the table at ${t.extrapolated} wavelength(s)`);
+    }
+    if (t.outOfRange > 0) {
+      const r = validRange(mat.model);
+      warnings.push(
+        `${id}: ${t.outOfRange} wavelength(s) outside the ${mat.model.kind} model's valid range` +
+          (r ? ` ${r[0]}–${r[1]} nm` : ""),
+      );
     }
     cache.set(id, t);
     return t;

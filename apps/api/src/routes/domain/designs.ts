@@ -30,7 +30,7 @@ import {
   RevisionSummarySchema,
   SpecDeviationSummarySchema,
   fileField,
-} from "./schemas.ts";
+} from "@stackproof/contracts";
 
 const TAG = "Designs and revisions";
 

@@ -28,7 +28,7 @@ import {
   ProgramSchema,
   ProgramVersionSchema,
   RevisionSchema,
-} from "./schemas.ts";
+} from "@stackproof/contracts";
 
 const TAG = "Programs";
 

@@ -20,7 +20,7 @@ import { releasePrintHtml } from "../../domain/release-print.ts";
 import { releasePdf } from "../../domain/release-pdf.ts";
 import { revisionView } from "../../domain/revisions.ts";
 import { applyTransition, decisionViews, evaluateGate, type ReleaseSnapshot } from "../../domain/workflow.ts";
-import { DecisionSchema, DeviationSchema, GateSchema, IdParams, RevisionSchema } from "./schemas.ts";
+import { DecisionSchema, DeviationSchema, GateSchema, IdParams, RevisionSchema } from "@stackproof/contracts";
 
 const TAG = "Workflow and release";
 

@@ -35,7 +35,7 @@ import {
   matchesPlan,
   requestEvidenceRun,
 } from "../../domain/evidence.ts";
-import { EvidenceFiguresSchema, EvidencePlanSchema, IdParams, YieldRunSchema } from "./schemas.ts";
+import { EvidenceFiguresSchema, EvidencePlanSchema, IdParams, YieldRunSchema } from "@stackproof/contracts";
 
 const TAG = "Yield runs";
 

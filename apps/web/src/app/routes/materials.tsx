@@ -15,7 +15,12 @@ import {
 } from "../../features/materials/api/get-materials.ts";
 import { DispersionChart } from "../../features/materials/components/dispersion-chart.tsx";
 import { UploadMaterialForm } from "../../features/materials/components/upload-material-form.tsx";
-import { modelSummary, naturalRange, sampleDispersion } from "../../features/materials/lib/dispersion.ts";
+import {
+  modelSummary,
+  naturalRange,
+  rangeLabel,
+  sampleDispersion,
+} from "../../features/materials/lib/dispersion.ts";
 import { queryClient } from "../../lib/query-client.ts";
 import { hasRole, useSession } from "../../lib/session.ts";
 
@@ -69,6 +74,12 @@ function MaterialDetail({ material }: { material: MaterialItem }) {
           title={`n and k of ${material.name} from ${start} to ${stop} nm`}
         />
       )}
+      {valid && (start < from || stop > to) && (
+        <p className="text-sm text-verdict-warn" role="status">
+          The model is valid over {rangeLabel(material.model)}; outside it the values are extrapolated and
+          results carry a warning.
+        </p>
+      )}
       {curve && curve.refused > 0 && (
         <p className="text-sm text-verdict-warn" role="status">
           {curve.refused} of the sampled wavelengths are outside what this model covers: {curve.firstError}
@@ -77,6 +88,8 @@ function MaterialDetail({ material }: { material: MaterialItem }) {
       <dl className="grid grid-cols-[8rem_1fr] gap-x-4 gap-y-1 text-sm">
         <dt className="text-ink-500">Model</dt>
         <dd>{modelSummary(material.model)}</dd>
+        <dt className="text-ink-500">Valid range</dt>
+        <dd className="font-mono">{rangeLabel(material.model)}</dd>
         <dt className="text-ink-500">Source</dt>
         <dd>{material.source || "—"}</dd>
       </dl>
@@ -140,6 +153,9 @@ export function Component() {
                     <th scope="col" className="px-2 py-2 font-semibold">
                       Use
                     </th>
+                    <th scope="col" className="px-2 py-2 font-semibold">
+                      Valid range
+                    </th>
                     <th scope="col" className="px-4 py-2 font-semibold">
                       Origin
                     </th>
@@ -171,6 +187,9 @@ export function Component() {
                         </td>
                         <td className="px-2 py-2 text-ink-700">{m.name}</td>
                         <td className="px-2 py-2 text-ink-500">{m.role}</td>
+                        <td className="px-2 py-2 font-mono text-xs whitespace-nowrap text-ink-500">
+                          {rangeLabel(m.model)}
+                        </td>
                         <td className="px-4 py-2">
                           {m.builtIn ? <Badge>built-in</Badge> : <Badge tone="teal">workspace</Badge>}
                         </td>

@@ -1,21 +1,19 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { CreateYieldRunResponse, DeviationSchema } from "@stackproof/contracts";
 import { api } from "../../../lib/api-client.ts";
-import type { Deviation } from "./get-gate.ts";
 
 /** Starts the revision's evidence run (server-assigned seed and trials), or returns the one that exists. */
 export const startEvidenceRun = (revisionId: string) =>
-  api.post<{ run: { id: string; status: string }; reused: boolean }>(
-    `/revisions/${encodeURIComponent(revisionId)}/evidence-run`,
-    {},
-  );
+  api.post(`/revisions/${encodeURIComponent(revisionId)}/evidence-run`, {}, { schema: CreateYieldRunResponse });
 
 export const requestDeviation = (revisionId: string, reason: string) =>
-  api.post<Deviation>(`/revisions/${encodeURIComponent(revisionId)}/deviations`, { reason });
+  api.post(`/revisions/${encodeURIComponent(revisionId)}/deviations`, { reason }, { schema: DeviationSchema });
 
 export const decideDeviation = (revisionId: string, deviationId: string, accept: boolean, note: string) =>
-  api.post<Deviation>(
+  api.post(
     `/revisions/${encodeURIComponent(revisionId)}/deviations/${encodeURIComponent(deviationId)}/decision`,
     { accept, note },
+    { schema: DeviationSchema },
   );
 
 function useRefreshGate(revisionId: string) {

@@ -1,4 +1,4 @@
-import { refractiveIndex, type MaterialModel } from "@stackproof/optics";
+import { refractiveIndex, validRange, type MaterialModel } from "@stackproof/optics";
 
 export interface DispersionPoint {
   wavelength: number;
@@ -14,17 +14,21 @@ export interface DispersionCurve {
   firstError: string | null;
 }
 
-/** The wavelength span a model is meaningful over: a table's own range, otherwise the given default. */
+/** The wavelength span a model is meaningful over: its stated valid range (a table's own span), otherwise the given default. */
 export function naturalRange(
   model: MaterialModel,
   fallback: [number, number] = [350, 1100],
 ): [number, number] {
-  if (model.kind === "table" && model.points.length > 0) {
-    const first = model.points[0]!;
-    const last = model.points[model.points.length - 1]!;
-    return first[0] === last[0] ? [first[0] - 1, last[0] + 1] : [first[0], last[0]];
-  }
-  return fallback;
+  const r = validRange(model);
+  if (!r) return fallback;
+  return r[0] === r[1] ? [r[0] - 1, r[1] + 1] : r;
+}
+
+/** The model's valid range as text, e.g. "210–3710 nm", or a note that none is stated. */
+export function rangeLabel(model: MaterialModel): string {
+  const r = validRange(model);
+  if (!r) return "not stated";
+  return r[1] >= 10000 ? `${r[0] / 1000}–${r[1] / 1000} µm` : `${r[0]}–${r[1]} nm`;
 }
 
 /** Evaluates N = n − ik of the model at `samples` evenly spaced wavelengths (nm) with the optics package. */
@@ -57,10 +61,14 @@ export function modelSummary(model: MaterialModel): string {
     case "constant":
       return `constant n = ${model.n}${model.k ? `, k = ${model.k}` : ""}`;
     case "cauchy":
-      return "Cauchy";
+      return model.urbach ? "Cauchy with Urbach absorption tail" : "Cauchy";
     case "sellmeier":
       return `Sellmeier, ${model.B.length} terms`;
     case "table":
       return `table, ${model.points.length} points`;
+    case "tauc-lorentz":
+      return `Tauc–Lorentz, Eg = ${model.Eg} eV`;
+    case "drude-lorentz":
+      return `Drude–Lorentz, ${model.oscillators.length} oscillator${model.oscillators.length === 1 ? "" : "s"}`;
   }
 }

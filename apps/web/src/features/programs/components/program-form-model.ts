@@ -1,7 +1,7 @@
 // The program form's values (text as typed), their checks and the conversion to the API body.
 import { z } from "zod";
 import { ErrorModelSchema, MAX_TRIALS, SpecBandSchema } from "@stackproof/optics";
-import type { ErrorModel, SpecBand } from "../../../lib/types.ts";
+import type { ErrorModel, SpecBand } from "@stackproof/optics";
 import type { Program } from "../api/get-program.ts";
 import type { ProgramBody } from "../api/save-program.ts";
 

@@ -8,6 +8,7 @@ import { forbiddenRegions } from "../lib/mask-geometry.ts";
 import type { ChartQuantity } from "../lib/mask-geometry.ts";
 import { QUANTITY_COLORS, QUANTITY_NAMES, spectrumCurves } from "../lib/curves.ts";
 import type { SpectrumSettings } from "../lib/spectrum-engine.ts";
+import { ColourReadout } from "./colour-readout.tsx";
 
 export interface ChartView {
   settings: SpectrumSettings;
@@ -180,6 +181,9 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
         </p>
       ) : null}
       <Legend overlays={props.overlays ?? []} hasEnvelope={(props.envelopes ?? []).length > 0} primaryLabel={props.primaryLabel} />
+      {view.settings.start <= 700 && view.settings.stop >= 430 ? (
+        <ColourReadout design={design} angleDeg={view.settings.angleDeg} polarization={view.settings.polarization} />
+      ) : null}
       {verdicts?.ok && mask ? (
         <ul className="mt-2 grid gap-1 text-xs sm:grid-cols-2" aria-label="Spec bands">
           {verdicts.bands.map((b) => {

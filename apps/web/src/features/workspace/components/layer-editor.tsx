@@ -6,6 +6,7 @@ import type { EditorAction, EditorState } from "../lib/editor-state.ts";
 import type { MaterialOption } from "../lib/materials.ts";
 import { LayerTable } from "./layer-table.tsx";
 import { MediaSettings } from "./media-settings.tsx";
+import { FormulaEntry } from "./formula-entry.tsx";
 
 export interface LayerEditorProps {
   state: EditorState;
@@ -95,6 +96,7 @@ export function LayerEditor(props: LayerEditorProps) {
         Arrow keys move between cells · Enter edits · Escape cancels · Space toggles a lock · Alt+↑/↓ moves a layer · Insert, Ctrl+D, Delete
       </p>
       <MediaSettings design={state.present} materials={props.materials} dispatch={dispatch} readOnly={readOnly} />
+      {readOnly ? null : <FormulaEntry design={state.present} materials={props.materials} dispatch={dispatch} />}
     </div>
   );
 }
