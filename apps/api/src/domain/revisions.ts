@@ -2,6 +2,8 @@
 import { and, count, desc, eq, inArray, max } from "drizzle-orm";
 import {
   SpecMaskSchema,
+  bandWavelengths,
+  checkDesignInputs,
   evaluateSpec,
   type SpecMask,
   type SpecResult,
@@ -60,6 +62,14 @@ export function revisionInput(
 ) {
   const stack = resolveDesign(db, input.workspaceId, input.stack);
   const mask = parseMask(input.specMask ?? input.program.specMask);
+  // Physics inputs that could poison a verdict (n = 1e308, n ≤ 0, a 1e308 nm layer) are refused by name, here,
+  // before anything is evaluated or stored.
+  try {
+    checkDesignInputs(stack, mask.bands.flatMap((b) => bandWavelengths(b)));
+  } catch (err) {
+    if (err instanceof RangeError) throw new HttpError(400, "invalid_physics_input", err.message);
+    throw err;
+  }
   const { protective: _drop, ...storedMask } = mask;
   return { stack, storedMask, evalMask: { ...storedMask, protective: input.program.protective } };
 }
