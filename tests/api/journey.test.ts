@@ -1,5 +1,5 @@
 // The whole review journey over HTTP against createApp, in the demo workspace, with the demo accounts:
-// designer → yield run verified from a browser-style result → review thread and changes requested → revision 2 →
+// designer → evidence run (server-assigned seed) verified from a browser-style result → review thread and changes requested → revision 2 →
 // reviewer resolves → approver checks the gate, approves, releases → release record and its printable page.
 import fs from "node:fs";
 import os from "node:os";
@@ -101,6 +101,7 @@ describe("review journey", () => {
         name: "Pipit lens — visible AR",
         customer: "Pipit optics",
         targetYield: 0.9,
+        minEvidenceTrials: 400,
         specMask: mask,
         errorModel,
         studyDefaults: { trials: 200, seed: "pipit" },
@@ -155,22 +156,26 @@ describe("review journey", () => {
     const diff = await reviewer.get(`${API}/revisions/${r2.body.id}/diff?against=${r1.id}`).expect(200);
     expect(diff.body.added).toHaveLength(2);
 
-    // The browser computes the study and submits its result; the server re-runs it and verifies it.
+    // The browser computes the evidence study with the server-assigned seed and trials and submits its result;
+    // the server runs the same study and verifies it.
+    const plan = (await designer.get(`${API}/revisions/${r2.body.id}/evidence`).expect(200)).body.plan;
+    expect(plan).toMatchObject({ trials: 400, programVersion: 1, seed: expect.stringMatching(/^ev-/) });
     const study: YieldStudy = {
       design: r2.body.stack,
       mask: r2.body.specMask,
       errorModel: errorModel as YieldStudy["errorModel"],
-      trials: 200,
-      seed: "pipit-r2",
+      trials: plan.trials,
+      seed: plan.seed,
     };
     const browser = mergeYieldChunks(
       study,
-      planChunks(200, 64).map(([s, n]) => runYieldChunk(study, s, n)),
+      planChunks(plan.trials, 64).map(([s, n]) => runYieldChunk(study, s, n)),
     );
     const started = await designer
       .post(`${API}/revisions/${r2.body.id}/yield-runs`)
-      .send({ trials: 200, seed: "pipit-r2", clientResult: browser })
+      .send({ trials: plan.trials, seed: plan.seed, clientResult: browser })
       .expect(202);
+    expect(started.body.run.kind).toBe("evidence");
     const run = await waitForRun(designer, started.body.run.id);
     expect(run).toMatchObject({ status: "done", verified: true, clientSubmitted: true });
     expect(run.result.yield).toBeGreaterThanOrEqual(0.9);
@@ -209,7 +214,8 @@ describe("review journey", () => {
     expect(record.body).toMatchObject({
       status: "released",
       revision: { number: 2, hash: r2.body.hash },
-      yieldRun: { id: run.id, verified: true, clientVerified: true, trials: 200, seed: "pipit-r2" },
+      yieldRun: { id: run.id, verified: true, clientVerified: true, trials: 400, seed: plan.seed },
+      evidence: { kind: "evidence", programVersion: 1, figures: { pass: true, trials: 400, confidence: 0.95 } },
       threads: { total: 1, open: 0, resolved: 1 },
       caution: null,
     });
@@ -241,7 +247,7 @@ describe("review journey", () => {
         "revision.approved",
         "revision.released",
         "thread.resolved",
-        "yield_run.started",
+        "yield_run.evidence_started",
         "yield_run.finished",
       ]),
     );

@@ -33,6 +33,12 @@ export const StudyDefaultsSchema = z.object({
 
 const text = (maxLen: number) => z.string().trim().max(maxLen);
 
+/** Smallest minimum of evidence trials a program may set (below it the Wilson bound says little). */
+export const MIN_EVIDENCE_TRIALS_FLOOR = 100;
+export const MinEvidenceTrials = z.number().int().min(MIN_EVIDENCE_TRIALS_FLOOR).max(MAX_TRIALS);
+/** Two-sided confidence of the Wilson interval whose lower limit the gate compares with the target. */
+export const Confidence = z.number().min(0.5).max(0.999);
+
 export const ProgramCreateBody = z.object({
   name: text(200).min(1),
   customer: text(200).default(""),
@@ -40,6 +46,8 @@ export const ProgramCreateBody = z.object({
   application: text(200).default(""),
   protective: z.boolean().default(false),
   targetYield: z.number().min(0).max(1),
+  minEvidenceTrials: MinEvidenceTrials.default(2000),
+  confidence: Confidence.default(0.95),
   specMask: SpecMaskSchema,
   errorModel: ErrorModelSchema,
   studyDefaults: StudyDefaultsSchema.default({ trials: 2000, seed: "stackproof" }),
@@ -53,12 +61,18 @@ export const ProgramPatchBody = z
     application: text(200),
     protective: z.boolean(),
     targetYield: z.number().min(0).max(1),
+    minEvidenceTrials: MinEvidenceTrials,
+    confidence: Confidence,
     specMask: SpecMaskSchema,
     errorModel: ErrorModelSchema,
     studyDefaults: StudyDefaultsSchema,
+    /** Why the evidence rules change (kept with the new program version). */
+    note: text(2000),
   })
   .partial()
-  .refine((b) => Object.keys(b).length > 0, { message: "give at least one field to change" });
+  .refine((b) => Object.keys(b).filter((k) => k !== "note").length > 0, {
+    message: "give at least one field to change",
+  });
 
 export const ProgramSchema = z.object({
   id: z.string(),
@@ -68,12 +82,32 @@ export const ProgramSchema = z.object({
   application: z.string(),
   protective: z.boolean(),
   targetYield: z.number(),
+  minEvidenceTrials: z.number(),
+  confidence: z.number(),
+  /** Program version: every change of mask, error model, target, minimum trials or confidence makes a new one. */
+  version: z.number(),
   specMask: SpecMaskJson,
   errorModel: ErrorModelJson,
   studyDefaults: StudyDefaultsSchema,
   createdAt: z.string(),
 });
 export type Program = z.infer<typeof ProgramSchema>;
+
+/** GET /programs/:id/versions: every version of the evidence rules with who changed what from what to what. */
+export const ProgramVersionSchema = z.object({
+  version: z.number(),
+  targetYield: z.number(),
+  minEvidenceTrials: z.number(),
+  confidence: z.number(),
+  specMask: SpecMaskJson,
+  errorModel: ErrorModelJson,
+  changes: z.record(z.string(), z.object({ before: z.unknown(), after: z.unknown() })),
+  changedBy: PersonRefSchema.nullable(),
+  note: z.string(),
+  createdAt: z.string(),
+});
+export type ProgramVersion = z.infer<typeof ProgramVersionSchema>;
+export const ProgramVersionsResponse = itemsSchema(ProgramVersionSchema);
 
 export const PersonSchema = PersonRefSchema.nullable();
 
@@ -104,6 +138,14 @@ export const RevisionSummarySchema = z.object({
 });
 export type RevisionSummary = z.infer<typeof RevisionSummarySchema>;
 
+/** A revision's mask against its program's: differing bands and the state of its deviation (null: none asked). */
+export const SpecDeviationSummarySchema = z.object({
+  required: z.boolean(),
+  bands: z.array(z.object({ id: z.string(), change: z.string() })),
+  status: z.enum(["pending", "accepted", "rejected"]).nullable(),
+  reason: z.string().nullable(),
+});
+
 export const RevisionSchema = z.object({
   id: z.string(),
   designId: z.string(),
@@ -125,6 +167,7 @@ export const RevisionSchema = z.object({
     merit: z.number(),
     cautions: z.array(z.string()),
   }),
+  specDeviation: SpecDeviationSummarySchema,
 });
 export type Revision = z.infer<typeof RevisionSchema>;
 
@@ -209,6 +252,9 @@ export const YieldRunSchema = z.object({
   clientSubmitted: z.boolean(),
   mismatch: z.string().nullable(),
   engineVersion: z.string(),
+  /** `evidence`: the server-assigned run the gate reads; `what_if`: any other study (never counts). */
+  kind: z.enum(["evidence", "what_if"]),
+  programVersion: z.number().nullable(),
   error: z.string().nullable(),
   requestedBy: PersonSchema,
   createdAt: z.string(),
@@ -220,22 +266,72 @@ export type YieldRunStatus = YieldRun["status"];
 
 export const DecisionSchema = z.object({
   id: z.string(),
-  action: z.enum(["submit", "request_changes", "approve", "release", "withdraw"]),
+  action: z.enum(["submit", "request_changes", "approve", "release", "withdraw", "return_to_review"]),
   fromStatus: RevisionStatusSchema,
   toStatus: RevisionStatusSchema,
   actor: PersonRefSchema,
   at: z.string(),
   revisionHash: z.string(),
   yieldRunId: z.string().nullable(),
+  /** The program version the decision was made against (null for decisions from before versions existed). */
+  programVersion: z.number().nullable(),
   note: z.string(),
 });
 export type Decision = z.infer<typeof DecisionSchema>;
-export type TransitionAction = Decision["action"];
+/** Actions a member may request (return_to_review is written by a program change only). */
+export type TransitionAction = Exclude<Decision["action"], "return_to_review">;
+
+/** A spec deviation: the revision's mask accepted (or not) against the program's, with a written reason. */
+export const DeviationSchema = z.object({
+  id: z.string(),
+  revisionId: z.string(),
+  programVersion: z.number(),
+  bands: z.array(z.object({ id: z.string(), change: z.string() })),
+  reason: z.string(),
+  requestedBy: PersonRefSchema.nullable(),
+  requestedAt: z.string(),
+  status: z.enum(["pending", "accepted", "rejected"]),
+  decidedBy: PersonRefSchema.nullable(),
+  decidedAt: z.string().nullable(),
+  decisionNote: z.string(),
+});
+export type Deviation = z.infer<typeof DeviationSchema>;
+export const DeviationListResponse = z.object({
+  required: z.boolean(),
+  bands: z.array(z.object({ id: z.string(), change: z.string() })),
+  items: z.array(DeviationSchema),
+});
+
+/** An evidence run's figures against the program's rules: point yield, lower Wilson bound, trials. */
+export const EvidenceFiguresSchema = z.object({
+  trials: z.number(),
+  passCount: z.number(),
+  yield: z.number(),
+  lowerBound: z.number(),
+  confidence: z.number(),
+  targetYield: z.number(),
+  minTrials: z.number(),
+  pass: z.boolean(),
+});
+export type EvidenceFigures = z.infer<typeof EvidenceFiguresSchema>;
+
+/** The evidence run's server-assigned parameters under the current program version. */
+export const EvidencePlanSchema = z.object({
+  programVersion: z.number(),
+  seed: z.string(),
+  trials: z.number(),
+  errorModel: ErrorModelJson,
+  errorModelVersion: z.string(),
+  confidence: z.number(),
+  targetYield: z.number(),
+  seedRule: z.string(),
+});
+export type EvidencePlan = z.infer<typeof EvidencePlanSchema>;
 
 export const GateSchema = z.object({
   checks: z.array(
     z.object({
-      id: z.enum(["verified_yield", "blocking_threads", "independent_approver", "state"]),
+      id: z.enum(["verified_yield", "spec_deviation", "blocking_threads", "independent_approver", "state"]),
       ok: z.boolean(),
       message: z.string(),
     }),
@@ -243,6 +339,25 @@ export const GateSchema = z.object({
   canApprove: z.boolean(),
   canRelease: z.boolean(),
   yieldRunId: z.string().nullable(),
+  evidence: z.object({
+    programVersion: z.number(),
+    targetYield: z.number(),
+    confidence: z.number(),
+    minTrials: z.number(),
+    seed: z.string(),
+    seedRule: z.string(),
+    errorModelVersion: z.string(),
+    run: z
+      .object({ id: z.string(), status: z.string(), trials: z.number(), engineVersion: z.string() })
+      .nullable(),
+    figures: EvidenceFiguresSchema.nullable(),
+  }),
+  deviation: z.object({
+    required: z.boolean(),
+    accepted: z.boolean(),
+    bands: z.array(z.object({ id: z.string(), change: z.string() })),
+    current: DeviationSchema.nullable(),
+  }),
 });
 export type Gate = z.infer<typeof GateSchema>;
 
@@ -253,12 +368,30 @@ export const fileField = (description: string) =>
 // ---- Responses of the overview, queue, programs and designs routes ----
 
 /** A Monte Carlo estimate with its confidence interval (fractions 0..1) and the run it came from. */
-export const YieldEstimateSchema = z.object({ yield: z.number(), low: z.number(), high: z.number(), runId: z.string() });
+export const YieldEstimateSchema = z.object({
+  yield: z.number(),
+  low: z.number(),
+  high: z.number(),
+  runId: z.string(),
+  /** Evidence run: trials, the lower Wilson bound at the program's confidence, and whether it meets the target. */
+  trials: z.number().optional(),
+  lowerBound: z.number().optional(),
+  confidence: z.number().optional(),
+  pass: z.boolean().optional(),
+});
 export type YieldEstimate = z.infer<typeof YieldEstimateSchema>;
 
 const DesignRowBase = z.object({
   design: PersonRefSchema,
-  program: z.object({ id: z.string(), name: z.string(), targetYield: z.number(), protective: z.boolean() }),
+  program: z.object({
+    id: z.string(),
+    name: z.string(),
+    targetYield: z.number(),
+    protective: z.boolean(),
+    version: z.number().optional(),
+    minEvidenceTrials: z.number().optional(),
+    confidence: z.number().optional(),
+  }),
   latestRevision: z
     .object({
       id: z.string(),
@@ -313,6 +446,7 @@ export const RevisionDiffSchema = z.object({
   other: z.array(z.string()),
   totalThicknessDeltaNm: z.number(),
   specMaskChanged: z.boolean(),
+  specDeviation: z.object({ before: SpecDeviationSummarySchema, after: SpecDeviationSummarySchema }),
   summary: z.string(),
   before: RevisionRef,
   after: RevisionRef,
@@ -328,7 +462,12 @@ export const ThreadListResponse = itemsSchema(ThreadSchema);
 
 // ---- Yield runs ----
 
-export const CreateYieldRunResponse = z.object({ run: YieldRunSchema });
+export const CreateYieldRunResponse = z.object({ run: YieldRunSchema, reused: z.boolean() });
+export const EvidenceResponse = z.object({
+  plan: EvidencePlanSchema,
+  run: YieldRunSchema.nullable(),
+  figures: EvidenceFiguresSchema.nullable(),
+});
 export const YieldRunListResponse = pageSchema(YieldRunSchema);
 
 // ---- Workflow and releases ----
@@ -351,12 +490,35 @@ export const ReleaseSummarySchema = z.object({
   program: z.object({ id: z.string(), name: z.string(), protective: z.boolean() }),
   design: PersonRefSchema,
   revision: RevisionRef,
-  yield: z.object({ yield: z.number(), low: z.number(), high: z.number(), trials: z.number() }).nullable(),
+  yield: z
+    .object({
+      yield: z.number(),
+      low: z.number(),
+      high: z.number(),
+      trials: z.number(),
+      lowerBound: z.number().nullable(),
+      confidence: z.number().nullable(),
+    })
+    .nullable(),
 });
 export type ReleaseSummary = z.infer<typeof ReleaseSummarySchema>;
 export const ReleaseListResponse = pageSchema(ReleaseSummarySchema);
 
 type YieldResultT = YieldResult;
+
+const nullableNumbers = z.array(z.number().nullable());
+export const PlotSeriesSchema = z.object({
+  quantity: z.string(),
+  polarization: z.string(),
+  angleDeg: z.number(),
+  wavelengths: z.array(z.number()),
+  nominal: nullableNumbers,
+  low: nullableNumbers.nullable(),
+  high: nullableNumbers.nullable(),
+  lowP: z.number().nullable(),
+  highP: z.number().nullable(),
+});
+export type PlotSeries = z.infer<typeof PlotSeriesSchema>;
 
 /** GET /releases/:id: the snapshot filed at release time, plus the revision's status now. */
 export const ReleaseRecordSchema = z.object({
@@ -373,6 +535,11 @@ export const ReleaseRecordSchema = z.object({
     description: z.string(),
     protective: z.boolean(),
     targetYield: z.number(),
+    /** Absent on releases filed before program versions existed. */
+    version: z.number().optional(),
+    minEvidenceTrials: z.number().optional(),
+    confidence: z.number().optional(),
+    specMask: SpecMaskJson.optional(),
   }),
   design: PersonRefSchema,
   revision: RevisionRef.extend({
@@ -400,6 +567,25 @@ export const ReleaseRecordSchema = z.object({
       finishedAt: z.string().nullable(),
     })
     .nullable(),
+  /** Absent on releases filed before evidence rules existed. */
+  evidence: z
+    .object({
+      kind: z.string(),
+      programVersion: z.number(),
+      seedRule: z.string(),
+      figures: EvidenceFiguresSchema,
+    })
+    .nullable()
+    .optional(),
+  deviation: z
+    .object({
+      required: z.boolean(),
+      bands: z.array(z.object({ id: z.string(), change: z.string() })),
+      current: DeviationSchema.nullable(),
+    })
+    .optional(),
+  /** Nominal curve and the evidence run's 5–95 % envelope per (quantity, polarization, angle); null where not finite. */
+  plot: z.array(PlotSeriesSchema).optional(),
   decisions: z.array(DecisionSchema),
   threads: z.object({
     total: z.number(),

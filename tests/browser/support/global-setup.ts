@@ -27,6 +27,7 @@ export default function setup(): void {
   const sources = Math.max(
     newest(path.join(repoRoot, "apps/web/src")),
     newest(path.join(repoRoot, "packages/optics/src")),
+    newest(path.join(repoRoot, "packages/contracts/src")),
     fs.statSync(path.join(repoRoot, "apps/web/index.html")).mtimeMs,
   );
   // A stale build would test yesterday's app: rebuild when any source is newer than the build.
@@ -39,6 +40,7 @@ export default function setup(): void {
   const serverSources = Math.max(
     newest(path.join(repoRoot, "apps/api/src")),
     newest(path.join(repoRoot, "packages/optics/src")),
+    newest(path.join(repoRoot, "packages/contracts/src")),
     fs.statSync(path.join(repoRoot, "apps/api/tsup.config.ts")).mtimeMs,
   );
   if (serverSources > serverBuilt) {

@@ -23,6 +23,7 @@ export interface DemoProgram {
   targetYield: number;
   mask: SpecMask;
   errorModel: ErrorModel;
+  /** The program's minimum evidence trials (the demo's evidence runs use exactly this many). */
   trials: number;
   designName: string;
   /** Revisions in order; the last one is the current candidate. */
@@ -126,7 +127,7 @@ export function demoPrograms(): DemoProgram[] {
         ],
       },
       errorModel: process(0.3, 0.2),
-      trials: 400,
+      trials: 1000,
       designName: "Kestrel receiver bandpass",
       revisions: [
         {
@@ -154,7 +155,7 @@ export function demoPrograms(): DemoProgram[] {
         ],
       },
       errorModel: process(0.5),
-      trials: 300,
+      trials: 1000,
       designName: "Aster 505 long-pass dichroic",
       revisions: [
         {
@@ -182,7 +183,7 @@ export function demoPrograms(): DemoProgram[] {
         ],
       },
       errorModel: process(1),
-      trials: 400,
+      trials: 1000,
       designName: "Wren window AR",
       revisions: [
         { stack: singleMgF2("Wren window AR"), note: "Baseline: one MgF2 quarter wave at 550 nm." },
@@ -209,7 +210,7 @@ export function demoPrograms(): DemoProgram[] {
         ],
       },
       errorModel: process(0.5),
-      trials: 300,
+      trials: 2000,
       designName: "Merlin 532 notch",
       revisions: [
         {

@@ -1,5 +1,6 @@
 // Demo data: the fictional Halvorsen Thinfilm Works, loaded into a new database when DEMO_DATA is on.
-// Yield runs are computed here synchronously with the same optics functions the workers use (small trial counts).
+// Evidence runs are computed here synchronously with the same optics functions the workers use, with the seed the
+// server assigns (evidencePlan) and the program's minimum evidence trials, so the demo's gate reads like a real one.
 import { eq } from "drizzle-orm";
 import {
   ENGINE_VERSION,
@@ -15,6 +16,7 @@ import {
   decisions,
   designs,
   memberships,
+  programVersions,
   programs,
   releases,
   revisions,
@@ -32,6 +34,7 @@ import { newId, revisionHash } from "../domain/canonical.ts";
 import type { RevisionContext } from "../domain/load.ts";
 import { finishedRunValues } from "../yield/index.ts";
 import { releaseSnapshot } from "../domain/workflow.ts";
+import { evidenceSeed } from "../domain/evidence.ts";
 import { demoPrograms, type DemoProgram } from "./designs.ts";
 
 /** Demo only: every demo account uses this password. */
@@ -120,7 +123,7 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
       mask: { ...d.mask, protective: d.protective },
       errorModel: d.errorModel,
       trials: d.trials,
-      seed: `${d.key}-r${revisionIndex + 1}`,
+      seed: evidenceSeed(revisionHash(rev.stack, d.mask), d.errorModel),
     };
   };
   const compute = (s: YieldStudy) =>
@@ -171,10 +174,29 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
         specMask: d.mask,
         errorModel: d.errorModel,
         studyDefaults: { trials: 2000, seed: d.key },
+        minEvidenceTrials: d.trials,
+        confidence: 0.95,
+        version: 1,
         createdBy: approver.id,
         createdAt: at(day),
       };
       tx.insert(programs).values(program).run();
+      tx.insert(programVersions)
+        .values({
+          id: newId(),
+          programId,
+          version: 1,
+          targetYield: d.targetYield,
+          minEvidenceTrials: d.trials,
+          confidence: 0.95,
+          specMask: d.mask,
+          errorModel: d.errorModel,
+          changes: {},
+          changedBy: null,
+          note: "program created",
+          createdAt: at(day),
+        })
+        .run();
       const design = {
         id: newId(),
         programId,
@@ -233,6 +255,7 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
           actorName: by.name,
           revisionHash: rc.revision.hash,
           yieldRunId,
+          programVersion: 1,
           note,
           at: when,
         })
@@ -242,10 +265,10 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
       recordAudit(tx, {
         workspaceId,
         actorId: by.id,
-        action: `revision.${{ submit: "submitted", request_changes: "changes_requested", approve: "approved", release: "released", withdraw: "withdrawn" }[action]}`,
+        action: `revision.${{ submit: "submitted", request_changes: "changes_requested", approve: "approved", release: "released", withdraw: "withdrawn", return_to_review: "returned_to_review" }[action]}`,
         subjectType: "revision",
         subjectId: rc.revision.id,
-        summary: `${by.name} ${{ submit: "submitted", request_changes: "requested changes on", approve: "approved", release: "released", withdraw: "withdrew" }[action]} ${rc.design.name} rev ${rc.revision.number}${note ? `: ${note}` : ""}`,
+        summary: `${by.name} ${{ submit: "submitted", request_changes: "requested changes on", approve: "approved", release: "released", withdraw: "withdrew", return_to_review: "returned to review" }[action]} ${rc.design.name} rev ${rc.revision.number}${note ? `: ${note}` : ""}`,
         data: { from, to, demo: true },
       });
     };
@@ -312,6 +335,8 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
         verified: null,
         mismatch: null,
         engineVersion: ENGINE_VERSION,
+        kind: "evidence" as const,
+        programVersion: 1,
         error: null,
         createdAt: when,
         startedAt: when,
@@ -348,7 +373,7 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
     decide(k1, "request_changes", "changes_requested", reviewer, at(18, 4), "Blocking bands fail nominally.");
     const k2 = rev("kestrel", 2);
     storeRun(k2, studies.kestrel, results.kestrel, designer, at(14));
-    decide(k2, "submit", "in_review", designer, at(14, 2), "Five pairs; verified yield attached.");
+    decide(k2, "submit", "in_review", designer, at(14, 2), "Five pairs; evidence run attached.");
     thread(k2, { kind: "range", start: 903, stop: 907 }, "advisory", reviewer, at(13), [
       {
         by: reviewer,

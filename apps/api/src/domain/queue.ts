@@ -7,6 +7,8 @@ import type { DbOrTx } from "../lib/audit.ts";
 import type { RevisionContext, ThreadRow, YieldRunRow } from "./load.ts";
 import { revisionSummary, type RevisionSummary } from "./revisions.ts";
 import { gateOf } from "./workflow.ts";
+import { deviationStatesFor } from "./evidence.ts";
+import { ruleSettersFor } from "./programs.ts";
 
 /** Latest revision number of every design, as a subquery to join on. */
 export function latestRevisionNumbers(db: DbOrTx) {
@@ -92,7 +94,7 @@ export function workQueue(db: DbOrTx, auth: AuthContext): WorkQueue {
               candidates.map((rc) => rc.revision.id),
             ),
             eq(yieldRuns.status, "done"),
-            eq(yieldRuns.verified, true),
+            eq(yieldRuns.kind, "evidence"),
           ),
         )
         .orderBy(desc(yieldRuns.createdAt), desc(yieldRuns.id))
@@ -113,11 +115,25 @@ export function workQueue(db: DbOrTx, auth: AuthContext): WorkQueue {
         .all(),
       (t: ThreadRow) => t.designId,
     );
+    const deviations = deviationStatesFor(db, candidates);
+    const setters = ruleSettersFor(
+      db,
+      candidates.map((rc) => rc.program),
+    );
     decision = candidates.filter((rc) => {
       const counting = (blocking.get(rc.design.id) ?? []).filter(
         (t) => t.revisionNumber <= rc.revision.number,
       );
-      return gateOf(rc, auth, runs.get(rc.revision.id) ?? [], counting).canApprove;
+      const dev = deviations.get(rc.revision.id);
+      return gateOf(rc, auth, runs.get(rc.revision.id) ?? [], counting, {
+        deviation: {
+          required: dev?.required ?? false,
+          accepted: dev?.accepted ?? false,
+          bands: dev?.bands ?? [],
+          current: null,
+        },
+        ruleSetters: setters.get(rc.program.id) ?? new Map(),
+      }).canApprove;
     });
   }
   const release = has("approver") ? rows.filter((rc) => rc.revision.status === "approved") : [];

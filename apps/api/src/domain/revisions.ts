@@ -2,12 +2,15 @@
 import { and, count, desc, eq, inArray, max } from "drizzle-orm";
 import {
   SpecMaskSchema,
+  bandWavelengths,
+  checkDesignInputs,
   evaluateSpec,
   type SpecMask,
   type SpecResult,
   type YieldResult,
 } from "@stackproof/optics";
 import { designs, revisions, threads, yieldRuns } from "../db/schema.ts";
+import { deviationState, evidenceFigures, evidencePlan, pickEvidenceRun } from "./evidence.ts";
 import type { DbOrTx } from "../lib/audit.ts";
 import { HttpError } from "../lib/errors.ts";
 import { assertWithinLimits, designLimitProblems, maskLimitProblems } from "../lib/limits.ts";
@@ -23,6 +26,7 @@ import {
   type ProgramRow,
   type RevisionContext,
   type RevisionRow,
+  type YieldRunRow,
 } from "./load.ts";
 
 export function parseMask(input: unknown): SpecMask {
@@ -61,6 +65,14 @@ export function revisionInput(
   const stack = resolveDesign(db, input.workspaceId, input.stack);
   assertWithinLimits(maskLimitProblems(input.specMask ?? input.program.specMask));
   const mask = parseMask(input.specMask ?? input.program.specMask);
+  // Physics inputs that could poison a verdict (n = 1e308, n ≤ 0, a 1e308 nm layer) are refused by name, here,
+  // before anything is evaluated or stored.
+  try {
+    checkDesignInputs(stack, mask.bands.flatMap((b) => bandWavelengths(b)));
+  } catch (err) {
+    if (err instanceof RangeError) throw new HttpError(400, "invalid_physics_input", err.message);
+    throw err;
+  }
   const { protective: _drop, ...storedMask } = mask;
   return { stack, storedMask, evalMask: { ...storedMask, protective: input.program.protective } };
 }
@@ -165,6 +177,9 @@ export function programView(p: ProgramRow) {
     application: p.application,
     protective: p.protective,
     targetYield: p.targetYield,
+    minEvidenceTrials: p.minEvidenceTrials,
+    confidence: p.confidence,
+    version: p.version,
     specMask: p.specMask,
     errorModel: p.errorModel,
     studyDefaults: p.studyDefaults,
@@ -222,6 +237,18 @@ export function revisionView(db: DbOrTx, rc: RevisionContext, given?: SpecResult
     createdAt: r.createdAt.toISOString(),
     statusChangedAt: r.statusChangedAt ? r.statusChangedAt.toISOString() : null,
     nominal: { pass: nominal.pass, bands: nominal.bands, merit: nominal.merit, cautions: nominal.cautions },
+    specDeviation: specDeviationSummary(db, rc),
+  };
+}
+
+/** Whether a revision's mask deviates from its program's, and where its deviation stands (null status: none asked). */
+export function specDeviationSummary(db: DbOrTx, rc: RevisionContext) {
+  const d = deviationState(db, rc);
+  return {
+    required: d.required,
+    bands: d.bands,
+    status: d.current?.status ?? null,
+    reason: d.current?.reason ?? null,
   };
 }
 
@@ -305,32 +332,21 @@ export function overviewRows(db: DbOrTx, rows: readonly { design: DesignRow; pro
     openByDesign.set(t.designId, c);
   }
   const latestIds = [...latestByDesign.values()].map((r) => r.id);
-  // Newest done, verified run of each latest revision (same order as latestVerifiedRun): ids first, then results.
-  const newestRun = new Map<string, string>();
+  // The evidence run of each latest revision under its program's current rules (what the gate reads).
+  const evidenceRuns = new Map<string, YieldRunRow[]>();
   if (latestIds.length > 0) {
     for (const r of db
-      .select({ id: yieldRuns.id, revisionId: yieldRuns.revisionId })
+      .select()
       .from(yieldRuns)
       .where(
         and(
           inArray(yieldRuns.revisionId, latestIds),
+          eq(yieldRuns.kind, "evidence"),
           eq(yieldRuns.status, "done"),
-          eq(yieldRuns.verified, true),
         ),
       )
-      .orderBy(desc(yieldRuns.finishedAt), desc(yieldRuns.id))
       .all()) {
-      if (!newestRun.has(r.revisionId)) newestRun.set(r.revisionId, r.id);
-    }
-  }
-  const results = new Map<string, YieldResult>();
-  if (newestRun.size > 0) {
-    for (const r of db
-      .select({ id: yieldRuns.id, result: yieldRuns.result })
-      .from(yieldRuns)
-      .where(inArray(yieldRuns.id, [...newestRun.values()]))
-      .all()) {
-      if (r.result) results.set(r.id, r.result);
+      evidenceRuns.set(r.revisionId, [...(evidenceRuns.get(r.revisionId) ?? []), r]);
     }
   }
   const names = userNames(
@@ -339,8 +355,14 @@ export function overviewRows(db: DbOrTx, rows: readonly { design: DesignRow; pro
   );
   return rows.map(({ design, program }) => {
     const latest = latestByDesign.get(design.id);
-    const runId = latest ? newestRun.get(latest.id) : undefined;
-    const result = runId ? results.get(runId) : undefined;
+    const run = latest
+      ? pickEvidenceRun(
+          evidenceRuns.get(latest.id) ?? [],
+          evidencePlan({ revision: latest, design, program }),
+        )
+      : null;
+    const result = (run?.result ?? null) as YieldResult | null;
+    const figures = result ? evidenceFigures(result, program) : null;
     const open = openByDesign.get(design.id) ?? { open: 0, blocking: 0 };
     return {
       design: { id: design.id, name: design.name },
@@ -349,6 +371,9 @@ export function overviewRows(db: DbOrTx, rows: readonly { design: DesignRow; pro
         name: program.name,
         targetYield: program.targetYield,
         protective: program.protective,
+        version: program.version,
+        minEvidenceTrials: program.minEvidenceTrials,
+        confidence: program.confidence,
       },
       latestRevision: latest
         ? {
@@ -359,9 +384,19 @@ export function overviewRows(db: DbOrTx, rows: readonly { design: DesignRow; pro
             createdAt: latest.createdAt.toISOString(),
           }
         : null,
+      /** The evidence run's figures (null until it is done): point yield, 95 % interval, bound at the program's confidence. */
       latestVerifiedYield:
-        result && runId
-          ? { yield: result.yield, low: result.interval.low, high: result.interval.high, runId }
+        result && run && figures
+          ? {
+              yield: result.yield,
+              low: result.interval.low,
+              high: result.interval.high,
+              runId: run.id,
+              trials: figures.trials,
+              lowerBound: figures.lowerBound,
+              confidence: figures.confidence,
+              pass: figures.pass,
+            }
           : null,
       openBlockingThreads: open.blocking,
       openThreads: open.open,

@@ -9,7 +9,14 @@
 // read>, append the decision and the audit entry. Of two racing requests exactly one changes the row; the other
 // sees the new state (or zero changed rows) and gets 409.
 import { and, asc, desc, eq, max } from "drizzle-orm";
-import { PROTECTIVE_CAUTION, evaluateSpec, type YieldResult } from "@stackproof/optics";
+import {
+  PROTECTIVE_CAUTION,
+  evaluateSpec,
+  nominalEnvelopeValues,
+  type Design,
+  type SpecMask,
+  type YieldResult,
+} from "@stackproof/optics";
 import type { AuthContext } from "../auth/types.ts";
 import type { AppContext } from "../context.ts";
 import {
@@ -18,11 +25,12 @@ import {
   revisions,
   yieldRuns,
   type DecisionAction,
+  type EvidenceRuleField,
   type RevisionStatus,
 } from "../db/schema.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError, conflict, forbidden } from "../lib/errors.ts";
-import { canonicalJson, newId } from "./canonical.ts";
+import { newId } from "./canonical.ts";
 import {
   loadRevision,
   maskOf,
@@ -34,8 +42,20 @@ import {
 } from "./load.ts";
 import { mailApproved, mailChangesRequested, mailReleased, mailReviewRequested } from "./notify.ts";
 import { openBlockingThreads, threadsForRevision } from "./threads.ts";
+import {
+  deviationState,
+  deviationView,
+  evidenceFigures,
+  evidencePlan,
+  pickEvidenceRun,
+  SEED_RULE,
+  type DeviationView,
+  type EvidenceFigures,
+} from "./evidence.ts";
+import { RULE_LABEL, currentRuleSetters } from "./programs.ts";
 
-export type GateCheckId = "verified_yield" | "blocking_threads" | "independent_approver" | "state";
+export type GateCheckId =
+  "verified_yield" | "spec_deviation" | "blocking_threads" | "independent_approver" | "state";
 
 export interface GateCheck {
   id: GateCheckId;
@@ -43,15 +63,38 @@ export interface GateCheck {
   message: string;
 }
 
+/** What the gate shows of the evidence: the rules, the assigned run and, when it is done, its figures. */
+export interface GateEvidence {
+  programVersion: number;
+  targetYield: number;
+  confidence: number;
+  minTrials: number;
+  seed: string;
+  seedRule: string;
+  errorModelVersion: string;
+  run: { id: string; status: string; trials: number; engineVersion: string } | null;
+  figures: EvidenceFigures | null;
+}
+
+export interface GateDeviation {
+  required: boolean;
+  accepted: boolean;
+  bands: { id: string; change: string }[];
+  current: DeviationView | null;
+}
+
 export interface Gate {
   checks: GateCheck[];
   canApprove: boolean;
   canRelease: boolean;
-  /** The verified run that satisfies the yield check (the newest such run, or the one asked for). */
+  /** The evidence run when it satisfies the yield check. */
   yieldRun: YieldRunRow | null;
+  evidence: GateEvidence;
+  deviation: GateDeviation;
 }
 
 const pct = (x: number) => `${(x * 100).toFixed(1)} %`;
+const pct2 = (x: number) => `${(x * 100).toFixed(2)} %`;
 
 /** The release gate of a revision for the signed-in member. `yieldRunId` pins the yield check to one run. */
 export function evaluateGate(db: DbOrTx, rc: RevisionContext, auth: AuthContext, yieldRunId?: string): Gate {
@@ -61,14 +104,19 @@ export function evaluateGate(db: DbOrTx, rc: RevisionContext, auth: AuthContext,
     .where(eq(yieldRuns.revisionId, rc.revision.id))
     .orderBy(desc(yieldRuns.createdAt), desc(yieldRuns.id))
     .all();
-  return gateOf(
-    rc,
-    auth,
-    runs,
-    openBlockingThreads(db, rc),
+  const dev = deviationState(db, rc);
+  const names = userNames(db, [dev.current?.requestedBy, dev.current?.decidedBy]);
+  return gateOf(rc, auth, runs, openBlockingThreads(db, rc), {
     yieldRunId,
-    latestNumberOf(db, rc.revision.designId),
-  );
+    latestNumber: latestNumberOf(db, rc.revision.designId),
+    deviation: {
+      required: dev.required,
+      accepted: dev.accepted,
+      bands: dev.bands,
+      current: dev.current ? deviationView(dev.current, names) : null,
+    },
+    ruleSetters: currentRuleSetters(db, rc.program),
+  });
 }
 
 /** The number of the newest revision of a design. */
@@ -82,99 +130,94 @@ export function latestNumberOf(db: DbOrTx, designId: string): number {
   );
 }
 
+export interface GateInputs {
+  /** Pin the yield check to this run (it must be the evidence run). */
+  yieldRunId?: string | undefined;
+  /** Number of the design's newest revision; a revision older than it is superseded (default: this one). */
+  latestNumber?: number;
+  deviation: GateDeviation;
+  /** Members who set an evidence rule in force (see currentRuleSetters). */
+  ruleSetters: Map<string, EvidenceRuleField[]>;
+}
+
 /**
- * The gate from rows already loaded: `runs` are the revision's yield runs, newest first (by createdAt, id);
- * `blocking` the open blocking threads that count against it. Lists load these in bulk and call this directly.
+ * The gate from rows already loaded: `runs` are the revision's yield runs; `blocking` the open blocking threads that
+ * count against it. Lists load these in bulk and call this directly.
  */
 export function gateOf(
   rc: RevisionContext,
   auth: AuthContext,
   runs: readonly YieldRunRow[],
   blocking: readonly { revisionNumber: number }[],
-  yieldRunId?: string,
-  /** Number of the design's newest revision; a revision older than it is superseded (default: this one). */
-  latestNumber?: number,
+  inputs: GateInputs,
 ): Gate {
   const { revision, program } = rc;
+  const { yieldRunId, latestNumber, deviation } = inputs;
+  const plan = evidencePlan(rc);
   const target = program.targetYield;
-  // A what-if study with another error model (e.g. looser tolerances) is no evidence for the program's spec.
-  const programModel = canonicalJson(program.errorModel);
-  const usesProgramModel = (r: YieldRunRow) => canonicalJson(r.errorModel) === programModel;
-  const qualifies = (r: YieldRunRow): r is YieldRunRow & { result: YieldResult } =>
-    r.status === "done" &&
-    usesProgramModel(r) &&
-    r.verified === true &&
-    r.result !== null && r.result.yield >= target;
+  const run = pickEvidenceRun(runs, plan);
+  const result = run?.status === "done" ? (run.result as YieldResult | null) : null;
+  const figures = result ? evidenceFigures(result, program) : null;
+  const rules = `lower ${pct(program.confidence)} Wilson bound ≥ target ${pct(target)} with at least ${program.minEvidenceTrials} trials`;
   let yieldCheck: GateCheck;
-  let yieldRun: YieldRunRow | null = null;
-  if (yieldRunId !== undefined) {
-    const run = runs.find((r) => r.id === yieldRunId);
-    if (!run)
-      yieldCheck = {
-        id: "verified_yield",
-        ok: false,
-        message: `Yield run ${yieldRunId} is not a run of revision ${revision.number}.`,
-      };
-    else if (run.status !== "done")
-      yieldCheck = {
-        id: "verified_yield",
-        ok: false,
-        message: `Yield run ${run.id} is ${run.status}, not done.`,
-      };
-    else if (run.verified !== true) {
-      yieldCheck = {
-        id: "verified_yield",
-        ok: false,
-        message: `Yield run ${run.id} is not verified${run.mismatch ? `: ${run.mismatch}` : ""}.`,
-      };
-    } else if (!usesProgramModel(run)) {
-      yieldCheck = {
-        id: "verified_yield",
-        ok: false,
-        message: `Yield run ${run.id} used an error model other than the program's; run the study with the program's error model.`,
-      };
-    } else if (!qualifies(run)) {
-      yieldCheck = {
-        id: "verified_yield",
-        ok: false,
-        message: `Yield run ${run.id} reached ${run.result ? pct(run.result.yield) : "no result"}, below the program target ${pct(target)}.`,
-      };
-    } else {
-      yieldRun = run;
-      yieldCheck = {
-        id: "verified_yield",
-        ok: true,
-        message: `Verified yield ${pct(run.result.yield)} ≥ target ${pct(target)} (run ${run.id}).`,
-      };
-    }
+  if (yieldRunId !== undefined && yieldRunId !== run?.id) {
+    const pinned = runs.find((r) => r.id === yieldRunId);
+    yieldCheck = {
+      id: "verified_yield",
+      ok: false,
+      message: !pinned
+        ? `Yield run ${yieldRunId} is not a run of revision ${revision.number}.`
+        : `Yield run ${yieldRunId} is a what-if study (seed ${JSON.stringify(pinned.seed)}, ${pinned.trials} trials); only the evidence run (seed ${plan.seed}, ${plan.trials} trials) counts.`,
+    };
+  } else if (!run) {
+    yieldCheck = {
+      id: "verified_yield",
+      ok: false,
+      message: `No evidence run for revision ${revision.number} under program version ${program.version}; start it (${plan.trials} trials, server-assigned seed ${plan.seed}). Needed: ${rules}.`,
+    };
+  } else if (!figures) {
+    yieldCheck = {
+      id: "verified_yield",
+      ok: false,
+      message: `The evidence run ${run.id} is ${run.status} (${run.progressDone} of ${run.trials} trials).`,
+    };
+  } else if (!figures.pass) {
+    yieldCheck = {
+      id: "verified_yield",
+      ok: false,
+      message: `Evidence run: yield ${pct(figures.yield)} over ${figures.trials} trials, lower ${pct(figures.confidence)} bound ${pct2(figures.lowerBound)}, below the target ${pct(target)}.`,
+    };
   } else {
-    const found = runs.find(qualifies);
-    yieldRun = found ?? null;
-    if (found) {
-      yieldCheck = {
-        id: "verified_yield",
-        ok: true,
-        message: `Verified yield ${pct(found.result.yield)} ≥ target ${pct(target)} (run ${found.id}).`,
-      };
-    } else {
-      const anyVerified = runs.some((r) => r.status === "done" && r.verified === true);
-      const verified = runs.filter((r) => r.status === "done" && r.verified === true && usesProgramModel(r));
-      const best = verified.reduce<number | null>(
-        (m, r) => Math.max(m ?? 0, r.result?.yield ?? 0),
-        null,
-      );
-      yieldCheck = {
-        id: "verified_yield",
-        ok: false,
-        message:
-          best === null
-            ? anyVerified
-              ? `The verified yield runs on revision ${revision.number} used an error model other than the program's; run the study with the program's error model (target ${pct(target)}).`
-              : `No verified, finished yield run on revision ${revision.number}; run one (target ${pct(target)}).`
-            : `The best verified yield on revision ${revision.number} is ${pct(best)}, below the program target ${pct(target)}.`,
-      };
-    }
+    yieldCheck = {
+      id: "verified_yield",
+      ok: true,
+      message: `Evidence run: yield ${pct(figures.yield)} over ${figures.trials} trials, lower ${pct(figures.confidence)} bound ${pct2(figures.lowerBound)} ≥ target ${pct(target)} (run ${run.id}).`,
+    };
   }
+
+  const bandList = deviation.bands.map((b) => `${b.id} ${b.change}`).join(", ");
+  const deviationCheck: GateCheck = !deviation.required
+    ? {
+        id: "spec_deviation",
+        ok: true,
+        message: `The revision is judged against the program's mask (version ${program.version}).`,
+      }
+    : deviation.accepted
+      ? {
+          id: "spec_deviation",
+          ok: true,
+          message: `Spec deviation (${bandList}) accepted by ${deviation.current?.decidedBy?.name ?? "another member"}: ${deviation.current?.reason ?? ""}`,
+        }
+      : {
+          id: "spec_deviation",
+          ok: false,
+          message:
+            deviation.current?.status === "pending"
+              ? `The revision's mask differs from the program's (${bandList}); the spec deviation asked for by ${deviation.current.requestedBy?.name ?? "a member"} awaits acceptance by someone else.`
+              : deviation.current?.status === "rejected"
+                ? `The revision's mask differs from the program's (${bandList}) and the spec deviation was rejected; save a revision with the program's mask.`
+                : `The revision's mask differs from the program's (${bandList}); a spec deviation with a written reason, accepted by someone other than its author, is needed.`,
+        };
 
   const blockingCheck: GateCheck =
     blocking.length === 0
@@ -187,6 +230,7 @@ export function gateOf(
 
   const isApprover = auth.roles.includes("approver");
   const isAuthor = auth.user.id === revision.authorId;
+  const setFields = inputs.ruleSetters.get(auth.user.id);
   const approverCheck: GateCheck = !isApprover
     ? { id: "independent_approver", ok: false, message: "You do not hold the approver role." }
     : isAuthor
@@ -195,11 +239,18 @@ export function gateOf(
           ok: false,
           message: "You are the author of this revision; another approver must approve it.",
         }
-      : {
-          id: "independent_approver",
-          ok: true,
-          message: "You are an approver and not the author of this revision.",
-        };
+      : setFields
+        ? {
+            id: "independent_approver",
+            ok: false,
+            message: `You set the ${setFields.map((f) => RULE_LABEL[f]).join(", ")} of program version ${program.version}; another approver must sign off against rules they did not set.`,
+          }
+        : {
+            id: "independent_approver",
+            ok: true,
+            message:
+              "You are an approver, not the author of this revision, and did not set the program's rules.",
+          };
 
   const superseded = latestNumber !== undefined && latestNumber > revision.number;
   const stateCheck: GateCheck =
@@ -217,12 +268,26 @@ export function gateOf(
           }
         : { id: "state", ok: true, message: "The revision is in review." };
 
-  const checks = [yieldCheck, blockingCheck, approverCheck, stateCheck];
+  const checks = [yieldCheck, deviationCheck, blockingCheck, approverCheck, stateCheck];
   return {
     checks,
     canApprove: checks.every((c) => c.ok),
     canRelease: revision.status === "approved" && isApprover && !superseded,
-    yieldRun,
+    yieldRun: yieldCheck.ok ? run : null,
+    evidence: {
+      programVersion: program.version,
+      targetYield: target,
+      confidence: program.confidence,
+      minTrials: program.minEvidenceTrials,
+      seed: plan.seed,
+      seedRule: plan.seedRule,
+      errorModelVersion: plan.errorModelVersion,
+      run: run
+        ? { id: run.id, status: run.status, trials: run.trials, engineVersion: run.engineVersion }
+        : null,
+      figures,
+    },
+    deviation,
   };
 }
 
@@ -232,6 +297,8 @@ const NEXT: Record<DecisionAction, { from: readonly RevisionStatus[]; to: Revisi
   approve: { from: ["in_review"], to: "approved" },
   release: { from: ["approved"], to: "released" },
   withdraw: { from: ["draft", "in_review", "changes_requested", "approved", "released"], to: "withdrawn" },
+  // Written by updateProgram only (never requested through a transition).
+  return_to_review: { from: ["approved"], to: "in_review" },
 };
 
 /** Actions refused on a revision that a newer revision of its design has superseded (withdrawing stays possible). */
@@ -243,6 +310,7 @@ const AUDIT_VERB: Record<DecisionAction, string> = {
   approve: "approved",
   release: "released",
   withdraw: "withdrawn",
+  return_to_review: "returned to review",
 };
 
 const AUDIT_SENTENCE: Record<DecisionAction, string> = {
@@ -251,6 +319,7 @@ const AUDIT_SENTENCE: Record<DecisionAction, string> = {
   approve: "approved",
   release: "released",
   withdraw: "withdrew",
+  return_to_review: "returned to review",
 };
 
 const AUDIT_ACTION: Record<DecisionAction, string> = {
@@ -259,6 +328,7 @@ const AUDIT_ACTION: Record<DecisionAction, string> = {
   approve: "revision.approved",
   release: "revision.released",
   withdraw: "revision.withdrawn",
+  return_to_review: "revision.returned_to_review",
 };
 
 /** 403 unless the member's roles allow `action` on this revision at all (state is checked afterwards). */
@@ -277,6 +347,8 @@ function checkRole(action: DecisionAction, auth: AuthContext, rc: RevisionContex
       if (!has("approver"))
         throw forbidden(`${action === "approve" ? "Approving" : "Releasing"} needs the approver role.`);
       return;
+    case "return_to_review":
+      throw forbidden("A revision goes back to review only when its program changes.");
     case "withdraw":
       if (has("approver")) return;
       if (!has("designer")) throw forbidden("Withdrawing needs the designer (author) or approver role.");
@@ -352,6 +424,16 @@ export function applyTransition(
         .get();
       yieldRunId = approval?.yieldRunId ?? null;
       if (!yieldRunId) throw conflict("This revision has no approval with a verified yield run to release.");
+      // Approvals from before program versions existed count as version 1.
+      const approvedAgainst = approval?.programVersion ?? 1;
+      if (approvedAgainst !== rc.program.version) {
+        throw new HttpError(
+          409,
+          "program_changed",
+          `Revision ${rc.revision.number} was approved against program version ${approvedAgainst}; the program is now at version ${rc.program.version}. It needs a new sign-off.`,
+          { approvedAgainst, programVersion: rc.program.version },
+        );
+      }
     }
     const at = new Date();
     const changed = tx
@@ -370,6 +452,7 @@ export function applyTransition(
       actorName: auth.user.name,
       revisionHash: rc.revision.hash,
       yieldRunId,
+      programVersion: rc.program.version,
       note,
       at,
     };
@@ -381,7 +464,14 @@ export function applyTransition(
       subjectType: "revision",
       subjectId: rc.revision.id,
       summary: `${auth.user.name} ${AUDIT_SENTENCE[input.action]} ${rc.design.name} rev ${rc.revision.number}${input.action === "submit" ? " for review" : ""}${note ? `: ${note.slice(0, 120)}` : ""}`,
-      data: { from, to: rule.to, revisionHash: rc.revision.hash, yieldRunId, decisionId: decision.id },
+      data: {
+        from,
+        to: rule.to,
+        revisionHash: rc.revision.hash,
+        yieldRunId,
+        programVersion: rc.program.version,
+        decisionId: decision.id,
+      },
     });
     let releaseId: string | null = null;
     if (input.action === "release" && yieldRunId) {
@@ -441,6 +531,7 @@ export function decisionViews(db: DbOrTx, revisionId: string) {
       at: d.at.toISOString(),
       revisionHash: d.revisionHash,
       yieldRunId: d.yieldRunId,
+      programVersion: d.programVersion ?? null,
       note: d.note,
     }));
 }
@@ -458,6 +549,8 @@ export function releaseSnapshot(
   const result = run?.result ?? undefined;
   const mask = maskOf(rc.revision, rc.program);
   const nominal = evaluateSpec(stackOf(rc.revision), mask);
+  const dev = deviationState(db, rc);
+  const devNames = userNames(db, [dev.current?.requestedBy, dev.current?.decidedBy]);
   const threads = threadsForRevision(db, rc);
   const names = userNames(db, [rc.revision.authorId, ...threads.map((t) => t.authorId)]);
   return {
@@ -473,6 +566,10 @@ export function releaseSnapshot(
       description: rc.program.description,
       protective: rc.program.protective,
       targetYield: rc.program.targetYield,
+      version: rc.program.version,
+      minEvidenceTrials: rc.program.minEvidenceTrials,
+      confidence: rc.program.confidence,
+      specMask: rc.program.specMask,
     },
     design: { id: rc.design.id, name: rc.design.name },
     revision: {
@@ -504,6 +601,23 @@ export function releaseSnapshot(
             finishedAt: run.finishedAt ? run.finishedAt.toISOString() : null,
           }
         : null,
+    /** The evidence as the gate read it: the run's kind, the seed rule, and the bound at the program's confidence. */
+    evidence:
+      run && result
+        ? {
+            kind: run.kind,
+            programVersion: run.programVersion ?? rc.program.version,
+            seedRule: SEED_RULE,
+            figures: evidenceFigures(result, rc.program),
+          }
+        : null,
+    deviation: {
+      required: dev.required,
+      bands: dev.bands,
+      current: dev.current ? deviationView(dev.current, devNames) : null,
+    },
+    /** Nominal spectrum and the evidence run's 5–95 % envelope per (quantity, polarization, angle), for the plot. */
+    plot: result ? plotSeries(stackOf(rc.revision), maskOf(rc.revision, rc.program), result) : [],
     decisions: decisionViews(db, rc.revision.id),
     threads: {
       total: threads.length,
@@ -523,6 +637,53 @@ export function releaseSnapshot(
 }
 
 export type ReleaseSnapshot = ReturnType<typeof releaseSnapshot>;
+
+export interface PlotSeries {
+  quantity: string;
+  polarization: string;
+  angleDeg: number;
+  wavelengths: number[];
+  nominal: (number | null)[];
+  low: (number | null)[] | null;
+  high: (number | null)[] | null;
+  lowP: number | null;
+  highP: number | null;
+}
+
+/** The nominal curve at each envelope's wavelengths and conditions, with the 5th and 95th percentile curves of the run. */
+function plotSeries(design: Design, mask: SpecMask, result: YieldResult): PlotSeries[] {
+  const finite = (x: number) => (Number.isFinite(x) ? x : null);
+  const envelopes = result.envelopes ?? [];
+  let nominals: ReturnType<typeof nominalEnvelopeValues> = [];
+  try {
+    nominals = envelopes.length > 0 ? nominalEnvelopeValues(design, mask) : [];
+  } catch {
+    nominals = []; // a stored record whose design no longer evaluates still renders, without its nominal curve
+  }
+  return envelopes.map((env, e) => {
+    const nominalValues = nominals[e]?.values;
+    const nominal = env.wavelengths.map((_, i) => finite(nominalValues?.[i] ?? NaN));
+    const pick = (target: number, fallback: "min" | "max") => {
+      const exact = env.percentiles.find((p) => p.p === target);
+      if (exact) return exact;
+      const sorted = [...env.percentiles].sort((a, b) => a.p - b.p);
+      return fallback === "min" ? sorted[0] : sorted.at(-1);
+    };
+    const lo = pick(5, "min");
+    const hi = pick(95, "max");
+    return {
+      quantity: env.quantity,
+      polarization: env.polarization,
+      angleDeg: env.angleDeg,
+      wavelengths: env.wavelengths,
+      nominal,
+      low: lo ? lo.values.map(finite) : null,
+      high: hi ? hi.values.map(finite) : null,
+      lowP: lo?.p ?? null,
+      highP: hi?.p ?? null,
+    };
+  });
+}
 
 /** How the gate names a revision's state in a sentence ("The revision has changes requested"). */
 const STATE_PHRASE: Record<string, string> = {

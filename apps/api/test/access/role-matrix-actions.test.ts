@@ -19,7 +19,7 @@ import {
   createProgram,
   createTeam,
   singleLayerAr,
-  startRun,
+  startEvidenceRun,
   twoLayerAr,
   waitForRun,
   type Team,
@@ -101,7 +101,7 @@ async function changesRequested(): Promise<string> {
 }
 async function inReviewWithVerifiedRun(): Promise<string> {
   const id = await inReview();
-  const run = await startRun(agentOf("designer"), id, { trials: 40 });
+  const run = await startEvidenceRun(agentOf("designer"), id);
   const done = await waitForRun(agentOf("designer"), run.id);
   expect(done).toMatchObject({ status: "done", verified: true });
   return id;
@@ -449,6 +449,8 @@ describe("another workspace", () => {
       "POST /designs/:id/revisions": { baseRevisionId: ids.revisions, stack: twoLayerAr() },
       "POST /revisions/:id/threads": { anchor: { kind: "design" }, severity: "blocking", body: "x" },
       "POST /revisions/:id/yield-runs": { trials: 20 },
+      "POST /revisions/:id/deviations": { reason: "Loosened by an outsider." },
+      "POST /revisions/:id/deviations/:deviationId/decision": { accept: true },
       "POST /threads/:id/comments": { body: "hello" },
       "PATCH /members/:userId": { roles: ["reviewer"] },
     };

@@ -1,5 +1,5 @@
-// The release gate counts only runs of the program's own error model: a verified run with a looser what-if
-// error model does not satisfy `verified_yield`, neither as the newest run nor when named with ?yieldRunId.
+// The release gate counts only the evidence run, made with the program's own error model: a verified run with a
+// looser what-if error model does not satisfy `verified_yield`, neither as the newest run nor when named with ?yieldRunId.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestServer, type TestServer } from "../support/context.ts";
 import {
@@ -8,6 +8,7 @@ import {
   createDesign,
   createProgram,
   createTeam,
+  startEvidenceRun,
   startRun,
   waitForRun,
   type Team,
@@ -47,14 +48,14 @@ describe("gate and error model", () => {
     expect(gate.body.canApprove).toBe(false);
     expect(yieldCheck(gate.body)).toMatchObject({
       ok: false,
-      message: expect.stringMatching(/error model other than the program's/),
+      message: expect.stringMatching(/No evidence run/),
     });
     const pinned = await approver
       .get(`${API}/revisions/${revision.id}/gate?yieldRunId=${whatIf.id}`)
       .expect(200);
     expect(yieldCheck(pinned.body)).toMatchObject({
       ok: false,
-      message: expect.stringMatching(/error model other than the program's/),
+      message: expect.stringMatching(/what-if study/),
     });
 
     const refused = await approver
@@ -71,7 +72,7 @@ describe("gate and error model", () => {
     const { revision } = await createDesign(team, program.id);
     const designer = team.members.designer.agent;
     await designer.post(`${API}/revisions/${revision.id}/transitions`).send({ action: "submit" }).expect(200);
-    const run = await startRun(designer, revision.id, { trials: 40 });
+    const run = await startEvidenceRun(designer, revision.id);
     await waitForRun(designer, run.id);
     const gate = await team.members.approver.agent.get(`${API}/revisions/${revision.id}/gate`).expect(200);
     expect(yieldCheck(gate.body)?.ok).toBe(true);

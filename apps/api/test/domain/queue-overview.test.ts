@@ -13,7 +13,7 @@ import {
   createDesign,
   createProgram,
   createTeam,
-  startRun,
+  startEvidenceRun,
   twoLayerAr,
   waitForRun,
   type Team,
@@ -51,7 +51,7 @@ async function newRevision(who: Who, designId: string): Promise<string> {
 }
 
 async function verifiedRun(revisionId: string) {
-  const run = await startRun(agentOf("designer"), revisionId, { trials: 40 });
+  const run = await startEvidenceRun(agentOf("designer"), revisionId);
   expect(await waitForRun(agentOf("designer"), run.id)).toMatchObject({ status: "done", verified: true });
 }
 
@@ -194,9 +194,7 @@ describe("query count", () => {
   it("stays the same for /overview, /programs/:id and /queue with three times the designs", async () => {
     const pid = (await createProgram(team, { name: "Count program" })).id;
     await addDesigns(2, pid);
-    const run = await startRun(agentOf("designer"), (await createDesign(team, pid)).revision.id, {
-      trials: 40,
-    });
+    const run = await startEvidenceRun(agentOf("designer"), (await createDesign(team, pid)).revision.id);
     await waitForRun(agentOf("designer"), run.id);
     const measure = async () => ({
       overview: await statements(() => agentOf("approver").get(`${API}/overview`).expect(200)),

@@ -12,6 +12,7 @@ import {
   createProgram,
   createTeam,
   singleLayerAr,
+  startEvidenceRun,
   startRun,
   waitForRun,
   type Team,
@@ -44,7 +45,7 @@ async function inReviewWithYield(programOverrides: Record<string, unknown> = {})
   const program = await createProgram(team, programOverrides);
   const { design, revision } = await createDesign(team, program.id);
   await transition(team.members.designer.agent, revision.id, "submit").expect(200);
-  const run = await startRun(team.members.designer.agent, revision.id, { trials: 100, seed: "gate" });
+  const run = await startEvidenceRun(team.members.designer.agent, revision.id);
   const done = await waitForRun(team.members.designer.agent, run.id);
   return { program, design, revision, run: done };
 }
@@ -261,16 +262,17 @@ describe("release gate and transitions", () => {
       "verified_yield",
       "blocking_threads",
     ]);
-    expect(refused.body.error.message).toContain("No verified, finished yield run");
+    expect(refused.body.error.message).toContain("No evidence run");
     const gate = await approver.get(`${API}/revisions/${revision.id}/gate`).expect(200);
     expect(gate.body).toMatchObject({ canApprove: false, canRelease: false, yieldRunId: null });
     expect(gate.body.checks.map((c: { id: string; ok: boolean }) => [c.id, c.ok])).toEqual([
       ["verified_yield", false],
+      ["spec_deviation", true],
       ["blocking_threads", false],
       ["independent_approver", true],
       ["state", true],
     ]);
-    const run = await startRun(team.members.designer.agent, revision.id, { trials: 100, seed: "gate-1" });
+    const run = await startEvidenceRun(team.members.designer.agent, revision.id);
     const done = await waitForRun(team.members.designer.agent, run.id);
     expect(done.result.yield).toBeGreaterThanOrEqual(0.8);
     const stillBlocked = await transition(approver, revision.id, "approve").expect(422);
@@ -309,7 +311,7 @@ describe("release gate and transitions", () => {
     expect(low.run.result.yield).toBe(0);
     const res = await transition(team.members.approver.agent, low.revision.id, "approve").expect(422);
     expect(res.body.error.details.checks[0]).toMatchObject({ id: "verified_yield" });
-    expect(res.body.error.details.checks[0].message).toContain("below the program target");
+    expect(res.body.error.details.checks[0].message).toContain("below the target");
 
     const { revision } = await inReviewWithYield();
     const forged = await startRun(team.members.designer.agent, revision.id, {
@@ -330,7 +332,7 @@ describe("release gate and transitions", () => {
     const pinned = await transition(team.members.approver.agent, revision.id, "approve", {
       yieldRunId: forged.id,
     }).expect(422);
-    expect(pinned.body.error.details.checks[0].message).toContain("not verified");
+    expect(pinned.body.error.details.checks[0].message).toContain("what-if study");
 
     // a member who is both designer and approver cannot approve their own revision
     const both = await createMember(server, {
@@ -345,7 +347,7 @@ describe("release gate and transitions", () => {
       .send({ name: "Own", stack: singleLayerAr() })
       .expect(201);
     await transition(dual, own.body.revision.id, "submit").expect(200);
-    const ownRun = await startRun(dual, own.body.revision.id, { trials: 100, seed: "own" });
+    const ownRun = await startEvidenceRun(dual, own.body.revision.id);
     await waitForRun(dual, ownRun.id);
     const self = await transition(dual, own.body.revision.id, "approve").expect(422);
     expect(self.body.error.details.checks.map((c: { id: string }) => c.id)).toEqual(["independent_approver"]);
@@ -460,7 +462,7 @@ describe("release records", () => {
       program: { name: "Shield program", protective: true, targetYield: 0.8 },
       design: { name: "AR window" },
       revision: { id: revision.id, number: 1, hash: revision.hash },
-      yieldRun: { id: run.id, trials: 100, seed: "gate", verified: true },
+      yieldRun: { id: run.id, trials: 120, seed: run.seed, verified: true },
       caution: PROTECTIVE_CAUTION,
       releasedBy: { name: "Sunniva Achterberg" },
     });

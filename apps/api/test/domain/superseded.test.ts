@@ -7,7 +7,7 @@ import {
   createDesign,
   createProgram,
   createTeam,
-  startRun,
+  startEvidenceRun,
   twoLayerAr,
   waitForRun,
   type Team,
@@ -37,7 +37,7 @@ async function ok(who: Who, revisionId: string, action: string) {
 }
 
 async function verifiedRun(revisionId: string) {
-  const run = await startRun(team.members.designer.agent, revisionId, { trials: 40 });
+  const run = await startEvidenceRun(team.members.designer.agent, revisionId);
   expect(await waitForRun(team.members.designer.agent, run.id)).toMatchObject({ verified: true });
 }
 

@@ -82,12 +82,17 @@ describe("server yield runs", () => {
     expect(list.body.items[0].id).toBe(run.id);
   });
 
-  it("uses the program's study defaults and error model when none are given", async () => {
+  it("starts the evidence run (server-assigned seed, the program's minimum trials and error model) when none are given", async () => {
     const res = await team.members.reviewer.agent
       .post(`${API}/revisions/${revisionId}/yield-runs`)
       .send({})
       .expect(202);
-    expect(res.body.run).toMatchObject({ trials: 120, seed: "test-seed", errorModel: ERROR_MODEL });
+    expect(res.body.run).toMatchObject({
+      trials: 120,
+      seed: expect.stringMatching(/^ev-[0-9a-f]{16}-m[0-9a-f]{8}$/),
+      errorModel: ERROR_MODEL,
+      kind: "evidence",
+    });
     await waitForRun(team.members.reviewer.agent, res.body.run.id);
   });
 

@@ -6,7 +6,7 @@ import { ErrorModelSchema, scaleErrorModel } from "./error-model.ts";
 import { createStudySampler } from "./process/sampler.ts";
 import type { ErrorModel } from "./error-model.ts";
 import { TrialRandom } from "./random.ts";
-import { createSpecEvaluator, meritOf, PROTECTIVE_CAUTION, quantityValue, SpecMaskSchema } from "./spec.ts";
+import { createSpecEvaluator, meritOf, parseSpecMask, PROTECTIVE_CAUTION, quantityValue, SpecMaskSchema } from "./spec.ts";
 import type { BandPolarization, GroupPlan, SpecEvaluator, SpecQuantity } from "./spec.ts";
 import { parseWith } from "./validate.ts";
 import { wilsonInterval } from "./wilson.ts";
@@ -536,4 +536,22 @@ export function largestScaleForYield(
   if (!after) return { scale: at.scale, interpolated: at.scale };
   const f = (at.yield - target) / (at.yield - after.yield);
   return { scale: at.scale, interpolated: at.scale + f * (after.scale - at.scale) };
+}
+
+/**
+ * The nominal design's values at the wavelengths and conditions of each envelope of a yield result, in the same
+ * order as {@link YieldResult.envelopes}: what a report draws inside the 5–95 % envelope of the trials. Values in
+ * band units (percent, or OD); computed by the same evaluator as the trials.
+ */
+export function nominalEnvelopeValues(design: Design, maskInput: unknown): { quantity: SpecQuantity; wavelengths: number[]; values: number[] }[] {
+  const evaluator = createSpecEvaluator(design, parseSpecMask(maskInput));
+  evaluator.evaluate(evaluator.nominalThicknesses);
+  return planEnvelopes(evaluator).map((env) => {
+    const g = evaluator.groups[env.group] as GroupPlan;
+    return {
+      quantity: env.quantity,
+      wavelengths: env.wavelengths,
+      values: Array.from(env.indices, (i) => quantityValue(env.quantity, g.R[i] as number, g.T[i] as number, g.A[i] as number)),
+    };
+  });
 }

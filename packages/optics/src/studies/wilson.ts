@@ -46,3 +46,61 @@ function normalCdf(x: number): number {
       Math.exp(-(x * x) / 2);
   return x >= 0 ? 0.5 * (1 + y) : 0.5 * (1 - y);
 }
+
+// Acklam's rational approximation of the normal quantile (relative error < 1.15e-9); hand-written because
+// simple-statistics' probit (an erf-inverse approximation) is off by 3e-3 at 0.975 (1.9572 instead of 1.9600).
+const ACKLAM_A = [
+  -39.69683028665376, 220.9460984245205, -275.9285104469687, 138.357751867269, -30.66479806614716,
+  2.506628277459239,
+];
+const ACKLAM_B = [
+  -54.47609879822406, 161.5858368580409, -155.6989798598866, 66.80131188771972, -13.28068155288572,
+];
+const ACKLAM_C = [
+  -0.007784894002430293, -0.3223964580411365, -2.400758277161838, -2.549732539343734, 4.374664141464968,
+  2.938163982698783,
+];
+const ACKLAM_D = [0.007784695709041462, 0.3224671290700398, 2.445134137142996, 3.754408661907416];
+
+/**
+ * Standard normal quantile Φ⁻¹(p) for 0 < p < 1 (P. J. Acklam's algorithm, relative error below 1.15e-9).
+ * Check values: Φ⁻¹(0.975) = 1.959964, Φ⁻¹(0.95) = 1.644854 (standard normal tables).
+ */
+export function normalQuantile(p: number): number {
+  if (!(p > 0 && p < 1)) throw new RangeError(`normalQuantile: p must be in (0, 1), got ${p}`);
+  const [a0, a1, a2, a3, a4, a5] = ACKLAM_A as [number, number, number, number, number, number];
+  const [b0, b1, b2, b3, b4] = ACKLAM_B as [number, number, number, number, number];
+  const [c0, c1, c2, c3, c4, c5] = ACKLAM_C as [number, number, number, number, number, number];
+  const [d0, d1, d2, d3] = ACKLAM_D as [number, number, number, number];
+  const pLow = 0.02425;
+  if (p < pLow) {
+    const q = Math.sqrt(-2 * Math.log(p));
+    return (
+      (((((c0 * q + c1) * q + c2) * q + c3) * q + c4) * q + c5) /
+      ((((d0 * q + d1) * q + d2) * q + d3) * q + 1)
+    );
+  }
+  if (p > 1 - pLow) return -normalQuantile(1 - p);
+  const q = p - 0.5;
+  const r = q * q;
+  return (
+    ((((((a0 * r + a1) * r + a2) * r + a3) * r + a4) * r + a5) * q) /
+    (((((b0 * r + b1) * r + b2) * r + b3) * r + b4) * r + 1)
+  );
+}
+
+/** The z of a two-sided interval at `confidence` (0.5 ≤ confidence < 1): Φ⁻¹(1 − (1 − confidence)/2). */
+export function zForConfidence(confidence: number): number {
+  if (!(confidence >= 0.5 && confidence < 1))
+    throw new RangeError(`confidence must be in [0.5, 1), got ${confidence}`);
+  // Keep the exact constant at 95 % so that intervals computed either way are bit-identical.
+  return confidence === 0.95 ? Z_95 : normalQuantile(1 - (1 - confidence) / 2);
+}
+
+/**
+ * Lower limit of the two-sided Wilson score interval at `confidence` (default 0.95): the yield that the
+ * release gate compares with the target. `successes` of `n` trials passed.
+ */
+export function wilsonLowerBound(successes: number, n: number, confidence = 0.95): number {
+  return wilsonInterval(successes, n, zForConfidence(confidence)).low;
+}

@@ -24,8 +24,33 @@ export type RevisionStatus = (typeof REVISION_STATUSES)[number];
 export const YIELD_RUN_STATUSES = ["queued", "running", "done", "failed", "cancelled"] as const;
 export type YieldRunStatus = (typeof YIELD_RUN_STATUSES)[number];
 
-export const DECISION_ACTIONS = ["submit", "request_changes", "approve", "release", "withdraw"] as const;
+/**
+ * `return_to_review` is written by the server, not requested: a change of the program's version sends an approved
+ * revision back to review (the actor is the member who changed the program).
+ */
+export const DECISION_ACTIONS = [
+  "submit",
+  "request_changes",
+  "approve",
+  "release",
+  "withdraw",
+  "return_to_review",
+] as const;
 export type DecisionAction = (typeof DECISION_ACTIONS)[number];
+
+export const YIELD_RUN_KINDS = ["evidence", "what_if"] as const;
+/** `evidence`: the server-assigned run that the gate reads; `what_if`: any other study (never counts). */
+export type YieldRunKind = (typeof YIELD_RUN_KINDS)[number];
+
+/** The program fields whose change makes a new program version (the evidence rules). */
+export const EVIDENCE_RULE_FIELDS = [
+  "specMask",
+  "errorModel",
+  "targetYield",
+  "minEvidenceTrials",
+  "confidence",
+] as const;
+export type EvidenceRuleField = (typeof EVIDENCE_RULE_FIELDS)[number];
 
 export interface StudyDefaults {
   trials: number;
@@ -54,10 +79,52 @@ export const programs = sqliteTable(
     specMask: text("spec_mask", { mode: "json" }).$type<SpecMask>().notNull(),
     errorModel: text("error_model", { mode: "json" }).$type<ErrorModel>().notNull(),
     studyDefaults: text("study_defaults", { mode: "json" }).$type<StudyDefaults>().notNull(),
+    /** Evidence rules: an evidence run needs at least this many trials … */
+    minEvidenceTrials: integer("min_evidence_trials").notNull().default(2000),
+    /** … and the lower limit of its two-sided Wilson interval at this confidence must reach targetYield. */
+    confidence: real("confidence").notNull().default(0.95),
+    /** Current program version (program_versions holds every version with who changed what). */
+    version: integer("version").notNull().default(1),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
   },
   (t) => [index("programs_workspace_idx").on(t.workspaceId)],
+);
+
+/** Old and new value of one evidence-rule field in a program version. */
+export interface RuleChange {
+  before: unknown;
+  after: unknown;
+}
+
+/**
+ * Every version of a program's evidence rules (mask, error model, target, minimum trials, confidence). Version 1 is
+ * the program as created (or as it stood when versions were introduced); each later version records who changed
+ * which field from what to what.
+ */
+export const programVersions = sqliteTable(
+  "program_versions",
+  {
+    id: text("id").primaryKey(),
+    programId: text("program_id")
+      .notNull()
+      .references(() => programs.id, { onDelete: "cascade" }),
+    version: integer("version").notNull(),
+    targetYield: real("target_yield").notNull(),
+    minEvidenceTrials: integer("min_evidence_trials").notNull(),
+    confidence: real("confidence").notNull(),
+    specMask: text("spec_mask", { mode: "json" }).$type<unknown>().notNull(),
+    errorModel: text("error_model", { mode: "json" }).$type<unknown>().notNull(),
+    /** Fields changed from the previous version; empty for version 1. */
+    changes: text("changes", { mode: "json" })
+      .$type<Partial<Record<EvidenceRuleField, RuleChange>>>()
+      .notNull(),
+    /** Who made the change (null for version 1 made at creation or by the migration). */
+    changedBy: text("changed_by").references(() => users.id, { onDelete: "set null" }),
+    note: text("note").notNull().default(""),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("program_versions_program_version_unique").on(t.programId, t.version)],
 );
 
 export const designs = sqliteTable(
@@ -157,6 +224,10 @@ export const yieldRuns = sqliteTable(
     verified: integer("verified", { mode: "boolean" }),
     mismatch: text("mismatch"),
     engineVersion: text("engine_version").notNull(),
+    /** Evidence runs have server-assigned seed and trials; everything else is a what-if study. */
+    kind: text("kind", { enum: YIELD_RUN_KINDS }).notNull().default("what_if"),
+    /** The program version in force when the run was requested. */
+    programVersion: integer("program_version"),
     error: text("error"),
     createdAt: createdAt(),
     startedAt: integer("started_at", { mode: "timestamp_ms" }),
@@ -242,10 +313,44 @@ export const decisions = sqliteTable(
     actorName: text("actor_name").notNull(),
     revisionHash: text("revision_hash").notNull(),
     yieldRunId: text("yield_run_id").references(() => yieldRuns.id),
+    /** The program version the decision was made against. */
+    programVersion: integer("program_version"),
     note: text("note").notNull().default(""),
     at: integer("at", { mode: "timestamp_ms" }).notNull(),
   },
   (t) => [index("decisions_revision_idx").on(t.revisionId)],
+);
+
+export const DEVIATION_STATUSES = ["pending", "accepted", "rejected"] as const;
+export type DeviationStatus = (typeof DEVIATION_STATUSES)[number];
+
+/**
+ * Spec deviations: a revision whose mask differs from its program's mask needs one, accepted by someone other than
+ * the member who asked for it. It holds for the program mask it was written against (programMaskHash).
+ */
+export const specDeviations = sqliteTable(
+  "spec_deviations",
+  {
+    id: text("id").primaryKey(),
+    revisionId: text("revision_id")
+      .notNull()
+      .references(() => revisions.id, { onDelete: "cascade" }),
+    programVersion: integer("program_version").notNull(),
+    /** sha-256 of the canonical program mask the revision deviates from. */
+    programMaskHash: text("program_mask_hash").notNull(),
+    /** Bands added, removed or changed against the program mask (ids). */
+    bands: text("bands", { mode: "json" }).$type<{ id: string; change: string }[]>().notNull(),
+    reason: text("reason").notNull(),
+    requestedBy: text("requested_by")
+      .notNull()
+      .references(() => users.id),
+    requestedAt: integer("requested_at", { mode: "timestamp_ms" }).notNull(),
+    status: text("status", { enum: DEVIATION_STATUSES }).notNull().default("pending"),
+    decidedBy: text("decided_by").references(() => users.id),
+    decidedAt: integer("decided_at", { mode: "timestamp_ms" }),
+    decisionNote: text("decision_note").notNull().default(""),
+  },
+  (t) => [index("spec_deviations_revision_idx").on(t.revisionId)],
 );
 
 /** Release records: one per released revision, with the snapshot that was signed off. */

@@ -21,6 +21,7 @@ import {
   overviewRows,
   revisionInput,
   revisionView,
+  specDeviationSummary,
 } from "../../domain/revisions.ts";
 import { nominalFor } from "../../yield/nominal.ts";
 import { workQueue } from "../../domain/queue.ts";
@@ -32,6 +33,7 @@ import {
   NewRevisionBody,
   RevisionSchema,
   RevisionSummarySchema,
+  SpecDeviationSummarySchema,
   fileField,
 } from "@stackproof/contracts";
 
@@ -193,6 +195,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         other: z.array(z.string()),
         totalThicknessDeltaNm: z.number(),
         specMaskChanged: z.boolean(),
+        specDeviation: z.object({ before: SpecDeviationSummarySchema, after: SpecDeviationSummarySchema }),
         summary: z.string(),
         before: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
         after: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
@@ -209,6 +212,10 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       return {
         ...diff,
         specMaskChanged,
+        specDeviation: {
+          before: specDeviationSummary(ctx.db, before),
+          after: specDeviationSummary(ctx.db, after),
+        },
         summary: specMaskChanged ? `${diff.summary}; spec mask changed` : diff.summary,
         before: { id: before.revision.id, number: before.revision.number, hash: before.revision.hash },
         after: { id: after.revision.id, number: after.revision.number, hash: after.revision.hash },

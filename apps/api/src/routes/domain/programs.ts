@@ -5,11 +5,12 @@ import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { designs, programs } from "../../db/schema.ts";
+import { createProgram, programVersionsOf, updateProgram, type ProgramInput } from "../../domain/programs.ts";
 import { recordAudit } from "../../lib/audit.ts";
 import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { newId } from "../../domain/canonical.ts";
-import { loadProgram } from "../../domain/load.ts";
+import { loadProgram, person, userNames } from "../../domain/load.ts";
 import {
   createRevision,
   notComputable,
@@ -27,6 +28,7 @@ import {
   ProgramCreateBody,
   ProgramPatchBody,
   ProgramSchema,
+  ProgramVersionSchema,
   RevisionSchema,
 } from "@stackproof/contracts";
 
@@ -76,35 +78,14 @@ export function programRoutes(ctx: AppContext, router: Router): void {
     },
     ({ req, body }) => {
       const auth = getAuth(req);
-      const id = newId();
       const { protective: _p, ...mask } = body.specMask;
-      ctx.db.transaction((tx) => {
-        tx.insert(programs)
-          .values({
-            id,
-            workspaceId: auth.workspaceId,
-            name: body.name,
-            customer: body.customer,
-            description: body.description,
-            application: body.application,
-            protective: body.protective,
-            targetYield: body.targetYield,
-            specMask: mask,
-            errorModel: body.errorModel,
-            studyDefaults: body.studyDefaults,
-            createdBy: auth.user.id,
-            createdAt: new Date(),
-          })
-          .run();
-        recordAudit(tx, {
+      const id = ctx.db.transaction((tx) =>
+        createProgram(tx, {
           workspaceId: auth.workspaceId,
-          actorId: auth.user.id,
-          action: "program.created",
-          subjectType: "program",
-          subjectId: id,
-          summary: `${auth.user.name} created the program ${body.name}`,
-        });
-      });
+          actor: auth.user,
+          program: { ...body, specMask: mask },
+        }),
+      );
       return programView(loadProgram(ctx.db, auth.workspaceId, id));
     },
   );
@@ -139,7 +120,8 @@ export function programRoutes(ctx: AppContext, router: Router): void {
     {
       method: "patch",
       path: "/programs/:id",
-      summary: "Edit a program (spec mask, target yield, error model, protective flag, texts)",
+      summary:
+        "Edit a program; a change of an evidence rule (mask, error model, target, minimum trials, confidence) makes a new version",
       tag: TAG,
       access: ["admin", "approver"],
       params: IdParams,
@@ -149,38 +131,55 @@ export function programRoutes(ctx: AppContext, router: Router): void {
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
-      const before = loadProgram(ctx.db, auth.workspaceId, params.id);
-      const changes: Partial<typeof programs.$inferInsert> = {};
-      if (body.name !== undefined) changes.name = body.name;
-      if (body.customer !== undefined) changes.customer = body.customer;
-      if (body.description !== undefined) changes.description = body.description;
-      if (body.application !== undefined) changes.application = body.application;
-      if (body.protective !== undefined) changes.protective = body.protective;
-      if (body.targetYield !== undefined) changes.targetYield = body.targetYield;
-      if (body.specMask !== undefined) {
-        const { protective: _p, ...mask } = body.specMask;
+      const { note, specMask, ...rest } = body;
+      const changes: Partial<ProgramInput> = { ...rest };
+      if (specMask !== undefined) {
+        const { protective: _p, ...mask } = specMask;
         changes.specMask = mask;
       }
-      if (body.errorModel !== undefined) changes.errorModel = body.errorModel;
-      if (body.studyDefaults !== undefined) changes.studyDefaults = body.studyDefaults;
       ctx.db.transaction((tx) => {
-        tx.update(programs).set(changes).where(eq(programs.id, before.id)).run();
-        recordAudit(tx, {
-          workspaceId: auth.workspaceId,
-          actorId: auth.user.id,
-          action: "program.updated",
-          subjectType: "program",
-          subjectId: before.id,
-          summary: `${auth.user.name} changed ${Object.keys(changes).join(", ")} of the program ${before.name}`,
-          data: {
-            before: Object.fromEntries(
-              Object.keys(changes).map((k) => [k, before[k as keyof typeof before]]),
-            ),
-            after: changes,
-          },
-        });
+        const before = loadProgram(tx, auth.workspaceId, params.id);
+        updateProgram(tx, { workspaceId: auth.workspaceId, actor: auth.user, before, changes, note });
       });
-      return programView(loadProgram(ctx.db, auth.workspaceId, before.id));
+      return programView(loadProgram(ctx.db, auth.workspaceId, params.id));
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "get",
+      path: "/programs/:id/versions",
+      summary:
+        "Every version of the program's evidence rules, oldest first, with who changed what from what to what",
+      tag: TAG,
+      access: "member",
+      params: IdParams,
+      response: z.object({ items: z.array(ProgramVersionSchema) }),
+      errors: { 404: "No such program in this workspace" },
+    },
+    ({ req, params }) => {
+      const auth = getAuth(req);
+      const program = loadProgram(ctx.db, auth.workspaceId, params.id);
+      const rows = programVersionsOf(ctx.db, program.id);
+      const names = userNames(
+        ctx.db,
+        rows.map((r) => r.changedBy),
+      );
+      return {
+        items: rows.map((v) => ({
+          version: v.version,
+          targetYield: v.targetYield,
+          minEvidenceTrials: v.minEvidenceTrials,
+          confidence: v.confidence,
+          specMask: v.specMask,
+          errorModel: v.errorModel,
+          changes: v.changes as Record<string, { before: unknown; after: unknown }>,
+          changedBy: person(names, v.changedBy),
+          note: v.note,
+          createdAt: v.createdAt.toISOString(),
+        })),
+      };
     },
   );
 

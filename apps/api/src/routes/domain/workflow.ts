@@ -8,12 +8,20 @@ import { releases, revisions } from "../../db/schema.ts";
 import { notFound } from "../../lib/errors.ts";
 import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
-import { loadRevision } from "../../domain/load.ts";
+import { loadRevision, userNames } from "../../domain/load.ts";
+import {
+  decideDeviation,
+  deviationState,
+  deviationView,
+  deviationsOf,
+  requestDeviation,
+} from "../../domain/evidence.ts";
 import { releasePrintHtml } from "../../domain/release-print.ts";
+import { releasePdf } from "../../domain/release-pdf.ts";
 import { revisionView } from "../../domain/revisions.ts";
 import { nominalFor } from "../../yield/nominal.ts";
 import { applyTransition, decisionViews, evaluateGate, type ReleaseSnapshot } from "../../domain/workflow.ts";
-import { DecisionSchema, GateSchema, IdParams, RevisionSchema } from "@stackproof/contracts";
+import { DecisionSchema, DeviationSchema, GateSchema, IdParams, RevisionSchema } from "@stackproof/contracts";
 
 const TAG = "Workflow and release";
 
@@ -25,7 +33,16 @@ const ReleaseSummary = z.object({
   program: z.object({ id: z.string(), name: z.string(), protective: z.boolean() }),
   design: z.object({ id: z.string(), name: z.string() }),
   revision: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
-  yield: z.object({ yield: z.number(), low: z.number(), high: z.number(), trials: z.number() }).nullable(),
+  yield: z
+    .object({
+      yield: z.number(),
+      low: z.number(),
+      high: z.number(),
+      trials: z.number(),
+      lowerBound: z.number().nullable(),
+      confidence: z.number().nullable(),
+    })
+    .nullable(),
 });
 
 function loadRelease(ctx: AppContext, workspaceId: string, id: string) {
@@ -58,6 +75,9 @@ function summary(snapshot: ReleaseSnapshot, status: string) {
           low: snapshot.yieldRun.interval.low,
           high: snapshot.yieldRun.interval.high,
           trials: snapshot.yieldRun.trials,
+          // Releases made before evidence rules were recorded have no bound.
+          lowerBound: snapshot.evidence?.figures.lowerBound ?? null,
+          confidence: snapshot.evidence?.figures.confidence ?? null,
         }
       : null,
   };
@@ -86,6 +106,8 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
         canApprove: gate.canApprove,
         canRelease: gate.canRelease,
         yieldRunId: gate.yieldRun?.id ?? null,
+        evidence: gate.evidence,
+        deviation: gate.deviation,
       };
     },
   );
@@ -126,6 +148,107 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
         decision,
         releaseId: out.releaseId,
       };
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "get",
+      path: "/revisions/:id/deviations",
+      summary: "Spec deviations of a revision (its mask against the program's), oldest first",
+      tag: TAG,
+      access: "member",
+      params: IdParams,
+      response: z.object({
+        required: z.boolean(),
+        bands: z.array(z.object({ id: z.string(), change: z.string() })),
+        items: z.array(DeviationSchema),
+      }),
+      errors: { 404: "No such revision" },
+    },
+    ({ req, params }) => {
+      const auth = getAuth(req);
+      const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
+      const state = deviationState(ctx.db, rc);
+      const rows = deviationsOf(ctx.db, [rc.revision.id]);
+      const names = userNames(
+        ctx.db,
+        rows.flatMap((d) => [d.requestedBy, d.decidedBy]),
+      );
+      return {
+        required: state.required,
+        bands: state.bands,
+        items: rows.map((d) => deviationView(d, names)),
+      };
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "post",
+      path: "/revisions/:id/deviations",
+      summary:
+        "Ask for the revision's mask to be accepted as a deviation from the program's mask (written reason)",
+      tag: TAG,
+      access: ["designer", "approver"],
+      params: IdParams,
+      body: z.object({
+        reason: z.string().trim().min(10, { message: "write the reason (10 characters or more)" }).max(5000),
+      }),
+      status: 201,
+      response: DeviationSchema,
+      errors: {
+        404: "No such revision",
+        409: "The mask is the program's, or a deviation is pending or accepted",
+      },
+    },
+    ({ req, params, body }) => {
+      const auth = getAuth(req);
+      const row = ctx.db.transaction((tx) =>
+        requestDeviation(tx, {
+          rc: loadRevision(tx, auth.workspaceId, params.id),
+          actor: auth.user,
+          workspaceId: auth.workspaceId,
+          reason: body.reason,
+        }),
+      );
+      return deviationView(row, userNames(ctx.db, [row.requestedBy]));
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "post",
+      path: "/revisions/:id/deviations/:deviationId/decision",
+      summary:
+        "Accept or reject a spec deviation (an approver other than its author and the revision's author)",
+      tag: TAG,
+      access: ["approver"],
+      params: z.object({ id: z.string().min(1).max(100), deviationId: z.string().min(1).max(100) }),
+      body: z.object({ accept: z.boolean(), note: z.string().trim().max(5000).default("") }),
+      response: DeviationSchema,
+      errors: {
+        403: "The deviation's or the revision's author",
+        404: "No such revision or deviation",
+        409: "Already decided, or the program's mask changed",
+      },
+    },
+    ({ req, params, body }) => {
+      const auth = getAuth(req);
+      const row = ctx.db.transaction((tx) =>
+        decideDeviation(tx, {
+          rc: loadRevision(tx, auth.workspaceId, params.id),
+          actor: { ...auth.user, roles: auth.roles },
+          workspaceId: auth.workspaceId,
+          deviationId: params.deviationId,
+          accept: body.accept,
+          note: body.note,
+        }),
+      );
+      return deviationView(row, userNames(ctx.db, [row.requestedBy, row.decidedBy]));
     },
   );
 
@@ -221,6 +344,33 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
         .type("html")
         .set("Content-Security-Policy", "default-src 'none'; style-src 'unsafe-inline'; img-src data:")
         .send(releasePrintHtml(snapshot, status));
+      return undefined;
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "get",
+      path: "/releases/:id/pdf",
+      summary:
+        "The release record as a PDF (spectrum with the evidence run's envelope, margins, evidence, deviations, decisions)",
+      tag: TAG,
+      access: "member",
+      params: IdParams,
+      errors: { 404: "No such release" },
+    },
+    async ({ req, res, params }) => {
+      const auth = getAuth(req);
+      const { snapshot, status } = loadRelease(ctx, auth.workspaceId, params.id);
+      const pdf = await releasePdf(snapshot, status);
+      const r = snapshot as { design?: { name?: string }; revision?: { number?: number } };
+      const file = `release-${String(r.design?.name ?? "record").replace(/[^A-Za-z0-9._-]+/g, "-")}-rev${r.revision?.number ?? ""}.pdf`;
+      res
+        .status(200)
+        .type("application/pdf")
+        .set("Content-Disposition", `attachment; filename="${file}"`)
+        .send(pdf);
       return undefined;
     },
   );

@@ -8,6 +8,7 @@ import {
   MAX_TRIALS,
   parseYieldStudy,
   type ErrorModel,
+  type YieldResult,
 } from "@stackproof/optics";
 import { MAX_TRIALS_PER_RUN, trialsLimitMessage } from "../../lib/limits.ts";
 import type { AppContext } from "../../context.ts";
@@ -28,7 +29,14 @@ import {
   type YieldRunRow,
 } from "../../domain/load.ts";
 import { ClientResultSchema } from "../../yield/verify.ts";
-import { IdParams, YieldRunSchema } from "@stackproof/contracts";
+import {
+  evidenceFigures,
+  evidencePlan,
+  findEvidenceRun,
+  matchesPlan,
+  requestEvidenceRun,
+} from "../../domain/evidence.ts";
+import { EvidenceFiguresSchema, EvidencePlanSchema, IdParams, YieldRunSchema } from "@stackproof/contracts";
 
 const TAG = "Yield runs";
 
@@ -51,6 +59,8 @@ export function yieldRunView(
     clientSubmitted: run.clientResult !== null && run.clientResult !== undefined,
     mismatch: run.mismatch ?? null,
     engineVersion: run.engineVersion,
+    kind: run.kind,
+    programVersion: run.programVersion ?? null,
     error: run.error ?? null,
     requestedBy: person(names, run.requestedBy),
     createdAt: run.createdAt.toISOString(),
@@ -65,7 +75,8 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
     {
       method: "post",
       path: "/revisions/:id/yield-runs",
-      summary: "Start a server yield run; with clientResult the browser's result is verified against it",
+      summary:
+        "Start a server yield run. Without seed, trials and error model (or with exactly the evidence run's) this is the evidence run (idempotent); anything else is a what-if study that never counts. With clientResult the browser's result is verified against it",
       tag: TAG,
       access: ["designer", "reviewer", "approver"],
       params: IdParams,
@@ -81,7 +92,7 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
         clientResult: ClientResultSchema.optional(),
       }),
       status: 202,
-      response: z.object({ run: YieldRunSchema }),
+      response: z.object({ run: YieldRunSchema, reused: z.boolean() }),
       errors: {
         404: "No such revision",
         429: "A cap on yield runs queued or running at once is reached (named in the message)",
@@ -91,9 +102,23 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
       ctx.jobs.admit({ userId: auth.user.id, workspaceId: auth.workspaceId });
-      const trials = body.trials ?? rc.program.studyDefaults.trials;
-      const seed = body.seed ?? rc.program.studyDefaults.seed;
-      const errorModel = (body.errorModel ?? rc.program.errorModel) as ErrorModel;
+      const plan = evidencePlan(rc);
+      const trials = body.trials ?? plan.trials;
+      const seed = body.seed ?? plan.seed;
+      const errorModel = (body.errorModel ?? plan.errorModel) as ErrorModel;
+      // A request for exactly the evidence run's study is the evidence run (idempotent); anything else is what-if.
+      if (matchesPlan({ seed, trials, errorModel }, plan)) {
+        const out = ctx.db.transaction((tx) =>
+          requestEvidenceRun(tx, {
+            rc,
+            actor: auth.user,
+            workspaceId: auth.workspaceId,
+            clientResult: body.clientResult,
+          }),
+        );
+        if (out.created) ctx.jobs.enqueue(out.run.id);
+        return { run: yieldRunView(ctx.db, out.run), reused: !out.created };
+      }
       try {
         parseYieldStudy({
           design: stackOf(rc.revision),
@@ -119,6 +144,8 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
             errorModel,
             clientResult: body.clientResult ?? null,
             engineVersion: ENGINE_VERSION,
+            kind: "what_if",
+            programVersion: rc.program.version,
             createdAt: new Date(),
           })
           .run();
@@ -128,12 +155,73 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
           action: "yield_run.started",
           subjectType: "yield_run",
           subjectId: id,
-          summary: `${auth.user.name} started a ${trials}-trial yield run on ${rc.design.name} rev ${rc.revision.number}${body.clientResult ? " (verifying a browser result)" : ""}`,
+          summary: `${auth.user.name} started a ${trials}-trial what-if yield run on ${rc.design.name} rev ${rc.revision.number}${body.clientResult ? " (verifying a browser result)" : ""}`,
         });
       });
       ctx.jobs.enqueue(id);
       const run = ctx.db.select().from(yieldRuns).where(eq(yieldRuns.id, id)).get() as YieldRunRow;
-      return { run: yieldRunView(ctx.db, run) };
+      return { run: yieldRunView(ctx.db, run), reused: false };
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "get",
+      path: "/revisions/:id/evidence",
+      summary:
+        "The evidence run's server-assigned parameters (seed, trials, error model) under the current program version, the run and its figures",
+      tag: TAG,
+      access: "member",
+      params: IdParams,
+      response: z.object({
+        plan: EvidencePlanSchema,
+        run: YieldRunSchema.nullable(),
+        figures: EvidenceFiguresSchema.nullable(),
+      }),
+      errors: { 404: "No such revision" },
+    },
+    ({ req, params }) => {
+      const auth = getAuth(req);
+      const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
+      const run = findEvidenceRun(ctx.db, rc);
+      const result = run?.status === "done" ? (run.result as YieldResult | null) : null;
+      return {
+        plan: evidencePlan(rc),
+        run: run ? yieldRunView(ctx.db, run) : null,
+        figures: result ? evidenceFigures(result, rc.program) : null,
+      };
+    },
+  );
+
+  route(
+    router,
+    {
+      method: "post",
+      path: "/revisions/:id/evidence-run",
+      summary:
+        "Start the revision's evidence run (server-assigned seed and trials), or return the one that exists; with clientResult the browser's result is compared",
+      tag: TAG,
+      access: ["designer", "reviewer", "approver"],
+      params: IdParams,
+      body: z.object({ clientResult: ClientResultSchema.optional() }),
+      status: 202,
+      response: z.object({ run: YieldRunSchema, reused: z.boolean() }),
+      errors: { 404: "No such revision" },
+    },
+    ({ req, params, body }) => {
+      const auth = getAuth(req);
+      const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
+      const out = ctx.db.transaction((tx) =>
+        requestEvidenceRun(tx, {
+          rc,
+          actor: auth.user,
+          workspaceId: auth.workspaceId,
+          clientResult: body.clientResult,
+        }),
+      );
+      if (out.created) ctx.jobs.enqueue(out.run.id);
+      return { run: yieldRunView(ctx.db, out.run), reused: !out.created };
     },
   );
 

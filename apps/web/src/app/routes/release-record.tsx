@@ -2,7 +2,12 @@ import { Link, useParams, type LoaderFunctionArgs } from "react-router";
 import { Brand } from "../../components/layout/brand.tsx";
 import { Button, ErrorState, PageSpinner } from "../../components/ui/index.ts";
 import { ReleaseDocument } from "../../features/releases/components/release-document.tsx";
-import { releasePrintUrl, releaseQueryOptions, useRelease } from "../../features/releases/api/get-release.ts";
+import {
+  releasePdfUrl,
+  releasePrintUrl,
+  releaseQueryOptions,
+  useRelease,
+} from "../../features/releases/api/get-release.ts";
 import { paths } from "../../config/paths.ts";
 import { queryClient } from "../../lib/query-client.ts";
 import { requireSession } from "../../lib/session.ts";
@@ -45,6 +50,14 @@ export function Component() {
               rel="noreferrer"
             >
               Server print version
+            </a>
+            <a
+              href={releasePdfUrl(releaseId)}
+              download
+              className="inline-flex h-8 items-center rounded-md px-3 text-sm text-ink-100 underline-offset-2 hover:bg-ink-800 hover:underline"
+              data-testid="release-pdf"
+            >
+              Download PDF
             </a>
             <Button size="sm" variant="secondary" onClick={() => window.print()} disabled={!release.data}>
               Print

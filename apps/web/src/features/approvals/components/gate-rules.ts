@@ -47,7 +47,7 @@ export const actionSpecs: ActionSpec[] = [
     from: ["in_review"],
     variant: "primary",
     confirm:
-      "Your sign-off is recorded with the revision's hash and the verified yield run. It cannot be edited later.",
+      "Your sign-off is recorded with the revision's hash, the evidence run and the program version. It cannot be edited later.",
     noteLabel: "Decision note (optional)",
   },
   {

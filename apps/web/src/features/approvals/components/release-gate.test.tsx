@@ -9,6 +9,22 @@ import type { Role } from "../../../lib/session.ts";
 import type { Gate, ReleaseSummary, RevisionStatus } from "@stackproof/contracts";
 import { stubApi, type StubAnswer } from "../../../../test/stub-api.ts";
 
+// The evidence and deviation parts of a gate answer (no evidence run yet, the program's own mask).
+const evidenceNone: Pick<Gate, "evidence" | "deviation"> = {
+  evidence: {
+    programVersion: 1,
+    targetYield: 0.95,
+    confidence: 0.95,
+    minTrials: 2000,
+    seed: "ev-0123456789abcdef-m01234567",
+    seedRule: "server-assigned",
+    errorModelVersion: "01234567",
+    run: null,
+    figures: null,
+  },
+  deviation: { required: false, accepted: false, bands: [], current: null },
+};
+
 const blockedGate: Gate = {
   checks: [
     { id: "verified_yield", ok: false, message: "Verified yield 91.2 % is below the target 95 %." },
@@ -19,6 +35,7 @@ const blockedGate: Gate = {
   canApprove: false,
   canRelease: false,
   yieldRunId: null,
+  ...evidenceNone,
 };
 
 const clearGate: Gate = {
@@ -26,6 +43,7 @@ const clearGate: Gate = {
   canApprove: true,
   canRelease: false,
   yieldRunId: "run1",
+  ...evidenceNone,
 };
 
 function setup(
@@ -62,7 +80,7 @@ describe("ReleaseGate", () => {
     const list = await screen.findByRole("list", { name: "Sign-off conditions" });
     expect(within(list).getAllByRole("listitem")).toHaveLength(4);
     const yieldCheck = list.querySelector('[data-check="verified_yield"]');
-    expect(yieldCheck).toHaveTextContent("Verified yield meets the target: not met");
+    expect(yieldCheck).toHaveTextContent("Evidence run: lower yield bound meets the target: not met");
     expect(within(list).getByText("Verified yield 91.2 % is below the target 95 %.")).toBeInTheDocument();
   });
 
@@ -159,6 +177,7 @@ describe("ReleaseGate", () => {
       canApprove: false,
       canRelease: false,
       yieldRunId: "run1",
+      ...evidenceNone,
     };
     const row: ReleaseSummary = {
       id: "rel9",
@@ -168,7 +187,7 @@ describe("ReleaseGate", () => {
       program: { id: "p1", name: "Fjord lidar window", protective: false },
       design: { id: "d1", name: "Bandpass 905" },
       revision: { id: "rev1", number: 2, hash: "abc" },
-      yield: { yield: 0.97, low: 0.95, high: 0.98, trials: 2000 },
+      yield: { yield: 0.97, low: 0.95, high: 0.98, trials: 2000, lowerBound: 0.962, confidence: 0.95 },
     };
     setup(["approver"], "released", released, {
       "GET /api/v1/releases": { items: [row], nextCursor: null },

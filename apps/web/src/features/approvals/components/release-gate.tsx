@@ -19,6 +19,7 @@ import { availableActions, type ActionSpec } from "./gate-rules.ts";
 import { Link } from "react-router";
 import { paths } from "../../../config/paths.ts";
 import { useRevisionRelease } from "../api/get-revision-release.ts";
+import { DeviationPanel, EvidencePanel } from "./evidence-panel.tsx";
 
 export interface ReleaseGateProps {
   /** The revision the gate is for (GET /revisions/:id/gate, POST /revisions/:id/transitions). */
@@ -35,9 +36,10 @@ export interface ReleaseGateProps {
 }
 
 const checkTitle: Record<string, string> = {
-  verified_yield: "Verified yield meets the target",
+  verified_yield: "Evidence run: lower yield bound meets the target",
+  spec_deviation: "Judged against the program's mask (or an accepted deviation)",
   blocking_threads: "No blocking thread is open",
-  independent_approver: "Signed off by someone other than the author",
+  independent_approver: "Signed off by someone other than the author and the rules' setter",
   state: "The revision is in a state that allows it",
 };
 
@@ -163,6 +165,10 @@ export function ReleaseGate({
                 release record keeps those at the time of release.
               </p>
             )}
+            <div className="flex flex-col gap-2 pt-2">
+              <EvidencePanel revisionId={revisionId} gate={gate.data} />
+              <DeviationPanel revisionId={revisionId} authorId={authorId} gate={gate.data} />
+            </div>
             <ul aria-label="Sign-off conditions" className="divide-y divide-ink-100">
               {gate.data.checks
                 .filter((c) => !(pastSignOff && c.id === "state"))

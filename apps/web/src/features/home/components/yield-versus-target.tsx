@@ -8,20 +8,27 @@ export interface YieldVersusTargetProps {
   className?: string;
 }
 
-/** "96.4 % (94.1–97.9) / target 95 %", green at or above the target, red below (the approval rule). */
+/**
+ * "96.4 % (94.1–97.9) / target 95 %" and, for an evidence run, "bound 95.2 % (95 %) · 2,000 trials": green when the
+ * lower bound meets the target (the sign-off rule), red otherwise.
+ */
 export function YieldVersusTarget({ estimate, target, className }: YieldVersusTargetProps) {
   if (!estimate) {
     return (
       <span className={cx("text-sm text-ink-500", className)}>
         No verified run <span className="font-mono text-xs">/ target {formatTarget(target)}</span>
+        <span className="block text-xs">no evidence run yet</span>
       </span>
     );
   }
-  const pass = estimate.yield >= target;
-  const straddles = pass && estimate.low < target;
+  const pass = estimate.pass ?? estimate.yield >= target;
+  const straddles = pass && estimate.lowerBound === undefined && estimate.low < target;
   return (
     <span
-      className={cx("inline-flex flex-wrap items-baseline gap-x-1.5 font-mono text-sm tabular xl:flex-nowrap xl:whitespace-nowrap", className)}
+      className={cx(
+        "inline-flex flex-wrap items-baseline gap-x-1.5 font-mono text-sm tabular xl:flex-nowrap xl:whitespace-nowrap",
+        className,
+      )}
       title={straddles ? "At the target, but the lower end of the interval is below it." : undefined}
     >
       <span className={cx("font-semibold", pass ? "text-verdict-pass" : "text-verdict-fail")}>
@@ -40,6 +47,13 @@ export function YieldVersusTarget({ estimate, target, className }: YieldVersusTa
         </span>
       </span>
       <span className="text-xs whitespace-nowrap text-ink-500">/ target {formatTarget(target)}</span>
+      {estimate.lowerBound !== undefined ? (
+        <span className="w-full text-xs whitespace-nowrap text-ink-700" data-testid="overview-bound">
+          bound {(estimate.lowerBound * 100).toFixed(1)} %
+          {estimate.confidence !== undefined ? ` (${(estimate.confidence * 100).toFixed(0)} %)` : ""}
+          {estimate.trials !== undefined ? ` · ${estimate.trials.toLocaleString("en")} trials` : ""}
+        </span>
+      ) : null}
       <span className="sr-only">{pass ? "meets the target" : "below the target"}</span>
     </span>
   );

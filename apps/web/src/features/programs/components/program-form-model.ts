@@ -5,6 +5,9 @@ import type { ErrorModel, SpecBand } from "@stackproof/optics";
 import type { Program } from "../api/get-program.ts";
 import type { ProgramBody } from "../api/save-program.ts";
 
+/** The smallest minimum of evidence trials the API accepts. */
+export const MIN_EVIDENCE_TRIALS = 100;
+
 const quantities = ["R", "T", "A", "OD"] as const;
 const polarizations = ["s", "p", "u", "sp"] as const;
 const requirements = ["min", "max", "avgMin", "avgMax"] as const;
@@ -34,6 +37,8 @@ const baseValues = z.object({
   application: z.string(),
   protective: z.boolean(),
   targetYieldPct: z.string(),
+  minEvidenceTrials: z.string(),
+  confidencePct: z.string(),
   trials: z.string(),
   seed: z.string(),
   relativePct: z.string(),
@@ -109,6 +114,8 @@ export function defaultFormValues(): ProgramFormValues {
     application: "",
     protective: false,
     targetYieldPct: "90",
+    minEvidenceTrials: "2000",
+    confidencePct: "95",
     trials: "2000",
     seed: "stackproof",
     relativePct: "1",
@@ -131,6 +138,8 @@ export function formValuesFromProgram(p: Program): ProgramFormValues {
     application: p.application,
     protective: p.protective,
     targetYieldPct: fractionToPercentText(p.targetYield),
+    minEvidenceTrials: String(p.minEvidenceTrials ?? 2000),
+    confidencePct: fractionToPercentText(p.confidence ?? 0.95),
     trials: String(p.studyDefaults.trials),
     seed: p.studyDefaults.seed,
     relativePct: str(t.relativePct ?? 0),
@@ -175,6 +184,8 @@ export function fieldForPath(path: string): string | null {
   const direct = ["name", "customer", "description", "application", "protective"];
   if (direct.includes(path)) return path;
   if (path === "targetYield") return "targetYieldPct";
+  if (path === "minEvidenceTrials") return "minEvidenceTrials";
+  if (path === "confidence") return "confidencePct";
   if (path === "studyDefaults.trials") return "trials";
   if (path === "studyDefaults.seed") return "seed";
   const band = /^specMask\.bands\.(\d+)\.(\w+)/.exec(path);
@@ -241,6 +252,8 @@ export function toProgramBody(v: ProgramFormValues): ProgramBody {
     application: v.application.trim(),
     protective: v.protective,
     targetYield: Number((pct / 100).toPrecision(12)),
+    minEvidenceTrials: parseNumber(v.minEvidenceTrials) ?? Number.NaN,
+    confidence: Number(((parseNumber(v.confidencePct) ?? Number.NaN) / 100).toPrecision(12)),
     specMask: {
       bands: v.bands.map((b) => compact(toBand(b)) as unknown as SpecBand),
       protective: v.protective,
@@ -281,6 +294,22 @@ export const programFormSchema = baseValues.superRefine((v, ctx) => {
   const pct = parseNumber(v.targetYieldPct);
   if (pct === undefined || Number.isNaN(pct) || pct < 0 || pct > 100)
     ctx.addIssue({ code: "custom", path: ["targetYieldPct"], message: "Enter a percentage from 0 to 100." });
+
+  const minTrials = parseNumber(v.minEvidenceTrials);
+  if (
+    minTrials === undefined ||
+    !Number.isInteger(minTrials) ||
+    minTrials < MIN_EVIDENCE_TRIALS ||
+    minTrials > MAX_TRIALS
+  )
+    ctx.addIssue({
+      code: "custom",
+      path: ["minEvidenceTrials"],
+      message: `Enter a whole number from ${MIN_EVIDENCE_TRIALS} to ${MAX_TRIALS.toLocaleString("en-GB")}.`,
+    });
+  const conf = parseNumber(v.confidencePct);
+  if (conf === undefined || Number.isNaN(conf) || conf < 50 || conf > 99.9)
+    ctx.addIssue({ code: "custom", path: ["confidencePct"], message: "Enter a percentage from 50 to 99.9." });
 
   const trials = parseNumber(v.trials);
   if (trials === undefined || !Number.isInteger(trials) || trials < 1 || trials > MAX_TRIALS)

@@ -17,6 +17,9 @@ const program: Program = {
   application: "lidar sensor window",
   protective: false,
   targetYield: 0.95,
+  minEvidenceTrials: 2000,
+  confidence: 0.95,
+  version: 1,
   specMask: {
     bands: [
       {

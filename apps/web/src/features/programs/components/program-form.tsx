@@ -124,8 +124,8 @@ export function ProgramForm({ program, onSaved, onCancel }: ProgramFormProps) {
       </Card>
 
       <Card
-        title="Target and studies"
-        description="A revision can be signed off when its verified yield reaches the target."
+        title="Evidence rules and studies"
+        description="A revision can be signed off when the lower Wilson bound of its evidence run, at the confidence below, reaches the target. The server assigns the evidence run's seed; its trials are the minimum below. Changing these rules, the mask or the error model makes a new program version and sends approved revisions back to review."
       >
         <div className="grid gap-4 sm:grid-cols-3">
           <TextField
@@ -135,6 +135,22 @@ export function ProgramForm({ program, onSaved, onCancel }: ProgramFormProps) {
             hint="Share of simulated runs that must pass every band."
             error={errors.targetYieldPct?.message}
             {...register("targetYieldPct")}
+          />
+          <TextField
+            label="Minimum evidence trials"
+            required
+            inputMode="numeric"
+            hint="At least 100; 2,000 lets a 95 % design show a bound near 94 %."
+            error={errors.minEvidenceTrials?.message}
+            {...register("minEvidenceTrials")}
+          />
+          <TextField
+            label="Confidence (%)"
+            required
+            inputMode="decimal"
+            hint="Two-sided Wilson interval; its lower end is compared with the target."
+            error={errors.confidencePct?.message}
+            {...register("confidencePct")}
           />
           <TextField
             label="Default trials"

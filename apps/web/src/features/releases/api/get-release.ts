@@ -1,9 +1,9 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import { ReleaseRecordSchema, type Decision, type ReleaseRecord } from "@stackproof/contracts";
+import { ReleaseRecordSchema, type Decision, type PlotSeries, type ReleaseRecord } from "@stackproof/contracts";
 import type { BandOutcome, Design } from "@stackproof/optics";
 
-export type { Decision, ReleaseRecord };
+export type { Decision, PlotSeries, ReleaseRecord };
 export type StackDesign = Design;
 export type StackLayer = Design["layers"][number];
 export type { BandOutcome };
@@ -17,3 +17,6 @@ export const useRelease = (id: string) => useQuery(releaseQueryOptions(id));
 
 /** The server's printable HTML of the same record. */
 export const releasePrintUrl = (id: string) => `/api/v1/releases/${encodeURIComponent(id)}/print`;
+
+/** The same record as a PDF download. */
+export const releasePdfUrl = (id: string) => `/api/v1/releases/${encodeURIComponent(id)}/pdf`;

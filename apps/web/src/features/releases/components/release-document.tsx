@@ -6,7 +6,7 @@ import { ErrorModelSummary } from "../../../components/error-model-summary.tsx";
 import { StatusPill, revisionStatuses, type RevisionStatus } from "../../../components/ui/index.ts";
 import { formatDateTime, formatPercent, formatTarget } from "../../../lib/format.ts";
 import { cx } from "../../../components/ui/cx.ts";
-import type { ReleaseRecord } from "../api/get-release.ts";
+import type { PlotSeries, ReleaseRecord } from "../api/get-release.ts";
 
 const actionText: Record<string, string> = {
   submit: "Submitted for review",
@@ -14,6 +14,7 @@ const actionText: Record<string, string> = {
   approve: "Signed off",
   release: "Released",
   withdraw: "Withdrawn",
+  return_to_review: "Returned to review (program changed)",
 };
 
 function anchorText(
@@ -39,13 +40,111 @@ const th =
   "border-b border-ink-300 py-1.5 pr-3 text-left text-xs font-semibold tracking-wide text-ink-500 uppercase";
 const td = "border-b border-ink-100 py-1.5 pr-3 align-top";
 
+/** Nominal (line), 5–95 % envelope (shaded) and band limits (red), drawn from the stored numbers as SVG. */
+function EnvelopePlot({
+  series: p,
+  bands,
+}: {
+  series: PlotSeries;
+  bands: ReleaseRecord["revision"]["specMask"]["bands"];
+}) {
+  const W = 640;
+  const H = 220;
+  const m = { l: 44, r: 8, t: 8, b: 30 };
+  const mine = bands.filter(
+    (b) => b.quantity === p.quantity && b.polarization === p.polarization && b.angleDeg === p.angleDeg,
+  );
+  const xs = p.wavelengths.filter(Number.isFinite);
+  const ys = [...p.nominal, ...(p.low ?? []), ...(p.high ?? []), ...mine.map((b) => b.value)].filter(
+    (v): v is number => typeof v === "number" && Number.isFinite(v),
+  );
+  const x0 = xs.length ? Math.min(...xs) : 0;
+  const x1 = xs.length && Math.max(...xs) > x0 ? Math.max(...xs) : x0 + 1;
+  const od = p.quantity === "OD";
+  const y0 = od ? (ys.length ? Math.min(...ys) : 0) : 0;
+  const y1raw = ys.length ? Math.max(...ys) : 1;
+  const y1 = od ? (y1raw > y0 ? y1raw : y0 + 1) : Math.min(100, Math.max(y1raw * 1.05, 1));
+  const X = (x: number) => m.l + ((x - x0) / (x1 - x0)) * (W - m.l - m.r);
+  const Y = (y: number) => H - m.b - ((y - y0) / (y1 - y0)) * (H - m.t - m.b);
+  const line = (vals: (number | null)[]) =>
+    p.wavelengths
+      .map((x, i) => {
+        const v = vals[i];
+        return v === null || v === undefined ? null : `${X(x).toFixed(1)},${Y(v).toFixed(1)}`;
+      })
+      .reduce<string>(
+        (d, pt, i, all) => (pt === null ? d : `${d}${i > 0 && all[i - 1] !== null ? "L" : "M"}${pt}`),
+        "",
+      );
+  const lo = p.low;
+  const hi = p.high;
+  const idx = lo && hi ? p.wavelengths.map((_, i) => i).filter((i) => lo[i] != null && hi[i] != null) : [];
+  const poly =
+    lo && hi && idx.length > 1
+      ? [
+          ...idx.map((i) => `${X(p.wavelengths[i] as number).toFixed(1)},${Y(hi[i] as number).toFixed(1)}`),
+          ...idx
+            .slice()
+            .reverse()
+            .map((i) => `${X(p.wavelengths[i] as number).toFixed(1)},${Y(lo[i] as number).toFixed(1)}`),
+        ].join(" ")
+      : null;
+  const ticks = (a: number, b: number) => [0, 1, 2, 3, 4].map((k) => a + ((b - a) * k) / 4);
+  return (
+    <figure className="mb-4" data-testid="release-plot">
+      <svg
+        viewBox={`0 0 ${W} ${H}`}
+        className="w-full"
+        role="img"
+        aria-label={`${p.quantity} at ${p.angleDeg}°, ${p.polarization}: nominal and 5–95 % envelope against the mask`}
+      >
+        {poly && <polygon points={poly} fill="#9fb7c9" fillOpacity={0.55} />}
+        {mine.map((b) => (
+          <line
+            key={b.id}
+            x1={X(b.start)}
+            x2={X(b.stop)}
+            y1={Y(b.value)}
+            y2={Y(b.value)}
+            stroke="#b3261e"
+            strokeWidth={2.5}
+          />
+        ))}
+        <path d={line(p.nominal)} fill="none" stroke="#1b1f1d" strokeWidth={1.4} />
+        <line x1={m.l} x2={W - m.r} y1={H - m.b} y2={H - m.b} stroke="#1b1f1d" />
+        <line x1={m.l} x2={m.l} y1={m.t} y2={H - m.b} stroke="#1b1f1d" />
+        {ticks(x0, x1).map((x) => (
+          <text key={`x${x}`} x={X(x)} y={H - m.b + 12} fontSize={9} textAnchor="middle">
+            {x.toFixed(0)}
+          </text>
+        ))}
+        {ticks(y0, y1).map((y) => (
+          <text key={`y${y}`} x={m.l - 4} y={Y(y) + 3} fontSize={9} textAnchor="end">
+            {y.toFixed(od || y1 - y0 < 5 ? 1 : 0)}
+          </text>
+        ))}
+        <text x={(m.l + W - m.r) / 2} y={H - 4} fontSize={10} textAnchor="middle">
+          Wavelength (nm)
+        </text>
+      </svg>
+      <figcaption className="text-xs text-ink-500">
+        {p.quantity}
+        {od ? "" : " (%)"} at {p.angleDeg}°, polarization {p.polarization}: nominal (black), {p.lowP ?? 5}–
+        {p.highP ?? 95} % envelope of the evidence run (shaded), band limits (red).
+      </figcaption>
+    </figure>
+  );
+}
+
 /** A release record laid out as a document to file: identity, result, specification, stack, decisions. */
 export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
   const status = (revisionStatuses as readonly string[]).includes(r.status)
     ? (r.status as RevisionStatus)
     : null;
   const y = r.yieldRun;
-  const meets = y ? y.yield >= r.program.targetYield : false;
+  const ev = r.evidence ?? null;
+  // Releases filed before evidence rules compared the point yield; later ones the lower bound.
+  const meets = ev ? ev.figures.pass : y ? y.yield >= r.program.targetYield : false;
   const outcomes = new Map(r.nominal.bands.map((b) => [b.id, b]));
   const failures = new Map((y?.bandFailures ?? []).map((b) => [b.id, b.count]));
   const stack = r.revision.stack;
@@ -109,7 +208,31 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
         </dl>
       </Section>
 
-      <Section title="Verified yield">
+      <Section title="Evidence">
+        {ev ? (
+          <dl
+            className="mb-4 grid grid-cols-[12rem_1fr] gap-x-4 gap-y-1.5 text-sm max-sm:grid-cols-1"
+            data-testid="release-evidence"
+          >
+            <dt className="text-ink-500">Lower bound</dt>
+            <dd>
+              <strong className="font-mono tabular">{formatPercent(ev.figures.lowerBound)}</strong> (two-sided
+              Wilson interval at {Math.round(ev.figures.confidence * 100)} % confidence) against the target{" "}
+              {formatTarget(ev.figures.targetYield)}: <strong>{ev.figures.pass ? "met" : "not met"}</strong>
+            </dd>
+            <dt className="text-ink-500">Evidence rules</dt>
+            <dd>
+              at least {ev.figures.minTrials.toLocaleString("en-GB")} trials; program version{" "}
+              {ev.programVersion}
+            </dd>
+            <dt className="text-ink-500">Seed rule</dt>
+            <dd className="text-xs">{ev.seedRule}</dd>
+          </dl>
+        ) : (
+          <p className="mb-4 text-sm text-ink-700">
+            Filed before evidence rules were recorded: no lower bound is stored with this release.
+          </p>
+        )}
         {y ? (
           <div className="flex flex-wrap items-start gap-6">
             <div>
@@ -154,6 +277,45 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
           </div>
         ) : (
           <p className="text-sm text-verdict-fail">No verified yield run is attached to this release.</p>
+        )}
+      </Section>
+
+      {r.plot && r.plot.length > 0 && (
+        <Section title="Spectrum against the mask">
+          {r.plot.map((p) => (
+            <EnvelopePlot
+              key={`${p.quantity}-${p.polarization}-${p.angleDeg}`}
+              series={p}
+              bands={r.revision.specMask.bands}
+            />
+          ))}
+        </Section>
+      )}
+
+      <Section title="Spec deviations">
+        {!r.deviation ? (
+          <p className="text-sm text-ink-500">
+            Not recorded for releases filed before spec deviations existed.
+          </p>
+        ) : !r.deviation.required ? (
+          <p className="text-sm">None: the revision carries the program's mask.</p>
+        ) : (
+          <div className="text-sm" data-testid="release-deviation">
+            <p>
+              The revision's mask differs from the program's:{" "}
+              {r.deviation.bands.map((b) => `${b.id} ${b.change}`).join(", ")}.
+            </p>
+            {r.deviation.current ? (
+              <p className="mt-1">
+                Deviation <strong>{r.deviation.current.status}</strong>: “{r.deviation.current.reason}” —
+                asked for by {r.deviation.current.requestedBy?.name ?? "—"}
+                {r.deviation.current.decidedBy
+                  ? `, decided by ${r.deviation.current.decidedBy.name}${r.deviation.current.decidedAt ? ` on ${formatDateTime(r.deviation.current.decidedAt)}` : ""}`
+                  : ""}
+                .
+              </p>
+            ) : null}
+          </div>
         )}
       </Section>
 
@@ -262,6 +424,7 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
                   {d.note ? <span className="block text-ink-700">“{d.note}”</span> : null}
                   <span className="block font-mono text-[11px] text-ink-500">
                     hash {d.revisionHash.slice(0, 16)}…
+                    {d.programVersion != null ? ` · program version ${d.programVersion}` : ""}
                   </span>
                 </span>
               </li>
