@@ -8,6 +8,8 @@ import Database from "better-sqlite3";
  * inside one read transaction, so the copy is one consistent state of the database (every transaction committed
  * before that point, none half-applied). Resolves to the pages copied.
  */
+const ALL_PAGES = 2 ** 30;
+
 export async function backupDatabase(source: string, destination: string): Promise<number> {
   if (!fs.existsSync(source)) throw new RangeError(`no database at ${source}`);
   if (fs.existsSync(destination))
@@ -18,9 +20,9 @@ export async function backupDatabase(source: string, destination: string): Promi
     db.pragma("busy_timeout = 5000");
     // Whole remaining file per step: a step is one read transaction (WAL lets writers go on meanwhile), whereas small
     // steps restart whenever another connection writes between them and never finish under steady writes.
-    const { totalPages } = await db.backup(destination, {
-      progress: ({ totalPages: t }) => Math.max(100, t),
-    });
+    // (The file grows while it is copied, so a step sized to the current page count can fall short and restart
+    // for ever: ask for more pages than any database here has, which SQLite reads as "all of them".)
+    const { totalPages } = await db.backup(destination, { progress: () => ALL_PAGES });
     return totalPages;
   } finally {
     db.close();
