@@ -66,7 +66,9 @@ describe("frame: pages", () => {
     await page.getByRole("heading", { level: 1, name: /Wren window AR/ }).waitFor();
     for (const section of [
       "Identity",
-      "Verified yield",
+      "Evidence",
+      "Spectrum against the mask",
+      "Spec deviations",
       "Spec mask and nominal result",
       "Layer stack",
       "Decisions",

@@ -48,10 +48,17 @@ export function YieldVersusTarget({ estimate, target, className }: YieldVersusTa
       </span>
       <span className="text-xs whitespace-nowrap text-ink-500">/ target {formatTarget(target)}</span>
       {estimate.lowerBound !== undefined ? (
-        <span className="w-full text-xs whitespace-nowrap text-ink-700" data-testid="overview-bound">
-          bound {(estimate.lowerBound * 100).toFixed(1)} %
-          {estimate.confidence !== undefined ? ` (${(estimate.confidence * 100).toFixed(0)} %)` : ""}
-          {estimate.trials !== undefined ? ` · ${estimate.trials.toLocaleString("en")} trials` : ""}
+        <span className="w-full text-xs text-ink-700" data-testid="overview-bound">
+          <span className="whitespace-nowrap">
+            bound {(estimate.lowerBound * 100).toFixed(1)} %
+            {estimate.confidence !== undefined ? ` (${(estimate.confidence * 100).toFixed(0)} %)` : ""}
+          </span>
+          {estimate.trials !== undefined ? (
+            <>
+              {" "}
+              <span className="whitespace-nowrap">· {estimate.trials.toLocaleString("en")} trials</span>
+            </>
+          ) : null}
         </span>
       ) : null}
       <span className="sr-only">{pass ? "meets the target" : "below the target"}</span>
