@@ -1,3 +1,4 @@
+import { createStackEvaluator, type Design } from "../../core/index.ts";
 import type { Polarization } from "../spec.ts";
 
 /**
@@ -33,7 +34,8 @@ export function validateMeasured(m: MeasuredSpectrum, where: string): void {
     if (i > 0 && !(w > (m.wavelengths[i - 1] as number)))
       throw new RangeError(`${where}.wavelengths[${i}]: expected strictly increasing wavelengths, got ${w}`);
     const v = m.values[i] as number;
-    if (!Number.isFinite(v)) throw new RangeError(`${where}.values[${i}]: expected a finite percentage, got ${v}`);
+    if (!Number.isFinite(v))
+      throw new RangeError(`${where}.values[${i}]: expected a finite percentage, got ${v}`);
   }
   if (m.quantity !== "R" && m.quantity !== "T")
     throw new RangeError(`${where}.quantity: expected "R" or "T", got ${String(m.quantity)}`);
@@ -43,5 +45,27 @@ export function validateMeasured(m: MeasuredSpectrum, where: string): void {
     throw new RangeError(`${where}.polarization: expected "s", "p" or "u", got ${String(m.polarization)}`);
   const u = m.uncertaintyPct;
   if (u !== undefined && (!(u > 0) || !Number.isFinite(u)))
-    throw new RangeError(`${where}.uncertaintyPct: expected a positive number of percentage points, got ${u}`);
+    throw new RangeError(
+      `${where}.uncertaintyPct: expected a positive number of percentage points, got ${u}`,
+    );
+}
+
+/**
+ * The design's model values (percent) at a measurement's wavelengths, angle (degrees), polarization and quantity
+ * (R or T): what a chart draws beside the measured curve. Throws the engine's RangeError when the design cannot be
+ * evaluated there (e.g. a table that does not cover the wavelengths).
+ */
+export function modelAtMeasurement(
+  design: Design,
+  m: Pick<MeasuredSpectrum, "wavelengths" | "quantity" | "angleDeg" | "polarization">,
+): number[] {
+  const ev = createStackEvaluator(design, {
+    wavelengths: m.wavelengths,
+    angleDeg: m.angleDeg,
+    polarization: m.polarization,
+  });
+  const n = m.wavelengths.length;
+  const out = { R: new Float64Array(n), T: new Float64Array(n), A: new Float64Array(n) };
+  ev.evaluate(ev.nominalThicknesses, out);
+  return Array.from(m.quantity === "R" ? out.R : out.T, (v) => v * 100);
 }

@@ -2,7 +2,7 @@
 // worker, with progress and cancel) that reports what the measurement can tell, and the lots of measured parts.
 import { useMemo, useState, memo } from "react";
 import type { FormEvent } from "react";
-import { createStackEvaluator } from "@stackproof/optics";
+import { modelAtMeasurement } from "@stackproof/optics";
 import type { BuiltFitResult, Design, ErrorModel, SpecMask } from "@stackproof/optics";
 import { scaleLinear } from "@visx/scale";
 import { LinePath, Line } from "@visx/shape";
@@ -41,11 +41,7 @@ const field = "mt-0.5 w-full rounded border border-ink-300 bg-white px-2 py-1 te
 
 function modelValues(design: Design, m: MeasuredSpectrum): number[] | string {
   try {
-    const ev = createStackEvaluator(design, { wavelengths: m.wavelengths, angleDeg: m.angleDeg, polarization: m.polarization });
-    const n = m.wavelengths.length;
-    const out = { R: new Float64Array(n), T: new Float64Array(n), A: new Float64Array(n) };
-    ev.evaluate(ev.nominalThicknesses, out);
-    return Array.from(m.quantity === "R" ? out.R : out.T, (v) => v * 100);
+    return modelAtMeasurement(design, m);
   } catch (e) {
     return e instanceof Error ? e.message : String(e);
   }
