@@ -35,11 +35,16 @@ interface Table {
   rows: Row[];
 }
 
-function readTable(text: string, what: string): Table {
-  let records: { info: { lines: number }; record: string[] }[];
+/** csv-parse's records with their line numbers; a syntax error becomes a 422 naming its line. */
+function parseRecords(
+  text: string,
+  what: string,
+  delimiter?: string,
+): { info: { lines: number }; record: string[] }[] {
   try {
-    records = parse(text, {
+    return parse(text, {
       info: true,
+      ...(delimiter ? { delimiter } : {}),
       skip_empty_lines: true,
       relax_column_count: true,
       trim: true,
@@ -53,6 +58,10 @@ function readTable(text: string, what: string): Table {
     }
     throw err;
   }
+}
+
+function readTable(text: string, what: string): Table {
+  const records = parseRecords(text, what);
   const [head, ...rest] = records;
   if (!head) throw new CsvProblems(what, [{ row: 1, column: "-", message: "the file has no header row" }]);
   if (rest.length > MAX_ROWS) {
@@ -360,28 +369,13 @@ export function parseSpectraTable(text: string, scale: ValueScale | "auto", what
   const lines = text.split(/\r\n|\n|\r/);
   const headerLine = lines.find((l) => l.trim() !== "" && !l.trimStart().startsWith("#")) ?? "";
   const delimiter = detectDelimiter(headerLine);
-  let records: { info: { lines: number }; record: string[] }[];
-  try {
-    records = parse(text, {
-      info: true,
-      delimiter,
-      skip_empty_lines: true,
-      relax_column_count: true,
-      trim: true,
-      comment: "#",
-      comment_no_infix: true,
-    }) as unknown as { info: { lines: number }; record: string[] }[];
-  } catch (err) {
-    if (err instanceof CsvError) {
-      const line = (err as CsvError & { lines?: number }).lines ?? 1;
-      throw new CsvProblems(what, [{ row: line, column: "-", message: err.message }]);
-    }
-    throw err;
-  }
+  const records = parseRecords(text, what, delimiter);
   const [head, ...rest] = records;
   if (!head) throw new CsvProblems(what, [{ row: 1, column: "-", message: "the file has no header row" }]);
   if (rest.length > MAX_ROWS)
-    throw new CsvProblems(what, [{ row: MAX_ROWS + 2, column: "-", message: `more than ${MAX_ROWS} data rows` }]);
+    throw new CsvProblems(what, [
+      { row: MAX_ROWS + 2, column: "-", message: `more than ${MAX_ROWS} data rows` },
+    ]);
   const header = head.record;
   const problems: CellProblem[] = [];
   let wlCol = header.findIndex((h) => WAVELENGTH_HEADER.test(h));
@@ -400,16 +394,30 @@ export function parseSpectraTable(text: string, scale: ValueScale | "auto", what
     ]);
   const specCols = header.map((h, i) => ({ h, i })).filter((c) => c.i !== wlCol);
   if (specCols.length === 0)
-    throw new CsvProblems(what, [{ row: head.info.lines, column: header[wlCol]!, message: "no spectrum column next to the wavelength column" }]);
+    throw new CsvProblems(what, [
+      {
+        row: head.info.lines,
+        column: header[wlCol]!,
+        message: "no spectrum column next to the wavelength column",
+      },
+    ]);
   const seen = new Set<string>();
   for (const c of specCols) {
-    if (c.h === "") problems.push({ row: head.info.lines, column: `#${c.i + 1}`, message: "a spectrum column has no name" });
-    else if (seen.has(c.h)) problems.push({ row: head.info.lines, column: c.h, message: `column "${c.h}" appears twice` });
+    if (c.h === "")
+      problems.push({
+        row: head.info.lines,
+        column: `#${c.i + 1}`,
+        message: "a spectrum column has no name",
+      });
+    else if (seen.has(c.h))
+      problems.push({ row: head.info.lines, column: c.h, message: `column "${c.h}" appears twice` });
     seen.add(c.h);
   }
-  if (rest.length < 2) problems.push({ row: head.info.lines + 1, column: "-", message: "expected at least 2 data rows" });
+  if (rest.length < 2)
+    problems.push({ row: head.info.lines + 1, column: "-", message: "expected at least 2 data rows" });
   if (problems.length > 0) throw new CsvProblems(what, problems);
-  const decimalComma = delimiter !== "," && rest.some((r) => r.record.some((c) => /^[-+]?\d+,\d*([eE][-+]?\d+)?$/.test(c)));
+  const decimalComma =
+    delimiter !== "," && rest.some((r) => r.record.some((c) => /^[-+]?\d+,\d*([eE][-+]?\d+)?$/.test(c)));
   const num = (raw: string): number => {
     const s = decimalComma ? raw.replace(",", ".") : raw;
     return /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(s) ? Number(s) : Number.NaN;
@@ -418,16 +426,29 @@ export function parseSpectraTable(text: string, scale: ValueScale | "auto", what
   const columns = specCols.map((c) => ({ name: c.h, values: [] as number[] }));
   for (const r of rest) {
     if (r.record.length !== header.length) {
-      problems.push({ row: r.info.lines, column: "-", message: `expected ${header.length} cells, got ${r.record.length}` });
+      problems.push({
+        row: r.info.lines,
+        column: "-",
+        message: `expected ${header.length} cells, got ${r.record.length}`,
+      });
       continue;
     }
     const w = num(r.record[wlCol]!);
-    if (!(w > 0)) problems.push({ row: r.info.lines, column: header[wlCol]!, message: `expected a positive wavelength, got "${r.record[wlCol]}"` });
+    if (!(w > 0))
+      problems.push({
+        row: r.info.lines,
+        column: header[wlCol]!,
+        message: `expected a positive wavelength, got "${r.record[wlCol]}"`,
+      });
     wavelengths.push(w * wlScale);
     specCols.forEach((c, k) => {
       const v = num(r.record[c.i]!);
       if (!Number.isFinite(v))
-        problems.push({ row: r.info.lines, column: c.h, message: `expected a number, got "${r.record[c.i]}"${delimiter === "," && /^\d+,\d+$/.test(r.record[c.i]!) ? " (a decimal comma needs ; or tab as separator)" : ""}` });
+        problems.push({
+          row: r.info.lines,
+          column: c.h,
+          message: `expected a number, got "${r.record[c.i]}"${delimiter === "," && /^\d+,\d+$/.test(r.record[c.i]!) ? " (a decimal comma needs ; or tab as separator)" : ""}`,
+        });
       columns[k]!.values.push(v);
     });
   }
@@ -436,9 +457,15 @@ export function parseSpectraTable(text: string, scale: ValueScale | "auto", what
   const asc = wavelengths.every((w, i) => i === 0 || w > wavelengths[i - 1]!);
   const desc = wavelengths.every((w, i) => i === 0 || w < wavelengths[i - 1]!);
   if (!asc && !desc) {
-    const i = wavelengths.findIndex((w, j) => j > 1 && (w - wavelengths[j - 1]!) * (wavelengths[1]! - wavelengths[0]!) <= 0);
+    const i = wavelengths.findIndex(
+      (w, j) => j > 1 && (w - wavelengths[j - 1]!) * (wavelengths[1]! - wavelengths[0]!) <= 0,
+    );
     throw new CsvProblems(what, [
-      { row: rest[Math.max(i, 1)]!.info.lines, column: header[wlCol]!, message: "wavelengths must be strictly ascending or strictly descending (no repeats)" },
+      {
+        row: rest[Math.max(i, 1)]!.info.lines,
+        column: header[wlCol]!,
+        message: "wavelengths must be strictly ascending or strictly descending (no repeats)",
+      },
     ]);
   }
   if (desc) {
