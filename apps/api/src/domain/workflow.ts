@@ -18,7 +18,7 @@ import {
   type YieldResult,
 } from "@stackproof/optics";
 import type { AuthContext } from "../auth/types.ts";
-import type { AppContext } from "../context.ts";
+import type { MailDeps } from "./deps.ts";
 import {
   decisions,
   releases,
@@ -373,14 +373,18 @@ export interface TransitionOutcome {
   releaseId: string | null;
 }
 
+/**
+ * Moves a revision through the workflow in one transaction (state check, decision, audit entry, release record),
+ * then mails the people the step concerns.
+ */
 export function applyTransition(
-  ctx: AppContext,
+  deps: MailDeps,
   auth: AuthContext,
   revisionId: string,
   input: TransitionInput,
 ): TransitionOutcome {
   const note = input.note?.trim() ?? "";
-  const outcome = ctx.db.transaction((tx) => {
+  const outcome = deps.db.transaction((tx) => {
     const rc = loadRevision(tx, auth.workspaceId, revisionId);
     checkRole(input.action, auth, rc);
     const from = rc.revision.status;
@@ -496,11 +500,11 @@ export function applyTransition(
 
   const actor = { id: auth.user.id, name: auth.user.name };
   const rc = outcome.rc;
-  if (input.action === "submit") mailReviewRequested(ctx, rc, actor, note);
-  if (input.action === "request_changes") mailChangesRequested(ctx, rc, actor, note);
-  if (input.action === "approve") mailApproved(ctx, rc, actor, note);
+  if (input.action === "submit") mailReviewRequested(deps, rc, actor, note);
+  if (input.action === "request_changes") mailChangesRequested(deps, rc, actor, note);
+  if (input.action === "approve") mailApproved(deps, rc, actor, note);
   if (input.action === "release" && outcome.releaseId) {
-    const run = ctx.db
+    const run = deps.db
       .select()
       .from(yieldRuns)
       .where(eq(yieldRuns.id, outcome.decision.yieldRunId ?? ""))
@@ -509,9 +513,9 @@ export function applyTransition(
     const yieldText = result
       ? `${pct(result.yield)} (95 % interval ${pct(result.interval.low)}–${pct(result.interval.high)}, ${result.trials} trials)`
       : "";
-    mailReleased(ctx, rc, actor, outcome.releaseId, yieldText);
+    mailReleased(deps, rc, actor, outcome.releaseId, yieldText);
   }
-  const revision = ctx.db.select().from(revisions).where(eq(revisions.id, revisionId)).get() ?? rc.revision;
+  const revision = deps.db.select().from(revisions).where(eq(revisions.id, revisionId)).get() ?? rc.revision;
   return { revision, decision: outcome.decision, releaseId: outcome.releaseId };
 }
 
