@@ -23,14 +23,11 @@ import { HttpError, conflict } from "../lib/errors.ts";
 import { newId } from "./canonical.ts";
 import { isBuiltIn } from "./materials.ts";
 import { maskOf, type RevisionContext } from "./load.ts";
+import type { Actor } from "./deps.ts";
 
 export type LotRow = typeof measuredLots.$inferSelect;
 export type PartRow = typeof measuredParts.$inferSelect;
 
-interface Actor {
-  id: string;
-  name: string;
-}
 
 /** Run a pure optics call; its RangeError becomes a 400 naming the value. */
 function physics<T>(fn: () => T): T {

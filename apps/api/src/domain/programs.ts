@@ -17,14 +17,12 @@ import type { ErrorModel, SpecMask } from "@stackproof/optics";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { conflict } from "../lib/errors.ts";
 import { canonicalJson, newId } from "./canonical.ts";
-import type { ProgramRow } from "./load.ts";
+import { loadProgram, type ProgramRow } from "./load.ts";
+import type { Actor } from "./deps.ts";
 
 export type ProgramVersionRow = typeof programVersions.$inferSelect;
 
-export interface Actor {
-  id: string;
-  name: string;
-}
+export type { Actor };
 
 export interface ProgramInput {
   name: string;
@@ -59,10 +57,15 @@ function describeChange(field: EvidenceRuleField, c: RuleChange): string {
     : `${RULE_LABEL[field]} ${fmt(c.before)} → ${fmt(c.after)}`;
 }
 
+/** Creates a program at version 1 (its first program_versions row) with the audit entry; returns its id. */
 export function createProgram(
   db: DbOrTx,
   input: { workspaceId: string; actor: Actor; program: ProgramInput },
-) {
+): string {
+  return db.transaction((tx) => createProgramIn(tx, input));
+}
+
+function createProgramIn(db: DbOrTx, input: { workspaceId: string; actor: Actor; program: ProgramInput }): string {
   const id = newId();
   const at = new Date();
   const p = input.program;
@@ -112,7 +115,8 @@ export function createProgram(
 export interface ProgramUpdate {
   workspaceId: string;
   actor: Actor;
-  before: ProgramRow;
+  /** The program to edit (404 when it is not in the workspace). */
+  programId: string;
   changes: Partial<ProgramInput>;
   /** Why the rules changed (kept with the version). */
   note?: string;
@@ -123,7 +127,15 @@ export interface ProgramUpdate {
  * revisions of the program go back to in_review with a `return_to_review` decision by the editor.
  */
 export function updateProgram(db: DbOrTx, u: ProgramUpdate): { version: number | null; returned: string[] } {
-  const { before, actor } = u;
+  return db.transaction((tx) => updateProgramIn(tx, u, loadProgram(tx, u.workspaceId, u.programId)));
+}
+
+function updateProgramIn(
+  db: DbOrTx,
+  u: ProgramUpdate,
+  before: ProgramRow,
+): { version: number | null; returned: string[] } {
+  const { actor } = u;
   const ruleChanges: Partial<Record<EvidenceRuleField, RuleChange>> = {};
   for (const f of EVIDENCE_RULE_FIELDS) {
     const next = u.changes[f];

@@ -11,12 +11,13 @@ import {
 } from "@stackproof/optics";
 import { designs, revisions, threads, yieldRuns } from "../db/schema.ts";
 import { deviationState, evidenceFigures, evidencePlan, pickEvidenceRun } from "./evidence.ts";
-import type { DbOrTx } from "../lib/audit.ts";
+import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError } from "../lib/errors.ts";
 import { assertWithinLimits, designLimitProblems, maskLimitProblems } from "../lib/limits.ts";
 import { zodDetails } from "../lib/errors.ts";
 import { newId, revisionHash } from "./canonical.ts";
 import { resolveDesign } from "./materials.ts";
+import type { Actor } from "./deps.ts";
 import {
   maskOf,
   person,
@@ -121,6 +122,80 @@ export function createRevision(tx: DbOrTx, input: NewRevision): RevisionRow {
   };
   tx.insert(revisions).values(row).run();
   return tx.select().from(revisions).where(eq(revisions.id, row.id)).get() as RevisionRow;
+}
+
+/**
+ * Creates a design in a program with its revision 1 (see createRevision) and the audit entry, in one transaction.
+ */
+export function createDesign(
+  db: DbOrTx,
+  input: Omit<NewRevision, "design" | "authorId"> & { actor: Actor; name: string },
+): { design: DesignRow; revision: RevisionRow } {
+  const { actor, program } = input;
+  return db.transaction((tx) => {
+    const design = {
+      id: newId(),
+      programId: program.id,
+      name: input.name,
+      createdBy: actor.id,
+      createdAt: new Date(),
+    };
+    tx.insert(designs).values(design).run();
+    const revision = createRevision(tx, {
+      workspaceId: input.workspaceId,
+      design,
+      program,
+      stack: input.stack,
+      specMask: input.specMask,
+      note: input.note,
+      authorId: actor.id,
+      evaluated: input.evaluated,
+    });
+    recordAudit(tx, {
+      workspaceId: input.workspaceId,
+      actorId: actor.id,
+      action: "design.created",
+      subjectType: "design",
+      subjectId: design.id,
+      summary: `${actor.name} created the design ${design.name} in ${program.name} (rev 1)`,
+      data: { revisionId: revision.id, hash: revision.hash },
+    });
+    return { design, revision };
+  });
+}
+
+/**
+ * Adds the next revision of a design, saved from `baseRevisionId` (409 stale_base when that is not the design's
+ * latest: checked inside the transaction, so two saves from one base cannot both pass), with the audit entry.
+ */
+export function addRevision(
+  db: DbOrTx,
+  input: Omit<NewRevision, "authorId"> & { actor: Actor; baseRevisionId: string | null },
+): RevisionRow {
+  const { actor, design } = input;
+  return db.transaction((tx) => {
+    assertFreshBase(tx, design.id, input.baseRevisionId);
+    const revision = createRevision(tx, {
+      workspaceId: input.workspaceId,
+      design,
+      program: input.program,
+      stack: input.stack,
+      specMask: input.specMask,
+      note: input.note,
+      authorId: actor.id,
+      evaluated: input.evaluated,
+    });
+    recordAudit(tx, {
+      workspaceId: input.workspaceId,
+      actorId: actor.id,
+      action: "revision.created",
+      subjectType: "revision",
+      subjectId: revision.id,
+      summary: `${actor.name} added ${design.name} rev ${revision.number}`,
+      data: { hash: revision.hash },
+    });
+    return revision;
+  });
 }
 
 /**

@@ -6,7 +6,6 @@ import { DESIGN_FORMAT, MATERIAL_LIBRARY } from "@stackproof/optics";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { designs, programs } from "../../db/schema.ts";
-import { recordAudit } from "../../lib/audit.ts";
 import { HttpError } from "../../lib/errors.ts";
 import { assertWithinLimits, designLimitProblems } from "../../lib/limits.ts";
 import { route } from "../../lib/route.ts";
@@ -14,8 +13,8 @@ import { diffStacks } from "../../domain/diff.ts";
 import { loadDesign, loadRevision, stackOf } from "../../domain/load.ts";
 import { resolveDesign, workspaceMaterials } from "../../domain/materials.ts";
 import {
+  addRevision,
   assertFreshBase,
-  createRevision,
   designView,
   notComputable,
   overviewRows,
@@ -130,28 +129,16 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         specMask: body.specMask,
       });
       const nominal = await ctx.compute.evaluateSpec(input.stack, input.evalMask).catch(notComputable);
-      const revision = ctx.db.transaction((tx) => {
-        assertFreshBase(tx, design.id, body.baseRevisionId);
-        const revision = createRevision(tx, {
-          workspaceId: auth.workspaceId,
-          design,
-          program,
-          stack: body.stack,
-          specMask: body.specMask,
-          note: body.note,
-          authorId: auth.user.id,
-          evaluated: true,
-        });
-        recordAudit(tx, {
-          workspaceId: auth.workspaceId,
-          actorId: auth.user.id,
-          action: "revision.created",
-          subjectType: "revision",
-          subjectId: revision.id,
-          summary: `${auth.user.name} added ${design.name} rev ${revision.number}`,
-          data: { hash: revision.hash },
-        });
-        return revision;
+      const revision = addRevision(ctx.db, {
+        workspaceId: auth.workspaceId,
+        actor: auth.user,
+        design,
+        program,
+        baseRevisionId: body.baseRevisionId,
+        stack: body.stack,
+        specMask: body.specMask,
+        note: body.note,
+        evaluated: true,
       });
       return revisionView(ctx.db, { revision, design, program }, nominal);
     },

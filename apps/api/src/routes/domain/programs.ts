@@ -4,15 +4,13 @@ import { and, desc, eq } from "drizzle-orm";
 import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
-import { designs, programs } from "../../db/schema.ts";
+import { programs } from "../../db/schema.ts";
 import { createProgram, programVersionsOf, updateProgram, type ProgramInput } from "../../domain/programs.ts";
-import { recordAudit } from "../../lib/audit.ts";
 import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
-import { newId } from "../../domain/canonical.ts";
 import { loadProgram, person, userNames } from "../../domain/load.ts";
 import {
-  createRevision,
+  createDesign,
   notComputable,
   revisionInput,
   designView,
@@ -79,13 +77,11 @@ export function programRoutes(ctx: AppContext, router: Router): void {
     ({ req, body }) => {
       const auth = getAuth(req);
       const { protective: _p, ...mask } = body.specMask;
-      const id = ctx.db.transaction((tx) =>
-        createProgram(tx, {
-          workspaceId: auth.workspaceId,
-          actor: auth.user,
-          program: { ...body, specMask: mask },
-        }),
-      );
+      const id = createProgram(ctx.db, {
+        workspaceId: auth.workspaceId,
+        actor: auth.user,
+        program: { ...body, specMask: mask },
+      });
       return programView(loadProgram(ctx.db, auth.workspaceId, id));
     },
   );
@@ -137,10 +133,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
         const { protective: _p, ...mask } = specMask;
         changes.specMask = mask;
       }
-      ctx.db.transaction((tx) => {
-        const before = loadProgram(tx, auth.workspaceId, params.id);
-        updateProgram(tx, { workspaceId: auth.workspaceId, actor: auth.user, before, changes, note });
-      });
+      updateProgram(ctx.db, { workspaceId: auth.workspaceId, actor: auth.user, programId: params.id, changes, note });
       return programView(loadProgram(ctx.db, auth.workspaceId, params.id));
     },
   );
@@ -227,35 +220,15 @@ export function programRoutes(ctx: AppContext, router: Router): void {
         specMask: body.specMask,
       });
       const nominal = await ctx.compute.evaluateSpec(input.stack, input.evalMask).catch(notComputable);
-      const { design, revision } = ctx.db.transaction((tx) => {
-        const design = {
-          id: newId(),
-          programId: program.id,
-          name: body.name,
-          createdBy: auth.user.id,
-          createdAt: new Date(),
-        };
-        tx.insert(designs).values(design).run();
-        const revision = createRevision(tx, {
-          workspaceId: auth.workspaceId,
-          design,
-          program,
-          stack: body.stack,
-          specMask: body.specMask,
-          note: body.note,
-          authorId: auth.user.id,
-          evaluated: true,
-        });
-        recordAudit(tx, {
-          workspaceId: auth.workspaceId,
-          actorId: auth.user.id,
-          action: "design.created",
-          subjectType: "design",
-          subjectId: design.id,
-          summary: `${auth.user.name} created the design ${design.name} in ${program.name} (rev 1)`,
-          data: { revisionId: revision.id, hash: revision.hash },
-        });
-        return { design, revision };
+      const { design, revision } = createDesign(ctx.db, {
+        workspaceId: auth.workspaceId,
+        actor: auth.user,
+        program,
+        name: body.name,
+        stack: body.stack,
+        specMask: body.specMask,
+        note: body.note,
+        evaluated: true,
       });
       const view = designView(ctx.db, design, program);
       // The design's own fields at the top level too, so the answer reads like GET /designs/:id.

@@ -140,7 +140,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
     },
     async ({ req, params, body }) => {
       const auth = getAuth(req);
-      const out = applyTransition(ctx, auth, params.id, body);
+      const out = applyTransition({ db: ctx.db, mail: ctx.mail, env: ctx.env }, auth, params.id, body);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
       const decision = decisionViews(ctx.db, params.id).find((d) => d.id === out.decision.id);
       return {
@@ -206,14 +206,12 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
-      const row = ctx.db.transaction((tx) =>
-        requestDeviation(tx, {
-          rc: loadRevision(tx, auth.workspaceId, params.id),
-          actor: auth.user,
-          workspaceId: auth.workspaceId,
-          reason: body.reason,
-        }),
-      );
+      const row = requestDeviation(ctx.db, {
+        revisionId: params.id,
+        actor: auth.user,
+        workspaceId: auth.workspaceId,
+        reason: body.reason,
+      });
       return deviationView(row, userNames(ctx.db, [row.requestedBy]));
     },
   );
@@ -238,16 +236,14 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
-      const row = ctx.db.transaction((tx) =>
-        decideDeviation(tx, {
-          rc: loadRevision(tx, auth.workspaceId, params.id),
-          actor: { ...auth.user, roles: auth.roles },
-          workspaceId: auth.workspaceId,
-          deviationId: params.deviationId,
-          accept: body.accept,
-          note: body.note,
-        }),
-      );
+      const row = decideDeviation(ctx.db, {
+        revisionId: params.id,
+        actor: { ...auth.user, roles: auth.roles },
+        workspaceId: auth.workspaceId,
+        deviationId: params.deviationId,
+        accept: body.accept,
+        note: body.note,
+      });
       return deviationView(row, userNames(ctx.db, [row.requestedBy, row.decidedBy]));
     },
   );
