@@ -1,6 +1,6 @@
 // Server-verified Monte Carlo yield runs.
 import type { Router } from "express";
-import { and, desc, eq, inArray } from "drizzle-orm";
+import { and, desc, eq } from "drizzle-orm";
 import { z } from "zod";
 import { ErrorModelSchema, MAX_TRIALS, type ErrorModel, type YieldResult } from "@stackproof/optics";
 import { MAX_TRIALS_PER_RUN, trialsLimitMessage } from "../../lib/limits.ts";
