@@ -646,3 +646,21 @@ export const HealthSchema = z.object({
   migrations: z.object({ applied: z.number(), available: z.number(), upToDate: z.boolean() }),
 });
 export type Health = z.infer<typeof HealthSchema>;
+
+// ---- Error details (the `details` of an error answer the web app reads) ----
+
+/** One problem in an uploaded CSV file; a 422 invalid_csv answer's details are a list of these (at most 50). */
+export const CsvProblemSchema = z.object({
+  /** Line of the file (the header is line 1). */
+  row: z.number(),
+  /** Column name, "a|b" for a missing choice, or "-" when the problem is not in one column. */
+  column: z.string(),
+  message: z.string(),
+});
+export type CsvProblem = z.infer<typeof CsvProblemSchema>;
+export const CsvProblemsDetails = z.array(CsvProblemSchema);
+
+const RevisionNumberRef = z.object({ id: z.string(), number: z.number() });
+/** 409 stale_base: the revision a save started from (null: none) and the design's latest revision. */
+export const StaleBaseDetails = z.object({ baseRevision: RevisionNumberRef.nullable(), latestRevision: RevisionNumberRef });
+export type StaleBase = z.infer<typeof StaleBaseDetails>;

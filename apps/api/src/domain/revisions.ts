@@ -11,6 +11,7 @@ import {
 } from "@stackproof/optics";
 import { designs, revisions, threads, yieldRuns } from "../db/schema.ts";
 import { deviationState, evidenceFigures, evidencePlan, pickEvidenceRun } from "./evidence.ts";
+import type { StaleBase } from "@stackproof/contracts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError } from "../lib/errors.ts";
 import { assertWithinLimits, designLimitProblems, maskLimitProblems } from "../lib/limits.ts";
@@ -239,7 +240,7 @@ export function assertFreshBase(tx: DbOrTx, designId: string, baseRevisionId: st
     {
       baseRevision: base ? { id: base.id, number: base.number } : null,
       latestRevision: { id: latest.id, number: latest.number },
-    },
+    } satisfies StaleBase,
   );
 }
 

@@ -29,10 +29,12 @@ import { singleFile, uploadedText } from "../../uploads/index.ts";
 import {
   DesignSchemaOut,
   IdParams,
+  ImportDesignResponse,
   NewRevisionBody,
+  OverviewResponse,
+  QueueResponse,
+  RevisionDiffSchema,
   RevisionSchema,
-  RevisionSummarySchema,
-  SpecDeviationSummarySchema,
   fileField,
 } from "@stackproof/contracts";
 
@@ -47,7 +49,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       summary: "One row per design for the home table",
       tag: TAG,
       access: "member",
-      response: z.object({ items: z.array(z.unknown()) }),
+      response: OverviewResponse,
     },
     ({ req }) => {
       const auth = getAuth(req);
@@ -70,12 +72,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       summary: "Revisions waiting for the signed-in member, by role",
       tag: TAG,
       access: "member",
-      response: z.object({
-        changesRequested: z.array(RevisionSummarySchema),
-        reviewRequested: z.array(RevisionSummarySchema),
-        readyForDecision: z.array(RevisionSummarySchema),
-        readyForRelease: z.array(RevisionSummarySchema),
-      }),
+      response: QueueResponse,
     },
     ({ req }) => workQueue(ctx.db, getAuth(req)),
   );
@@ -174,19 +171,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       access: "member",
       params: IdParams,
       query: z.object({ against: z.string().min(1).max(100) }),
-      response: z.object({
-        added: z.array(z.unknown()),
-        removed: z.array(z.unknown()),
-        changed: z.array(z.unknown()),
-        unchanged: z.number(),
-        other: z.array(z.string()),
-        totalThicknessDeltaNm: z.number(),
-        specMaskChanged: z.boolean(),
-        specDeviation: z.object({ before: SpecDeviationSummarySchema, after: SpecDeviationSummarySchema }),
-        summary: z.string(),
-        before: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
-        after: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
-      }),
+      response: RevisionDiffSchema,
       errors: { 404: "No such revision in this workspace" },
     },
     ({ req, params, query }) => {
@@ -229,7 +214,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         substrateThicknessMm: z.coerce.number().min(0).max(1000).optional(),
         incident: z.string().trim().max(100).optional(),
       }),
-      response: z.object({ stack: z.unknown(), warnings: z.array(z.string()) }),
+      response: ImportDesignResponse,
       errors: {
         413: "File over 1 MB",
         415: "Binary (non-text) file",

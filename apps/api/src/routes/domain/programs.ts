@@ -1,12 +1,11 @@
 // Programs and the designs in them.
 import type { Router } from "express";
 import { and, desc, eq } from "drizzle-orm";
-import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { programs } from "../../db/schema.ts";
 import { createProgram, programVersionsOf, updateProgram, type ProgramInput } from "../../domain/programs.ts";
-import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
+import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { loadProgram, person, userNames } from "../../domain/load.ts";
 import {
@@ -20,14 +19,16 @@ import {
   revisionView,
 } from "../../domain/revisions.ts";
 import {
-  DesignSchemaOut,
+  CreateDesignResponse,
   IdParams,
   NewDesignBody,
   ProgramCreateBody,
+  ProgramDesignsResponse,
+  ProgramDetailSchema,
+  ProgramListResponse,
   ProgramPatchBody,
   ProgramSchema,
-  ProgramVersionSchema,
-  RevisionSchema,
+  ProgramVersionsResponse,
 } from "@stackproof/contracts";
 
 const TAG = "Programs";
@@ -42,7 +43,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       query: pageQuery,
-      response: pageSchema(ProgramSchema),
+      response: ProgramListResponse,
     },
     ({ req, query }) => {
       const auth = getAuth(req);
@@ -95,7 +96,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: ProgramSchema.extend({ designs: z.array(z.unknown()) }),
+      response: ProgramDetailSchema,
       errors: { 404: "No such program in this workspace" },
     },
     ({ req, params }) => {
@@ -148,7 +149,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({ items: z.array(ProgramVersionSchema) }),
+      response: ProgramVersionsResponse,
       errors: { 404: "No such program in this workspace" },
     },
     ({ req, params }) => {
@@ -185,7 +186,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({ items: z.array(DesignSchemaOut) }),
+      response: ProgramDesignsResponse,
       errors: { 404: "No such program in this workspace" },
     },
     ({ req, params }) => {
@@ -206,7 +207,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       params: IdParams,
       body: NewDesignBody,
       status: 201,
-      response: DesignSchemaOut.extend({ design: DesignSchemaOut, revision: RevisionSchema }),
+      response: CreateDesignResponse,
       errors: { 404: "No such program in this workspace" },
     },
     async ({ req, params, body }) => {

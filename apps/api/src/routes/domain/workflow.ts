@@ -6,7 +6,7 @@ import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { releases, revisions } from "../../db/schema.ts";
 import { notFound } from "../../lib/errors.ts";
-import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
+import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { loadRevision, userNames } from "../../domain/load.ts";
 import {
@@ -21,29 +21,18 @@ import { releasePdf } from "../../domain/release-pdf.ts";
 import { revisionView } from "../../domain/revisions.ts";
 import { nominalFor } from "../../yield/nominal.ts";
 import { applyTransition, decisionViews, evaluateGate, type ReleaseSnapshot } from "../../domain/workflow.ts";
-import { DecisionSchema, DeviationSchema, GateSchema, IdParams, RevisionSchema } from "@stackproof/contracts";
+import {
+  DecisionListResponse,
+  DeviationListResponse,
+  DeviationSchema,
+  GateSchema,
+  IdParams,
+  ReleaseListResponse,
+  ReleaseRecordSchema,
+  TransitionResponse,
+} from "@stackproof/contracts";
 
 const TAG = "Workflow and release";
-
-const ReleaseSummary = z.object({
-  id: z.string(),
-  releasedAt: z.string(),
-  releasedBy: z.object({ id: z.string(), name: z.string() }),
-  status: z.string(),
-  program: z.object({ id: z.string(), name: z.string(), protective: z.boolean() }),
-  design: z.object({ id: z.string(), name: z.string() }),
-  revision: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
-  yield: z
-    .object({
-      yield: z.number(),
-      low: z.number(),
-      high: z.number(),
-      trials: z.number(),
-      lowerBound: z.number().nullable(),
-      confidence: z.number().nullable(),
-    })
-    .nullable(),
-});
 
 function loadRelease(ctx: AppContext, workspaceId: string, id: string) {
   const row = ctx.db
@@ -126,11 +115,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
         note: z.string().trim().max(5000).optional(),
         yieldRunId: z.string().min(1).max(100).optional(),
       }),
-      response: z.object({
-        revision: RevisionSchema,
-        decision: DecisionSchema,
-        releaseId: z.string().nullable(),
-      }),
+      response: TransitionResponse,
       errors: {
         403: "The role does not allow this action",
         404: "No such revision",
@@ -160,11 +145,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({
-        required: z.boolean(),
-        bands: z.array(z.object({ id: z.string(), change: z.string() })),
-        items: z.array(DeviationSchema),
-      }),
+      response: DeviationListResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params }) => {
@@ -257,7 +238,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({ items: z.array(DecisionSchema) }),
+      response: DecisionListResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params }) => {
@@ -276,7 +257,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       query: pageQuery,
-      response: pageSchema(ReleaseSummary),
+      response: ReleaseListResponse,
     },
     ({ req, query }) => {
       const auth = getAuth(req);
@@ -311,7 +292,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.looseObject({ id: z.string(), status: z.string(), caution: z.string().nullable() }),
+      response: ReleaseRecordSchema,
       errors: { 404: "No such release" },
     },
     ({ req, params }) => {

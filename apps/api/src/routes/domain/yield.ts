@@ -7,7 +7,7 @@ import { MAX_TRIALS_PER_RUN, trialsLimitMessage } from "../../lib/limits.ts";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { yieldRuns } from "../../db/schema.ts";
-import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
+import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { loadRevision, loadYieldRun, userNames } from "../../domain/load.ts";
 import { cancelYieldRun, startWhatIfRun, yieldRunView } from "../../domain/yield-runs.ts";
@@ -19,7 +19,13 @@ import {
   matchesPlan,
   requestEvidenceRun,
 } from "../../domain/evidence.ts";
-import { EvidenceFiguresSchema, EvidencePlanSchema, IdParams, YieldRunSchema } from "@stackproof/contracts";
+import {
+  CreateYieldRunResponse,
+  EvidenceResponse,
+  IdParams,
+  YieldRunListResponse,
+  YieldRunSchema,
+} from "@stackproof/contracts";
 
 const TAG = "Yield runs";
 
@@ -46,7 +52,7 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
         clientResult: ClientResultSchema.optional(),
       }),
       status: 202,
-      response: z.object({ run: YieldRunSchema, reused: z.boolean() }),
+      response: CreateYieldRunResponse,
       errors: {
         404: "No such revision",
         429: "A cap on yield runs queued or running at once is reached (named in the message)",
@@ -95,11 +101,7 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({
-        plan: EvidencePlanSchema,
-        run: YieldRunSchema.nullable(),
-        figures: EvidenceFiguresSchema.nullable(),
-      }),
+      response: EvidenceResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params }) => {
@@ -127,7 +129,7 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       params: IdParams,
       body: z.object({ clientResult: ClientResultSchema.optional() }),
       status: 202,
-      response: z.object({ run: YieldRunSchema, reused: z.boolean() }),
+      response: CreateYieldRunResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params, body }) => {
@@ -154,7 +156,7 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       access: "member",
       params: IdParams,
       query: pageQuery,
-      response: pageSchema(YieldRunSchema),
+      response: YieldRunListResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params, query }) => {

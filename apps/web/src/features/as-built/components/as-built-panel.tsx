@@ -11,7 +11,7 @@ import { Group } from "@visx/group";
 import { useFitJob } from "../hooks/use-fit-job.ts";
 import { FitReport } from "./fit-report.tsx";
 import { LotPanel } from "./lot-panel.tsx";
-import { ApiError } from "../../../lib/api-client.ts";
+import { csvProblemsOf } from "../../../lib/api-errors.ts";
 import { useMeasurements, useUploadMeasurement } from "../api/measurements.ts";
 import type { MeasuredSpectrum } from "../api/measurements.ts";
 
@@ -187,9 +187,9 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
             {formError ? <span role="alert" className="text-verdict-fail">{formError}</span> : null}
             {upload.error ? <span role="alert" className="text-verdict-fail">{upload.error.message}</span> : null}
           </div>
-          {csvProblems(upload.error).length > 0 ? (
+          {csvProblemsOf(upload.error).length > 0 ? (
             <ul className="col-span-2 list-disc space-y-0.5 pl-5 text-verdict-fail md:col-span-5" aria-label="Problems in the file">
-              {csvProblems(upload.error).map((d, i) => (
+              {csvProblemsOf(upload.error).map((d, i) => (
                 <li key={i}>
                   line {d.row}
                   {d.column && d.column !== "-" ? `, column ${d.column}` : ""}: {d.message}
@@ -208,16 +208,6 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
 /** The label the server would give: the file name without its extension. */
 function defaultLabel(fileName: string): string {
   return fileName.replace(/\.[^.]+$/, "") || fileName;
-}
-
-/** Row and column of each CSV problem the server reported (422 invalid_csv). */
-function csvProblems(error: Error | null): { row: number; column: string; message: string }[] {
-  if (!(error instanceof ApiError) || !Array.isArray(error.details)) return [];
-  return error.details.flatMap((d: unknown) => {
-    if (!d || typeof d !== "object") return [];
-    const r = d as { row?: unknown; column?: unknown; message?: unknown };
-    return typeof r.row === "number" && typeof r.message === "string" ? [{ row: r.row, column: typeof r.column === "string" ? r.column : "-", message: r.message }] : [];
-  });
 }
 
 function DifferenceChart({ m, model, fitted, width }: { m: MeasuredSpectrum; model: number[]; fitted: number[] | null; width: number }) {
