@@ -336,6 +336,18 @@ describe("responses match their contracts", () => {
     );
   });
 
+  it("every JSON request schema a route validates with is an export of the contracts package", () => {
+    const exported = new Set<unknown>(Object.values(C));
+    const inline = [...routeRegistry.entries()]
+      .flatMap(([key, r]) =>
+        (["params", "query", "body"] as const)
+          .filter((part) => r[part] && !exported.has(r[part]) && !(part === "body" && r.multipart))
+          .map((part) => `${key} ${part}`),
+      )
+      .sort();
+    expect(inline).toEqual([]);
+  });
+
   it("every route that answers JSON declares its response with a schema exported by the contracts package", () => {
     const exported = new Set<unknown>(Object.values(C));
     const inline = [...routeRegistry.entries()].filter(([, r]) => r.response && !exported.has(r.response)).map(([key]) => key);

@@ -1,7 +1,6 @@
 // Sign-in, sign-out, the current member, and password reset by e-mail. The accounts domain (domain/accounts.ts)
 // does the work; this file keeps the HTTP part: rate limits, cookies, status codes.
 import type { Request, Router } from "express";
-import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { normalizeEmail } from "../../auth/password.ts";
@@ -16,7 +15,7 @@ import {
   sessionInfo,
   startSession,
 } from "../../domain/accounts.ts";
-import { EmailInput, NewPassword, SessionInfo, TokenInput } from "@stackproof/contracts";
+import { PasswordResetBody, PasswordResetConfirmBody, SessionInfo, SignInBody } from "@stackproof/contracts";
 
 /** Sign-in: 5 failures per e-mail and address, or 50 per address, within 15 minutes. */
 export const SIGN_IN_LIMIT = { perAccount: 5, perAddress: 50, windowMs: 15 * 60_000 };
@@ -63,7 +62,7 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       summary: "Sign in with e-mail and password; sets the session cookie",
       tag: "access",
       access: "public",
-      body: z.object({ email: EmailInput, password: z.string().min(1, "Enter your password.").max(1000) }),
+      body: SignInBody,
       response: SessionInfo,
       before: [perAccount, perAddress],
       errors: {
@@ -109,7 +108,7 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       tag: "access",
       access: "public",
       status: 202,
-      body: z.object({ email: EmailInput }),
+      body: PasswordResetBody,
     },
     ({ body }) => {
       requestPasswordReset(mailDeps, body.email, (userId) => {
@@ -130,7 +129,7 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       tag: "access",
       access: "public",
       status: 204,
-      body: z.object({ token: TokenInput, password: NewPassword }),
+      body: PasswordResetConfirmBody,
       errors: {
         400: "Invalid input, a password shorter than 12 characters or too easy to guess (weak_password), or the link is unknown, used or expired (invalid_token)",
       },

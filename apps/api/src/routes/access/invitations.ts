@@ -2,7 +2,6 @@
 // up (or adds an existing account to the workspace) once, within 7 days.
 import type { Router } from "express";
 import { and, desc, eq } from "drizzle-orm";
-import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { invitations, users } from "../../db/schema.ts";
 import { getAuth } from "../../auth/guards.ts";
@@ -17,15 +16,14 @@ import {
   revokeInvitation,
 } from "../../domain/invitations.ts";
 import {
-  EmailInput,
+  AcceptInvitationBody,
   IdParams,
+  InvitationBody,
   InvitationListResponse,
   InvitationLookupSchema,
   InvitationSchema,
-  PersonName,
-  RolesInput,
   SessionInfo,
-  TokenInput,
+  TokenParams,
 } from "@stackproof/contracts";
 
 export function invitationRoutes(ctx: AppContext, router: Router): void {
@@ -77,7 +75,7 @@ export function invitationRoutes(ctx: AppContext, router: Router): void {
       tag: "access",
       access: ["admin"],
       status: 201,
-      body: z.object({ email: EmailInput, roles: RolesInput }),
+      body: InvitationBody,
       response: InvitationSchema,
       errors: { 409: "The address already belongs to a member (already_member)" },
     },
@@ -122,7 +120,7 @@ export function invitationRoutes(ctx: AppContext, router: Router): void {
       summary: "What an invitation link offers (for the accept page)",
       tag: "access",
       access: "public",
-      params: z.object({ token: TokenInput }),
+      params: TokenParams,
       response: InvitationLookupSchema,
       errors: { 404: "Unknown, used, revoked or expired (invalid_invitation)" },
     },
@@ -138,7 +136,7 @@ export function invitationRoutes(ctx: AppContext, router: Router): void {
         "Accept an invitation: creates the account (name and new password) or, for an existing account, checks its password; signs in",
       tag: "access",
       access: "public",
-      body: z.object({ token: TokenInput, name: PersonName.optional(), password: z.string().min(1).max(1000) }),
+      body: AcceptInvitationBody,
       response: SessionInfo,
       errors: {
         401: "Existing account and wrong password (invalid_credentials)",

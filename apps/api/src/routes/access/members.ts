@@ -1,14 +1,13 @@
 // People of the workspace and their roles. Everyone may list (for @mentions); only admins change roles or remove.
 import type { Router } from "express";
 import { and, asc, eq } from "drizzle-orm";
-import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { memberships, users } from "../../db/schema.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { changeMemberRoles, removeMember } from "../../domain/members.ts";
 import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
-import { MemberListResponse, MemberUpdateResponse, RolesInput, UserIdParams } from "@stackproof/contracts";
+import { MemberListResponse, MemberRolesBody, MemberUpdateResponse, UserIdParams } from "@stackproof/contracts";
 
 export function memberRoutes(ctx: AppContext, router: Router): void {
   route(
@@ -49,7 +48,7 @@ export function memberRoutes(ctx: AppContext, router: Router): void {
       tag: "access",
       access: ["admin"],
       params: UserIdParams,
-      body: z.object({ roles: RolesInput }),
+      body: MemberRolesBody,
       response: MemberUpdateResponse,
       errors: { 404: "Not a member of this workspace", 409: "Would leave the workspace without an admin (last_admin)" },
     },

@@ -28,6 +28,7 @@ import { parseLayerCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
 import {
   DesignSchemaOut,
+  DiffQuery,
   IdParams,
   ImportDesignResponse,
   NewRevisionBody,
@@ -170,7 +171,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      query: z.object({ against: z.string().min(1).max(100) }),
+      query: DiffQuery,
       response: RevisionDiffSchema,
       errors: { 404: "No such revision in this workspace" },
     },

@@ -1,6 +1,5 @@
 // Review threads anchored to a revision, carried forward to later revisions of the design (domain/threads.ts).
 import type { Router } from "express";
-import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { route } from "../../lib/route.ts";
@@ -13,7 +12,14 @@ import {
   threadViews,
   threadsForRevision,
 } from "../../domain/threads.ts";
-import { AnchorSchema, CommentBodySchema, IdParams, ThreadListResponse, ThreadSchema } from "@stackproof/contracts";
+import {
+  CommentBody,
+  IdParams,
+  NewThreadBody,
+  ThreadListResponse,
+  ThreadSchema,
+  ThreadStatusBody,
+} from "@stackproof/contracts";
 
 const TAG = "Review threads";
 
@@ -52,11 +58,7 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: ["reviewer", "approver", "designer"],
       params: IdParams,
-      body: z.object({
-        anchor: AnchorSchema,
-        severity: z.enum(["blocking", "advisory"]),
-        body: CommentBodySchema,
-      }),
+      body: NewThreadBody,
       status: 201,
       response: ThreadSchema,
       errors: { 404: "No such revision", 422: "The anchor names a band or layer the revision does not have" },
@@ -78,7 +80,7 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      body: z.object({ body: CommentBodySchema }),
+      body: CommentBody,
       status: 201,
       response: ThreadSchema,
       errors: {
@@ -108,7 +110,7 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
         tag: TAG,
         access: "member",
         params: IdParams,
-        body: z.object({ note: z.string().trim().max(10000).optional() }),
+        body: ThreadStatusBody,
         response: ThreadSchema,
         errors: {
           403: "Not a reviewer, approver or the thread's author",

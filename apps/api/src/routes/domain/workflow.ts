@@ -1,7 +1,6 @@
 // The release gate, workflow transitions, decisions and release records.
 import type { Router } from "express";
 import { and, desc, eq } from "drizzle-orm";
-import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { releases, revisions } from "../../db/schema.ts";
@@ -23,12 +22,17 @@ import { nominalFor } from "../../yield/nominal.ts";
 import { applyTransition, decisionViews, evaluateGate, type ReleaseSnapshot } from "../../domain/workflow.ts";
 import {
   DecisionListResponse,
+  DeviationDecisionBody,
   DeviationListResponse,
+  DeviationParams,
+  DeviationRequestBody,
   DeviationSchema,
+  GateQuery,
   GateSchema,
   IdParams,
   ReleaseListResponse,
   ReleaseRecordSchema,
+  TransitionBody,
   TransitionResponse,
 } from "@stackproof/contracts";
 
@@ -82,7 +86,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      query: z.object({ yieldRunId: z.string().min(1).max(100).optional() }),
+      query: GateQuery,
       response: GateSchema,
       errors: { 404: "No such revision" },
     },
@@ -110,11 +114,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      body: z.object({
-        action: z.enum(["submit", "request_changes", "approve", "release", "withdraw"]),
-        note: z.string().trim().max(5000).optional(),
-        yieldRunId: z.string().min(1).max(100).optional(),
-      }),
+      body: TransitionBody,
       response: TransitionResponse,
       errors: {
         403: "The role does not allow this action",
@@ -175,9 +175,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: ["designer", "approver"],
       params: IdParams,
-      body: z.object({
-        reason: z.string().trim().min(10, { message: "write the reason (10 characters or more)" }).max(5000),
-      }),
+      body: DeviationRequestBody,
       status: 201,
       response: DeviationSchema,
       errors: {
@@ -206,8 +204,8 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
         "Accept or reject a spec deviation (an approver other than its author and the revision's author)",
       tag: TAG,
       access: ["approver"],
-      params: z.object({ id: z.string().min(1).max(100), deviationId: z.string().min(1).max(100) }),
-      body: z.object({ accept: z.boolean(), note: z.string().trim().max(5000).default("") }),
+      params: DeviationParams,
+      body: DeviationDecisionBody,
       response: DeviationSchema,
       errors: {
         403: "The deviation's or the revision's author",

@@ -1,9 +1,7 @@
 // Server-verified Monte Carlo yield runs.
 import type { Router } from "express";
 import { and, desc, eq } from "drizzle-orm";
-import { z } from "zod";
-import { ErrorModelSchema, MAX_TRIALS, type ErrorModel, type YieldResult } from "@stackproof/optics";
-import { MAX_TRIALS_PER_RUN, trialsLimitMessage } from "../../lib/limits.ts";
+import type { ErrorModel, YieldResult } from "@stackproof/optics";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { yieldRuns } from "../../db/schema.ts";
@@ -11,7 +9,6 @@ import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { loadRevision, loadYieldRun, userNames } from "../../domain/load.ts";
 import { cancelYieldRun, startWhatIfRun, yieldRunView } from "../../domain/yield-runs.ts";
-import { ClientResultSchema } from "../../yield/verify.ts";
 import {
   evidenceFigures,
   evidencePlan,
@@ -22,7 +19,9 @@ import {
 import {
   CreateYieldRunResponse,
   EvidenceResponse,
+  EvidenceRunBody,
   IdParams,
+  YieldRunBody,
   YieldRunListResponse,
   YieldRunSchema,
 } from "@stackproof/contracts";
@@ -40,17 +39,7 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: ["designer", "reviewer", "approver"],
       params: IdParams,
-      body: z.object({
-        trials: z
-          .number()
-          .int()
-          .min(1)
-          .max(Math.min(MAX_TRIALS, MAX_TRIALS_PER_RUN), trialsLimitMessage)
-          .optional(),
-        seed: z.string().min(1).max(200).optional(),
-        errorModel: ErrorModelSchema.optional(),
-        clientResult: ClientResultSchema.optional(),
-      }),
+      body: YieldRunBody,
       status: 202,
       response: CreateYieldRunResponse,
       errors: {
@@ -127,7 +116,7 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: ["designer", "reviewer", "approver"],
       params: IdParams,
-      body: z.object({ clientResult: ClientResultSchema.optional() }),
+      body: EvidenceRunBody,
       status: 202,
       response: CreateYieldRunResponse,
       errors: { 404: "No such revision" },
