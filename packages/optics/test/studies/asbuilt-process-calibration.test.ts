@@ -8,7 +8,8 @@
 // with bootstrap variances (Efron & Tibshirani, An Introduction to the Bootstrap, 1993) where no closed form exists.
 import { describe, expect, it } from "vitest";
 import type { Design } from "../../src/core/index.ts";
-import { calibrateProcessModel, type CalibrationPart } from "../../src/studies/asbuilt/index.ts";
+import { calibrateProcessModel, fitBuiltPart, processPriors, type CalibrationPart } from "../../src/studies/asbuilt/index.ts";
+import { grid, referenceSpectrum } from "./asbuilt-reference.ts";
 import { parseErrorModel, type ErrorModel } from "../../src/studies/error-model.ts";
 import { createProcessSampler, type ProcessModelInput } from "../../src/studies/process/index.ts";
 import { TrialRandom } from "../../src/studies/random.ts";
@@ -156,6 +157,28 @@ describe("calibrateProcessModel", () => {
       expect(c.layers).toEqual([]);
       expect(c.notes.join(" ")).toMatch(/No design given/);
     });
+  });
+
+  it("the as-built fit takes its priors from the program's process model (crystal noise and termination/d, time drift and within-layer, optical processErrorStats), so process programs get per-layer errors to calibrate from", () => {
+    const design = alternating(4);
+    const em = model({
+      control: {
+        H230: { method: "crystal", toolingPct: 0.8, noisePct: 0.4, terminationNm: 0.3 },
+        L138: { method: "time", rateErrorPct: 0.5, rateDriftPct: 0.6, withinLayerPct: 0.8, shutterNm: 0.2 },
+      },
+    });
+    const p = processPriors(design, em);
+    expect(p.tooling).toEqual({ H230: 0.008, L138: 0.005 });
+    design.layers.forEach((l, j) => {
+      const expected = l.material === "H230" ? Math.hypot(0.004, 0.3 / l.thickness) : Math.hypot(0.006, 0.008, 0.2 / l.thickness);
+      expect(p.layer[j]).toBeCloseTo(expected, 12);
+    });
+    const wl = grid(400, 1000, 4);
+    const meas = (q: "R" | "T") => ({ wavelengths: wl, values: referenceSpectrum(design, wl, q, 0, "u", (j) => [1.01, 0.995, 1.012, 0.99][j]!), quantity: q, angleDeg: 0, polarization: "u" as const, uncertaintyPct: 0.05 });
+    const fit = fitBuiltPart(design, [meas("R"), meas("T")], { errorModel: em, fitIndexScale: false, scanSpan: 0.05 });
+    expect(fit.models.map((m) => m.kind)).toContain("layers");
+    const layersModel = fit.models.find((m) => m.kind === "layers")!;
+    expect(layersModel.parameters.filter((q) => q.kind === "layer").map((q) => q.priorSigma)).toEqual(p.layer);
   });
 
   it("refuses what it cannot calibrate, naming the value", () => {
