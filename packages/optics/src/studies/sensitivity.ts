@@ -1,7 +1,7 @@
 import { createStackEvaluator } from "../core/index.ts";
 import type { Design } from "../core/index.ts";
 import { createSpecEvaluator, parseSpecMask } from "./spec.ts";
-import type { Polarization, SpecMask } from "./spec.ts";
+import type { Polarization, SpecMaskInput } from "./spec.ts";
 
 /** Central-difference thickness step (nm); layers thinner than this use a forward difference. */
 export const SENSITIVITY_STEP_NM = 0.05;
@@ -38,7 +38,7 @@ export interface SpecSensitivity {
  */
 export function specSensitivity(
   design: Design,
-  maskInput: SpecMask,
+  maskInput: SpecMaskInput,
   options: { stepNm?: number } = {},
 ): SpecSensitivity {
   const mask = parseSpecMask(maskInput);

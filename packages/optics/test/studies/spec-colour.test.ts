@@ -14,6 +14,7 @@ import {
   specSensitivity,
 } from "../../src/studies/index.ts";
 import type { SpecBand, SpecColourInput, SpecMaskInput, YieldChunk, YieldStudy } from "../../src/studies/index.ts";
+import { partVerdict, type MeasuredPart } from "../../src/studies/asbuilt/index.ts";
 import { TEST_MATERIALS, htwAr4, qwotDesign } from "./fixtures.ts";
 
 const colour = (over: Partial<SpecColourInput> & Pick<SpecColourInput, "limit">): SpecColourInput => ({
@@ -48,7 +49,7 @@ describe("colour requirement on bare glass (reflected colour = the illuminant's 
     ["D65", "10"],
     ["A", "2"],
   ] as const)("illuminant %s, %s° observer: (x, y) of the white point, Y = 4.26 %%", (illuminant, observer) => {
-    const [x0, y0] = WHITE[`${illuminant}/${observer}`];
+    const [x0, y0] = WHITE[`${illuminant}/${observer}` as keyof typeof WHITE];
     const box = { type: "box-xy" as const, x: [x0 - 0.001, x0 + 0.001] as [number, number], y: [y0 - 0.001, y0 + 0.001] as [number, number] };
     const { result, outcome } = only(glass, mask(colour({ illuminant, observer, limit: box })));
     expect(outcome.colour!.x).toBeCloseTo(x0, 4);
@@ -307,5 +308,42 @@ describe("ISO 9211 style wording of a colour requirement", () => {
       /CIELAB −2 ≤ a\* ≤ 2 and −6 ≤ b\* ≤ −1 and 20 ≤ L\* ≤ 30$/,
     );
     expect(() => describeColourIso(colour({ angleDeg: 90, limit: { type: "box-ab", a: [0, 1], b: [0, 1] } }))).toThrow(/colour\.angleDeg/);
+  });
+});
+
+describe("measured parts: colour requirements are judged, never skipped", () => {
+  const band: SpecBand = { id: "low", start: 450, stop: 650, quantity: "R", polarization: "u", angleDeg: 0, requirement: "max", value: 5 };
+  // a flat measured reflectance of 4.26 % (bare glass, Hecht) over the given span, percent, u = 0.2 points
+  const part = (from: number, to: number, pct = 100 * R_GLASS): MeasuredPart => ({
+    id: "p",
+    measurements: [{ wavelengths: [from, to], values: [pct, pct], quantity: "R", angleDeg: 0, polarization: "u", uncertaintyPct: 0.2 }],
+  });
+  const xy = colour({ limit: { type: "box-xy", x: [0.3107, 0.3147], y: [0.327, 0.331] } });
+
+  it("a flat measured spectrum has the illuminant's chromaticity; shifting it moves no x, y: no guard", () => {
+    const v = partVerdict({ bands: [band], colour: [xy] }, part(380, 780));
+    expect(v.bands.map((b) => [b.bandId, b.status])).toEqual([
+      ["low", "pass"],
+      ["colour", "pass"],
+    ]);
+    expect(v.bands[1]!.margin).toBeCloseTo(0.002, 4); // x = 0.3127 (CIE 15:2004)
+    expect(v.bands[1]!.guard).toBeCloseTo(0, 12);
+    expect(v.status).toBe("pass");
+  });
+
+  it("a measurement short of 430–700 nm leaves the colour not measured: the part is incomplete, not passed", () => {
+    const v = partVerdict({ bands: [band], colour: [xy] }, part(440, 700));
+    expect(v.bands[1]!.status).toBe("not-measured");
+    expect(v.status).toBe("incomplete");
+  });
+
+  it("L* moves with the photometric error: inside by less than the guard fails with k = 2, passes with k = 0", () => {
+    const c = colour({ limit: { type: "box-ab", a: [-1, 1], b: [-1, 1], L: [L_GLASS - 0.5, 40] } });
+    const guarded = partVerdict({ bands: [band], colour: [c] }, part(380, 780), 2);
+    expect(guarded.bands[1]!.margin).toBeCloseTo(0.5, 6);
+    // R − 0.4 points: L* = 116 ((R − 0.004))^(1/3) − 16 (CIE 15:2004, 8.2.1)
+    expect(guarded.bands[1]!.guard).toBeCloseTo(L_GLASS - (116 * Math.cbrt(R_GLASS - 0.004) - 16), 6);
+    expect(guarded.bands[1]!.status).toBe("fail");
+    expect(partVerdict({ bands: [band], colour: [c] }, part(380, 780), 0).bands[1]!.status).toBe("pass");
   });
 });
