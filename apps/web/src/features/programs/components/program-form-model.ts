@@ -614,8 +614,8 @@ export const programFormSchema = baseValues.superRefine((v, ctx) => {
       );
     const id = checkId(b.id, at, "band");
     // The optics schema judges what the fields above let through (stand-ins for fields with their own message).
-    const use = (f: keyof BandValues) => given(String(b[f])) && !flagged.has(f);
-    const num = (f: keyof BandValues, fallback: string) => (use(f) ? String(b[f]) : fallback);
+    const usable = (f: keyof BandValues) => given(String(b[f])) && !flagged.has(f);
+    const num = (f: keyof BandValues, fallback: string) => (usable(f) ? String(b[f]) : fallback);
     const stop = num("stop", num("start", "1"));
     const candidate: BandValues = {
       ...b,
