@@ -2,7 +2,7 @@
 // spec-deviation comparison, request limits and a verified yield run. Real SQLite file, real worker pool.
 import { createHash } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { evaluateSpec, type SpecMask } from "@stackproof/optics";
+import { describeColourIso, evaluateSpec, type SpecMask } from "@stackproof/optics";
 import { createTestServer, type TestServer } from "../support/context.ts";
 import { canonicalJson } from "../../src/domain/canonical.ts";
 import { MAX_SPEC_BANDS } from "../../src/lib/limits.ts";
@@ -14,6 +14,7 @@ import {
   createTeam,
   programBody,
   singleLayerAr,
+  startEvidenceRun,
   startRun,
   waitForRun,
   type Team,
@@ -120,5 +121,42 @@ describe("colour requirements in stored masks", () => {
     expect(done.result.bandFailures.map((b: { id: string }) => b.id)).toEqual(["avg", "peak", "tint"]);
     expect(done.result.bandFailures[2].count).toBe(120);
     expect(done.result.yield).toBe(0);
+  });
+});
+
+describe("release record wording of colour requirements", () => {
+  it("the record, the printable page and the PDF state each colour requirement in ISO 9211 style words", async () => {
+    const program = await createProgram(team, { specMask: COLOUR_MASK });
+    const { revision } = await createDesign(team, program.id);
+    const act = (agent: Team["members"]["designer"]["agent"], action: string) =>
+      agent.post(`${API}/revisions/${revision.id}/transitions`).send({ action });
+    await act(team.members.designer.agent, "submit").expect(200);
+    const run = await startEvidenceRun(team.members.designer.agent, revision.id);
+    expect((await waitForRun(team.members.designer.agent, run.id, 60000)).status).toBe("done");
+    await act(team.members.approver.agent, "approve").expect(200);
+    const released = await act(team.members.approver.agent, "release").expect(200);
+    const id: string = released.body.releaseId;
+    const wording = describeColourIso({ ...TINT, limit: { type: "box-ab", a: [0, 40], b: [-40, 0] } });
+    expect(wording).toBe(
+      "Colour of reflected light: CIE 1931 standard colorimetric observer (2°), CIE illuminant D65; angle of incidence 0°; unpolarized; CIELAB 0 ≤ a* ≤ 40 and −40 ≤ b* ≤ 0",
+    );
+    const record = await team.members.reviewer.agent.get(`${API}/releases/${id}`).expect(200);
+    expect(record.body.revision.specMask.colour[0].id).toBe("tint");
+    expect(record.body.nominal.bands.map((b: { id: string }) => b.id)).toEqual(["avg", "peak", "tint"]);
+    expect(record.body.yieldRun.bandFailures.map((b: { id: string }) => b.id)).toEqual(["avg", "peak", "tint"]);
+    const print = await team.members.reviewer.agent.get(`${API}/releases/${id}/print`).expect(200);
+    expect(print.text).toContain("Reflected tint (tint)");
+    expect(print.text).toContain(wording);
+    expect(print.text).toMatch(/colour: L\* [\d.]+, a\* [\d.]+, b\* −[\d.]+/);
+    const pdf = await team.members.reviewer.agent
+      .get(`${API}/releases/${id}/pdf`)
+      .buffer(true)
+      .parse((res, cb) => {
+        const chunks: Buffer[] = [];
+        res.on("data", (c: Buffer) => chunks.push(c));
+        res.on("end", () => cb(null, Buffer.concat(chunks)));
+      })
+      .expect(200);
+    expect((pdf.body as Buffer).subarray(0, 5).toString()).toBe("%PDF-");
   });
 });
