@@ -90,6 +90,20 @@ describe("colour requirements in stored masks", () => {
     expect(same.body.hash).toBe(revision.hash);
   });
 
+  it("a review thread can be pinned to a colour requirement; its verdict follows the colour", async () => {
+    const program = await createProgram(team, { specMask: { ...AR_MASK, colour: [TIGHT] } });
+    const { revision } = await createDesign(team, program.id);
+    const opened = await team.members.reviewer.agent
+      .post(`${API}/revisions/${revision.id}/threads`)
+      .send({ anchor: { kind: "band", bandId: "tint" }, severity: "advisory", body: "The reflected tint leaves the box." })
+      .expect(201);
+    expect(opened.body.anchorPasses).toBe(false);
+    await team.members.reviewer.agent
+      .post(`${API}/revisions/${revision.id}/threads`)
+      .send({ anchor: { kind: "band", bandId: "nope" }, severity: "advisory", body: "No such requirement." })
+      .expect(422);
+  });
+
   it("refuses a bad colour requirement with 400 naming the field, and counts colour toward MAX_SPEC_BANDS", async () => {
     const bad = await team.members.approver.agent
       .post(`${API}/programs`)
