@@ -328,7 +328,7 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
             if (b.colour) {
               const requirement = mask.colour?.find((x) => x.id === b.id);
               return (
-                <li key={b.id} className="flex items-center gap-2" data-colour-requirement={b.id}>
+                <li key={b.id} className="flex items-center gap-2 sm:col-span-2" data-colour-requirement={b.id}>
                   <ColourVerdict outcome={b} requirement={requirement} />
                   {props.bandAction ? (
                     <button
