@@ -144,9 +144,10 @@ export type SpecBand = z.output<typeof SpecBandSchema>;
  * angle of incidence (degrees) and polarization, must lie in a box (x/y, or a* and b* with optional L*) or
  * within a ΔE*ab limit (CIE76 or CIEDE2000) of a target L*a*b* (see {@link ColourRequirementSchema};
  * CIE 015:2018). The colour is computed on 380–780 nm every 5 nm ({@link COLOUR_WAVELENGTHS}).
- * `id` is shared with the bands' ids: no band and no colour requirement may have the same one.
+ * `id` is shared with the bands' ids: no band and no colour requirement may have the same one. A `kind`
+ * tag is dropped (the list says what the entries are), so a stored mask has one canonical form.
  */
-export const SpecColourSchema = ColourRequirementSchema.extend({ id: z.string().min(1) });
+export const SpecColourSchema = ColourRequirementSchema.omit({ kind: true }).extend({ id: z.string().min(1) });
 export type SpecColour = z.output<typeof SpecColourSchema>;
 /** A colour requirement as written (illuminant D65, observer 2°, 0°, unpolarized when left out). */
 export type SpecColourInput = z.input<typeof SpecColourSchema>;

@@ -219,8 +219,10 @@ describe("mask validation with colour (RangeError naming the field and value)", 
     expect(JSON.stringify(parsed)).not.toMatch(/colour/);
   });
 
-  it("fills the defaults into a stored colour requirement (D65, 2°, 0°, unpolarized)", () => {
-    expect(parseSpecMask(mask(ok)).colour![0]).toEqual({ ...ok, illuminant: "D65", observer: "2", angleDeg: 0, polarization: "u" });
+  it("fills the defaults into a stored colour requirement (D65, 2°, 0°, unpolarized); a kind tag is dropped", () => {
+    const stored = { ...ok, illuminant: "D65", observer: "2", angleDeg: 0, polarization: "u" };
+    expect(parseSpecMask(mask(ok)).colour![0]).toEqual(stored);
+    expect(parseSpecMask(mask({ ...ok, kind: "colour" } as SpecColourInput)).colour![0]).toEqual(stored);
   });
 
   it.each([

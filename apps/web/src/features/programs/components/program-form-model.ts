@@ -430,7 +430,6 @@ function toColour(c: ColourValues): Record<keyof SpecColour, unknown> {
             max: parseNumber(c.deltaE),
           };
   return {
-    kind: undefined,
     id: c.id.trim(),
     label: c.label.trim() || undefined,
     quantity: c.quantity,
