@@ -8,7 +8,7 @@ import {
   type CellProblem,
   parseIndexTable,
   parseLayerCsv,
-  parseSpectrumCsv,
+  parseSingleSpectrum,
 } from "../../src/uploads/csv.ts";
 import { chunkSizeFor } from "../../src/yield/index.ts";
 import { verifyClientResult } from "../../src/yield/verify.ts";
@@ -76,13 +76,13 @@ describe("CSV readers", () => {
     expect(
       problems(() => parseLayerCsv("material,thickness_nm,locked\nSiO2,3,maybe\n", () => true))[0],
     ).toMatchObject({ column: "locked" });
-    expect(problems(() => parseSpectrumCsv("wavelength_nm,T\n500,50\n500,51\n"))[0]).toMatchObject({
+    expect(problems(() => parseSingleSpectrum("wavelength_nm,T\n500,50\n500,51\n", {}))[0]).toMatchObject({
       row: 3,
       column: "wavelength_nm",
     });
   });
   it("accepts R or T in any case and says which", () => {
-    expect(parseSpectrumCsv("Wavelength_nm,r\n500,4.2\n600,4.1\n")).toEqual({
+    expect(parseSingleSpectrum("Wavelength_nm,r\n500,4.2\n600,4.1\n", {})).toMatchObject({
       quantity: "R",
       wavelengths: [500, 600],
       values: [4.2, 4.1],
