@@ -219,7 +219,9 @@ export function openThread(
   },
 ): ThreadRow | undefined {
   const { workspaceId, actor, rc, anchor } = input;
-  if (anchor.kind === "band" && !maskOf(rc.revision, rc.program).bands.some((b) => b.id === anchor.bandId)) {
+  const mask = maskOf(rc.revision, rc.program);
+  // a band or a colour requirement (they share ids)
+  if (anchor.kind === "band" && ![...mask.bands, ...(mask.colour ?? [])].some((b) => b.id === anchor.bandId)) {
     throw new HttpError(422, "unknown_anchor", `Revision ${rc.revision.number} has no spec band "${anchor.bandId}".`);
   }
   if (anchor.kind === "layer" && anchor.index >= stackOf(rc.revision).layers.length) {
