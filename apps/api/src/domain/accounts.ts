@@ -8,11 +8,26 @@ import { memberships, passwordResets, sessions, users, workspaces, type Role } f
 import { luciaFor } from "../auth/lucia.ts";
 import { hashPassword, normalizeEmail, passwordProblem, verifyAgainstDummy, verifyPassword } from "../auth/password.ts";
 import { hashToken, newId, newToken } from "../auth/tokens.ts";
-import { recordAudit } from "../lib/audit.ts";
+import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError } from "../lib/errors.ts";
 import { appUrl, templates } from "../mail/index.ts";
 import type { MailDeps } from "./deps.ts";
 import { isDemoWorkspace } from "./workspaces.ts";
+
+/**
+ * Stores an account with an already hashed password (argon2id, auth/password.ts), as of `at`; returns its id. The
+ * caller checks that the address is free (the unique index refuses a second account anyway).
+ */
+export function createAccount(
+  db: DbOrTx,
+  input: { email: string; name: string; passwordHash: string; at?: Date },
+): string {
+  const id = newId();
+  db.insert(users)
+    .values({ id, email: input.email, name: input.name, passwordHash: input.passwordHash, createdAt: input.at ?? new Date() })
+    .run();
+  return id;
+}
 
 /** A reset link works for one hour. */
 export const RESET_LIFETIME_MS = 60 * 60_000;

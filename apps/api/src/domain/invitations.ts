@@ -8,7 +8,8 @@ import { hashToken, newId, newToken } from "../auth/tokens.ts";
 import { recordAudit } from "../lib/audit.ts";
 import { HttpError, conflict, notFound } from "../lib/errors.ts";
 import { appUrl, templates } from "../mail/index.ts";
-import { weakPassword, type SessionMember } from "./accounts.ts";
+import { createAccount, weakPassword, type SessionMember } from "./accounts.ts";
+import { addMember } from "./members.ts";
 import type { Actor, MailDeps } from "./deps.ts";
 
 /** An invitation link works for 7 days. */
@@ -169,16 +170,14 @@ export async function acceptInvitation(
   }
   const result = db.transaction((tx) => {
     const now = new Date();
-    const userId = account?.id ?? newId();
     // Another accept of the same link may have finished while the password was being hashed.
     const still = tx.select({ id: invitations.id }).from(invitations).where(and(eq(invitations.id, inv.id), pendingInvitation(now))).get();
     if (!still) throw invalidInvitation();
-    if (!account) {
+    let userId = account?.id;
+    if (!userId) {
       const taken = tx.select({ id: users.id }).from(users).where(eq(users.email, inv.email)).get();
       if (taken) throw conflict("An account for this address was just created; sign in instead.");
-      tx.insert(users)
-        .values({ id: userId, email: inv.email, name: input.name ?? inv.email, passwordHash: passwordHash ?? "" })
-        .run();
+      userId = createAccount(tx, { email: inv.email, name: input.name ?? inv.email, passwordHash: passwordHash ?? "" });
     }
     const claimed = tx
       .update(invitations)
@@ -199,7 +198,7 @@ export async function acceptInvitation(
         .where(and(eq(memberships.workspaceId, inv.workspaceId), eq(memberships.userId, userId)))
         .run();
     } else {
-      tx.insert(memberships).values({ workspaceId: inv.workspaceId, userId, roles }).run();
+      addMember(tx, { workspaceId: inv.workspaceId, userId, roles });
     }
     const user = { id: userId, email: inv.email, name: account?.name ?? input.name ?? inv.email };
     recordAudit(tx, {

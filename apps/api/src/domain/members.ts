@@ -85,3 +85,10 @@ export function removeMember(db: Db, input: MemberChange): void {
     });
   });
 }
+
+/** Makes an account a member of a workspace with `roles`, as of `at` (no audit entry: the caller's action has one). */
+export function addMember(db: DbOrTx, input: { workspaceId: string; userId: string; roles: Role[]; at?: Date }): void {
+  db.insert(memberships)
+    .values({ workspaceId: input.workspaceId, userId: input.userId, roles: input.roles, createdAt: input.at ?? new Date() })
+    .run();
+}

@@ -65,9 +65,16 @@ export function createProgram(
   return db.transaction((tx) => createProgramIn(tx, input));
 }
 
-function createProgramIn(db: DbOrTx, input: { workspaceId: string; actor: Actor; program: ProgramInput }): string {
+/**
+ * Stores a new program at version 1 with its first program_versions row ("program created"), as of `at`. No audit
+ * entry: createProgram writes one; the demo seeder (which back-dates its programs) calls this directly.
+ */
+export function storeProgram(
+  db: DbOrTx,
+  input: { workspaceId: string; createdBy: string; program: ProgramInput; at?: Date },
+): ProgramRow {
   const id = newId();
-  const at = new Date();
+  const at = input.at ?? new Date();
   const p = input.program;
   db.insert(programs)
     .values({
@@ -75,7 +82,7 @@ function createProgramIn(db: DbOrTx, input: { workspaceId: string; actor: Actor;
       workspaceId: input.workspaceId,
       ...p,
       version: 1,
-      createdBy: input.actor.id,
+      createdBy: input.createdBy,
       createdAt: at,
     })
     .run();
@@ -95,6 +102,12 @@ function createProgramIn(db: DbOrTx, input: { workspaceId: string; actor: Actor;
       createdAt: at,
     })
     .run();
+  return db.select().from(programs).where(eq(programs.id, id)).get() as ProgramRow;
+}
+
+function createProgramIn(db: DbOrTx, input: { workspaceId: string; actor: Actor; program: ProgramInput }): string {
+  const p = input.program;
+  const { id } = storeProgram(db, { workspaceId: input.workspaceId, createdBy: input.actor.id, program: p });
   recordAudit(db, {
     workspaceId: input.workspaceId,
     actorId: input.actor.id,

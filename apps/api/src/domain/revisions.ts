@@ -5,6 +5,7 @@ import {
   checkDesignInputs,
   evaluateSpec,
   maskWavelengths,
+  type Design,
   type SpecMask,
   type SpecResult,
   type YieldResult,
@@ -104,6 +105,18 @@ export function createRevision(tx: DbOrTx, input: NewRevision): RevisionRow {
       notComputable(err);
     }
   }
+  return storeRevision(tx, { design: input.design, stack, specMask: storedMask, note: input.note, authorId: input.authorId });
+}
+
+/**
+ * Stores the next revision of a design as given (number = last + 1, status draft, content hash of the stack and the
+ * stored mask), as of `at`. The caller has validated the stack and mask: createRevision does, the demo seeder's
+ * designs are the optics package's own.
+ */
+export function storeRevision(
+  tx: DbOrTx,
+  input: { design: Pick<DesignRow, "id">; stack: Design; specMask: SpecMask; note: string; authorId: string; at?: Date },
+): RevisionRow {
   const last = tx
     .select({ n: max(revisions.number) })
     .from(revisions)
@@ -113,16 +126,33 @@ export function createRevision(tx: DbOrTx, input: NewRevision): RevisionRow {
     id: newId(),
     designId: input.design.id,
     number: (last?.n ?? 0) + 1,
-    stack,
-    specMask: storedMask,
+    stack: input.stack,
+    specMask: input.specMask,
     note: input.note,
     authorId: input.authorId,
-    hash: revisionHash(stack, storedMask),
+    hash: revisionHash(input.stack, input.specMask),
     status: "draft" as const,
-    createdAt: new Date(),
+    statusChangedAt: null,
+    createdAt: input.at ?? new Date(),
   };
   tx.insert(revisions).values(row).run();
   return tx.select().from(revisions).where(eq(revisions.id, row.id)).get() as RevisionRow;
+}
+
+/** Stores a new design (no revision yet) in a program, as of `at`. */
+export function storeDesign(
+  tx: DbOrTx,
+  input: { programId: string; name: string; createdBy: string; at?: Date },
+): DesignRow {
+  const design = {
+    id: newId(),
+    programId: input.programId,
+    name: input.name,
+    createdBy: input.createdBy,
+    createdAt: input.at ?? new Date(),
+  };
+  tx.insert(designs).values(design).run();
+  return design;
 }
 
 /**
@@ -134,14 +164,7 @@ export function createDesign(
 ): { design: DesignRow; revision: RevisionRow } {
   const { actor, program } = input;
   return db.transaction((tx) => {
-    const design = {
-      id: newId(),
-      programId: program.id,
-      name: input.name,
-      createdBy: actor.id,
-      createdAt: new Date(),
-    };
-    tx.insert(designs).values(design).run();
+    const design = storeDesign(tx, { programId: program.id, name: input.name, createdBy: actor.id });
     const revision = createRevision(tx, {
       workspaceId: input.workspaceId,
       design,

@@ -183,19 +183,62 @@ export function threadViews(
 // Writing: opening, commenting, resolving and reopening. Each is one transaction with its audit entry; members
 // @mentioned get an e-mail once it is committed.
 
-function addComment(db: DbOrTx, workspaceId: string, actor: Actor, threadId: string, body: string) {
-  const members = workspaceMembers(db, workspaceId);
-  const mentioned = findMentions(body, members).filter((m) => m.id !== actor.id);
+/**
+ * Stores a thread on a revision as of `at`, open or (with `resolved`) already resolved; its comments are stored
+ * with storeComment. Returns its id. openThread is the product's way in; the demo seeder back-dates its threads.
+ */
+export function storeThread(
+  db: DbOrTx,
+  input: {
+    rc: RevisionContext;
+    anchor: ThreadAnchor;
+    severity: "blocking" | "advisory";
+    authorId: string;
+    at?: Date;
+    resolved?: { by: string; at: Date };
+  },
+): string {
+  const { rc } = input;
+  const id = newId();
+  db.insert(threads)
+    .values({
+      id,
+      designId: rc.design.id,
+      revisionId: rc.revision.id,
+      revisionNumber: rc.revision.number,
+      anchor: input.anchor,
+      severity: input.severity,
+      status: input.resolved ? "resolved" : "open",
+      authorId: input.authorId,
+      resolvedBy: input.resolved?.by ?? null,
+      resolvedAt: input.resolved?.at ?? null,
+      createdAt: input.at ?? new Date(),
+    })
+    .run();
+  return id;
+}
+
+/** Stores a comment on a thread as of `at`, with the ids of the members it mentions. */
+export function storeComment(
+  db: DbOrTx,
+  input: { threadId: string; authorId: string; body: string; mentions: string[]; at?: Date },
+): void {
   db.insert(comments)
     .values({
       id: newId(),
-      threadId,
-      authorId: actor.id,
-      body,
-      mentions: mentioned.map((m) => m.id),
-      createdAt: new Date(),
+      threadId: input.threadId,
+      authorId: input.authorId,
+      body: input.body,
+      mentions: input.mentions,
+      createdAt: input.at ?? new Date(),
     })
     .run();
+}
+
+function addComment(db: DbOrTx, workspaceId: string, actor: Actor, threadId: string, body: string) {
+  const members = workspaceMembers(db, workspaceId);
+  const mentioned = findMentions(body, members).filter((m) => m.id !== actor.id);
+  storeComment(db, { threadId, authorId: actor.id, body, mentions: mentioned.map((m) => m.id) });
   return mentioned;
 }
 
@@ -231,19 +274,8 @@ export function openThread(
       `Revision ${rc.revision.number} has ${stackOf(rc.revision).layers.length} layers; there is no layer ${anchor.index}.`,
     );
   }
-  const id = newId();
-  const mentioned = deps.db.transaction((tx) => {
-    tx.insert(threads)
-      .values({
-        id,
-        designId: rc.design.id,
-        revisionId: rc.revision.id,
-        revisionNumber: rc.revision.number,
-        anchor,
-        severity: input.severity,
-        authorId: actor.id,
-      })
-      .run();
+  const { id, mentioned } = deps.db.transaction((tx) => {
+    const id = storeThread(tx, { rc, anchor, severity: input.severity, authorId: actor.id });
     const mentioned = addComment(tx, workspaceId, actor, id, input.body);
     recordAudit(tx, {
       workspaceId,
@@ -253,7 +285,7 @@ export function openThread(
       subjectId: id,
       summary: `${actor.name} opened a ${input.severity} thread on ${rc.design.name} rev ${rc.revision.number}`,
     });
-    return mentioned;
+    return { id, mentioned };
   });
   for (const m of mentioned) mailMention(deps, rc, m, actor.name, input.body);
   return threadRow(deps.db, id);

@@ -1,6 +1,7 @@
-// Workspaces: which one is the demo workspace.
+// Workspaces: creating one, and which one is the demo workspace.
 import { and, eq } from "drizzle-orm";
-import { memberships, users } from "../db/schema.ts";
+import { memberships, users, workspaces } from "../db/schema.ts";
+import { newId } from "../auth/tokens.ts";
 import type { DbOrTx } from "../lib/audit.ts";
 
 /**
@@ -18,4 +19,13 @@ export function isDemoWorkspace(db: DbOrTx, workspaceId: string): boolean {
     .where(eq(users.email, DEMO_ADMIN_EMAIL))
     .get();
   return row !== undefined;
+}
+
+/** Creates a workspace (no route does: the demo seeder and deployments' set-up do), as of `at`; returns its id. */
+export function createWorkspace(db: DbOrTx, input: { name: string; at?: Date }): string {
+  const id = newId();
+  db.insert(workspaces)
+    .values({ id, name: input.name, createdAt: input.at ?? new Date() })
+    .run();
+  return id;
 }

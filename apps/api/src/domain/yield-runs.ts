@@ -1,7 +1,7 @@
 // Yield runs as the API shows them, what-if studies, and cancelling a run. The evidence run (the one the gate
 // counts) is domain/evidence.ts's requestEvidenceRun; the job service (src/yield) computes and stores results.
 import { and, eq, inArray } from "drizzle-orm";
-import { ENGINE_VERSION, parseYieldStudy, type ErrorModel } from "@stackproof/optics";
+import { ENGINE_VERSION, parseYieldStudy, type ErrorModel, type YieldResult, type YieldStudy } from "@stackproof/optics";
 import type { Db } from "../db/client.ts";
 import { yieldRuns, type Role } from "../db/schema.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
@@ -9,6 +9,7 @@ import { HttpError, conflict, forbidden } from "../lib/errors.ts";
 import { newId } from "./canonical.ts";
 import type { Actor } from "./deps.ts";
 import { loadYieldRun, maskOf, person, stackOf, userNames, type RevisionContext, type YieldRunRow } from "./load.ts";
+import { ClientResultSchema, verifyClientResult } from "../yield/verify.ts";
 
 /** A run as the API shows it; `names` (requester id → person) saves the lookup when listing many runs. */
 export function yieldRunView(
@@ -128,4 +129,77 @@ export function cancelYieldRun(
     throw conflict(`The run is already ${now?.status ?? run.status}.`, { status: now?.status ?? run.status });
   }
   return now as YieldRunRow;
+}
+
+/** The finished run's columns: result, verification against a submitted client result, timestamps. */
+export function finishedRunValues(run: YieldRunRow, result: YieldResult) {
+  let verified = true;
+  let mismatch: string | null = null;
+  if (run.clientResult !== null && run.clientResult !== undefined) {
+    const parsed = ClientResultSchema.safeParse(run.clientResult);
+    if (!parsed.success) {
+      verified = false;
+      mismatch = "the submitted client result is not a yield result";
+    } else {
+      ({ verified, mismatch } = verifyClientResult(result, parsed.data, {
+        trials: run.trials,
+        seed: run.seed,
+        errorModel: run.errorModel,
+      }));
+    }
+  }
+  return {
+    status: "done" as const,
+    progressDone: run.trials,
+    result,
+    verified,
+    mismatch,
+    engineVersion: result.engineVersion,
+    finishedAt: new Date(),
+  };
+}
+
+/**
+ * Records an evidence run the server computed itself (so it is verified), finished: the study's seed, trials and
+ * error model, its result, requested at `at` and finished at `finishedAt`. Returns the run's id. The demo seeder
+ * stores its evidence runs this way; the job service stores the runs it computes chunk by chunk (src/yield).
+ */
+export function recordEvidenceResult(
+  db: DbOrTx,
+  input: {
+    rc: RevisionContext;
+    study: Pick<YieldStudy, "trials" | "seed" | "errorModel">;
+    result: YieldResult;
+    requestedBy: string;
+    at: Date;
+    finishedAt: Date;
+    programVersion?: number;
+  },
+): string {
+  const { rc, study, at } = input;
+  const base = {
+    id: newId(),
+    revisionId: rc.revision.id,
+    requestedBy: input.requestedBy,
+    status: "running" as const,
+    progressDone: 0,
+    trials: study.trials,
+    seed: study.seed,
+    errorModel: study.errorModel,
+    clientResult: null,
+    result: null,
+    verified: null,
+    mismatch: null,
+    engineVersion: ENGINE_VERSION,
+    kind: "evidence" as const,
+    programVersion: input.programVersion ?? rc.program.version,
+    error: null,
+    createdAt: at,
+    startedAt: at,
+    finishedAt: null,
+  };
+  db.insert(yieldRuns)
+    .values({ ...base, ...finishedRunValues(base, input.result), finishedAt: input.finishedAt })
+    .run();
+  return base.id;
 }
