@@ -2,8 +2,8 @@
 //   - a web feature does not import another feature (shared code moves down to src/components or src/lib);
 //   - shared web code (src/components, src/lib, src/config, src/workers) does not import features;
 //   - packages/optics and packages/contracts import nothing of apps/;
-//   - in apps/api/src: only app.ts imports routes/; the domain layer imports no routes, app, context, entry point
-//     or demo (domain functions take db, mail, env).
+//   - in apps/api/src: only app.ts imports routes/; only the entry point (index.ts) imports demo/; the domain layer
+//     imports no routes, app, context, entry point or demo (domain functions take db, mail, env).
 // Hand-written (about 50 lines) rather than eslint-plugin-import-x's no-restricted-paths: our imports are relative
 // with explicit .ts extensions, so resolving them is a path.resolve, and the rule needs no resolver configuration.
 import path from "node:path";
@@ -49,6 +49,8 @@ function apiViolation(file, target) {
   }
   if (inside(routes, target) && !inside(routes, file) && file !== api("app.ts"))
     return "only src/app.ts imports routes/: move what is shared into src/domain or src/lib";
+  if (inside(api("demo"), target) && !inside(api("demo"), file) && file !== api("index.ts"))
+    return "only the entry point (src/index.ts) loads the demo seeder: the demo builds on the domain, nothing builds on the demo";
   return null;
 }
 

@@ -11,6 +11,7 @@ import {
 } from "@stackproof/optics";
 import { hashPassword } from "../auth/password.ts";
 import type { Db } from "../db/client.ts";
+import type { Env } from "../env.ts";
 import {
   comments,
   decisions,
@@ -493,4 +494,12 @@ export function isDemoWorkspacePresent(db: Db): boolean {
       .limit(1)
       .all().length > 0
   );
+}
+
+/**
+ * The demo workspace, loaded when DEMO_DATA asks for it and the database is new (no workspace yet); null otherwise.
+ * Called by the entry point (src/index.ts) after the context is built.
+ */
+export async function loadDemoData(env: Pick<Env, "DEMO_DATA">, db: Db): Promise<DemoSummary | null> {
+  return env.DEMO_DATA && isNewDatabase(db) ? seedDemo(db) : null;
 }

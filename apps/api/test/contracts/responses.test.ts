@@ -11,9 +11,10 @@ import * as C from "@stackproof/contracts";
 import { createApp } from "../../src/app.ts";
 import { createContext, type AppContext } from "../../src/context.ts";
 import { loadEnv } from "../../src/env.ts";
-import { DEMO_PASSWORD } from "../../src/demo/index.ts";
+import { DEMO_PASSWORD, loadDemoData } from "../../src/demo/index.ts";
 import { routeRegistry } from "../../src/lib/route.ts";
 import { signIn, withOrigin } from "../support/auth.ts";
+import type { TestServer } from "../support/context.ts";
 import { expectContract } from "../support/contract.ts";
 import { lastMailTo, tokenIn } from "../support/mail.ts";
 import request from "supertest";
@@ -21,23 +22,24 @@ import { API, AR_MASK, ERROR_MODEL, programBody, singleLayerAr } from "../domain
 
 let dir: string;
 let ctx: AppContext;
-let server: { ctx: AppContext; app: ReturnType<typeof createApp>; dir: string; close(): Promise<void> };
+let server: TestServer;
 type Agent = Awaited<ReturnType<typeof signIn>>;
 let admin: Agent, designer: Agent, reviewer: Agent, approver: Agent;
 
 beforeAll(async () => {
   dir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-contracts-"));
-  ctx = await createContext(
-    loadEnv({
-      NODE_ENV: "test",
-      DATA_DIR: dir,
-      DEMO_DATA: "true",
-      YIELD_WORKERS: "1",
-      // The origin the support agents send (support/auth.ts TEST_ORIGIN).
-      ALLOWED_ORIGINS: "http://stackproof.test",
-    }),
-  );
-  server = { ctx, app: createApp(ctx), dir, close: async () => {} };
+  const env = loadEnv({
+    NODE_ENV: "test",
+    DATA_DIR: dir,
+    DEMO_DATA: "true",
+    YIELD_WORKERS: "1",
+    // The origin the support agents send (support/auth.ts TEST_ORIGIN).
+    ALLOWED_ORIGINS: "http://stackproof.test",
+  });
+  ctx = await createContext(env);
+  // As the entry point (src/index.ts) does.
+  const demo = await loadDemoData(env, ctx.db);
+  server = { ctx, app: createApp(ctx), dir, demo, close: async () => {} };
   admin = await signIn(server, "admin@halvorsen.example", DEMO_PASSWORD);
   designer = await signIn(server, "designer@halvorsen.example", DEMO_PASSWORD);
   reviewer = await signIn(server, "reviewer@halvorsen.example", DEMO_PASSWORD);

@@ -78,6 +78,15 @@ describe("API imports go one way (house/one-way-imports)", () => {
     expect(violation(at("apps/api/src/routes/domain/index.ts"), "./threads.ts")).toBeNull();
   });
 
+  it("lets only the entry point load the demo seeder (no import circle through the demo)", () => {
+    expect(violation(at("apps/api/src/context.ts"), "./demo/index.ts")).toMatch(/only the entry point/);
+    expect(violation(at("apps/api/src/routes/access/auth.ts"), "../../demo/index.ts")).toMatch(/only the entry point/);
+    expect(violation(at("apps/api/src/yield/index.ts"), "../demo/designs.ts")).not.toBeNull();
+    expect(violation(at("apps/api/src/index.ts"), "./demo/index.ts")).toBeNull();
+    expect(violation(at("apps/api/src/demo/index.ts"), "./designs.ts")).toBeNull();
+    expect(violation(at("apps/api/src/demo/index.ts"), "../domain/workflow.ts")).toBeNull();
+  });
+
   it("lets routes import the domain and the domain import lib, db and mail", () => {
     expect(violation(at("apps/api/src/routes/domain/threads.ts"), "../../domain/threads.ts")).toBeNull();
     expect(violation(at("apps/api/src/domain/accounts.ts"), "../lib/audit.ts")).toBeNull();
