@@ -62,6 +62,17 @@ export {
   groupDelay,
   coneQuadrature,
   coneHalfAngleDeg,
+  coneRule,
+  angleRangeRule,
+  adaptiveRule,
+  averageRule,
+  coneAverage,
+  computeSpectrumAtAngles,
+  createLiveSpectrum,
+  evenGrid,
+  gaussLegendre,
+  ANGLE_RULE_TOLERANCE,
+  ANGLE_RULE_MAX_PANELS,
   SPEED_OF_LIGHT_NM_PER_FS,
 } from "./spectrum.ts";
 export type {
@@ -70,6 +81,10 @@ export type {
   SpectrumOptions,
   ConeOption,
   ConeRay,
+  AngleRule,
+  RuleResponses,
+  LiveSpectrum,
+  LiveSpectrumOptions,
   GroupDelayOptions,
 } from "./spectrum.ts";
 export { fieldProfile } from "./field.ts";

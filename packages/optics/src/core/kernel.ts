@@ -316,7 +316,7 @@ export interface PolTables {
 }
 
 /** Build the per-angle, per-polarization tables. angleDeg in [0, 90) in the incident medium. */
-export function tabulate(prep: PreparedStack, angleDeg: number, pol: "s" | "p"): PolTables {
+export function tabulate(prep: PreparedStack, angleDeg: number, pol: "s" | "p", into?: PolTables): PolTables {
   if (!(angleDeg >= 0 && angleDeg < 90)) {
     throw new RangeError(`angleDeg: expected an angle in [0, 90) degrees, got ${String(angleDeg)}`);
   }
@@ -327,17 +327,19 @@ export function tabulate(prep: PreparedStack, angleDeg: number, pol: "s" | "p"):
       `design × grid too large: ${L} layers × ${W} wavelengths = ${size} (limit ${MAX_TABLE}); use fewer wavelengths`,
     );
   }
-  const packC = new Float64Array(6 * size);
-  const packN2 = new Float64Array(2 * size);
-  const realLayer = new Uint8Array(L).fill(1);
-  const s2 = new Float64Array(W);
-  const k0 = new Float64Array(W);
-  const eta0 = new Float64Array(W);
-  const etaSR = new Float64Array(W);
-  const etaSI = new Float64Array(W);
-  const Rb = new Float64Array(W);
-  const Tb = new Float64Array(W);
-  const tau = new Float64Array(W);
+  // `into` (same stack and polarization) is refilled in place: no allocation for a new angle
+  const reuse = into !== undefined && into.W === W && into.L === L && into.pol === pol;
+  const packC = reuse ? into.packC : new Float64Array(6 * size);
+  const packN2 = reuse ? into.packN2 : new Float64Array(2 * size);
+  const realLayer = reuse ? into.realLayer.fill(1) : new Uint8Array(L).fill(1);
+  const s2 = reuse ? into.s2 : new Float64Array(W);
+  const k0 = reuse ? into.k0 : new Float64Array(W);
+  const eta0 = reuse ? into.eta0 : new Float64Array(W);
+  const etaSR = reuse ? into.etaSR : new Float64Array(W);
+  const etaSI = reuse ? into.etaSI : new Float64Array(W);
+  const Rb = reuse ? into.Rb : new Float64Array(W);
+  const Tb = reuse ? into.Tb : new Float64Array(W);
+  const tau = reuse ? into.tau : new Float64Array(W);
   const sinT = Math.sin((angleDeg * Math.PI) / 180);
   const q = new Float64Array(2);
   let real = true;
@@ -431,13 +433,19 @@ export function tabulate(prep: PreparedStack, angleDeg: number, pol: "s" | "p"):
     }
   }
   // real path table [β, η, 1/η]: half the memory traffic of the complex one
-  const packR = new Float64Array(real ? 3 * size : 0);
+  const packR = reuse && into.packR.length === 3 * size ? into.packR : new Float64Array(real ? 3 * size : 0);
   if (real) {
     for (let i = 0; i < size; i++) {
       packR[3 * i] = packC[6 * i]!;
       packR[3 * i + 1] = packC[6 * i + 2]!;
       packR[3 * i + 2] = packC[6 * i + 4]!;
     }
+  }
+  if (reuse) {
+    into.packR = packR;
+    into.real = real;
+    into.maxS2 = maxS2;
+    return into;
   }
   return {
     packR, packC, packN2, realLayer,

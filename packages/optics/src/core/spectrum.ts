@@ -111,7 +111,8 @@ export interface ConeRay {
   sFraction: number;
 }
 
-function gaussLegendre(n: number): { x: Float64Array; w: Float64Array } {
+/** Gauss–Legendre nodes x and weights w on [−1, 1] (Newton iteration on P_n; Golub–Welsch values to 1e-15). */
+export function gaussLegendre(n: number): { x: Float64Array; w: Float64Array } {
   const x = new Float64Array(n);
   const w = new Float64Array(n);
   for (let i = 0; i < n; i++) {
@@ -137,69 +138,353 @@ function gaussLegendre(n: number): { x: Float64Array; w: Float64Array } {
 }
 
 /**
- * Quadrature of a cone of incidence around an axis at `axisDeg`: rays uniform in solid angle
- * (uniform irradiance over the cone), cone angle α by Gauss–Legendre (nAlpha nodes) with
- * weight sin α, azimuth φ by the midpoint rule on [0, π] (the cone is mirror-symmetric about
- * the plane of incidence). Each ray's s share is the squared projection of the beam's s
- * direction, carried onto the plane normal to the ray, on the ray's own s direction; for an
- * axis at normal incidence the azimuth average gives s and p in equal shares.
- * Weights sum to 1.
+ * A one-dimensional quadrature rule in the angle of incidence θ for an average over a cone (or over an
+ * angle range). For a beam polarized "s" the average of a quantity X is Σ_i wS[i]·X_s(θ_i) + wP[i]·X_p(θ_i);
+ * for a beam polarized "p" the shares swap (Σ wP[i]·X_s + wS[i]·X_p); unpolarized light is the mean of the two.
+ * Σ (wS + wP) = 1.
  */
-export function coneQuadrature(axisDeg: number, halfAngleDeg: number, nAlpha = 8, nPhi = 12): ConeRay[] {
+export interface AngleRule {
+  /** cone axis (chief ray) or range start, degrees */
+  axisDeg: number;
+  /** cone half-angle in degrees (0 for an angle-range rule) */
+  halfAngleDeg: number;
+  anglesDeg: Float64Array;
+  wS: Float64Array;
+  wP: Float64Array;
+}
+
+// Inner azimuth integral: Gauss–Legendre nodes on [0, ψmax]; the s share is smooth in ψ, so 24 nodes
+// reach machine precision (checked by the cone tests against an independent 2-D reference).
+const AZIMUTH_GL = gaussLegendre(24);
+
+/**
+ * s share of the ray (θ, ψ) (polar angle θ from the surface normal, azimuth ψ from the chief plane of
+ * incidence) in a cone about the chief ray at θc, for a beam polarized perpendicular to the chief plane of
+ * incidence ("s"). Convention: an ideal aplanatic lens (Richards & Wolf, Proc. R. Soc. A 253, 358 (1959)) —
+ * the pupil field ŷ = sin φ ρ̂ + cos φ φ̂ (φ: the ray's azimuth in the pupil) keeps its azimuthal
+ * component and tilts its radial one with the ray. The share is |E·ŝ_ray|² with ŝ_ray the ray's own s
+ * direction at the coating.
+ */
+function sShare(sinTc: number, cosTc: number, theta: number, psi: number): number {
+  const st = Math.sin(theta);
+  if (st < 1e-12) return 0.5; // at normal incidence s and p coincide
+  const dx = st * Math.cos(psi);
+  const dy = st * Math.sin(psi);
+  const dz = Math.cos(theta);
+  // pupil axes: ux = p direction of the chief ray, uy = its s direction, a = chief ray
+  const ca = dx * sinTc + dz * cosTc; // cos α (angle from the chief ray)
+  const px = dx * cosTc - dz * sinTc; // d·ux
+  const py = dy; // d·uy
+  const sa = Math.hypot(px, py); // sin α
+  // ray s direction at the coating: (−sin ψ, cos ψ, 0)
+  const sx = -Math.sin(psi);
+  const sy = Math.cos(psi);
+  let ex: number;
+  let ey: number;
+  if (sa < 1e-12) {
+    ex = 0;
+    ey = 1;
+  } else {
+    const cphi = px / sa;
+    const sphi = py / sa;
+    // e_φ = a × d / sin α = cos φ uy − sin φ ux; e_ρ = cos α (cos φ ux + sin φ uy) − sin α a
+    const ephx = -sphi * cosTc;
+    const ephy = cphi;
+    const erx = ca * cphi * cosTc - sa * sinTc;
+    const ery = ca * sphi;
+    ex = sphi * erx + cphi * ephx;
+    ey = sphi * ery + cphi * ephy;
+  }
+  const dot = ex * sx + ey * sy;
+  return dot * dot;
+}
+
+/**
+ * Cone rule (rays filling the cone uniformly in solid angle: a uniformly filled pupil of an aplanatic lens,
+ * i.e. uniform radiance). The azimuth is integrated first, without any optics (the response depends only on
+ * the angle of incidence θ); the physics is then needed at the 1-D nodes θ_i only.
+ *
+ * - On axis (θc = 0) the azimuth is reduced exactly: every θ is a full ring, and the aplanatic s share
+ *   cos²φ averages to ½ over the ring, so the s and p shares are equal and both polarized cones equal the
+ *   unpolarized one.
+ * - The polar integral is composite Gauss–Legendre: on the full-ring part (θ ≤ α − θc) in u = 1 − cos θ
+ *   (solid-angle weight dΩ = 2π du); on the part where the ring is cut by the cone edge in t with
+ *   θ = a + (b − a)(1 − cos t)/2, which removes the square-root behaviour of the ring length at both ends.
+ *
+ * @param axisDeg chief-ray angle, degrees, ≥ 0
+ * @param halfAngleDeg cone half-angle α, degrees, > 0; axisDeg + halfAngleDeg < 90
+ * @param panels sub-panels per part (≥ 1)
+ * @param nodes Gauss–Legendre nodes per sub-panel (≥ 1)
+ */
+export function coneRule(axisDeg: number, halfAngleDeg: number, panels = 4, nodes = 8): AngleRule {
+  if (!(axisDeg >= 0 && axisDeg < 90)) throw new RangeError(`cone axis: expected an angle in [0, 90) degrees, got ${axisDeg}`);
+  if (!(halfAngleDeg > 0 && halfAngleDeg < 90)) {
+    throw new RangeError(`cone.halfAngleDeg: expected an angle in (0, 90) degrees, got ${halfAngleDeg}`);
+  }
+  if (!(axisDeg + halfAngleDeg < 90)) {
+    throw new RangeError(`cone: axis ${axisDeg}° plus half-angle ${halfAngleDeg}° reaches grazing incidence (must stay below 90°)`);
+  }
+  if (!(Number.isInteger(panels) && panels >= 1 && panels <= 4096)) throw new RangeError(`panels: expected an integer 1–4096, got ${panels}`);
+  if (!(Number.isInteger(nodes) && nodes >= 1 && nodes <= 64)) throw new RangeError(`nodes: expected an integer 1–64, got ${nodes}`);
+  const rad = Math.PI / 180;
+  const am = halfAngleDeg * rad;
+  const tc = axisDeg * rad;
+  const sinTc = Math.sin(tc);
+  const cosTc = Math.cos(tc);
+  const cosAm = Math.cos(am);
+  const gl = gaussLegendre(nodes);
+  const angles: number[] = [];
+  const wS: number[] = [];
+  const wP: number[] = [];
+  const omega = 2 * Math.PI * (1 - cosAm);
+  // ring part: θ in [0, am − tc]
+  const full = am - tc;
+  if (full > 0) {
+    const u1 = 1 - Math.cos(full);
+    for (let p = 0; p < panels; p++) {
+      const ua = (u1 * p) / panels;
+      const ub = (u1 * (p + 1)) / panels;
+      for (let i = 0; i < nodes; i++) {
+        const u = ua + ((ub - ua) * (gl.x[i]! + 1)) / 2;
+        const theta = Math.acos(1 - u);
+        const w = ((gl.w[i]! * (ub - ua)) / 2) * (2 * Math.PI) / omega;
+        let fs = 0.5;
+        if (tc > 0) {
+          // full ring: ∫_0^{2π} f_s dψ / 2π, symmetric about ψ = 0
+          let acc = 0;
+          for (let k = 0; k < AZIMUTH_GL.x.length; k++) {
+            const psi = (Math.PI * (AZIMUTH_GL.x[k]! + 1)) / 2;
+            acc += AZIMUTH_GL.w[k]! * sShare(sinTc, cosTc, theta, psi);
+          }
+          fs = acc / 2;
+        }
+        angles.push(theta / rad);
+        wS.push(w * fs);
+        wP.push(w * (1 - fs));
+      }
+    }
+  }
+  if (tc > 0) {
+    // cut-ring part: θ in [|am − tc|, am + tc], ψ in [−ψm, ψm]
+    const a = Math.abs(am - tc);
+    const b = am + tc;
+    for (let p = 0; p < panels; p++) {
+      const ta = (Math.PI * p) / panels;
+      const tb = (Math.PI * (p + 1)) / panels;
+      for (let i = 0; i < nodes; i++) {
+        const t = ta + ((tb - ta) * (gl.x[i]! + 1)) / 2;
+        const theta = a + ((b - a) * (1 - Math.cos(t))) / 2;
+        const dth = ((b - a) * Math.sin(t)) / 2;
+        const st = Math.sin(theta);
+        let c = (cosAm - Math.cos(theta) * cosTc) / (st * sinTc);
+        c = c > 1 ? 1 : c < -1 ? -1 : c;
+        const psiM = Math.acos(c);
+        let accS = 0;
+        for (let k = 0; k < AZIMUTH_GL.x.length; k++) {
+          const psi = (psiM * (AZIMUTH_GL.x[k]! + 1)) / 2;
+          accS += AZIMUTH_GL.w[k]! * sShare(sinTc, cosTc, theta, psi);
+        }
+        accS *= psiM; // ∫_{−ψm}^{ψm} f_s dψ = 2 · (ψm/2) Σ w f_s
+        const ring = 2 * psiM;
+        const w = ((gl.w[i]! * (tb - ta)) / 2) * st * dth / omega;
+        angles.push(theta / rad);
+        wS.push(w * accS);
+        wP.push(w * (ring - accS));
+      }
+    }
+  }
+  // normalise to Σ = 1 (the numerical solid angle): a lossless stack then keeps R + T = 1 exactly
+  let sum = 0;
+  for (let i = 0; i < wS.length; i++) sum += wS[i]! + wP[i]!;
+  return {
+    axisDeg,
+    halfAngleDeg,
+    anglesDeg: Float64Array.from(angles),
+    wS: Float64Array.from(wS, (v) => v / sum),
+    wP: Float64Array.from(wP, (v) => v / sum),
+  };
+}
+
+/**
+ * Angle-average rule over [fromDeg, toDeg], uniform in angle (every angle counts the same), composite
+ * Gauss–Legendre. The beam keeps its polarization: wS = weight, wP = 0.
+ */
+export function angleRangeRule(fromDeg: number, toDeg: number, panels = 2, nodes = 8): AngleRule {
+  if (!(fromDeg >= 0 && toDeg >= fromDeg && toDeg < 90)) {
+    throw new RangeError(`angle range: expected 0 ≤ from ≤ to < 90 degrees, got ${fromDeg}–${toDeg}`);
+  }
+  if (toDeg === fromDeg) {
+    return { axisDeg: fromDeg, halfAngleDeg: 0, anglesDeg: Float64Array.of(fromDeg), wS: Float64Array.of(1), wP: Float64Array.of(0) };
+  }
+  const gl = gaussLegendre(nodes);
+  const n = panels * nodes;
+  const anglesDeg = new Float64Array(n);
+  const wS = new Float64Array(n);
+  const span = toDeg - fromDeg;
+  for (let p = 0; p < panels; p++) {
+    for (let i = 0; i < nodes; i++) {
+      anglesDeg[p * nodes + i] = fromDeg + (span * (p + (gl.x[i]! + 1) / 2)) / panels;
+      wS[p * nodes + i] = gl.w[i]! / (2 * panels);
+    }
+  }
+  return { axisDeg: fromDeg, halfAngleDeg: 0, anglesDeg, wS, wP: new Float64Array(n) };
+}
+
+/** Default absolute tolerance (fractions of R, T) of the adaptive cone and angle-average rules. */
+export const ANGLE_RULE_TOLERANCE = 1e-5;
+/** Largest number of sub-panels the adaptive rules may reach. */
+export const ANGLE_RULE_MAX_PANELS = 128;
+
+/**
+ * Adaptive choice of the number of sub-panels: K = 1, 2, 4, … until the results of K and 2K sub-panels
+ * (all outputs of `evaluate`, e.g. R and T at every wavelength for both beam polarizations) differ by at
+ * most `tolerance`; the coarser rule K is returned. Its error is about that difference, because the finer
+ * rule is far more accurate (composite Gauss–Legendre converges as h^(2·nodes) on a smooth integrand).
+ * Throws a RangeError when ANGLE_RULE_MAX_PANELS is reached.
+ */
+export function adaptiveRule(
+  build: (panels: number) => AngleRule,
+  evaluate: (rule: AngleRule) => Float64Array,
+  tolerance = ANGLE_RULE_TOLERANCE,
+): AngleRule {
+  let rule = build(1);
+  let prev = evaluate(rule);
+  for (let K = 2; K <= ANGLE_RULE_MAX_PANELS; K *= 2) {
+    const next = build(K);
+    const cur = evaluate(next);
+    let diff = 0;
+    for (let i = 0; i < cur.length; i++) {
+      const d = Math.abs(cur[i]! - prev[i]!);
+      if (d > diff || Number.isNaN(d)) diff = d;
+    }
+    if (diff <= tolerance) return rule;
+    // a non-finite response is reported by the caller as a failing value, not refined further
+    if (Number.isNaN(diff)) return rule;
+    rule = next;
+    prev = cur;
+  }
+  throw new RangeError(
+    `cone/angle average: not converged to ${tolerance} with ${ANGLE_RULE_MAX_PANELS} sub-panels (response too sharp in angle)`,
+  );
+}
+
+/**
+ * Rays of the default cone rule (see {@link coneRule}) as a flat list: angle, weight = wS + wP and the
+ * s share wS / (wS + wP) for an s-polarized beam. Kept for callers that mix s and p per ray.
+ */
+export function coneQuadrature(axisDeg: number, halfAngleDeg: number, panels = 4, nodes = 8): ConeRay[] {
   if (!(halfAngleDeg >= 0 && halfAngleDeg < 90)) {
     throw new RangeError(`cone.halfAngleDeg: expected an angle in [0, 90) degrees, got ${halfAngleDeg}`);
   }
-  if (!(axisDeg + halfAngleDeg < 90)) {
-    throw new RangeError(
-      `cone: axis ${axisDeg}° plus half-angle ${halfAngleDeg}° reaches grazing incidence (must stay below 90°)`,
-    );
-  }
   if (halfAngleDeg === 0) return [{ angleDeg: axisDeg, weight: 1, sFraction: 1 }];
-  const amax = (halfAngleDeg * Math.PI) / 180;
-  const tc = (axisDeg * Math.PI) / 180;
-  const gl = gaussLegendre(nAlpha);
-  const rays: ConeRay[] = [];
-  const phis = axisDeg === 0 ? 1 : nPhi;
-  let sum = 0;
-  for (let i = 0; i < nAlpha; i++) {
-    const a = (amax * (gl.x[i]! + 1)) / 2;
-    const wa = ((gl.w[i]! * amax) / 2) * Math.sin(a);
-    for (let k = 0; k < phis; k++) {
-      const phi = ((k + 0.5) * Math.PI) / phis;
-      const dx = Math.cos(a) * Math.sin(tc) + Math.sin(a) * Math.cos(phi) * Math.cos(tc);
-      const dy = Math.sin(a) * Math.sin(phi);
-      const dz = Math.cos(a) * Math.cos(tc) - Math.sin(a) * Math.cos(phi) * Math.sin(tc);
-      let fs: number;
-      if (axisDeg === 0) fs = 0.5;
-      else {
-        const rho = Math.hypot(dx, dy);
-        if (rho < 1e-12) fs = 0.5;
-        else {
-          // beam s direction (0,1,0) projected normal to the ray, against the ray's s direction
-          const ex = -dy * dx;
-          const ey = 1 - dy * dy;
-          const ez = -dy * dz;
-          const en = Math.hypot(ex, ey, ez);
-          const dot = (ex * -dy + ey * dx) / (rho * en);
-          fs = dot * dot;
-        }
-      }
-      const wgt = wa / phis;
-      sum += wgt;
-      rays.push({ angleDeg: (Math.acos(Math.min(1, dz)) * 180) / Math.PI, weight: wgt, sFraction: fs });
-    }
-  }
-  for (const r of rays) r.weight /= sum;
-  return rays;
+  const rule = coneRule(axisDeg, halfAngleDeg, panels, nodes);
+  return Array.from(rule.anglesDeg, (angleDeg, i) => {
+    const weight = rule.wS[i]! + rule.wP[i]!;
+    return { angleDeg, weight, sFraction: weight > 0 ? rule.wS[i]! / weight : 0.5 };
+  });
 }
 
-/** Cone half-angle in degrees from a cone option (f-number N: atan(1/(2N))). */
+/**
+ * Cone half-angle in degrees from a cone option. f-number N: α = arcsin(1/(2N)), the marginal ray of an
+ * aplanatic lens in air (NA = 1/(2N); common practice, no source).
+ */
 export function coneHalfAngleDeg(cone: ConeOption): number {
   if ("fNumber" in cone) {
-    if (!(cone.fNumber > 0)) throw new RangeError(`cone.fNumber: expected a number > 0, got ${cone.fNumber}`);
-    return (Math.atan(1 / (2 * cone.fNumber)) * 180) / Math.PI;
+    if (!(cone.fNumber >= 0.5) || !Number.isFinite(cone.fNumber)) {
+      throw new RangeError(`cone.fNumber: expected a number ≥ 0.5, got ${cone.fNumber}`);
+    }
+    return (Math.asin(1 / (2 * cone.fNumber)) * 180) / Math.PI;
   }
   return cone.halfAngleDeg;
+}
+
+/**
+ * R, T of both polarizations at each node of a rule, for given thicknesses (one kernel per node and
+ * polarization, tabulated once). Output layout: [sR, sT, sA, pR, pT, pA] per node, each of length W.
+ */
+export interface RuleResponses {
+  rule: AngleRule;
+  sR: Float64Array[];
+  sT: Float64Array[];
+  sA: Float64Array[];
+  pR: Float64Array[];
+  pT: Float64Array[];
+  pA: Float64Array[];
+}
+
+/** Cone/angle average of node responses into s-beam and p-beam R, T, A (fractions). */
+export function averageRule(
+  r: RuleResponses,
+  W: number,
+  out: { sR: Float64Array; sT: Float64Array; sA: Float64Array; pR: Float64Array; pT: Float64Array; pA: Float64Array },
+): void {
+  out.sR.fill(0, 0, W);
+  out.sT.fill(0, 0, W);
+  out.sA.fill(0, 0, W);
+  out.pR.fill(0, 0, W);
+  out.pT.fill(0, 0, W);
+  out.pA.fill(0, 0, W);
+  const n = r.rule.anglesDeg.length;
+  for (let i = 0; i < n; i++) {
+    const a = r.rule.wS[i]!;
+    const b = r.rule.wP[i]!;
+    const sR = r.sR[i]!, sT = r.sT[i]!, sA = r.sA[i]!, pR = r.pR[i]!, pT = r.pT[i]!, pA = r.pA[i]!;
+    for (let w = 0; w < W; w++) {
+      out.sR[w] = out.sR[w]! + a * sR[w]! + b * pR[w]!;
+      out.sT[w] = out.sT[w]! + a * sT[w]! + b * pT[w]!;
+      out.sA[w] = out.sA[w]! + a * sA[w]! + b * pA[w]!;
+      out.pR[w] = out.pR[w]! + b * sR[w]! + a * pR[w]!;
+      out.pT[w] = out.pT[w]! + b * sT[w]! + a * pT[w]!;
+      out.pA[w] = out.pA[w]! + b * sA[w]! + a * pA[w]!;
+    }
+  }
+}
+
+/** Evaluate a prepared stack at every node of a rule (nominal thicknesses `d`), allocating the outputs. */
+function ruleResponses(prep: PreparedStack, rule: AngleRule, d: Float64Array): RuleResponses {
+  const W = prep.W;
+  const out: RuleResponses = { rule, sR: [], sT: [], sA: [], pR: [], pT: [], pA: [] };
+  for (const angle of rule.anglesDeg) {
+    const sR = new Float64Array(W), sT = new Float64Array(W), sA = new Float64Array(W);
+    const pR = new Float64Array(W), pT = new Float64Array(W), pA = new Float64Array(W);
+    new PolKernel(tabulate(prep, angle, "s")).run(d, undefined, sR, sT, sA);
+    new PolKernel(tabulate(prep, angle, "p")).run(d, undefined, pR, pT, pA);
+    out.sR.push(sR); out.sT.push(sT); out.sA.push(sA);
+    out.pR.push(pR); out.pT.push(pT); out.pA.push(pA);
+  }
+  return out;
+}
+
+/**
+ * Cone average of a prepared stack: adaptive cone rule (see {@link coneRule}, {@link adaptiveRule}) built
+ * on these wavelengths, returned with the s-beam and p-beam averages (fractions).
+ */
+export function coneAverage(
+  prep: PreparedStack,
+  d: Float64Array,
+  axisDeg: number,
+  halfAngleDeg: number,
+  tolerance = ANGLE_RULE_TOLERANCE,
+): { rule: AngleRule; sR: Float64Array; sT: Float64Array; sA: Float64Array; pR: Float64Array; pT: Float64Array; pA: Float64Array } {
+  const W = prep.W;
+  const mk = () => ({
+    sR: new Float64Array(W), sT: new Float64Array(W), sA: new Float64Array(W),
+    pR: new Float64Array(W), pT: new Float64Array(W), pA: new Float64Array(W),
+  });
+  const results = new Map<AngleRule, ReturnType<typeof mk>>();
+  const rule = adaptiveRule(
+    (K) => coneRule(axisDeg, halfAngleDeg, K),
+    (r) => {
+      const last = mk();
+      results.set(r, last);
+      averageRule(ruleResponses(prep, r, d), W, last);
+      const v = new Float64Array(4 * W);
+      v.set(last.sR, 0); v.set(last.sT, W); v.set(last.pR, 2 * W); v.set(last.pT, 3 * W);
+      return v;
+    },
+    tolerance,
+  );
+  return { rule, ...results.get(rule)! };
 }
 
 /**
@@ -223,30 +508,11 @@ export function computeSpectrum(design: Design, options: SpectrumOptions): Spect
   let cone: Spectrum["cone"];
   if (options.cone) {
     const half = coneHalfAngleDeg(options.cone);
-    const rays = coneQuadrature(angleDeg, half);
-    cone = { halfAngleDeg: half, rays: rays.length };
-    const acc = { sR: new Float64Array(W), sT: new Float64Array(W), pR: new Float64Array(W), pT: new Float64Array(W) };
-    const rs = { R: new Float64Array(W), T: new Float64Array(W), A: new Float64Array(W) };
-    const rp = { R: new Float64Array(W), T: new Float64Array(W), A: new Float64Array(W) };
-    for (const ray of rays) {
-      new PolKernel(tabulate(prep, ray.angleDeg, "s")).run(d, undefined, rs.R, rs.T, rs.A);
-      new PolKernel(tabulate(prep, ray.angleDeg, "p")).run(d, undefined, rp.R, rp.T, rp.A);
-      const fs = ray.sFraction;
-      const g = ray.weight;
-      for (let w = 0; w < W; w++) {
-        acc.sR[w] = acc.sR[w]! + g * (fs * rs.R[w]! + (1 - fs) * rp.R[w]!);
-        acc.sT[w] = acc.sT[w]! + g * (fs * rs.T[w]! + (1 - fs) * rp.T[w]!);
-        acc.pR[w] = acc.pR[w]! + g * ((1 - fs) * rs.R[w]! + fs * rp.R[w]!);
-        acc.pT[w] = acc.pT[w]! + g * ((1 - fs) * rs.T[w]! + fs * rp.T[w]!);
-      }
-    }
-    for (let w = 0; w < W; w++) {
-      s.R[w] = acc.sR[w]!;
-      s.T[w] = acc.sT[w]!;
-      s.A[w] = 1 - acc.sR[w]! - acc.sT[w]!;
-      p.R[w] = acc.pR[w]!;
-      p.T[w] = acc.pT[w]!;
-      p.A[w] = 1 - acc.pR[w]! - acc.pT[w]!;
+    if (half > 0) {
+      const avg = coneAverage(prep, d, angleDeg, half);
+      cone = { halfAngleDeg: half, rays: avg.rule.anglesDeg.length };
+      s.R.set(avg.sR); s.T.set(avg.sT); s.A.set(avg.sA);
+      p.R.set(avg.pR); p.T.set(avg.pT); p.A.set(avg.pA);
     }
   }
   const u: RTA = { R: new Float64Array(W), T: new Float64Array(W), A: new Float64Array(W) };
@@ -258,6 +524,161 @@ export function computeSpectrum(design: Design, options: SpectrumOptions): Spect
   const result: Spectrum = { wavelengths: prep.wavelengths, angleDeg, s, p, u, warnings: prep.warnings };
   if (cone) result.cone = cone;
   return result;
+}
+
+/**
+ * R, T, A (fractions) of s and p at one wavelength (nm) for each angle of incidence (degrees in the
+ * incident medium): the optical constants are tabulated once, each angle costs one kernel pass.
+ */
+export function computeSpectrumAtAngles(
+  design: Design,
+  wavelength: number,
+  anglesDeg: readonly number[],
+): { s: { R: number[]; T: number[]; A: number[] }; p: { R: number[]; T: number[]; A: number[] }; warnings: string[] } {
+  const prep = prepareStack(design, [wavelength]);
+  const d = prep.nominal;
+  const R = new Float64Array(1);
+  const T = new Float64Array(1);
+  const A = new Float64Array(1);
+  const s = { R: [] as number[], T: [] as number[], A: [] as number[] };
+  const p = { R: [] as number[], T: [] as number[], A: [] as number[] };
+  for (const a of anglesDeg) {
+    for (const [pol, out] of [["s", s], ["p", p]] as const) {
+      new PolKernel(tabulate(prep, a, pol)).run(d, undefined, R, T, A);
+      out.R.push(R[0]!);
+      out.T.push(T[0]!);
+      out.A.push(A[0]!);
+    }
+  }
+  return { s, p, warnings: prep.warnings };
+}
+
+/**
+ * Evenly spaced grid of `points` wavelengths from start to stop (nm), both included (a chart's grid).
+ * @throws RangeError for start ≤ 0, stop < start or points outside 1–100,000
+ */
+export function evenGrid(start: number, stop: number, points: number): Float64Array {
+  if (!(start > 0) || !Number.isFinite(start)) throw new RangeError(`start: expected a wavelength > 0 nm, got ${start}`);
+  if (!(stop >= start) || !Number.isFinite(stop)) throw new RangeError(`stop: expected a wavelength ≥ start (${start} nm), got ${stop}`);
+  const n = Math.round(points);
+  if (!(n >= 1 && n <= 100_000)) throw new RangeError(`points: expected 1–100000, got ${points}`);
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) out[i] = n === 1 ? start : start + ((stop - start) * i) / (n - 1);
+  return out;
+}
+
+/** Options of {@link createLiveSpectrum}. */
+export interface LiveSpectrumOptions {
+  wavelengths: ArrayLike<number>;
+  /** angle of incidence, or the cone's chief ray, degrees */
+  angleDeg: number;
+  polarization: "s" | "p" | "u";
+  /** cone of light (uniform in solid angle) about angleDeg; omitted or half-angle 0 = collimated */
+  cone?: ConeOption;
+}
+
+/** A compiled spectrum for repeated thickness edits: {@link createLiveSpectrum}. */
+export interface LiveSpectrum {
+  readonly wavelengths: Float64Array;
+  /** number of angle nodes evaluated per call (1 when collimated) */
+  readonly nodes: number;
+  readonly warnings: readonly string[];
+  /** R, T, A (fractions) for thicknesses (nm, deposition order); allocates only the result */
+  compute(thicknessesNm: Float64Array): RTA;
+}
+
+/**
+ * Spectrum of a design for a chart that recomputes on every thickness edit: the optical constants and
+ * refraction terms are tabulated once; a cone uses the same adaptive rule as {@link computeSpectrum} and the
+ * spec masks (built on the nominal design), so the chart and the verdict agree.
+ */
+export function createLiveSpectrum(design: Design, options: LiveSpectrumOptions): LiveSpectrum {
+  const prep = prepareStack(design, options.wavelengths);
+  const W = prep.W;
+  const half = options.cone ? coneHalfAngleDeg(options.cone) : 0;
+  const pol = options.polarization;
+  if (pol !== "s" && pol !== "p" && pol !== "u") throw new RangeError(`polarization: expected "s", "p" or "u", got ${JSON.stringify(pol)}`);
+  const check = (d: Float64Array): void => {
+    if (d.length !== prep.L) throw new RangeError(`thicknesses: expected ${prep.L} layers, got ${d.length}`);
+  };
+  if (!(half > 0)) {
+    const ks = pol === "p" ? undefined : new PolKernel(tabulate(prep, options.angleDeg, "s"));
+    const kp = pol === "s" ? undefined : new PolKernel(tabulate(prep, options.angleDeg, "p"));
+    const tmp = { R: new Float64Array(W), T: new Float64Array(W), A: new Float64Array(W) };
+    return {
+      wavelengths: prep.wavelengths,
+      nodes: 1,
+      warnings: prep.warnings,
+      compute(d) {
+        check(d);
+        const out: RTA = { R: new Float64Array(W), T: new Float64Array(W), A: new Float64Array(W) };
+        (ks ?? kp)!.run(d, undefined, out.R, out.T, out.A);
+        if (ks && kp) {
+          kp.run(d, undefined, tmp.R, tmp.T, tmp.A);
+          for (let w = 0; w < W; w++) {
+            out.R[w] = 0.5 * (out.R[w]! + tmp.R[w]!);
+            out.T[w] = 0.5 * (out.T[w]! + tmp.T[w]!);
+            out.A[w] = 0.5 * (out.A[w]! + tmp.A[w]!);
+          }
+        }
+        return out;
+      },
+    };
+  }
+  type Node = { s: PolKernel; p: PolKernel; sR: Float64Array; sT: Float64Array; sA: Float64Array; pR: Float64Array; pT: Float64Array; pA: Float64Array };
+  const byRule = new Map<AngleRule, Node[]>();
+  const avg = {
+    sR: new Float64Array(W), sT: new Float64Array(W), sA: new Float64Array(W),
+    pR: new Float64Array(W), pT: new Float64Array(W), pA: new Float64Array(W),
+  };
+  const responses = (rule: AngleRule, nodes: Node[]): RuleResponses => ({
+    rule,
+    sR: nodes.map((n) => n.sR), sT: nodes.map((n) => n.sT), sA: nodes.map((n) => n.sA),
+    pR: nodes.map((n) => n.pR), pT: nodes.map((n) => n.pT), pA: nodes.map((n) => n.pA),
+  });
+  const runNodes = (nodes: Node[], d: Float64Array): void => {
+    for (const n of nodes) {
+      n.s.run(d, undefined, n.sR, n.sT, n.sA);
+      n.p.run(d, undefined, n.pR, n.pT, n.pA);
+    }
+  };
+  const rule = adaptiveRule(
+    (K) => coneRule(options.angleDeg, half, K),
+    (r) => {
+      const nodes: Node[] = Array.from(r.anglesDeg, (a) => ({
+        s: new PolKernel(tabulate(prep, a, "s")),
+        p: new PolKernel(tabulate(prep, a, "p")),
+        sR: new Float64Array(W), sT: new Float64Array(W), sA: new Float64Array(W),
+        pR: new Float64Array(W), pT: new Float64Array(W), pA: new Float64Array(W),
+      }));
+      byRule.set(r, nodes);
+      runNodes(nodes, prep.nominal);
+      averageRule(responses(r, nodes), W, avg);
+      const v = new Float64Array(4 * W);
+      v.set(avg.sR, 0); v.set(avg.sT, W); v.set(avg.pR, 2 * W); v.set(avg.pT, 3 * W);
+      return v;
+    },
+  );
+  const nodes = byRule.get(rule)!;
+  const resp = responses(rule, nodes);
+  return {
+    wavelengths: prep.wavelengths,
+    nodes: nodes.length,
+    warnings: prep.warnings,
+    compute(d) {
+      check(d);
+      runNodes(nodes, d);
+      averageRule(resp, W, avg);
+      const out: RTA = { R: new Float64Array(W), T: new Float64Array(W), A: new Float64Array(W) };
+      for (let w = 0; w < W; w++) {
+        const a = pol === "s" ? 1 : pol === "p" ? 0 : 0.5;
+        out.R[w] = a * avg.sR[w]! + (1 - a) * avg.pR[w]!;
+        out.T[w] = a * avg.sT[w]! + (1 - a) * avg.pT[w]!;
+        out.A[w] = a * avg.sA[w]! + (1 - a) * avg.pA[w]!;
+      }
+      return out;
+    },
+  };
 }
 
 /** Speed of light in vacuum, nm per fs. */

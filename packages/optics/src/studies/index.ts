@@ -1,6 +1,7 @@
 // Studies built on the core engine: spec masks, sensitivity, Monte Carlo yield, refinement and as-built fits.
 // Browser-safe: nothing here imports node: modules (the Node worker pool lives in src/cli/).
 export * from "./spec.ts";
+export * from "./band-view.ts";
 export * from "./wilson.ts";
 export * from "./random.ts";
 export * from "./error-model.ts";

@@ -6,7 +6,7 @@ import { createTrialSampler, ErrorModelSchema, scaleErrorModel } from "./error-m
 import type { ErrorModel } from "./error-model.ts";
 import { TrialRandom } from "./random.ts";
 import { createSpecEvaluator, meritOf, PROTECTIVE_CAUTION, quantityValue, SpecMaskSchema } from "./spec.ts";
-import type { GroupPlan, Polarization, SpecEvaluator, SpecQuantity } from "./spec.ts";
+import type { BandPolarization, GroupPlan, SpecEvaluator, SpecQuantity } from "./spec.ts";
 import { parseWith } from "./validate.ts";
 import { wilsonInterval } from "./wilson.ts";
 import type { ProportionInterval } from "./wilson.ts";
@@ -75,7 +75,9 @@ export interface YieldChunk {
 /** Percentile envelope of one quantity at one (angle, polarization) over the union of its bands' samples. */
 export interface YieldEnvelope {
   quantity: SpecQuantity;
-  polarization: Polarization;
+  polarization: BandPolarization;
+  /** the band conditions in words (angle range, cone, polarization) */
+  conditions: string;
   angleDeg: number;
   wavelengths: number[];
   /** Percentiles p (0–100) by linear interpolation between order statistics (type 7). */
@@ -401,6 +403,7 @@ export function mergeYieldChunks(studyInput: YieldStudy, chunks: readonly YieldC
     return {
       quantity: plan.quantity,
       polarization: g.polarization,
+      conditions: g.conditions,
       angleDeg: g.angleDeg,
       wavelengths: plan.wavelengths,
       percentiles: out,

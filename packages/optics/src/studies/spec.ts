@@ -1,11 +1,16 @@
 import { z } from "zod";
-import { createStackEvaluator } from "../core/index.ts";
+import { createStackEvaluator, coneHalfAngleDeg } from "../core/index.ts";
 import type { Design } from "../core/index.ts";
+import { ComplexBand, POL_CODES, bandConditionsText, isComplexBand } from "./spec-conditions.ts";
+export { bandAngles, bandConditionsText, isComplexBand } from "./spec-conditions.ts";
 import { parseWith } from "./validate.ts";
 
 /** Quantities a spec band can constrain: R, T, A in percent, OD = −log10(T) in optical-density units. */
 export type SpecQuantity = "R" | "T" | "A" | "OD";
+/** Polarization of a stack evaluation: s, p, or unpolarized (mean of s and p intensities). */
 export type Polarization = "s" | "p" | "u";
+/** Polarization of a band: s, p, unpolarized, or "sp" = s and p each (both must pass). */
+export type BandPolarization = Polarization | "sp";
 export type Requirement = "min" | "max" | "avgMin" | "avgMax";
 
 /** Default sampling step of a band when `step` is not given (nm). */
@@ -16,11 +21,46 @@ export const DEFAULT_BAND_MAX_POINTS = 501;
 export const MAX_BAND_POINTS = 20001;
 /** Transmittance floor used for OD = −log10(max(T, T_FLOOR)): OD is capped at 30. */
 export const OD_TRANSMITTANCE_FLOOR = 1e-30;
+/** Default angle step (degrees) at which an angle range is sampled before refinement. */
+export const DEFAULT_ANGLE_STEP_DEG = 1;
+/** Largest number of sampled angles of one angle range. */
+export const MAX_ANGLE_SAMPLES = 91;
+/**
+ * Angle tolerance (degrees) of the worst-angle search in an angle range: after sampling, a golden-section
+ * search in the two intervals around the worst sampled angle locates the worst angle to within this.
+ */
+export const ANGLE_RANGE_TOLERANCE_DEG = 0.05;
+/** Residual (band units) that a non-finite sample contributes to the merit, so an optimizer moves away from it. */
+export const NON_FINITE_PENALTY = 1000;
+
+/** Angle range of a band, degrees in the incident medium: every angle from fromDeg to toDeg must pass. */
+export const AngleRangeSchema = z
+  .object({
+    fromDeg: z.number().min(0).lt(90),
+    toDeg: z.number().min(0).lt(90),
+    /** sampling step before refinement, degrees, default 1 */
+    stepDeg: z.number().positive().max(10).optional(),
+  })
+  .strict();
+
+/** Cone of light: half-angle (degrees) or working f-number (half-angle arcsin(1/(2N))), about the band's angleDeg. */
+export const BandConeSchema = z.union([
+  z.object({ halfAngleDeg: z.number().gt(0).lt(90) }).strict(),
+  z.object({ fNumber: z.number().min(0.5).max(1000) }).strict(),
+]);
 
 /**
- * One band of a specification. Wavelengths in nm, angle of incidence in degrees in the incident
- * medium. `value` and `tolerance` are in percent for R/T/A and in OD units for OD; the tolerance
- * relaxes the limit (a `min` limit becomes value − tolerance, a `max` limit value + tolerance).
+ * One band of a specification. Wavelengths in nm, angles in degrees in the incident medium. `value` and
+ * `tolerance` are in percent for R/T/A and in OD units for OD; the tolerance relaxes the limit (a `min` limit
+ * becomes value − tolerance, a `max` limit value + tolerance).
+ *
+ * Conditions (at most one of angleRange and cone):
+ * - `angleDeg` alone: one angle of incidence (default 0); with `cone`, the cone's chief-ray angle.
+ * - `angleRange`: every angle from fromDeg to toDeg must pass (sampled every stepDeg, default 1°, then the
+ *   worst angle is refined to {@link ANGLE_RANGE_TOLERANCE_DEG}); with `angleAverage: true` the quantity is
+ *   instead averaged over the range (uniform in angle) and the requirement applies to that average.
+ * - `cone`: the quantity is averaged over a cone of light (uniform in solid angle) about angleDeg.
+ * - `polarization`: "s", "p", "u" (unpolarized) or "sp" (s and p each: both must pass).
  */
 export const SpecBandSchema = z
   .object({
@@ -30,8 +70,11 @@ export const SpecBandSchema = z
     stop: z.number().positive().finite(),
     step: z.number().positive().finite().optional(),
     quantity: z.enum(["R", "T", "A", "OD"]),
-    polarization: z.enum(["s", "p", "u"]),
-    angleDeg: z.number().min(0).lt(90),
+    polarization: z.enum(["s", "p", "u", "sp"]),
+    angleDeg: z.number().min(0).lt(90).default(0),
+    angleRange: AngleRangeSchema.optional(),
+    angleAverage: z.boolean().optional(),
+    cone: BandConeSchema.optional(),
     requirement: z.enum(["min", "max", "avgMin", "avgMax"]),
     value: z.number().finite(),
     tolerance: z.number().min(0).finite().optional(),
@@ -52,6 +95,36 @@ export const SpecBandSchema = z
         input: band.step,
         message: `step gives more than ${MAX_BAND_POINTS} samples over ${band.start}–${band.stop} nm`,
       });
+    }
+    if (band.angleRange && band.cone) {
+      ctx.addIssue({ code: "custom", path: ["cone"], input: band.cone, message: "a band has either an angle range or a cone, not both" });
+    }
+    if (band.angleAverage && !band.angleRange) {
+      ctx.addIssue({ code: "custom", path: ["angleAverage"], input: band.angleAverage, message: "angleAverage needs an angleRange" });
+    }
+    const r = band.angleRange;
+    if (r) {
+      if (r.toDeg < r.fromDeg) {
+        ctx.addIssue({ code: "custom", path: ["angleRange", "toDeg"], input: r.toDeg, message: `toDeg must be ≥ fromDeg (${r.fromDeg}°)` });
+      } else if ((r.toDeg - r.fromDeg) / (r.stepDeg ?? DEFAULT_ANGLE_STEP_DEG) + 1 > MAX_ANGLE_SAMPLES + 1e-9) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["angleRange", "stepDeg"],
+          input: r.stepDeg,
+          message: `step gives more than ${MAX_ANGLE_SAMPLES} angles over ${r.fromDeg}–${r.toDeg}°`,
+        });
+      }
+    }
+    if (band.cone) {
+      const half = coneHalfAngleDeg(band.cone);
+      if (!(band.angleDeg + half < 90)) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["cone"],
+          input: band.angleDeg,
+          message: `chief ray ${band.angleDeg}° plus cone half-angle ${half.toFixed(2)}° reaches grazing incidence`,
+        });
+      }
     }
   });
 export type SpecBand = z.output<typeof SpecBandSchema>;
@@ -77,6 +150,10 @@ export const SpecMaskSchema = z
     });
   });
 export type SpecMask = z.output<typeof SpecMaskSchema>;
+/** A spec mask as written (angleDeg may be left out: 0). */
+export type SpecMaskInput = z.input<typeof SpecMaskSchema>;
+/** A spec band as written. */
+export type SpecBandInput = z.input<typeof SpecBandSchema>;
 
 /** Validate a spec mask; throws a RangeError naming the field and value on bad input. */
 export function parseSpecMask(input: unknown): SpecMask {
@@ -88,15 +165,28 @@ export const PROTECTIVE_CAUTION =
   "This specification protects eyes or sensors. A computed result is not a certification: protective " +
   "equipment must be tested to the applicable local standards by qualified people.";
 
+/** The worst point of a band: wavelength (nm), value (band units), angle (degrees) and polarization. */
+export interface WorstPoint {
+  wavelength: number;
+  value: number;
+  /** angle of incidence of the worst point (for a cone: the chief ray), degrees */
+  angleDeg: number;
+  /** polarization of the worst point ("u" = unpolarized) */
+  polarization: Polarization;
+}
+
 /** Outcome of one band: margin in the band's units (percent or OD), positive = inside the limit. */
 export interface BandOutcome {
   id: string;
   pass: boolean;
   /** The sample closest to (or furthest past) the limit: lowest value for min bands, highest for max bands. */
-  worst: { wavelength: number; value: number };
+  worst: WorstPoint;
+  /** NaN when a computed value was not finite (then `pass` is false and `reason` says where). */
   margin: number;
   /** Band average of the quantity (mean over the band's samples). */
   average: number;
+  /** Why the band fails without a margin, e.g. "the spectrum is not finite at 532 nm". */
+  reason?: string;
 }
 
 /** Result of {@link evaluateSpec}. */
@@ -145,7 +235,8 @@ export function quantityValue(quantity: SpecQuantity, R: number, T: number, A: n
     case "A":
       return A * 100;
     case "OD":
-      return -Math.log10(T > OD_TRANSMITTANCE_FLOOR ? T : OD_TRANSMITTANCE_FLOOR);
+      // a NaN T must stay NaN (it would otherwise become the floor, OD 30, and pass a blocking band)
+      return Number.isNaN(T) ? Number.NaN : -Math.log10(T > OD_TRANSMITTANCE_FLOOR ? T : OD_TRANSMITTANCE_FLOOR);
   }
 }
 
@@ -168,14 +259,26 @@ export interface BandPlan {
   residualCount: number;
 }
 
-/** Evaluator group: one fast stack evaluator per (angle, polarization) over the union of its bands' samples. */
+/**
+ * Evaluator group: one fast stack evaluator per (angle, polarization) over the union of its bands' samples,
+ * or — for a band with an angle range, a cone, or "s and p each" — the band's own group whose R, T, A hold
+ * the band's curve at its conditions: per wavelength the worst over angles and polarizations (min/max
+ * requirements; `angleAt`, `polAt` say where), the worst whole curve (average requirements), or the
+ * cone/angle average.
+ */
 export interface GroupPlan {
   angleDeg: number;
-  polarization: Polarization;
+  polarization: BandPolarization;
   wavelengths: Float64Array;
   R: Float64Array;
   T: Float64Array;
   A: Float64Array;
+  /** per wavelength: angle (degrees) of the value held (own groups of angle-range bands) */
+  angleAt?: Float64Array;
+  /** per wavelength: polarization of the value held, 0 = s, 1 = p, 2 = unpolarized */
+  polAt?: Uint8Array;
+  /** the conditions in words, e.g. "0–10°, s and p each" */
+  conditions: string;
 }
 
 /** Precompiled spec mask evaluation for one design's layer structure. */
@@ -207,6 +310,11 @@ export interface SpecEvaluator {
   ): void;
   /** Values of band `b` (band units) at its samples from the last {@link SpecEvaluator.compute}, into `out`. */
   bandValues(b: number, out: Float64Array): void;
+  /**
+   * Samples of band `b` outside its limit (min/max requirements) or not finite, from the last
+   * {@link SpecEvaluator.compute} or {@link SpecEvaluator.evaluate}: wavelength, value, angle, polarization.
+   */
+  violations(b: number): WorstPoint[];
 }
 
 const wavelengthKey = (w: number): number => Math.round(w * 1e6);
@@ -223,12 +331,14 @@ const wavelengthKey = (w: number): number => Math.round(w * 1e6);
  * average lies past the limit (N_b = 1). Units: percent² (OD² for OD bands). The merit is 0 exactly
  * when every band passes and grows quadratically with the violation.
  */
-export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEvaluator {
+export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): SpecEvaluator {
   const mask = parseSpecMask(maskInput);
   const groupKeys: string[] = [];
   const groupBands: number[][] = [];
   const bandSamples = mask.bands.map((band) => bandWavelengths(band));
+  const complexOf = new Map<number, number>(); // band index → own group
   mask.bands.forEach((band, b) => {
+    if (isComplexBand(band)) return;
     const key = `${band.angleDeg}|${band.polarization}`;
     let g = groupKeys.indexOf(key);
     if (g < 0) {
@@ -242,7 +352,19 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
   const bands: BandPlan[] = new Array<BandPlan>(mask.bands.length);
   const groups: GroupPlan[] = [];
   const evaluators: ReturnType<typeof createStackEvaluator>[] = [];
-  groupBands.forEach((members, g) => {
+  const plan = (band: SpecBand, g: number, indices: Int32Array, samples: number[]): BandPlan => {
+    const avg = band.requirement === "avgMin" || band.requirement === "avgMax";
+    return {
+      id: band.id,
+      band,
+      group: g,
+      indices,
+      wavelengths: samples,
+      limit: bandLimit(band),
+      residualCount: avg ? 1 : samples.length,
+    };
+  };
+  groupBands.forEach((members) => {
     const first = mask.bands[members[0] ?? 0];
     if (!first) return;
     const unique = new Map<number, number>();
@@ -255,8 +377,9 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
     const evaluator = createStackEvaluator(design, {
       wavelengths: wl,
       angleDeg: first.angleDeg,
-      polarization: first.polarization,
+      polarization: first.polarization as Polarization,
     });
+    const g = groups.length;
     evaluators.push(evaluator);
     groups.push({
       angleDeg: first.angleDeg,
@@ -265,43 +388,73 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
       R: new Float64Array(wl.length),
       T: new Float64Array(wl.length),
       A: new Float64Array(wl.length),
+      conditions: bandConditionsText(first),
     });
     for (const b of members) {
       const band = mask.bands[b];
       const samples = bandSamples[b];
       if (!band || !samples) continue;
-      const avg = band.requirement === "avgMin" || band.requirement === "avgMax";
-      bands[b] = {
-        id: band.id,
-        band,
-        group: g,
-        indices: Int32Array.from(samples, (w) => position.get(wavelengthKey(w)) ?? 0),
-        wavelengths: samples,
-        limit: bandLimit(band),
-        residualCount: avg ? 1 : samples.length,
-      };
+      bands[b] = plan(band, g, Int32Array.from(samples, (w) => position.get(wavelengthKey(w)) ?? 0), samples);
     }
   });
+  // bands with conditions: one own group each
+  const simpleGroups = groups.length;
+  const complex: ComplexBand[] = [];
+  let layerCount = evaluators[0]?.layerCount ?? design.layers.length;
+  mask.bands.forEach((band, b) => {
+    if (!isComplexBand(band)) return;
+    const samples = bandSamples[b] ?? [];
+    const q = band.quantity;
+    const cb = new ComplexBand(design, band, samples, (R, T, A) => quantityValue(q, R, T, A), undefined, {
+      defaultStepDeg: DEFAULT_ANGLE_STEP_DEG,
+      toleranceDeg: ANGLE_RANGE_TOLERANCE_DEG,
+      conditions: bandConditionsText(band),
+    });
+    const g = groups.length;
+    complexOf.set(b, g);
+    complex.push(cb);
+    groups.push(cb.group);
+    bands[b] = plan(band, g, Int32Array.from(samples, (_, i) => i), samples);
+  });
 
-  const first = evaluators[0];
-  if (!first) throw new RangeError("mask.bands: no bands to evaluate");
-  const layerCount = first.layerCount;
-  const nominalThicknesses = Float64Array.from(first.nominalThicknesses);
+  if (bands.length === 0) throw new RangeError("mask.bands: no bands to evaluate");
+  layerCount = design.layers.length;
+  const nominalThicknesses = Float64Array.from(design.layers, (l) => l.thickness);
   const residualCount = bands.reduce((s, b) => s + b.residualCount, 0);
-  const warnings = [...new Set(evaluators.flatMap((e) => e.warnings))];
+  const warnings = [...new Set([...evaluators.flatMap((e) => e.warnings), ...complex.flatMap((c) => c.warnings)])];
 
-  const compute = (thicknesses: Float64Array, indexScale?: Float64Array): void => {
+  /** refine: search the worst angle of angle ranges; verdictOnly: skip the search where a sample already fails. */
+  const computeWith = (thicknesses: Float64Array, indexScale: Float64Array | undefined, refine: boolean, verdictOnly: boolean): void => {
     if (thicknesses.length !== layerCount) {
       throw new RangeError(`thicknesses: expected ${layerCount} layers, got ${thicknesses.length}`);
     }
-    for (let g = 0; g < groups.length; g++) {
+    if (indexScale) {
+      if (indexScale.length !== layerCount) throw new RangeError(`indexScale: expected ${layerCount} factors, got ${indexScale.length}`);
+      for (let j = 0; j < layerCount; j++) {
+        const f = indexScale[j] as number;
+        if (!(f > 0) || !Number.isFinite(f)) throw new RangeError(`indexScale[${j}]: expected a finite factor > 0, got ${String(f)}`);
+      }
+    }
+    for (let g = 0; g < simpleGroups; g++) {
       const group = groups[g] as GroupPlan;
       (evaluators[g] as (typeof evaluators)[number]).evaluate(thicknesses, group, indexScale);
     }
+    let c = 0;
+    for (let b = 0; b < bands.length; b++) {
+      if (!complexOf.has(b)) continue;
+      const cb = complex[c++] as ComplexBand;
+      const p = bands[b] as BandPlan;
+      const req = p.band.requirement;
+      // a limit lets the search stop early only when it cannot change the verdict
+      cb.compute(thicknesses, indexScale, refine, verdictOnly && (req === "min" || req === "max") ? p.limit : undefined);
+    }
   };
+  const compute = (thicknesses: Float64Array, indexScale?: Float64Array): void =>
+    computeWith(thicknesses, indexScale, true, false);
 
-  // Scan one band of the last computation: fills scan.{worstIndex, worstValue, mean}.
-  const scan = { worstIndex: 0, worstValue: 0, mean: 0 };
+  // Scan one band of the last computation: fills scan.{worstIndex, worstValue, mean, nonFinite}.
+  // A non-finite value is a failing sample: it becomes the worst point and the margin NaN.
+  const scan = { worstIndex: 0, worstValue: 0, mean: 0, nonFinite: -1 };
   const scanBand = (plan: BandPlan): void => {
     const group = groups[plan.group] as GroupPlan;
     const q = plan.band.quantity;
@@ -309,19 +462,42 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
     let worst = wantLow ? Infinity : -Infinity;
     let worstIndex = 0;
     let sum = 0;
+    let nonFinite = -1;
     const idx = plan.indices;
     for (let k = 0; k < idx.length; k++) {
       const i = idx[k] as number;
       const v = quantityValue(q, group.R[i] as number, group.T[i] as number, group.A[i] as number);
+      if (!Number.isFinite(v)) {
+        if (nonFinite < 0) nonFinite = k;
+        continue;
+      }
       sum += v;
       if (wantLow ? v < worst : v > worst) {
         worst = v;
         worstIndex = k;
       }
     }
+    if (nonFinite >= 0) {
+      const i = idx[nonFinite] as number;
+      worstIndex = nonFinite;
+      worst = quantityValue(q, group.R[i] as number, group.T[i] as number, group.A[i] as number);
+      sum = Number.NaN;
+    }
     scan.worstIndex = worstIndex;
     scan.worstValue = worst;
     scan.mean = sum / idx.length;
+    scan.nonFinite = nonFinite;
+  };
+  const worstPoint = (plan: BandPlan): WorstPoint => {
+    const group = groups[plan.group] as GroupPlan;
+    const i = plan.indices[scan.worstIndex] as number;
+    const pol = group.polAt ? (POL_CODES[group.polAt[i] as number] as Polarization) : (plan.band.polarization as Polarization);
+    return {
+      wavelength: plan.wavelengths[scan.worstIndex] as number,
+      value: scan.worstValue,
+      angleDeg: group.angleAt ? (group.angleAt[i] as number) : plan.band.angleDeg,
+      polarization: pol,
+    };
   };
   const marginOf = (plan: BandPlan): number => {
     switch (plan.band.requirement) {
@@ -348,18 +524,24 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
       compute(thicknesses, indexScale);
       return bands.map((plan) => {
         scanBand(plan);
+        const worst = worstPoint(plan);
+        if (scan.nonFinite >= 0) {
+          const where = worst.angleDeg !== 0 || isComplexBand(plan.band) ? ` (${worst.angleDeg}°, ${worst.polarization})` : "";
+          return {
+            id: plan.id,
+            pass: false,
+            worst,
+            margin: Number.NaN,
+            average: scan.mean,
+            reason: `the spectrum is not finite at ${worst.wavelength} nm${where}`,
+          };
+        }
         const margin = marginOf(plan);
-        return {
-          id: plan.id,
-          pass: margin >= 0,
-          worst: { wavelength: plan.wavelengths[scan.worstIndex] as number, value: scan.worstValue },
-          margin,
-          average: scan.mean,
-        };
+        return { id: plan.id, pass: margin >= 0, worst, margin, average: scan.mean };
       });
     },
     margins(thicknesses, out, indexScale) {
-      compute(thicknesses, indexScale);
+      computeWith(thicknesses, indexScale, true, true);
       let pass = true;
       for (let b = 0; b < bands.length; b++) {
         scanBand(bands[b] as BandPlan);
@@ -370,7 +552,8 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
       return pass;
     },
     residuals(thicknesses, out, marginGoal = 0, indexScale, offset = 0) {
-      compute(thicknesses, indexScale);
+      // sampled angles only: the worst-angle search would make the merit jump as the design moves
+      computeWith(thicknesses, indexScale, false, false);
       let r = offset;
       for (const plan of bands) {
         const group = groups[plan.group] as GroupPlan;
@@ -385,7 +568,7 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
           }
           const mean = sum / idx.length;
           const v = req === "avgMin" ? plan.limit + marginGoal - mean : mean - (plan.limit - marginGoal);
-          out[r++] = v > 0 ? v : 0;
+          out[r++] = v > 0 ? v : Number.isFinite(v) ? 0 : NON_FINITE_PENALTY;
           continue;
         }
         const w = 1 / Math.sqrt(idx.length);
@@ -394,9 +577,33 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMask): SpecEv
           const i = idx[k] as number;
           const value = quantityValue(q, group.R[i] as number, group.T[i] as number, group.A[i] as number);
           const v = low ? plan.limit + marginGoal - value : value - (plan.limit - marginGoal);
-          out[r++] = v > 0 ? v * w : 0;
+          out[r++] = v > 0 ? v * w : Number.isFinite(v) ? 0 : NON_FINITE_PENALTY * w;
         }
       }
+    },
+    violations(b) {
+      const plan = bands[b];
+      if (!plan) throw new RangeError(`band index ${b} out of range`);
+      const group = groups[plan.group] as GroupPlan;
+      const req = plan.band.requirement;
+      const out: WorstPoint[] = [];
+      for (let k = 0; k < plan.indices.length; k++) {
+        const i = plan.indices[k] as number;
+        const v = quantityValue(plan.band.quantity, group.R[i] as number, group.T[i] as number, group.A[i] as number);
+        const bad = !Number.isFinite(v) || (req === "min" && v < plan.limit) || (req === "max" && v > plan.limit);
+        if (!bad) continue;
+        out.push({
+          wavelength: plan.wavelengths[k] as number,
+          value: v,
+          angleDeg: group.angleAt ? (group.angleAt[i] as number) : plan.band.angleDeg,
+          polarization: group.polAt
+            ? (POL_CODES[group.polAt[i] as number] as Polarization)
+            : plan.band.polarization === "sp"
+              ? "s"
+              : plan.band.polarization,
+        });
+      }
+      return out;
     },
     bandValues(b, out) {
       const plan = bands[b];
@@ -438,7 +645,7 @@ export function meritOf(
  * Evaluate a design's nominal performance against a spec mask. See {@link createSpecEvaluator} for the
  * margin and merit definitions. Protective masks add {@link PROTECTIVE_CAUTION} to `cautions`.
  */
-export function evaluateSpec(design: Design, maskInput: SpecMask): SpecResult {
+export function evaluateSpec(design: Design, maskInput: SpecMaskInput): SpecResult {
   const evaluator = createSpecEvaluator(design, maskInput);
   const t = evaluator.nominalThicknesses;
   const bands = evaluator.evaluate(t);
@@ -459,7 +666,7 @@ export function evaluateSpec(design: Design, maskInput: SpecMask): SpecResult {
  * extrapolated. Margin and worst point as in {@link createSpecEvaluator}.
  */
 export function evaluateBandOnArrays(
-  bandInput: SpecBand,
+  bandInput: SpecBandInput,
   wavelengths: ArrayLike<number>,
   values: ArrayLike<number>,
 ): BandOutcome {
@@ -515,7 +722,7 @@ export function evaluateBandOnArrays(
   return {
     id: band.id,
     pass: margin >= 0,
-    worst: { wavelength: worstAt, value: worst },
+    worst: { wavelength: worstAt, value: worst, angleDeg: band.angleDeg, polarization: band.polarization === "sp" ? "s" : band.polarization },
     margin,
     average: mean,
   };

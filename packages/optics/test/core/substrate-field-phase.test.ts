@@ -82,9 +82,9 @@ describe("groupDelay", () => {
 });
 
 describe("cone of incidence", () => {
-  it("f-number gives half-angle atan(1/(2N)); weights sum to 1", () => {
-    // paraxial-free definition of f-number half-angle (common practice, no source)
-    expectClose(coneHalfAngleDeg({ fNumber: 2 }), (Math.atan(0.25) * 180) / Math.PI, 1e-14);
+  it("f-number gives half-angle arcsin(1/(2N)); weights sum to 1", () => {
+    // aplanatic lens in air: NA = sin α = 1/(2N) (common practice, no source)
+    expectClose(coneHalfAngleDeg({ fNumber: 2 }), (Math.asin(0.25) * 180) / Math.PI, 1e-14);
     const rays = coneQuadrature(20, 10);
     expectClose(rays.reduce((a, r) => a + r.weight, 0), 1, 1e-14);
   });

@@ -1,5 +1,5 @@
 // The design workspace of one revision: live spectrum against the spec mask, review threads beside it,
-// the layer editor, and tabs for tolerance studies, refinement, as-built data, history and sign-off.
+// the layer editor, and tabs for tolerance studies, Nudge (local optimizer), as-built data, history and sign-off.
 import { useCallback, useDeferredValue, useMemo, useReducer, useRef, useState } from "react";
 import type { ReactNode } from "react";
 import { Link, useNavigate, useParams } from "react-router";
@@ -187,7 +187,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
     },
     {
       id: "refine",
-      label: "Refine",
+      label: "Nudge",
       content: (
         <RefinementPanel
           design={deferred}
@@ -244,17 +244,21 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
       {program.protective ? <ProtectiveCaution application={program.application} /> : null}
       <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_380px]">
         <div className="min-w-0 space-y-4">
-          <SpectrumPanel
-            design={current}
-            mask={mask}
-            view={view}
-            onViewChange={setView}
-            overlays={overlays}
-            envelopes={envelopes}
-            markers={markers}
-            onSelectRange={(start, stop) => setProposed({ kind: "range", start, stop })}
-            bandAction={canThread ? bandAction : undefined}
-          />
+          {/* The chart stays in view (sticky) while the layer grid below it scrolls: both visible at 1280×800 and up. */}
+          <div className="lg:sticky lg:top-0 lg:z-10 lg:bg-paper lg:pb-1" data-testid="sticky-spectrum">
+            <SpectrumPanel
+              design={current}
+              mask={mask}
+              view={view}
+              onViewChange={setView}
+              overlays={overlays}
+              envelopes={envelopes}
+              markers={markers}
+              height={240}
+              onSelectRange={(start, stop) => setProposed({ kind: "range", start, stop })}
+              bandAction={canThread ? bandAction : undefined}
+            />
+          </div>
           {proposed?.kind === "range" ? (
             <p className="text-xs text-ink-700" role="status">
               Range {proposed.start}–{proposed.stop} nm selected for a new review thread (see the thread form).{" "}

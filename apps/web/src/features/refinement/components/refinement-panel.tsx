@@ -1,4 +1,4 @@
-// Refinement from the workspace: nominal (merit of the mask) or yield-centred, in a worker. The result is a
+// Nudge (the local optimizer) from the workspace: nominal (merit of the mask) or yield-centred, in a worker. The result is a
 // preview — changed layers before/after and the new curve on the chart — until it is kept as a new revision.
 import { useRef, useState, memo } from "react";
 import type { Design, ErrorModel, RefineForYieldResult, RefineResult, SpecMask } from "@stackproof/optics";
@@ -69,13 +69,13 @@ export const RefinementPanel = memo(function RefinementPanel(props: RefinementPa
 
   const note = (o: Outcome): string =>
     o.mode === "nominal"
-      ? `Refined for the nominal merit: ${o.r.changedLayers.length} layer(s) changed, merit ${o.r.meritBefore.toPrecision(3)} → ${o.r.meritAfter.toPrecision(3)}`
-      : `Refined for yield: ${o.r.changedLayers.length} layer(s) changed, yield ${(o.r.yieldBefore * 100).toFixed(1)} % → ${(o.r.yieldAfter * 100).toFixed(1)} % over ${o.r.evaluationTrials} trials`;
+      ? `Nudged for the nominal merit: ${o.r.changedLayers.length} layer(s) changed, merit ${o.r.meritBefore.toPrecision(3)} → ${o.r.meritAfter.toPrecision(3)}`
+      : `Nudged for yield: ${o.r.changedLayers.length} layer(s) changed, yield ${(o.r.yieldBefore * 100).toFixed(1)} % → ${(o.r.yieldAfter * 100).toFixed(1)} % over ${o.r.evaluationTrials} trials`;
 
   return (
     <section aria-labelledby="refine-h" className="space-y-3">
       <h2 id="refine-h" className="text-base font-semibold">
-        Refinement
+        Nudge: local optimization of layer thicknesses
       </h2>
       <p className="text-xs text-ink-700">Adjusts the thickness of unlocked layers (material and order stay). Locked layers are kept.</p>
       <div className="flex flex-wrap items-end gap-3 text-xs text-ink-700">
@@ -88,7 +88,7 @@ export const RefinementPanel = memo(function RefinementPanel(props: RefinementPa
             <input type="radio" name="refine-mode" checked={mode === "yield"} onChange={() => setMode("yield")} /> Yield (simulated builds)
           </label>
         </fieldset>
-        <label className="w-36" title="How far inside each band's limit the refinement aims: percentage points for R and T bands, OD for optical-density bands. Reported merits use the real limits.">
+        <label className="w-36" title="How far inside each band's limit Nudge aims: percentage points for R and T bands, OD for optical-density bands. Reported merits use the real limits.">
           Margin goal (% pts / OD)
           <input className={field} value={marginGoal} onChange={(e) => setMarginGoal(e.target.value)} inputMode="decimal" />
         </label>
@@ -109,11 +109,11 @@ export const RefinementPanel = memo(function RefinementPanel(props: RefinementPa
           </>
         ) : (
           <button type="button" onClick={() => void run()} className="rounded bg-ink-900 px-3 py-1.5 text-sm font-semibold text-paper" disabled={props.design.layers.length === 0}>
-            Refine
+            Nudge
           </button>
         )}
       </div>
-      {state.s === "error" ? <p role="alert" className="text-sm text-verdict-fail">Refinement failed: {state.message}</p> : null}
+      {state.s === "error" ? <p role="alert" className="text-sm text-verdict-fail">Nudge failed: {state.message}</p> : null}
       {state.s === "done" ? (
         <div className="space-y-2" data-testid="refine-result">
           <p className="text-sm">
@@ -129,7 +129,7 @@ export const RefinementPanel = memo(function RefinementPanel(props: RefinementPa
             {state.out.r.changedLayers.length === 0 ? "No layer changed: the start is already as good as this search finds." : "The dashed curve on the chart is the refined stack."}
           </p>
           {state.out.r.changedLayers.length > 0 ? (
-            <table className="w-full max-w-lg text-sm" aria-label="Layers changed by the refinement">
+            <table className="w-full max-w-lg text-sm" aria-label="Layers changed by Nudge">
               <thead className="text-left text-xs text-ink-500">
                 <tr>
                   <th className="py-1 font-medium">Layer</th>

@@ -1,4 +1,5 @@
 import type { ReactNode } from "react";
+import { describeBandIso } from "@stackproof/optics";
 import { ProtectiveCaution } from "../../../components/protective-caution.tsx";
 import { describeRequirement } from "../../../components/spec-mask-table.tsx";
 import { ErrorModelSummary } from "../../../components/error-model-summary.tsx";
@@ -181,7 +182,7 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
                   <td className={cx(td, "font-mono")}>
                     {b.quantity} {b.angleDeg}° {b.polarization}
                   </td>
-                  <td className={td}>{describeRequirement(b)}</td>
+                  <td className={td} title={describeRequirement(b)}>{describeBandIso(b)}</td>
                   <td
                     className={cx(
                       td,

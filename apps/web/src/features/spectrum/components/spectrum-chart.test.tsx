@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { render } from "@testing-library/react";
 import type { SpecBand } from "@stackproof/optics";
 import { SpectrumChart } from "./spectrum-chart.tsx";
-import { forbiddenRegions, violationRuns } from "../lib/mask-geometry.ts";
+import { forbiddenRegions } from "../lib/mask-geometry.ts";
 
 const bands: SpecBand[] = [
   { id: "pass", label: "Passband", start: 500, stop: 600, quantity: "T", polarization: "u", angleDeg: 0, requirement: "min", value: 90 },
@@ -36,14 +36,28 @@ describe("spectrum chart", () => {
     expect(Number(pass.getAttribute("width"))).toBeCloseTo((736 * 100) / 300, 5);
   });
 
-  it("highlights the violations on the curve", () => {
+  it("draws the verdict's violation points, not violations recomputed from the curve on screen", () => {
+    // the curve shown (0°) has no violation of "pass"; the verdict (e.g. at the band's 20° p) has two points
     const { container } = render(
-      <SpectrumChart width={800} height={300} scale="percent" domain={{ start: 450, stop: 750 }} curves={[{ id: "T", label: "T", quantity: "T", wavelengths: wl, values: T, color: "#000", primary: true }]} regions={regions} title="test" />,
+      <SpectrumChart
+        width={800}
+        height={300}
+        scale="percent"
+        domain={{ start: 450, stop: 750 }}
+        curves={[{ id: "T", label: "T", quantity: "T", wavelengths: wl, values: wl.map(() => 95), color: "#000", primary: true }]}
+        regions={regions}
+        violations={[
+          { bandId: "pass", quantity: "T", wavelength: 540, value: 80, angleDeg: 20, polarization: "p" },
+          { bandId: "pass", quantity: "T", wavelength: 541, value: 81, angleDeg: 20, polarization: "p" },
+          { bandId: "od", quantity: "OD", wavelength: 660, value: 1.3, angleDeg: 0, polarization: "u" },
+        ]}
+        title="test"
+      />,
     );
-    expect(container.querySelectorAll('[data-violation="pass"]')).toHaveLength(1);
-    expect(container.querySelectorAll('[data-violation="block"]')).toHaveLength(1);
-    expect(violationRuns(regions[0]!, wl, T)).toEqual([[90, 99]]); // 540–549 nm
-    expect(violationRuns(regions[1]!, wl, T)).toEqual([[210, 219]]); // 660–669 nm
+    expect(container.querySelectorAll('[data-violation="pass"]')).toHaveLength(2);
+    expect(container.querySelectorAll('[data-violation="od"]')).toHaveLength(0); // OD points belong to the OD scale
+    const dot = container.querySelector('[data-violation="pass"]') as SVGCircleElement;
+    expect(Number(dot.getAttribute("cy"))).toBeCloseTo(244 * (1 - 0.8), 5);
   });
 
   it("draws OD bands on the OD scale", () => {
@@ -53,6 +67,5 @@ describe("spectrum chart", () => {
     );
     expect([...container.querySelectorAll("[data-region]")].map((g) => g.getAttribute("data-region"))).toEqual(["od"]);
     expect(container.querySelector('[data-region="od"]')?.getAttribute("data-side")).toBe("below");
-    expect(container.querySelectorAll('[data-violation="od"]')).toHaveLength(1); // OD 1.3 at 660–669 nm < 3
   });
 });

@@ -4,11 +4,10 @@
 import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
 import type { KeyboardEvent, PointerEvent } from "react";
 import { scaleLinear } from "@visx/scale";
-import { LinePath, Area } from "@visx/shape";
+import { Area } from "@visx/shape";
 import { AxisBottom, AxisLeft } from "@visx/axis";
 import { GridRows, GridColumns } from "@visx/grid";
 import { Group } from "@visx/group";
-import { violationRuns } from "../lib/mask-geometry.ts";
 import type { ChartQuantity, ForbiddenRegion } from "../lib/mask-geometry.ts";
 
 export interface ChartCurve {
@@ -34,6 +33,19 @@ export interface ChartEnvelope {
   color: string;
 }
 
+/**
+ * A violation point of a band, from the spec evaluation that gives the band's verdict (optics
+ * SpecEvaluator.violations): wavelength, value in band units, and the angle and polarization it occurs at.
+ */
+export interface ChartViolation {
+  bandId: string;
+  quantity: ChartQuantity;
+  wavelength: number;
+  value: number;
+  angleDeg: number;
+  polarization: "s" | "p" | "u";
+}
+
 export interface ChartMarker {
   id: string;
   label: string;
@@ -52,7 +64,11 @@ export interface SpectrumChartProps {
   regions: readonly ForbiddenRegion[];
   envelopes?: readonly ChartEnvelope[];
   markers?: readonly ChartMarker[];
+  /** the verdict's violation points (drawn as marks; never recomputed from the curves on screen) */
+  violations?: readonly ChartViolation[];
   title: string;
+  /** x axis label, default "Wavelength (nm)" (the angle view passes "Angle of incidence (°)") */
+  xLabel?: string;
   onSelectRange?: (start: number, stop: number) => void;
 }
 
@@ -240,25 +256,20 @@ export function SpectrumChart(props: SpectrumChartProps) {
           {visibleCurves.map((c) => (
             <CurvePath key={c.id} curve={c} x={x} y={y} />
           ))}
-          {primary
-            ? visibleRegions.flatMap((r) => {
-                const c = visibleCurves.find((cc) => cc.primary && cc.quantity === r.quantity);
-                if (!c) return [];
-                return violationRuns(r, c.wavelengths, c.values).map(([a, b], k) => (
-                  <LinePath<number>
-                    key={`${r.bandId}-${k}`}
-                    data={range(a, b)}
-                    x={(i) => x(c.wavelengths[i] as number)}
-                    y={(i) => y(c.values[i] as number)}
-                    stroke="#b3362d"
-                    strokeWidth={4}
-                    strokeLinecap="round"
-                    fill="none"
-                    data-violation={r.bandId}
-                  />
-                ));
-              })
-            : null}
+          {(props.violations ?? [])
+            .filter((v) => shown.has(v.quantity) && Number.isFinite(v.value))
+            .map((v, k) => (
+              <circle
+                key={`${v.bandId}-${k}`}
+                cx={x(v.wavelength)}
+                cy={y(v.value)}
+                r={2.6}
+                fill="#b3362d"
+                data-violation={v.bandId}
+              >
+                <title>{`${v.bandId}: ${v.value.toFixed(3)} at ${v.wavelength} nm, ${v.angleDeg.toFixed(2)}°, ${v.polarization === "u" ? "unpolarized" : v.polarization}`}</title>
+              </circle>
+            ))}
           {drag ? (
             <rect
               x={x(Math.min(drag.from, drag.to))}
@@ -270,7 +281,7 @@ export function SpectrumChart(props: SpectrumChartProps) {
             />
           ) : null}
           {cursorW !== null ? <line x1={x(cursorW)} x2={x(cursorW)} y1={0} y2={innerH} stroke="#13233a" strokeDasharray="2 2" /> : null}
-          <ChartAxes x={x} y={y} innerW={innerW} innerH={innerH} yLabel={yLabel} />
+          <ChartAxes x={x} y={y} innerW={innerW} innerH={innerH} yLabel={yLabel} xLabel={props.xLabel ?? "Wavelength (nm)"} />
         </Group>
       </svg>
       {readout ? (
@@ -317,11 +328,11 @@ const ChartGrid = memo(function ChartGrid({ x, y, innerW, innerH }: { x: LinearS
   );
 });
 
-const ChartAxes = memo(function ChartAxes({ x, y, innerW, innerH, yLabel }: { x: LinearScale; y: LinearScale; innerW: number; innerH: number; yLabel: string }) {
+const ChartAxes = memo(function ChartAxes({ x, y, innerW, innerH, yLabel, xLabel }: { x: LinearScale; y: LinearScale; innerW: number; innerH: number; yLabel: string; xLabel: string }) {
   return (
     <>
       <AxisLeft scale={y} numTicks={5} label={yLabel} labelOffset={30} tickLabelProps={TICK_LEFT} stroke="#5a708f" tickStroke="#5a708f" labelProps={AXIS_LABEL} />
-      <AxisBottom top={innerH} scale={x} numTicks={Math.max(3, Math.floor(innerW / 90))} label="Wavelength (nm)" labelOffset={10} tickLabelProps={TICK_BOTTOM} stroke="#5a708f" tickStroke="#5a708f" labelProps={AXIS_LABEL} />
+      <AxisBottom top={innerH} scale={x} numTicks={Math.max(3, Math.floor(innerW / 90))} label={xLabel} labelOffset={10} tickLabelProps={TICK_BOTTOM} stroke="#5a708f" tickStroke="#5a708f" labelProps={AXIS_LABEL} />
     </>
   );
 });

@@ -1,7 +1,8 @@
-import { useDeferredValue, useEffect, useId, useState } from "react";
-import type { Design, SpecMask } from "@stackproof/optics";
+import { useDeferredValue, useEffect, useId, useMemo, useState } from "react";
+import { angleScan, bandConditionsText, bandView, spectrumToCsv } from "@stackproof/optics";
+import type { BandView, Design, SpecMask } from "@stackproof/optics";
 import { SpectrumChart } from "./spectrum-chart.tsx";
-import type { ChartCurve, ChartEnvelope, ChartMarker } from "./spectrum-chart.tsx";
+import type { ChartCurve, ChartEnvelope, ChartMarker, ChartViolation } from "./spectrum-chart.tsx";
 import { useElementWidth } from "./use-element-width.ts";
 import { useLiveSpectrum, useVerdicts } from "../lib/use-live-spectrum.ts";
 import { forbiddenRegions } from "../lib/mask-geometry.ts";
@@ -44,6 +45,68 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
   const verdicts = useVerdicts(useDeferredValue(design), mask);
   const verdictMap = new Map<string, boolean>(verdicts?.ok ? verdicts.bands.map((b) => [b.id, b.pass]) : []);
   const regions = forbiddenRegions(mask?.bands ?? [], verdictMap);
+  // A selected band is drawn at its own conditions (envelope over its angle range, cone average, s and p each),
+  // computed by the optics package's bandView; its marks are the verdict's own violation points.
+  const [selected, setSelected] = useState<string | null>(null);
+  const [angleView, setAngleView] = useState<{ wavelength: number } | null>(null);
+  const deferredDesign = useDeferredValue(design);
+  const selectedBand = mask?.bands.find((b) => b.id === selected) ?? null;
+  const bandState = useMemo((): { ok: true; view: BandView } | { ok: false; error: string } | null => {
+    if (!mask || !selectedBand) return null;
+    try {
+      return { ok: true, view: bandView(deferredDesign, mask, selectedBand.id, { start: view.settings.start, stop: view.settings.stop, points: Math.min(801, Math.max(2, view.settings.points)) }) };
+    } catch (e) {
+      return { ok: false, error: e instanceof Error ? e.message : String(e) };
+    }
+  }, [deferredDesign, mask, selectedBand, view.settings.start, view.settings.stop, view.settings.points]);
+  const bandCurves: ChartCurve[] =
+    bandState?.ok === true
+      ? bandState.view.curves.map((c, k) => ({
+          id: `band-${k}`,
+          label: c.label,
+          quantity: bandState.view.quantity,
+          wavelengths: bandState.view.wavelengths,
+          values: c.values,
+          color: c.polarization === "p" ? "#6a4fa3" : QUANTITY_COLORS[bandState.view.quantity],
+          dashed: c.side === "highest",
+          primary: true,
+        }))
+      : [];
+  const violations: ChartViolation[] = [];
+  if (verdicts?.ok && mask) {
+    for (const band of mask.bands) {
+      if (selected && band.id !== selected) continue;
+      for (const v of verdicts.violations.get(band.id) ?? []) violations.push({ bandId: band.id, quantity: band.quantity, ...v });
+    }
+  }
+  const scan = useMemo(() => {
+    if (!angleView) return null;
+    try {
+      return { ok: true as const, scan: angleScan(deferredDesign, angleView.wavelength, 0, 80, 161) };
+    } catch (e) {
+      return { ok: false as const, error: e instanceof Error ? e.message : String(e) };
+    }
+  }, [deferredDesign, angleView]);
+  const exportCsv = () => {
+    if (!live.ok) return;
+    const sp = live.spectrum;
+    const cols: Record<string, ArrayLike<number>> = {
+      [`R_pct_${view.settings.angleDeg}deg_${view.settings.polarization}`]: Array.from(sp.R, (v) => v * 100),
+      [`T_pct_${view.settings.angleDeg}deg_${view.settings.polarization}`]: Array.from(sp.T, (v) => v * 100),
+      [`A_pct_${view.settings.angleDeg}deg_${view.settings.polarization}`]: Array.from(sp.A, (v) => v * 100),
+    };
+    let text = spectrumToCsv(sp.wavelengths, cols);
+    if (bandState?.ok) {
+      const bv = bandState.view;
+      text += "\n" + spectrumToCsv(bv.wavelengths, Object.fromEntries(bv.curves.map((c) => [`${bv.id} ${bv.quantity} ${c.label}`, c.values])));
+    }
+    const url = URL.createObjectURL(new Blob([text], { type: "text/csv" }));
+    const a = document.createElement("a");
+    a.href = url;
+    a.download = `${design.name.replace(/[^\w.-]+/g, "_")}-spectrum.csv`;
+    a.click();
+    URL.revokeObjectURL(url);
+  };
   const hasOD = (mask?.bands ?? []).some((b) => b.quantity === "OD");
   const curves = live.ok
     ? spectrumCurves(live.spectrum, view.scale === "od" ? ["OD"] : view.quantities, { idPrefix: "nominal-", primary: true })
@@ -151,18 +214,90 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
           </p>
         ) : null}
       </div>
+      <div className="mb-1 flex flex-wrap items-center gap-2 text-xs">
+        <p className="font-semibold text-ink-900" data-testid="chart-title">
+          {angleView
+            ? `R and T against angle at ${angleView.wavelength} nm`
+            : bandState?.ok
+              ? bandState.view.title
+              : `Chart conditions: ${view.settings.angleDeg}°${view.settings.coneHalfAngleDeg > 0 ? `, cone ${view.settings.coneHalfAngleDeg}° half-angle` : ""}, ${view.settings.polarization === "u" ? "unpolarized" : `${view.settings.polarization}-polarized`}`}
+        </p>
+        {bandState && !bandState.ok ? <span className="text-verdict-fail">{bandState.error}</span> : null}
+        {selected ? (
+          <button type="button" className="rounded bg-ink-100 px-2 py-0.5" onClick={() => setSelected(null)}>
+            Show chart conditions
+          </button>
+        ) : null}
+        <button
+          type="button"
+          aria-pressed={angleView !== null}
+          className={`ml-auto rounded px-2 py-0.5 ${angleView ? "bg-ink-900 text-paper" : "bg-ink-100 text-ink-700"}`}
+          onClick={() =>
+            setAngleView(angleView ? null : { wavelength: Math.round(selectedBand ? (selectedBand.start + selectedBand.stop) / 2 : (view.settings.start + view.settings.stop) / 2) })
+          }
+        >
+          R/T vs angle
+        </button>
+        {angleView ? (
+          <NumberField
+            label="at (nm)"
+            className="w-24"
+            value={angleView.wavelength}
+            min={1}
+            problem={(v) => (v > 0 ? null : "a wavelength > 0 nm")}
+            onCommit={(v) => setAngleView({ wavelength: v })}
+          />
+        ) : null}
+        <button type="button" className="rounded bg-ink-100 px-2 py-0.5 text-ink-700" onClick={exportCsv} disabled={!live.ok}>
+          Export CSV
+        </button>
+      </div>
       <div ref={ref} className="w-full" style={{ contain: "layout paint" }}>
-        {live.ok ? (
+        {angleView && scan ? (
+          scan.ok ? (
+            <SpectrumChart
+              width={width}
+              height={props.height ?? 340}
+              scale="percent"
+              domain={{ start: 0, stop: 80 }}
+              xLabel="Angle of incidence (°)"
+              curves={(["R", "T"] as const).flatMap((q) =>
+                (["s", "p", "u"] as const).map((pol) => ({
+                  id: `angle-${q}-${pol}`,
+                  label: `${q} ${pol === "u" ? "unpolarized" : pol}`,
+                  quantity: q,
+                  wavelengths: scan.scan.anglesDeg,
+                  values: scan.scan[pol][q].map((v) => v * 100),
+                  color: QUANTITY_COLORS[q],
+                  dashed: pol !== "u",
+                  primary: pol === "u",
+                })),
+              )}
+              regions={[]}
+              title={`${design.name}: R and T against angle of incidence at ${angleView.wavelength} nm (s, p dashed; unpolarized solid)`}
+            />
+          ) : (
+            <div role="alert" className="rounded border border-verdict-fail/40 bg-verdict-fail/5 p-4 text-sm text-verdict-fail">
+              R/T against angle cannot be computed: {scan.error}
+            </div>
+          )
+        ) : live.ok ? (
           <SpectrumChart
             width={width}
             height={props.height ?? 340}
             scale={view.scale}
             domain={{ start: view.settings.start, stop: view.settings.stop }}
-            curves={[...curves, ...(props.overlays ?? [])]}
-            regions={regions}
+            curves={[...(bandCurves.length > 0 ? curves.map((c) => ({ ...c, primary: false, dashed: true })) : curves), ...bandCurves, ...(props.overlays ?? [])]}
+            regions={selectedBand ? regions.filter((r) => r.bandId === selectedBand.id) : regions}
             envelopes={props.envelopes}
             markers={props.markers}
-            title={props.title ?? `Spectrum of ${design.name} at ${view.settings.angleDeg}°, ${view.settings.polarization === "u" ? "unpolarized" : `${view.settings.polarization}-polarized`}`}
+            violations={violations}
+            title={
+              bandState?.ok
+                ? bandState.view.title
+                : (props.title ??
+                  `Spectrum of ${design.name} at ${view.settings.angleDeg}°${view.settings.coneHalfAngleDeg > 0 ? ` (cone of half-angle ${view.settings.coneHalfAngleDeg}°)` : ""}, ${view.settings.polarization === "u" ? "unpolarized" : `${view.settings.polarization}-polarized`}`)
+            }
             onSelectRange={props.onSelectRange}
           />
         ) : (
@@ -185,21 +320,37 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
         <ColourReadout design={design} angleDeg={view.settings.angleDeg} polarization={view.settings.polarization} />
       ) : null}
       {verdicts?.ok && mask ? (
-        <ul className="mt-2 grid gap-1 text-xs sm:grid-cols-2" aria-label="Spec bands">
+        <ul className="mt-2 grid max-h-24 gap-1 overflow-y-auto text-xs sm:grid-cols-2" aria-label="Spec bands">
           {verdicts.bands.map((b) => {
             const band = mask.bands.find((x) => x.id === b.id);
             return (
-              <li key={b.id} className="flex items-center gap-2" data-band={b.id}>
+              <li key={b.id} className={`flex items-center gap-2 ${selected === b.id ? "rounded bg-ink-100" : ""}`} data-band={b.id}>
                 <span className={`rounded px-1.5 py-0.5 font-semibold ${b.pass ? "bg-verdict-pass/10 text-verdict-pass" : "bg-verdict-fail/10 text-verdict-fail"}`}>
                   {b.pass ? "pass" : "fail"}
                 </span>
-                <span className="truncate" title={band ? `${band.label}: ${band.start}–${band.stop} nm` : undefined}>
+                <button
+                  type="button"
+                  className="truncate text-left underline decoration-dotted"
+                  aria-pressed={selected === b.id}
+                  title={band ? `Show ${band.label ?? band.id} at its own conditions (${bandConditionsText(band)})` : undefined}
+                  onClick={() => {
+                    setAngleView(null);
+                    setSelected(selected === b.id ? null : b.id);
+                  }}
+                >
                   {band?.label ?? b.id}
-                </span>
+                </button>
                 <span className="ml-auto tabular text-ink-500" title="Margin: distance inside the band's limit (negative = outside), in the band's own unit">
-                  margin {b.margin >= 0 ? "+" : ""}
-                  {b.margin.toFixed(2)}
-                  {band?.quantity === "OD" ? " OD" : " % pts"} · {band?.angleDeg}°{band?.polarization === "u" ? " unpol." : ` ${band?.polarization ?? ""}`}
+                  {b.reason ? (
+                    b.reason
+                  ) : (
+                    <>
+                      margin {b.margin >= 0 ? "+" : ""}
+                      {b.margin.toFixed(2)}
+                      {band?.quantity === "OD" ? " OD" : " % pts"}
+                    </>
+                  )}{" "}
+                  · {band ? bandConditionsText(band) : ""} · worst {b.worst.wavelength} nm, {b.worst.angleDeg.toFixed(1)}° {b.worst.polarization}
                 </span>
                 {props.bandAction ? (
                   <button
@@ -292,7 +443,7 @@ function Legend({ overlays, hasEnvelope, primaryLabel }: { overlays: readonly Ch
         <span className="inline-block w-4 border-t-2 border-dashed border-ink-700" aria-hidden /> limit on a band average
       </span>
       <span className="flex items-center gap-1.5">
-        <span className="inline-block h-1 w-4 rounded bg-verdict-fail" aria-hidden /> violation
+        <span className="inline-block h-2 w-2 rounded-full bg-verdict-fail" aria-hidden /> violation (at the band’s own conditions)
       </span>
       {hasEnvelope ? (
         <span className="flex items-center gap-1.5">

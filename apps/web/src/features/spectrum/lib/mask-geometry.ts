@@ -1,5 +1,5 @@
 // Spec mask → what the chart draws: forbidden regions per band and the curve samples that violate them.
-import { bandLimit } from "@stackproof/optics";
+import { bandConditionsText, bandLimit } from "@stackproof/optics";
 import type { SpecBand } from "@stackproof/optics";
 
 export type ChartQuantity = "R" | "T" | "A" | "OD";
@@ -38,30 +38,6 @@ export function forbiddenRegions(bands: readonly SpecBand[], verdicts: ReadonlyM
     side: band.requirement === "min" || band.requirement === "avgMin" ? "below" : "above",
     average: band.requirement === "avgMin" || band.requirement === "avgMax",
     pass: verdicts.get(band.id) ?? null,
-    conditions: `${band.angleDeg}° ${band.polarization === "u" ? "unpolarized" : band.polarization}`,
+    conditions: bandConditionsText(band),
   }));
-}
-
-/** Runs of consecutive sample indices where a curve lies inside a point-wise forbidden region. */
-export function violationRuns(
-  region: ForbiddenRegion,
-  wavelengths: ArrayLike<number>,
-  values: ArrayLike<number>,
-): [number, number][] {
-  if (region.average) return [];
-  const runs: [number, number][] = [];
-  let open = -1;
-  for (let i = 0; i < wavelengths.length; i++) {
-    const w = wavelengths[i] as number;
-    const v = values[i] as number;
-    const inside = w >= region.start && w <= region.stop;
-    const bad = inside && (region.side === "below" ? v < region.limit : v > region.limit);
-    if (bad && open < 0) open = i;
-    if (!bad && open >= 0) {
-      runs.push([open, i - 1]);
-      open = -1;
-    }
-  }
-  if (open >= 0) runs.push([open, wavelengths.length - 1]);
-  return runs;
 }

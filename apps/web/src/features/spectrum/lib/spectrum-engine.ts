@@ -1,7 +1,7 @@
-// Live spectrum of the design being edited, computed on the main thread with the optics fast evaluator.
-// The evaluator is compiled once per stack structure (materials, media, grid, angle, polarization); a
-// thickness edit only re-runs the characteristic-matrix loop.
-import { coneQuadrature, createStackEvaluator } from "@stackproof/optics";
+// Live spectrum of the design being edited, computed on the main thread by the optics package's chart engine
+// (createLiveSpectrum: tabulated once per stack structure, a thickness edit only re-runs the matrix loop; a cone
+// uses the same adaptive rule as the spec verdicts). No physics here: grids, cones and OD come from optics.
+import { createLiveSpectrum, evenGrid, quantityValue } from "@stackproof/optics";
 import type { Design } from "@stackproof/optics";
 
 export type ChartPolarization = "s" | "p" | "u";
@@ -25,13 +25,6 @@ export interface Spectrum {
   A: Float64Array;
 }
 
-export function wavelengthGrid(start: number, stop: number, points: number): Float64Array {
-  const n = Math.max(2, Math.round(points));
-  const out = new Float64Array(n);
-  for (let i = 0; i < n; i++) out[i] = start + ((stop - start) * i) / (n - 1);
-  return out;
-}
-
 /** Everything of a design except its layer thicknesses: what the evaluators are compiled against. */
 export function structureKey(design: Design, settings: SpectrumSettings): string {
   return JSON.stringify([
@@ -49,46 +42,19 @@ export interface SpectrumEngine {
   compute(thicknesses: Float64Array): Spectrum;
 }
 
-/**
- * Compile the evaluators for a design and chart settings. A collimated beam needs one evaluator; a cone is
- * integrated with the engine's cone quadrature (rays uniform in solid angle), each ray evaluated in s and p
- * and mixed by its s share, so the polarization of the beam is carried correctly onto tilted rays.
- */
+/** Compile the optics chart engine for a design and chart settings. */
 export function createSpectrumEngine(design: Design, settings: SpectrumSettings): SpectrumEngine {
-  const wavelengths = wavelengthGrid(settings.start, settings.stop, settings.points);
-  const n = wavelengths.length;
-  const pol = settings.polarization;
-  type Part = { ev: ReturnType<typeof createStackEvaluator>; weight: number };
-  const parts: Part[] = [];
-  if (!(settings.coneHalfAngleDeg > 0)) {
-    parts.push({ ev: createStackEvaluator(design, { wavelengths, angleDeg: settings.angleDeg, polarization: pol }), weight: 1 });
-  } else {
-    const rays = coneQuadrature(settings.angleDeg, settings.coneHalfAngleDeg, 4, settings.angleDeg === 0 ? 1 : 6);
-    for (const ray of rays) {
-      const sShare = pol === "s" ? ray.sFraction : pol === "p" ? 1 - ray.sFraction : 0.5;
-      if (sShare > 0) parts.push({ ev: createStackEvaluator(design, { wavelengths, angleDeg: ray.angleDeg, polarization: "s" }), weight: ray.weight * sShare });
-      if (sShare < 1) parts.push({ ev: createStackEvaluator(design, { wavelengths, angleDeg: ray.angleDeg, polarization: "p" }), weight: ray.weight * (1 - sShare) });
-    }
-  }
-  const scratch = { R: new Float64Array(n), T: new Float64Array(n), A: new Float64Array(n) };
+  const wavelengths = evenGrid(settings.start, settings.stop, Math.max(2, settings.points));
+  const live = createLiveSpectrum(design, {
+    wavelengths,
+    angleDeg: settings.angleDeg,
+    polarization: settings.polarization,
+    ...(settings.coneHalfAngleDeg > 0 ? { cone: { halfAngleDeg: settings.coneHalfAngleDeg } } : {}),
+  });
   return {
     key: structureKey(design, settings),
     compute(thicknesses) {
-      const out: Spectrum = { wavelengths, R: new Float64Array(n), T: new Float64Array(n), A: new Float64Array(n) };
-      const only = parts.length === 1 ? parts[0] : undefined;
-      if (only) {
-        only.ev.evaluate(thicknesses, out);
-        return out;
-      }
-      for (const { ev, weight: w } of parts) {
-        ev.evaluate(thicknesses, scratch);
-        for (let i = 0; i < n; i++) {
-          out.R[i] = (out.R[i] as number) + w * (scratch.R[i] as number);
-          out.T[i] = (out.T[i] as number) + w * (scratch.T[i] as number);
-          out.A[i] = (out.A[i] as number) + w * (scratch.A[i] as number);
-        }
-      }
-      return out;
+      return { wavelengths: live.wavelengths, ...live.compute(thicknesses) };
     },
   };
 }
@@ -97,9 +63,9 @@ export function thicknessesOf(design: Design): Float64Array {
   return Float64Array.from(design.layers, (l) => l.thickness);
 }
 
-/** Optical density −log10 T, capped at 30 like the engine's spec evaluation. */
+/** Optical density −log10 T as the optics package defines it for spec bands (same floor). */
 export function opticalDensity(T: number): number {
-  return -Math.log10(T > 1e-30 ? T : 1e-30);
+  return quantityValue("OD", 0, T, 0);
 }
 
 /** Default chart range: the mask's bands with 5 % either side, or λ0 ± 40 %. */

@@ -1,6 +1,6 @@
 import { useMemo } from "react";
 import { createSpecEvaluator } from "@stackproof/optics";
-import type { Design, SpecEvaluator, SpecMask, BandOutcome } from "@stackproof/optics";
+import type { Design, SpecEvaluator, SpecMask, BandOutcome, WorstPoint } from "@stackproof/optics";
 import { createSpectrumEngine, structureKey, thicknessesOf } from "./spectrum-engine.ts";
 import type { Spectrum, SpectrumEngine, SpectrumSettings } from "./spectrum-engine.ts";
 
@@ -41,7 +41,13 @@ export function useLiveSpectrum(design: Design, settings: SpectrumSettings): Spe
   return useMemo(() => computeLiveSpectrum(design, settings), [design, settings]);
 }
 
-export type VerdictState = { ok: true; bands: BandOutcome[]; pass: boolean } | { ok: false; error: string };
+/**
+ * Band outcomes and, per band, its violation points — both from ONE evaluation (the chips and the chart's
+ * violation marks can never disagree).
+ */
+export type VerdictState =
+  | { ok: true; bands: BandOutcome[]; pass: boolean; violations: Map<string, WorstPoint[]> }
+  | { ok: false; error: string };
 
 /** Band outcomes of the design against the mask, each band at its own angle and polarization. */
 export function computeVerdicts(design: Design, mask: SpecMask | null): VerdictState | null {
@@ -50,7 +56,8 @@ export function computeVerdicts(design: Design, mask: SpecMask | null): VerdictS
     const key = JSON.stringify([design.layers.map((l) => l.material), design.incident, design.exit, design.substrate, design.materials ?? null, mask]);
     const ev = remember(verdictEngines, key, () => createSpecEvaluator(design, mask));
     const bands = ev.evaluate(thicknessesOf(design));
-    return { ok: true, bands, pass: bands.every((b) => b.pass) };
+    const violations = new Map(bands.map((b, i) => [b.id, ev.violations(i)] as const));
+    return { ok: true, bands, pass: bands.every((b) => b.pass), violations };
   } catch (e) {
     return { ok: false, error: e instanceof Error ? e.message : String(e) };
   }

@@ -96,7 +96,7 @@ export const StudiesPanel = memo(function StudiesPanel(props: StudiesPanelProps)
         api.sensitivityMap(props.design, {
           wavelengths,
           angleDeg: first?.angleDeg ?? 0,
-          polarization: first?.polarization ?? "u",
+          polarization: first?.polarization === "sp" || !first ? "u" : first.polarization,
           quantity: first?.quantity === "R" ? "R" : "T",
         }),
       );
