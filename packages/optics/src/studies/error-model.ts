@@ -1,6 +1,7 @@
 import { z } from "zod";
 import type { TrialRandom } from "./random.ts";
 import { parseWith } from "./validate.ts";
+import { ProcessModelSchema, scaleProcessModel } from "./process/schema.ts";
 
 const perMaterial = z.union([z.number().min(0).finite(), z.record(z.string(), z.number().min(0).finite())]);
 
@@ -12,6 +13,10 @@ const perMaterial = z.union([z.number().min(0).finite(), z.record(z.string(), z.
  * - indexDriftPct: per-material refractive-index scale per run (%), applied to the whole N of every layer of that material.
  * - indexNoisePct: independent per-layer index scale (%).
  * A number applies to every material; a record names materials (missing ones get 0).
+ * - process (optional, version 1 of the process format): how the chamber controls each layer (time,
+ *   quartz crystal or optical monitoring, uniformity). When present, the process produces every layer's
+ *   thickness and `thickness` and `systematicPct` are not used; the index terms above still apply and
+ *   optical monitoring reacts to them. Without it the model is the independent-error model.
  */
 export const ErrorModelSchema = z.object({
   thickness: z.object({
@@ -23,6 +28,7 @@ export const ErrorModelSchema = z.object({
   systematicPct: perMaterial.optional(),
   indexDriftPct: perMaterial.optional(),
   indexNoisePct: z.number().min(0).max(50).optional(),
+  process: ProcessModelSchema.optional(),
 });
 export type ErrorModel = z.output<typeof ErrorModelSchema>;
 
@@ -53,6 +59,7 @@ export function scaleErrorModel(model: ErrorModel, scale: number): ErrorModel {
   if (sys !== undefined) out.systematicPct = sys;
   if (drift !== undefined) out.indexDriftPct = drift;
   if (model.indexNoisePct !== undefined) out.indexNoisePct = model.indexNoisePct * scale;
+  if (model.process !== undefined) out.process = scaleProcessModel(model.process, scale);
   return out;
 }
 

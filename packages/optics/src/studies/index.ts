@@ -10,4 +10,5 @@ export * from "./least-squares.ts";
 export * from "./refine.ts";
 export * from "./fit.ts";
 export * from "./sensitivity.ts";
+export * from "./process/index.ts";
 export { parseWith, describeValue } from "./validate.ts";

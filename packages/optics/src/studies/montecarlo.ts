@@ -2,7 +2,8 @@ import { z } from "zod";
 import { DesignSchema, parseDesign } from "../core/index.ts";
 import type { Design } from "../core/index.ts";
 import { ENGINE_VERSION } from "../version.ts";
-import { createTrialSampler, ErrorModelSchema, scaleErrorModel } from "./error-model.ts";
+import { ErrorModelSchema, scaleErrorModel } from "./error-model.ts";
+import { createStudySampler } from "./process/sampler.ts";
 import type { ErrorModel } from "./error-model.ts";
 import { TrialRandom } from "./random.ts";
 import { createSpecEvaluator, meritOf, PROTECTIVE_CAUTION, quantityValue, SpecMaskSchema } from "./spec.ts";
@@ -175,10 +176,7 @@ export function createYieldRunner(studyInput: YieldStudy): YieldRunner {
   const study = parseYieldStudy(studyInput);
   const design = study.design as Design;
   const evaluator = createSpecEvaluator(design, study.mask);
-  const sampler = createTrialSampler(
-    study.errorModel,
-    design.layers.map((l) => l.material),
-  );
+  const sampler = createStudySampler(study.errorModel, design);
   const envelopes = planEnvelopes(evaluator);
   const envelopeSamples = Math.min(study.trials, study.envelopeSamples ?? DEFAULT_ENVELOPE_SAMPLES);
   const nominal = evaluator.nominalThicknesses;

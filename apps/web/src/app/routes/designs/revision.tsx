@@ -33,6 +33,7 @@ import { spectrumCurves } from "../../../features/spectrum/lib/curves.ts";
 import { useElementWidth } from "../../../features/spectrum/components/use-element-width.ts";
 import { StudiesPanel } from "../../../features/studies/components/studies-panel.tsx";
 import { RefinementPanel } from "../../../features/refinement/components/refinement-panel.tsx";
+import { ProcessPanel } from "../../../features/process/components/process-panel.tsx";
 import { ReviewPanel } from "../../../features/review/components/review-panel.tsx";
 import { useThreads } from "../../../features/review/api/threads.ts";
 import type { ThreadAnchor } from "../../../features/review/api/threads.ts";
@@ -75,7 +76,7 @@ export function Component() {
   );
 }
 
-type TabId = "study" | "refine" | "asbuilt" | "history";
+type TabId = "study" | "process" | "refine" | "asbuilt" | "history";
 
 function Workspace({ revision, design, program, materials }: { revision: Revision; design: DesignDetail; program: Program; materials: MaterialOption[] }) {
   const session = useSession();
@@ -184,6 +185,11 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
           onResult={setStudyResult}
         />
       ),
+    },
+    {
+      id: "process",
+      label: "Process",
+      content: <ProcessPanel design={deferred} mask={mask} errorModel={program.errorModel} defaults={program.studyDefaults} targetYield={program.targetYield} />,
     },
     {
       id: "refine",
