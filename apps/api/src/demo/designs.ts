@@ -552,7 +552,7 @@ export function demoPrograms(): DemoProgram[] {
               comments: [
                 {
                   by: "reviewer",
-                  body: "The cavities' own stop band blocks only about 790–1075 nm. Below 780 nm the filter is open (T averages far above 1 % over 400–870 nm), and the detector sees from 400 nm; the long side leaks above 1080 nm too.",
+                  body: "The cavities' own stop band blocks only about 790–1075 nm. Below 780 nm the filter is open (T averages far above 1 % over 400–870 nm), and the detector sees from 400 nm. The long side is open from about 1080 nm to 1100 nm as well: every blocking band fails.",
                 },
                 {
                   by: "designer",
@@ -560,7 +560,14 @@ export function demoPrograms(): DemoProgram[] {
                 },
               ],
               resolvedBy: "reviewer",
-              explainsFailure: ["block-short", "block-short-peak", "block-short-10", "block-long-peak"],
+              explainsFailure: [
+                "block-short",
+                "block-short-peak",
+                "block-short-10",
+                "block-long",
+                "block-long-peak",
+                "block-long-10",
+              ],
             },
           ],
         },
