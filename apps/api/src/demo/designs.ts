@@ -296,8 +296,8 @@ function kestrelProcess(layers: number): ErrorModel["process"] {
     plan: Array.from({ length: layers }, (_, i) => ({
       wavelength: 905,
       on: "part" as const,
-      // the blockers (ZrO2/MgF2) are on the crystal; their plan steps are not used
-      criterion: i < KESTREL_CAVITY_LAYERS ? ("turning" as const) : ("level" as const),
+      // every step a turning point at 905 nm; the blockers (ZrO2/MgF2) are on the crystal and do not use theirs
+      criterion: "turning" as const,
     })),
   };
 }
@@ -539,7 +539,7 @@ export function demoPrograms(): DemoProgram[] {
       mask: KESTREL_MASK,
       errorModel: { ...kestrelSpreads, indexDriftPct: 0.2, process: kestrelProcess(kestrelR2.layers.length) },
       independentErrorModel: { ...kestrelSpreads, indexDriftPct: 0.2 },
-      trials: 400,
+      trials: 60,
       designName: kestrelName,
       revisions: [
         {
