@@ -293,7 +293,7 @@ function kestrelProcess(layers: number): ErrorModel["process"] {
     version: 1,
     label: "Kestrel run sheet: cavities on 905 nm turning points, blockers on crystal",
     control: { Ta2O5: optical, SiO2: optical, ZrO2: crystal, MgF2: crystal },
-    plan: Array.from({ length: layers }, (_, i) => ({
+    plan: Array.from({ length: layers }, () => ({
       wavelength: 905,
       on: "part" as const,
       // every step a turning point at 905 nm; the blockers (ZrO2/MgF2) are on the crystal and do not use theirs
