@@ -3,6 +3,7 @@ import js from "@eslint/js";
 import tseslint from "typescript-eslint";
 import reactHooks from "eslint-plugin-react-hooks";
 import globals from "globals";
+import house from "./eslint-rules/one-way-imports.js";
 
 export default tseslint.config(
   { ignores: ["**/dist/**", "**/node_modules/**", "**/.turbo/**", "apps/api/drizzle/**", "**/test-results/**"] },
@@ -15,6 +16,11 @@ export default tseslint.config(
       "@typescript-eslint/no-unused-vars": ["error", { argsIgnorePattern: "^_", varsIgnorePattern: "^_" }],
       "@typescript-eslint/consistent-type-imports": "error",
     },
+  },
+  {
+    files: ["apps/web/src/**/*.{ts,tsx}", "packages/*/src/**/*.ts"],
+    plugins: { house },
+    rules: { "house/one-way-imports": "error" },
   },
   {
     files: ["apps/web/**/*.{ts,tsx}"],

@@ -4,8 +4,7 @@ import { hash, verify } from "@node-rs/argon2";
 
 const OPTIONS = { memoryCost: 19456, timeCost: 2, parallelism: 1, outputLen: 32 } as const;
 
-export const PASSWORD_MIN = 10;
-export const PASSWORD_MAX = 200;
+export { PASSWORD_MAX, PASSWORD_MIN } from "@stackproof/contracts";
 
 export function hashPassword(password: string): Promise<string> {
   return hash(password, OPTIONS);

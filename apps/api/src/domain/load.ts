@@ -90,12 +90,12 @@ export function loadThread(
 
 /** The revision's stack as stored (validated with parseDesign when it was created). */
 export function stackOf(revision: RevisionRow): Design {
-  return revision.stack as Design;
+  return revision.stack;
 }
 
 /** The revision's spec mask, with `protective` taken from the program. */
 export function maskOf(revision: RevisionRow, program: ProgramRow): SpecMask {
-  return { ...(revision.specMask as SpecMask), protective: program.protective };
+  return { ...revision.specMask, protective: program.protective };
 }
 
 /** id → {id, name} for the given user ids (unknown ids are left out). */

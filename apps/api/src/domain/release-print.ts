@@ -1,5 +1,5 @@
 // The printable release record: one self-contained HTML page (inline CSS, no scripts, no external resources).
-import type { BandOutcome, Design, SpecMask } from "@stackproof/optics";
+import type { BandOutcome } from "@stackproof/optics";
 import type { ReleaseSnapshot } from "./workflow.ts";
 
 const esc = (s: unknown): string =>
@@ -28,8 +28,8 @@ function unit(q: string) {
 }
 
 export function releasePrintHtml(r: ReleaseSnapshot, status: string): string {
-  const stack = r.revision.stack as Design;
-  const mask = r.revision.specMask as SpecMask;
+  const stack = r.revision.stack;
+  const mask = r.revision.specMask;
   const bands = new Map<string, BandOutcome>((r.nominal.bands as BandOutcome[]).map((b) => [b.id, b]));
   const y = r.yieldRun;
   const failures = new Map((y?.bandFailures ?? []).map((b) => [b.id, b.count]));

@@ -258,7 +258,7 @@ export function overviewRows(db: DbOrTx, rows: readonly { design: DesignRow; pro
       .from(yieldRuns)
       .where(inArray(yieldRuns.id, [...newestRun.values()]))
       .all()) {
-      if (r.result) results.set(r.id, r.result as YieldResult);
+      if (r.result) results.set(r.id, r.result);
     }
   }
   const names = userNames(

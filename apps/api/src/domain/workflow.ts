@@ -100,12 +100,11 @@ export function gateOf(
   // A what-if study with another error model (e.g. looser tolerances) is no evidence for the program's spec.
   const programModel = canonicalJson(program.errorModel);
   const usesProgramModel = (r: YieldRunRow) => canonicalJson(r.errorModel) === programModel;
-  const qualifies = (r: YieldRunRow) =>
+  const qualifies = (r: YieldRunRow): r is YieldRunRow & { result: YieldResult } =>
     r.status === "done" &&
     usesProgramModel(r) &&
     r.verified === true &&
-    (r.result as YieldResult | null)?.yield !== undefined &&
-    (r.result as YieldResult).yield >= target;
+    r.result !== null && r.result.yield >= target;
   let yieldCheck: GateCheck;
   let yieldRun: YieldRunRow | null = null;
   if (yieldRunId !== undefined) {
@@ -138,29 +137,30 @@ export function gateOf(
       yieldCheck = {
         id: "verified_yield",
         ok: false,
-        message: `Yield run ${run.id} reached ${pct((run.result as YieldResult).yield)}, below the program target ${pct(target)}.`,
+        message: `Yield run ${run.id} reached ${run.result ? pct(run.result.yield) : "no result"}, below the program target ${pct(target)}.`,
       };
     } else {
       yieldRun = run;
       yieldCheck = {
         id: "verified_yield",
         ok: true,
-        message: `Verified yield ${pct((run.result as YieldResult).yield)} ≥ target ${pct(target)} (run ${run.id}).`,
+        message: `Verified yield ${pct(run.result.yield)} ≥ target ${pct(target)} (run ${run.id}).`,
       };
     }
   } else {
-    yieldRun = runs.find(qualifies) ?? null;
-    if (yieldRun) {
+    const found = runs.find(qualifies);
+    yieldRun = found ?? null;
+    if (found) {
       yieldCheck = {
         id: "verified_yield",
         ok: true,
-        message: `Verified yield ${pct((yieldRun.result as YieldResult).yield)} ≥ target ${pct(target)} (run ${yieldRun.id}).`,
+        message: `Verified yield ${pct(found.result.yield)} ≥ target ${pct(target)} (run ${found.id}).`,
       };
     } else {
       const anyVerified = runs.some((r) => r.status === "done" && r.verified === true);
       const verified = runs.filter((r) => r.status === "done" && r.verified === true && usesProgramModel(r));
       const best = verified.reduce<number | null>(
-        (m, r) => Math.max(m ?? 0, (r.result as YieldResult).yield),
+        (m, r) => Math.max(m ?? 0, r.result?.yield ?? 0),
         null,
       );
       yieldCheck = {
@@ -415,7 +415,7 @@ export function applyTransition(
       .from(yieldRuns)
       .where(eq(yieldRuns.id, outcome.decision.yieldRunId ?? ""))
       .get();
-    const result = run?.result as YieldResult | undefined;
+    const result = run?.result ?? undefined;
     const yieldText = result
       ? `${pct(result.yield)} (95 % interval ${pct(result.interval.low)}–${pct(result.interval.high)}, ${result.trials} trials)`
       : "";
@@ -455,7 +455,7 @@ export function releaseSnapshot(
   at: Date,
 ) {
   const run = db.select().from(yieldRuns).where(eq(yieldRuns.id, yieldRunId)).get();
-  const result = run?.result as YieldResult | undefined;
+  const result = run?.result ?? undefined;
   const mask = maskOf(rc.revision, rc.program);
   const nominal = evaluateSpec(stackOf(rc.revision), mask);
   const threads = threadsForRevision(db, rc);

@@ -12,6 +12,7 @@
 import { sql, type SQL } from "drizzle-orm";
 import type { SQLiteColumn } from "drizzle-orm/sqlite-core";
 import { z } from "zod";
+import type { Page } from "@stackproof/contracts";
 import { HttpError } from "./errors.ts";
 
 export const DEFAULT_LIMIT = 50;
@@ -24,15 +25,8 @@ export const pageQuery = z.object({
 });
 export type PageQuery = z.infer<typeof pageQuery>;
 
-/** Response schema `{ items: T[], nextCursor: string | null }`. */
-export function pageSchema<T extends z.ZodType>(item: T) {
-  return z.object({ items: z.array(item), nextCursor: z.string().nullable() });
-}
-
-export interface Page<T> {
-  items: T[];
-  nextCursor: string | null;
-}
+/** Response schema `{ items: T[], nextCursor: string | null }` and its type live with the contracts. */
+export { pageSchema, type Page } from "@stackproof/contracts";
 
 /** A sort-key value as stored in SQLite; Dates are stored as epoch milliseconds (timestamp_ms columns). */
 export type CursorValue = string | number | Date;

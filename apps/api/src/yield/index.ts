@@ -9,7 +9,6 @@ import { Worker } from "node:worker_threads";
 import { and, asc, eq, inArray } from "drizzle-orm";
 import {
   ENGINE_VERSION,
-  type ErrorModel,
   type YieldChunk,
   type YieldResult,
   type YieldStudy,
@@ -56,7 +55,7 @@ export function studyForRun(db: Db, run: YieldRunRow): YieldStudy | null {
   return {
     design: stackOf(row.revision),
     mask: maskOf(row.revision, row.program),
-    errorModel: run.errorModel as ErrorModel,
+    errorModel: run.errorModel,
     trials: run.trials,
     seed: run.seed,
   };
@@ -75,7 +74,7 @@ export function finishedRunValues(run: YieldRunRow, result: YieldResult) {
       ({ verified, mismatch } = verifyClientResult(result, parsed.data, {
         trials: run.trials,
         seed: run.seed,
-        errorModel: run.errorModel as ErrorModel,
+        errorModel: run.errorModel,
       }));
     }
   }

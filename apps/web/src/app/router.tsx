@@ -1,5 +1,5 @@
 import { createBrowserRouter, RouterProvider } from "react-router";
-import { AppShell } from "../components/layout/app-shell.tsx";
+import { AppShell } from "./app-shell.tsx";
 import { RouteError } from "./routes/route-error.tsx";
 import { requireSession } from "../lib/session.ts";
 import { PageSpinner } from "../components/ui/spinner.tsx";

@@ -1,4 +1,4 @@
-import type { ErrorModel } from "../lib/types.ts";
+import type { ErrorModel } from "@stackproof/optics";
 
 function perMaterial(v: number | Record<string, number> | undefined): string {
   if (v === undefined) return "none";

@@ -1,4 +1,4 @@
-import type { SpecBand, SpecMask } from "../lib/types.ts";
+import { bandConditionsText, type SpecBand, type SpecMask } from "@stackproof/optics";
 import { cx } from "./ui/cx.ts";
 
 const requirementText: Record<SpecBand["requirement"], string> = {
@@ -7,8 +7,6 @@ const requirementText: Record<SpecBand["requirement"], string> = {
   avgMin: "band average ≥",
   avgMax: "band average ≤",
 };
-
-const polText: Record<SpecBand["polarization"], string> = { s: "s", p: "p", u: "unpol." };
 
 function unit(q: SpecBand["quantity"]): string {
   return q === "OD" ? "" : " %";
@@ -75,7 +73,7 @@ export function SpecMaskTable({
               </td>
               <td className="py-2 pr-3 font-mono">{b.quantity}</td>
               <td className="py-2 pr-3 font-mono whitespace-nowrap">
-                {b.angleDeg}° {polText[b.polarization]}
+                {bandConditionsText(b)}
               </td>
               <td className="py-2">{describeRequirement(b)}</td>
             </tr>

@@ -1,4 +1,7 @@
 // The one fetch-based client for the Stackproof API. Errors arrive as { error: { code, message, details } }.
+// A request that expects a body passes its contract schema (@stackproof/contracts); the answer is parsed with it,
+// so the web app's types are the schemas' (z.infer) and a server that drifts from its contract fails loudly here.
+import type { z } from "zod";
 
 export interface ApiErrorBody {
   code: string;
@@ -22,11 +25,16 @@ export class ApiError extends Error {
 
 type Query = Record<string, string | number | boolean | undefined>;
 
-export interface RequestOptions {
+export interface RequestOptions<S extends z.ZodType | undefined = undefined> {
   query?: Query;
   body?: unknown;
   signal?: AbortSignal;
+  /** Contract schema of the success body; without one the body is ignored (204 and "no body of interest"). */
+  schema?: S;
 }
+
+/** What a request resolves to: the schema's output, or nothing when no schema was given. */
+export type Answer<S> = S extends z.ZodType ? z.output<S> : void;
 
 function buildUrl(path: string, query?: Query): string {
   const url = path.startsWith("/api") ? path : `/api/v1${path}`;
@@ -37,7 +45,11 @@ function buildUrl(path: string, query?: Query): string {
   return s ? `${url}?${s}` : url;
 }
 
-async function request<T>(method: string, path: string, options: RequestOptions = {}): Promise<T> {
+async function request<S extends z.ZodType | undefined>(
+  method: string,
+  path: string,
+  options: RequestOptions<S> = {},
+): Promise<Answer<S>> {
   const isForm = options.body instanceof FormData;
   let res: Response;
   try {
@@ -74,7 +86,17 @@ async function request<T>(method: string, path: string, options: RequestOptions 
       Number.isFinite(retry) && retry > 0 ? retry : undefined,
     );
   }
-  return data as T;
+  if (!options.schema) return undefined as Answer<S>;
+  const parsed = options.schema.safeParse(data);
+  if (!parsed.success) {
+    throw new ApiError(
+      res.status,
+      "unexpected_response",
+      `The server's answer to ${method} ${path} did not have the expected shape. Reload the page; if it persists, the server and this page are different versions.`,
+      parsed.error.issues,
+    );
+  }
+  return parsed.data as Answer<S>;
 }
 
 function safeJson(text: string): unknown {
@@ -85,13 +107,17 @@ function safeJson(text: string): unknown {
   }
 }
 
+type Options<S extends z.ZodType | undefined> = Omit<RequestOptions<S>, "body">;
+
 export const api = {
-  get: <T>(path: string, options?: Omit<RequestOptions, "body">) => request<T>("GET", path, options),
-  post: <T>(path: string, body?: unknown, options?: RequestOptions) =>
-    request<T>("POST", path, { ...options, body }),
-  patch: <T>(path: string, body?: unknown, options?: RequestOptions) =>
-    request<T>("PATCH", path, { ...options, body }),
-  put: <T>(path: string, body?: unknown, options?: RequestOptions) =>
-    request<T>("PUT", path, { ...options, body }),
-  delete: <T>(path: string, options?: RequestOptions) => request<T>("DELETE", path, options),
+  get: <S extends z.ZodType | undefined = undefined>(path: string, options?: Options<S>) =>
+    request<S>("GET", path, options),
+  post: <S extends z.ZodType | undefined = undefined>(path: string, body?: unknown, options?: Options<S>) =>
+    request<S>("POST", path, { ...options, body }),
+  patch: <S extends z.ZodType | undefined = undefined>(path: string, body?: unknown, options?: Options<S>) =>
+    request<S>("PATCH", path, { ...options, body }),
+  put: <S extends z.ZodType | undefined = undefined>(path: string, body?: unknown, options?: Options<S>) =>
+    request<S>("PUT", path, { ...options, body }),
+  delete: <S extends z.ZodType | undefined = undefined>(path: string, options?: Options<S>) =>
+    request<S>("DELETE", path, options),
 };

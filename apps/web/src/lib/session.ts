@@ -1,11 +1,12 @@
 // Who is signed in. One query (['session']) read by the shell, the pages and the role checks.
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { redirect } from "react-router";
+import { SessionInfo, type Role, type SessionUser } from "@stackproof/contracts";
 import { api, ApiError } from "./api-client.ts";
 import { queryClient as defaultQueryClient } from "./query-client.ts";
 import type { QueryClient } from "@tanstack/react-query";
 
-export type Role = "admin" | "designer" | "reviewer" | "approver";
+export type { Role, SessionUser };
 
 export const allRoles: readonly Role[] = ["admin", "designer", "reviewer", "approver"];
 
@@ -17,22 +18,13 @@ export const roleLabel: Record<Role, string> = {
   approver: "Program manager",
 };
 
-export interface SessionUser {
-  id: string;
-  email: string;
-  name: string;
-}
-
-export interface Session {
-  user: SessionUser;
-  workspace: { id: string; name: string };
-  roles: Role[];
-}
+/** GET /auth/me and the sign-in answer. */
+export type Session = SessionInfo;
 
 /** GET /auth/me; a 401 means "signed out" and resolves to null rather than failing. */
 export async function getSession(): Promise<Session | null> {
   try {
-    return await api.get<Session>("/auth/me");
+    return await api.get("/auth/me", { schema: SessionInfo });
   } catch (error) {
     if (error instanceof ApiError && error.status === 401) return null;
     throw error;

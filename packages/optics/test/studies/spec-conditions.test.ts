@@ -227,12 +227,19 @@ describe("non-finite values fail (never pass)", () => {
     }
   });
 
-  it("a material with n = 1e308 fails rather than passes", () => {
+  it("a material with n = 1e308 never passes: refused naming the material, or failing", () => {
     const d = qwotDesign([]);
     d.materials = [...TEST_MATERIALS, { id: "absurd", name: "absurd", model: { kind: "constant", n: 1e308, k: 0 }, role: "layer", source: "test value" }];
     d.layers = [{ material: "absurd", thickness: 100 }];
-    const r = evaluateSpec(d, { bands: [band({ start: 532, stop: 532, quantity: "T", requirement: "max", value: 100 })] });
-    expect(r.pass).toBe(false);
+    let outcome: boolean | string;
+    try {
+      outcome = evaluateSpec(d, { bands: [band({ start: 532, stop: 532, quantity: "T", requirement: "max", value: 100 })] }).pass;
+    } catch (e) {
+      expect(e).toBeInstanceOf(RangeError);
+      outcome = (e as Error).message;
+    }
+    if (typeof outcome === "string") expect(outcome).toMatch(/absurd/);
+    else expect(outcome).toBe(false);
   });
 });
 

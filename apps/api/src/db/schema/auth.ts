@@ -2,8 +2,9 @@
 import { sql } from "drizzle-orm";
 import { index, integer, primaryKey, sqliteTable, text } from "drizzle-orm/sqlite-core";
 
-export const ROLES = ["admin", "designer", "reviewer", "approver"] as const;
-export type Role = (typeof ROLES)[number];
+import type { Role } from "@stackproof/contracts";
+
+export { ROLES, type Role } from "@stackproof/contracts";
 
 const createdAt = () =>
   integer("created_at", { mode: "timestamp_ms" })

@@ -1,6 +1,8 @@
 // Programs, designs, revisions, studies, review threads and release decisions.
 // JSON columns hold values in the optics package's formats (design, spec mask, error model, yield result).
 import { sql } from "drizzle-orm";
+import type { Design, ErrorModel, MaterialModel, SpecMask, YieldResult } from "@stackproof/optics";
+import type { ClientResult } from "../../yield/verify.ts";
 import { index, integer, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 import { users, workspaces } from "./auth.ts";
 
@@ -49,8 +51,8 @@ export const programs = sqliteTable(
     application: text("application").notNull().default(""),
     protective: integer("protective", { mode: "boolean" }).notNull().default(false),
     targetYield: real("target_yield").notNull(),
-    specMask: text("spec_mask", { mode: "json" }).$type<unknown>().notNull(),
-    errorModel: text("error_model", { mode: "json" }).$type<unknown>().notNull(),
+    specMask: text("spec_mask", { mode: "json" }).$type<SpecMask>().notNull(),
+    errorModel: text("error_model", { mode: "json" }).$type<ErrorModel>().notNull(),
     studyDefaults: text("study_defaults", { mode: "json" }).$type<StudyDefaults>().notNull(),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
@@ -81,8 +83,8 @@ export const revisions = sqliteTable(
       .notNull()
       .references(() => designs.id, { onDelete: "cascade" }),
     number: integer("number").notNull(),
-    stack: text("stack", { mode: "json" }).$type<unknown>().notNull(),
-    specMask: text("spec_mask", { mode: "json" }).$type<unknown>().notNull(),
+    stack: text("stack", { mode: "json" }).$type<Design>().notNull(),
+    specMask: text("spec_mask", { mode: "json" }).$type<SpecMask>().notNull(),
     note: text("note").notNull().default(""),
     authorId: text("author_id")
       .notNull()
@@ -111,7 +113,7 @@ export const materials = sqliteTable(
     name: text("name").notNull(),
     role: text("role").notNull(),
     source: text("source").notNull(),
-    model: text("model", { mode: "json" }).$type<unknown>().notNull(),
+    model: text("model", { mode: "json" }).$type<MaterialModel>().notNull(),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
   },
@@ -149,9 +151,9 @@ export const yieldRuns = sqliteTable(
     progressDone: integer("progress_done").notNull().default(0),
     trials: integer("trials").notNull(),
     seed: text("seed").notNull(),
-    errorModel: text("error_model", { mode: "json" }).$type<unknown>().notNull(),
-    clientResult: text("client_result", { mode: "json" }).$type<unknown>(),
-    result: text("result", { mode: "json" }).$type<unknown>(),
+    errorModel: text("error_model", { mode: "json" }).$type<ErrorModel>().notNull(),
+    clientResult: text("client_result", { mode: "json" }).$type<ClientResult>(),
+    result: text("result", { mode: "json" }).$type<YieldResult>(),
     verified: integer("verified", { mode: "boolean" }),
     mismatch: text("mismatch"),
     engineVersion: text("engine_version").notNull(),

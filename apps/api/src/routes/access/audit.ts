@@ -5,19 +5,9 @@ import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { auditLog, users } from "../../db/schema.ts";
 import { getAuth } from "../../auth/guards.ts";
-import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
+import { AuditListResponse } from "@stackproof/contracts";
+import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
-
-export const AuditItem = z.object({
-  id: z.string(),
-  at: z.string(),
-  actor: z.object({ id: z.string(), name: z.string() }).nullable(),
-  action: z.string(),
-  subjectType: z.string(),
-  subjectId: z.string(),
-  summary: z.string(),
-  data: z.unknown(),
-});
 
 export function auditRoutes(ctx: AppContext, router: Router): void {
   route(
@@ -33,7 +23,7 @@ export function auditRoutes(ctx: AppContext, router: Router): void {
         subjectId: z.string().max(100).optional(),
         action: z.string().max(100).optional(),
       }),
-      response: pageSchema(AuditItem),
+      response: AuditListResponse,
     },
     ({ req, query }) => {
       const { workspaceId } = getAuth(req);

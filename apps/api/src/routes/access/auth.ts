@@ -15,7 +15,7 @@ import { createFailureLimiter } from "../../lib/rate-limit.ts";
 import { appUrl } from "../../mail/links.ts";
 import { templates } from "../../mail/templates.ts";
 import { startSession } from "./session-cookie.ts";
-import { EmailInput, NewPassword, SessionInfo, TokenInput } from "./schemas.ts";
+import { EmailInput, NewPassword, SessionInfo, TokenInput } from "@stackproof/contracts";
 
 /** Sign-in: 5 failures per e-mail and address, or 50 per address, within 15 minutes. */
 export const SIGN_IN_LIMIT = { perAccount: 5, perAddress: 50, windowMs: 15 * 60_000 };

@@ -11,7 +11,7 @@ import { hashPassword, verifyPassword } from "../../auth/password.ts";
 import { hashToken, newId, newToken } from "../../auth/tokens.ts";
 import { recordAudit } from "../../lib/audit.ts";
 import { HttpError, conflict, notFound } from "../../lib/errors.ts";
-import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
+import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { appUrl } from "../../mail/links.ts";
 import { templates } from "../../mail/templates.ts";
@@ -19,25 +19,18 @@ import { startSession } from "./session-cookie.ts";
 import {
   EmailInput,
   IdParams,
+  InvitationListResponse,
+  InvitationLookupSchema,
+  InvitationSchema,
   NewPassword,
   PersonName,
-  RoleSchema,
   RolesInput,
   SessionInfo,
   TokenInput,
-} from "./schemas.ts";
+} from "@stackproof/contracts";
 
 /** An invitation link works for 7 days. */
 export const INVITATION_LIFETIME_MS = 7 * 24 * 60 * 60_000;
-
-const InvitationSchema = z.object({
-  id: z.string(),
-  email: z.string(),
-  roles: z.array(RoleSchema),
-  createdAt: z.string(),
-  expiresAt: z.string(),
-  invitedBy: z.object({ id: z.string(), name: z.string() }).nullable(),
-});
 
 const pending = (now: Date) => and(isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, now));
 
@@ -54,7 +47,7 @@ export function invitationRoutes(ctx: AppContext, router: Router): void {
       tag: "access",
       access: ["admin"],
       query: pageQuery,
-      response: pageSchema(InvitationSchema),
+      response: InvitationListResponse,
     },
     ({ req, query }) => {
       const { workspaceId } = getAuth(req);
@@ -213,13 +206,7 @@ export function invitationRoutes(ctx: AppContext, router: Router): void {
       tag: "access",
       access: "public",
       params: z.object({ token: TokenInput }),
-      response: z.object({
-        email: z.string(),
-        workspaceName: z.string(),
-        roles: z.array(RoleSchema),
-        expiresAt: z.string(),
-        existingAccount: z.boolean(),
-      }),
+      response: InvitationLookupSchema,
       errors: { 404: "Unknown, used, revoked or expired (invalid_invitation)" },
     },
     ({ params }) => {

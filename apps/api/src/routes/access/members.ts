@@ -7,11 +7,10 @@ import { memberships, sessions, users, type Role } from "../../db/schema.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { recordAudit, type DbOrTx } from "../../lib/audit.ts";
 import { HttpError, notFound } from "../../lib/errors.ts";
-import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
+import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
-import { RoleSchema, RolesInput, UserIdParams, UserSchema } from "./schemas.ts";
+import { MemberListResponse, MemberUpdateResponse, RolesInput, UserIdParams } from "@stackproof/contracts";
 
-export const MemberSchema = z.object({ user: UserSchema, roles: z.array(RoleSchema), joinedAt: z.string() });
 
 function adminCount(tx: DbOrTx, workspaceId: string): number {
   const row = tx
@@ -46,7 +45,7 @@ export function memberRoutes(ctx: AppContext, router: Router): void {
       tag: "access",
       access: "member",
       query: pageQuery,
-      response: pageSchema(MemberSchema),
+      response: MemberListResponse,
     },
     ({ req, query }) => {
       const { workspaceId } = getAuth(req);
@@ -76,7 +75,7 @@ export function memberRoutes(ctx: AppContext, router: Router): void {
       access: ["admin"],
       params: UserIdParams,
       body: z.object({ roles: RolesInput }),
-      response: MemberSchema.omit({ joinedAt: true }),
+      response: MemberUpdateResponse,
       errors: { 404: "Not a member of this workspace", 409: "Would leave the workspace without an admin (last_admin)" },
     },
     ({ req, params, body }) => {

@@ -5,7 +5,7 @@ import type { AppContext } from "../../context.ts";
 import { HttpError, notFound } from "../../lib/errors.ts";
 import { pageQuery, pageSchema } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
-import { IdParams } from "./schemas.ts";
+import { IdParams } from "@stackproof/contracts";
 
 const OutboxItem = z.object({ id: z.string(), to: z.string(), subject: z.string(), receivedAt: z.string() });
 const OutboxDetail = OutboxItem.extend({ from: z.string(), text: z.string(), html: z.string().nullable() });

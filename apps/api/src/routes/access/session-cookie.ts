@@ -3,7 +3,7 @@ import type { Response } from "express";
 import type { AppContext } from "../../context.ts";
 import type { Role } from "../../db/schema.ts";
 import { luciaFor } from "../../auth/lucia.ts";
-import type { SessionInfo } from "./schemas.ts";
+import type { SessionInfo } from "@stackproof/contracts";
 
 export async function startSession(
   ctx: AppContext,

@@ -23,7 +23,7 @@ import {
   RevisionSchema,
   RevisionSummarySchema,
   fileField,
-} from "./schemas.ts";
+} from "@stackproof/contracts";
 
 const TAG = "Designs and revisions";
 

@@ -8,38 +8,23 @@ import { getAuth } from "../../auth/guards.ts";
 import { materials, measurements } from "../../db/schema.ts";
 import { recordAudit } from "../../lib/audit.ts";
 import { conflict } from "../../lib/errors.ts";
-import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
+import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { newId } from "../../domain/canonical.ts";
 import { loadRevision } from "../../domain/load.ts";
 import { isBuiltIn } from "../../domain/materials.ts";
 import { parseIndexTable, parseSpectrumCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
-import { IdParams, fileField } from "./schemas.ts";
+import {
+  IdParams,
+  MaterialListResponse,
+  MaterialOutSchema,
+  MeasurementListResponse,
+  MeasurementOutSchema,
+  fileField,
+} from "@stackproof/contracts";
 
 const TAG = "Materials and measurements";
-
-const MaterialOut = z.object({
-  id: z.string(),
-  name: z.string(),
-  role: z.string(),
-  source: z.string(),
-  builtIn: z.boolean(),
-  model: z.unknown(),
-  createdAt: z.string().nullable(),
-});
-
-const MeasurementOut = z.object({
-  id: z.string(),
-  revisionId: z.string(),
-  label: z.string(),
-  quantity: z.enum(["R", "T"]),
-  angleDeg: z.number(),
-  polarization: z.enum(["s", "p", "u"]),
-  wavelengths: z.array(z.number()),
-  values: z.array(z.number()),
-  createdAt: z.string(),
-});
 
 function measurementView(m: typeof measurements.$inferSelect) {
   return {
@@ -64,7 +49,7 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
       summary: "Built-in library and workspace materials",
       tag: TAG,
       access: "member",
-      response: z.object({ items: z.array(MaterialOut) }),
+      response: MaterialListResponse,
     },
     ({ req }) => {
       const auth = getAuth(req);
@@ -122,7 +107,7 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
         source: z.string().trim().max(500).optional(),
       }),
       status: 201,
-      response: MaterialOut,
+      response: MaterialOutSchema,
       errors: {
         409: "The id is taken (built-in or workspace material)",
         413: "File over 1 MB",
@@ -207,7 +192,7 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
         polarization: z.enum(["s", "p", "u"]).default("u"),
       }),
       status: 201,
-      response: MeasurementOut,
+      response: MeasurementOutSchema,
       errors: {
         404: "No such revision",
         413: "File over 1 MB",
@@ -261,7 +246,7 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
       access: "member",
       params: IdParams,
       query: pageQuery,
-      response: pageSchema(MeasurementOut),
+      response: MeasurementListResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params, query }) => {

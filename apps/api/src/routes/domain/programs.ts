@@ -26,7 +26,7 @@ import {
   ProgramPatchBody,
   ProgramSchema,
   RevisionSchema,
-} from "./schemas.ts";
+} from "@stackproof/contracts";
 
 const TAG = "Programs";
 

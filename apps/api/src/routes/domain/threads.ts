@@ -13,7 +13,7 @@ import { newId } from "../../domain/canonical.ts";
 import { loadRevision, loadThread, maskOf, stackOf, type RevisionContext } from "../../domain/load.ts";
 import { mailMention } from "../../domain/notify.ts";
 import { findMentions, threadViews, threadsForRevision, workspaceMembers } from "../../domain/threads.ts";
-import { AnchorSchema, CommentBodySchema, IdParams, ThreadSchema } from "./schemas.ts";
+import { AnchorSchema, CommentBodySchema, IdParams, ThreadListResponse, ThreadSchema } from "@stackproof/contracts";
 
 const TAG = "Review threads";
 
@@ -47,7 +47,7 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({ items: z.array(ThreadSchema) }),
+      response: ThreadListResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params }) => {

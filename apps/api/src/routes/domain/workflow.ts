@@ -12,7 +12,7 @@ import { loadRevision } from "../../domain/load.ts";
 import { releasePrintHtml } from "../../domain/release-print.ts";
 import { revisionView } from "../../domain/revisions.ts";
 import { applyTransition, decisionViews, evaluateGate, type ReleaseSnapshot } from "../../domain/workflow.ts";
-import { DecisionSchema, GateSchema, IdParams, RevisionSchema } from "./schemas.ts";
+import { DecisionSchema, GateSchema, IdParams, RevisionSchema } from "@stackproof/contracts";
 
 const TAG = "Workflow and release";
 

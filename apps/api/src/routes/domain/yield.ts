@@ -27,7 +27,7 @@ import {
   type YieldRunRow,
 } from "../../domain/load.ts";
 import { ClientResultSchema } from "../../yield/verify.ts";
-import { IdParams, YieldRunSchema } from "./schemas.ts";
+import { IdParams, YieldRunSchema } from "@stackproof/contracts";
 
 const TAG = "Yield runs";
 

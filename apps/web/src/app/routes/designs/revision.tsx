@@ -17,7 +17,7 @@ import { designQueryOptions, useDesign } from "../../../features/workspace/api/g
 import { programQueryOptions, useProgram } from "../../../features/workspace/api/get-program.ts";
 import { materialsQueryOptions, useMaterials } from "../../../features/workspace/api/get-materials.ts";
 import { useCreateRevision } from "../../../features/workspace/api/create-revision.ts";
-import type { Program, Revision, DesignDetail } from "../../../features/workspace/api/types.ts";
+import type { DesignDetail, Program, Revision } from "@stackproof/contracts";
 import { editorReducer, initEditor, sameDesign } from "../../../features/workspace/lib/editor-state.ts";
 import { libraryOptions, withWorkspaceMaterials } from "../../../features/workspace/lib/materials.ts";
 import type { MaterialOption } from "../../../features/workspace/lib/materials.ts";
@@ -239,7 +239,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
             ) : null}
           </h1>
           <p className="text-xs text-ink-700">
-            {revision.author.name} · {new Date(revision.createdAt).toLocaleString()} · “{revision.note}” · <span className="font-mono" title="Revision hash">{revision.hash.slice(0, 12)}</span>
+            {revision.author?.name ?? "unknown author"} · {new Date(revision.createdAt).toLocaleString()} · “{revision.note}” · <span className="font-mono" title="Revision hash">{revision.hash.slice(0, 12)}</span>
           </p>
         </div>
         <div className="ml-auto flex min-w-72 flex-col items-end gap-2">
@@ -337,7 +337,7 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
             revisionId={revision.id}
             designId={design.id}
             status={status}
-            authorId={revision.author.id}
+            authorId={revision.author?.id ?? ""}
             onTransition={onTransition}
           />
           <ReviewPanel

@@ -1,21 +1,14 @@
 import { infiniteQueryOptions, useInfiniteQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { PersonRef, Page } from "../../../lib/types.ts";
+import { AuditListResponse, type AuditEntry } from "@stackproof/contracts";
 
-export interface AuditEntry {
-  id: string;
-  at: string;
-  actor: PersonRef | null;
-  action: string;
-  subjectType: string;
-  subjectId: string;
-  summary: string;
-}
+export type { AuditEntry };
 
 export const AUDIT_PAGE = 50;
 
 export const getAudit = (cursor: string | null, action?: string) =>
-  api.get<Page<AuditEntry>>("/audit", {
+  api.get("/audit", {
+    schema: AuditListResponse,
     query: { limit: AUDIT_PAGE, cursor: cursor ?? undefined, action: action || undefined },
   });
 

@@ -1,18 +1,10 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { PersonRef, Page } from "../../../lib/types.ts";
-import type { Role } from "../../../lib/session.ts";
+import { InvitationListResponse, InvitationSchema, type Invitation, type Role } from "@stackproof/contracts";
 
-export interface Invitation {
-  id: string;
-  email: string;
-  roles: Role[];
-  createdAt: string;
-  expiresAt: string;
-  invitedBy: PersonRef | null;
-}
+export type { Invitation };
 
-export const getInvitations = () => api.get<Page<Invitation>>("/invitations", { query: { limit: 200 } });
+export const getInvitations = () => api.get("/invitations", { query: { limit: 200 }, schema: InvitationListResponse });
 
 export const invitationsQueryOptions = () =>
   queryOptions({ queryKey: ["invitations"], queryFn: getInvitations });
@@ -20,9 +12,9 @@ export const invitationsQueryOptions = () =>
 export const useInvitations = () => useQuery(invitationsQueryOptions());
 
 export const createInvitation = (input: { email: string; roles: Role[] }) =>
-  api.post<Invitation>("/invitations", input);
+  api.post("/invitations", input, { schema: InvitationSchema });
 
-export const revokeInvitation = (id: string) => api.delete<void>(`/invitations/${encodeURIComponent(id)}`);
+export const revokeInvitation = (id: string) => api.delete(`/invitations/${encodeURIComponent(id)}`);
 
 export function useCreateInvitation() {
   const qc = useQueryClient();

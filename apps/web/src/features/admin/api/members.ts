@@ -1,24 +1,19 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { Role, SessionUser } from "../../../lib/session.ts";
-import type { Page } from "../../../lib/types.ts";
+import { MemberListResponse, MemberUpdateResponse, type Member, type Role } from "@stackproof/contracts";
 
-export interface Member {
-  user: SessionUser;
-  roles: Role[];
-  joinedAt?: string;
-}
+export type { Member };
 
-export const getMembers = () => api.get<Page<Member>>("/members", { query: { limit: 200 } });
+export const getMembers = () => api.get("/members", { query: { limit: 200 }, schema: MemberListResponse });
 
 export const membersQueryOptions = () => queryOptions({ queryKey: ["members", "page"], queryFn: getMembers });
 
 export const useMembers = () => useQuery(membersQueryOptions());
 
 export const updateMemberRoles = (userId: string, roles: Role[]) =>
-  api.patch<Member>(`/members/${encodeURIComponent(userId)}`, { roles });
+  api.patch(`/members/${encodeURIComponent(userId)}`, { roles }, { schema: MemberUpdateResponse });
 
-export const removeMember = (userId: string) => api.delete<void>(`/members/${encodeURIComponent(userId)}`);
+export const removeMember = (userId: string) => api.delete(`/members/${encodeURIComponent(userId)}`);
 
 export function useUpdateMemberRoles() {
   const qc = useQueryClient();

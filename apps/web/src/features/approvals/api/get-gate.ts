@@ -1,22 +1,11 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
+import { GateSchema, type Gate } from "@stackproof/contracts";
 import { api } from "../../../lib/api-client.ts";
 
-export type GateCheckId = "verified_yield" | "blocking_threads" | "independent_approver" | "state";
-
-export interface GateCheck {
-  id: GateCheckId | (string & {});
-  ok: boolean;
-  message: string;
-}
-
-export interface Gate {
-  checks: GateCheck[];
-  canApprove: boolean;
-  canRelease: boolean;
-}
-
+export type { Gate };
+export type GateCheck = Gate["checks"][number];
 export const getGate = (revisionId: string) =>
-  api.get<Gate>(`/revisions/${encodeURIComponent(revisionId)}/gate`);
+  api.get(`/revisions/${encodeURIComponent(revisionId)}/gate`, { schema: GateSchema });
 
 export const gateQueryOptions = (revisionId: string) =>
   queryOptions({ queryKey: ["revisions", revisionId, "gate"], queryFn: () => getGate(revisionId) });

@@ -1,7 +1,8 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { TransitionResponse, type TransitionAction, type TransitionResult } from "@stackproof/contracts";
 import { api } from "../../../lib/api-client.ts";
 
-export type TransitionAction = "submit" | "request_changes" | "approve" | "release" | "withdraw";
+export type { TransitionAction, TransitionResult };
 
 export interface TransitionInput {
   action: TransitionAction;
@@ -9,15 +10,8 @@ export interface TransitionInput {
   yieldRunId?: string;
 }
 
-/** The server's answer: the revision after the move, the decision recorded, and the release filed (release only). */
-export interface TransitionResult {
-  revision: { id: string; status: string };
-  decision: { id: string; action: TransitionAction };
-  releaseId: string | null;
-}
-
 export const transitionRevision = (revisionId: string, input: TransitionInput) =>
-  api.post<TransitionResult>(`/revisions/${encodeURIComponent(revisionId)}/transitions`, input);
+  api.post(`/revisions/${encodeURIComponent(revisionId)}/transitions`, input, { schema: TransitionResponse });
 
 /**
  * Moves a revision along the workflow. Afterwards everything that shows its state is refetched:

@@ -1,7 +1,7 @@
 // Which workflow actions a person may see for a revision, and why one is held back.
 // The server decides; this only keeps the page from offering what it would refuse.
 import { hasRole, type Role, type Session } from "../../../lib/session.ts";
-import type { RevisionStatus } from "../../../lib/types.ts";
+import type { RevisionStatus } from "@stackproof/contracts";
 import type { Gate } from "../api/get-gate.ts";
 import type { TransitionAction } from "../api/transition-revision.ts";
 

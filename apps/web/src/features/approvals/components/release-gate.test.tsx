@@ -6,10 +6,10 @@ import { MemoryRouter } from "react-router";
 import { ReleaseGate } from "./release-gate.tsx";
 import { createQueryClient } from "../../../lib/query-client.ts";
 import type { Role } from "../../../lib/session.ts";
-import type { RevisionStatus } from "../../../lib/types.ts";
+import type { Gate, ReleaseSummary, RevisionStatus } from "@stackproof/contracts";
 import { stubApi, type StubAnswer } from "../../../../test/stub-api.ts";
 
-const blockedGate = {
+const blockedGate: Gate = {
   checks: [
     { id: "verified_yield", ok: false, message: "Verified yield 91.2 % is below the target 95 %." },
     { id: "blocking_threads", ok: false, message: "1 blocking thread is open." },
@@ -18,12 +18,14 @@ const blockedGate = {
   ],
   canApprove: false,
   canRelease: false,
+  yieldRunId: null,
 };
 
-const clearGate = {
+const clearGate: Gate = {
   checks: blockedGate.checks.map((c) => ({ ...c, ok: true })),
   canApprove: true,
   canRelease: false,
+  yieldRunId: "run1",
 };
 
 function setup(
@@ -145,7 +147,7 @@ describe("ReleaseGate", () => {
   });
 
   it("after release, links the filed record and drops the no longer relevant state check", async () => {
-    const released = {
+    const released: Gate = {
       checks: [
         ...clearGate.checks.filter((c) => c.id !== "state"),
         {
@@ -156,9 +158,20 @@ describe("ReleaseGate", () => {
       ],
       canApprove: false,
       canRelease: false,
+      yieldRunId: "run1",
+    };
+    const row: ReleaseSummary = {
+      id: "rel9",
+      releasedAt: "2026-11-20T10:00:00Z",
+      releasedBy: { id: "u-approver", name: "Test Person" },
+      status: "released",
+      program: { id: "p1", name: "Fjord lidar window", protective: false },
+      design: { id: "d1", name: "Bandpass 905" },
+      revision: { id: "rev1", number: 2, hash: "abc" },
+      yield: { yield: 0.97, low: 0.95, high: 0.98, trials: 2000 },
     };
     setup(["approver"], "released", released, {
-      "GET /api/v1/releases": { items: [{ id: "rel9", revision: { id: "rev1" } }], nextCursor: null },
+      "GET /api/v1/releases": { items: [row], nextCursor: null },
     });
     const link = await screen.findByRole("link", { name: "Open the release record" });
     expect(link).toHaveAttribute("href", "/releases/rel9");

@@ -12,7 +12,7 @@ import {
 } from "../../../components/ui/index.ts";
 import { ApiError } from "../../../lib/api-client.ts";
 import { useSession } from "../../../lib/session.ts";
-import type { RevisionStatus } from "../../../lib/types.ts";
+import type { RevisionStatus } from "@stackproof/contracts";
 import { useGate, type GateCheck } from "../api/get-gate.ts";
 import { useTransitionRevision } from "../api/transition-revision.ts";
 import { availableActions, type ActionSpec } from "./gate-rules.ts";

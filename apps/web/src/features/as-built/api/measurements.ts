@@ -1,22 +1,13 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { MeasurementListResponse, MeasurementOutSchema, type MeasuredSpectrum } from "@stackproof/contracts";
 import { api } from "../../../lib/api-client.ts";
 
-export interface MeasuredSpectrum {
-  id: string;
-  label: string;
-  quantity: "R" | "T";
-  angleDeg: number;
-  polarization: "s" | "p" | "u";
-  wavelengths: number[];
-  /** percent */
-  values: number[];
-  createdAt: string;
-}
+export type { MeasuredSpectrum };
 
 export const measurementsQueryOptions = (revisionId: string) =>
   queryOptions({
     queryKey: ["revisions", revisionId, "measurements"],
-    queryFn: () => api.get<{ items: MeasuredSpectrum[] }>(`/revisions/${revisionId}/measurements`).then((r) => r.items),
+    queryFn: () => api.get(`/revisions/${revisionId}/measurements`, { schema: MeasurementListResponse }).then((r) => r.items),
   });
 
 export const useMeasurements = (revisionId: string) => useQuery(measurementsQueryOptions(revisionId));
@@ -30,7 +21,7 @@ export function useUploadMeasurement(revisionId: string) {
       form.append("label", input.label);
       form.append("angleDeg", String(input.angleDeg));
       form.append("polarization", input.polarization);
-      return api.post<MeasuredSpectrum>(`/revisions/${revisionId}/measurements`, form);
+      return api.post(`/revisions/${revisionId}/measurements`, form, { schema: MeasurementOutSchema });
     },
     onSuccess: () => qc.invalidateQueries({ queryKey: ["revisions", revisionId, "measurements"] }),
   });

@@ -1,16 +1,12 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import { sessionQueryKey, type Role, type Session } from "../../../lib/session.ts";
+import { InvitationLookupSchema, SessionInfo, type InvitationLookup } from "@stackproof/contracts";
+import { sessionQueryKey } from "../../../lib/session.ts";
 
-export interface InvitationLookup {
-  email: string;
-  workspaceName: string;
-  roles: Role[];
-  expiresAt: string;
-}
+export type { InvitationLookup };
 
 export const lookupInvitation = (token: string) =>
-  api.get<InvitationLookup>(`/invitations/lookup/${encodeURIComponent(token)}`);
+  api.get(`/invitations/lookup/${encodeURIComponent(token)}`, { schema: InvitationLookupSchema });
 
 export const invitationLookupQueryOptions = (token: string) =>
   queryOptions({
@@ -23,7 +19,7 @@ export const invitationLookupQueryOptions = (token: string) =>
 export const useInvitationLookup = (token: string) => useQuery(invitationLookupQueryOptions(token));
 
 export const acceptInvitation = (input: { token: string; name: string; password: string }) =>
-  api.post<Session>("/invitations/accept", input);
+  api.post("/invitations/accept", input, { schema: SessionInfo });
 
 export function useAcceptInvitation() {
   const qc = useQueryClient();

@@ -1,13 +1,14 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import { sessionQueryKey, type Session } from "../../../lib/session.ts";
+import { SessionInfo } from "@stackproof/contracts";
+import { sessionQueryKey } from "../../../lib/session.ts";
 
 export interface SignInInput {
   email: string;
   password: string;
 }
 
-export const signIn = (input: SignInInput) => api.post<Session>("/auth/sign-in", input);
+export const signIn = (input: SignInInput) => api.post("/auth/sign-in", input, { schema: SessionInfo });
 
 /** Signs in and stores the session, so the shell's loader finds it without another request. */
 export function useSignIn() {

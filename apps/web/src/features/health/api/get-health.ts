@@ -1,15 +1,10 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
+import { HealthSchema, type Health } from "@stackproof/contracts";
 import { api } from "../../../lib/api-client.ts";
 
-export interface Health {
-  status: "ok" | "degraded";
-  version: string;
-  engineVersion: string;
-  database: "ok" | "error";
-  migrations: { applied: number; available: number; upToDate: boolean };
-}
+export type { Health };
 
-export const getHealth = () => api.get<Health>("/api/health");
+export const getHealth = () => api.get("/api/health", { schema: HealthSchema });
 
 export const healthQueryOptions = () =>
   queryOptions({ queryKey: ["health"], queryFn: getHealth, refetchInterval: 30_000, retry: false });

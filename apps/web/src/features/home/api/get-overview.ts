@@ -1,23 +1,14 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { RevisionStatus, YieldEstimate } from "../../../lib/types.ts";
+import { OverviewResponse, type OverviewRow as OverviewRowOut } from "@stackproof/contracts";
 
-export interface OverviewRow {
-  design: { id: string; name: string };
-  program: { id: string; name: string; targetYield: number; protective: boolean };
-  latestRevision: {
-    id: string;
-    number: number;
-    status: RevisionStatus;
-    authorName: string;
-    createdAt: string;
-  };
-  latestVerifiedYield: YieldEstimate | null;
-  openBlockingThreads: number;
-  openThreads: number;
-}
+/** A row of the home table: a design with its latest revision (every design is created with revision 1). */
+export type OverviewRow = OverviewRowOut & { latestRevision: NonNullable<OverviewRowOut["latestRevision"]> };
 
-export const getOverview = () => api.get<{ items: OverviewRow[] }>("/overview");
+const hasRevision = (r: OverviewRowOut): r is OverviewRow => r.latestRevision !== null;
+
+export const getOverview = () =>
+  api.get("/overview", { schema: OverviewResponse }).then((r) => ({ items: r.items.filter(hasRevision) }));
 
 export const overviewQueryOptions = () => queryOptions({ queryKey: ["overview"], queryFn: getOverview });
 

@@ -1,15 +1,10 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { RevisionSummary } from "../../../lib/types.ts";
+import { QueueResponse, type Queue } from "@stackproof/contracts";
 
-export interface Queue {
-  changesRequested: RevisionSummary[];
-  reviewRequested: RevisionSummary[];
-  readyForDecision: RevisionSummary[];
-  readyForRelease: RevisionSummary[];
-}
+export type { Queue };
 
-export const getQueue = () => api.get<Queue>("/queue");
+export const getQueue = () => api.get("/queue", { schema: QueueResponse });
 
 export const queueQueryOptions = () => queryOptions({ queryKey: ["queue"], queryFn: getQueue });
 

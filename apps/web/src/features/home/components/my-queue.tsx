@@ -3,7 +3,7 @@ import { Card, ErrorState, Spinner, StatusPill } from "../../../components/ui/in
 import { paths } from "../../../config/paths.ts";
 import { formatDate } from "../../../lib/format.ts";
 import { hasRole, type Role, type Session } from "../../../lib/session.ts";
-import type { RevisionSummary } from "../../../lib/types.ts";
+import type { RevisionSummary } from "@stackproof/contracts";
 import { useQueue, type Queue } from "../api/get-queue.ts";
 
 interface Lane {

@@ -18,7 +18,7 @@ function row(
     program: { id: "p1", name: "Fjord lidar window", targetYield: 0.95, protective: false },
     latestRevision: { id: `${id}-r`, number: 2, status, authorName: author, createdAt },
     latestVerifiedYield:
-      yieldValue === null ? null : { yield: yieldValue, low: yieldValue - 0.02, high: yieldValue + 0.015 },
+      yieldValue === null ? null : { yield: yieldValue, low: yieldValue - 0.02, high: yieldValue + 0.015, runId: `${id}-run` },
     openBlockingThreads: 0,
     openThreads: 0,
   };

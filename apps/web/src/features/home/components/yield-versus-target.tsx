@@ -1,5 +1,5 @@
 import { formatPercent, formatTarget } from "../../../lib/format.ts";
-import type { YieldEstimate } from "../../../lib/types.ts";
+import type { YieldEstimate } from "@stackproof/contracts";
 import { cx } from "../../../components/ui/cx.ts";
 
 export interface YieldVersusTargetProps {

@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { MaterialItem } from "./get-materials.ts";
+import { MaterialOutSchema } from "@stackproof/contracts";
 
 export interface UploadMaterialInput {
   file: File;
@@ -24,7 +24,7 @@ export function uploadMaterial(input: UploadMaterialInput) {
   form.set("role", input.role);
   if (input.source) form.set("source", input.source);
   form.set("file", input.file);
-  return api.post<MaterialItem>("/materials", form);
+  return api.post("/materials", form, { schema: MaterialOutSchema });
 }
 
 /** The row/column problems of a refused upload, if the server sent them. */

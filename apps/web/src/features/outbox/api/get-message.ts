@@ -1,14 +1,10 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { OutboxItem } from "./get-outbox.ts";
+import { OutboxDetail, type OutboxMessage } from "@stackproof/contracts";
 
-export interface OutboxMessage extends OutboxItem {
-  from: string;
-  text: string;
-  html: string | null;
-}
+export type { OutboxMessage };
 
-export const getOutboxMessage = (id: string) => api.get<OutboxMessage>(`/outbox/${encodeURIComponent(id)}`);
+export const getOutboxMessage = (id: string) => api.get(`/outbox/${encodeURIComponent(id)}`, { schema: OutboxDetail });
 
 export const outboxMessageQueryOptions = (id: string) =>
   queryOptions({

@@ -1,16 +1,11 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { Page } from "../../../lib/types.ts";
+import { OutboxListResponse, type OutboxItem } from "@stackproof/contracts";
 
-export interface OutboxItem {
-  id: string;
-  to: string;
-  subject: string;
-  receivedAt: string;
-}
+export type { OutboxItem };
 
 export const getOutbox = (cursor?: string) =>
-  api.get<Page<OutboxItem>>("/outbox", { query: { limit: 50, cursor } });
+  api.get("/outbox", { query: { limit: 50, cursor }, schema: OutboxListResponse });
 
 export const outboxQueryOptions = (cursor?: string) =>
   queryOptions({
@@ -27,7 +22,7 @@ export const outboxAvailableQueryOptions = () =>
     queryKey: ["outbox", "available"],
     queryFn: async () => {
       try {
-        await api.get<Page<OutboxItem>>("/outbox", { query: { limit: 1 } });
+        await api.get("/outbox", { query: { limit: 1 }, schema: OutboxListResponse });
         return true;
       } catch {
         return false;

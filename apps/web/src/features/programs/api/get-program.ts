@@ -1,41 +1,12 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { ErrorModel, RevisionStatus, SpecMask, YieldEstimate } from "../../../lib/types.ts";
+import { ProgramDetailSchema, type OverviewRow, type Program, type ProgramDetail } from "@stackproof/contracts";
 
 /** A design of the program, summarised like an overview row. */
-export interface ProgramDesignRow {
-  design: { id: string; name: string };
-  latestRevision: {
-    id: string;
-    number: number;
-    status: RevisionStatus;
-    authorName: string;
-    createdAt: string;
-  } | null;
-  latestVerifiedYield: YieldEstimate | null;
-  openBlockingThreads: number;
-  openThreads: number;
-}
+export type ProgramDesignRow = OverviewRow;
+export type { Program, ProgramDetail };
 
-export interface Program {
-  id: string;
-  name: string;
-  customer: string;
-  description: string;
-  application: string;
-  protective: boolean;
-  targetYield: number;
-  specMask: SpecMask;
-  errorModel: ErrorModel;
-  studyDefaults: { trials: number; seed: string };
-  createdAt: string;
-}
-
-export interface ProgramDetail extends Program {
-  designs: ProgramDesignRow[];
-}
-
-export const getProgram = (id: string) => api.get<ProgramDetail>(`/programs/${encodeURIComponent(id)}`);
+export const getProgram = (id: string) => api.get(`/programs/${encodeURIComponent(id)}`, { schema: ProgramDetailSchema });
 
 export const programQueryOptions = (id: string) =>
   queryOptions({ queryKey: ["programs", id], queryFn: () => getProgram(id) });

@@ -1,8 +1,8 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { Program } from "./get-program.ts";
+import { ProgramListResponse } from "@stackproof/contracts";
 
-export const getPrograms = () => api.get<{ items: Program[] }>("/programs");
+export const getPrograms = () => api.get("/programs", { schema: ProgramListResponse });
 
 export const programsQueryOptions = () =>
   queryOptions({ queryKey: ["programs", "list"], queryFn: getPrograms });

@@ -1,25 +1,13 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { ErrorModel, SpecMask } from "../../../lib/types.ts";
-import type { Program } from "./get-program.ts";
+import { ProgramSchema, type ProgramBody } from "@stackproof/contracts";
 
-/** The body of POST /programs; PATCH /programs/:id takes any subset of it. `targetYield` is a fraction 0..1. */
-export interface ProgramBody {
-  name: string;
-  customer: string;
-  description: string;
-  application: string;
-  protective: boolean;
-  targetYield: number;
-  specMask: SpecMask;
-  errorModel: ErrorModel;
-  studyDefaults: { trials: number; seed: string };
-}
+export type { ProgramBody };
 
-export const createProgram = (body: ProgramBody) => api.post<Program>("/programs", body);
+export const createProgram = (body: ProgramBody) => api.post("/programs", body, { schema: ProgramSchema });
 
 export const updateProgram = (id: string, body: Partial<ProgramBody>) =>
-  api.patch<Program>(`/programs/${encodeURIComponent(id)}`, body);
+  api.patch(`/programs/${encodeURIComponent(id)}`, body, { schema: ProgramSchema });
 
 export function useCreateProgram() {
   const qc = useQueryClient();

@@ -5,7 +5,10 @@ import {
   parsePerMaterial,
   programFormSchema,
   defaultFormValues,
+  formValuesFromProgram,
+  toProgramBody,
 } from "./program-form-model.ts";
+import type { Program } from "../api/get-program.ts";
 
 describe("program form model", () => {
   it("shows stored fractions as percent without float noise", () => {
@@ -41,5 +44,24 @@ describe("program form model", () => {
     const r = programFormSchema.safeParse(v);
     expect(r.success).toBe(false);
     expect(r.error?.issues.map((i) => i.path.join("."))).toEqual(["truncateSigma"]);
+  });
+
+  it("keeps a stored band's angle range, cone and 's and p each' through an edit (nothing is lost)", () => {
+    const base = { ...defaultFormValues(), name: "x", bands: [{ ...defaultFormValues().bands[0]!, start: "400", stop: "700", value: "1" }] };
+    const body = toProgramBody(base);
+    const stored = {
+      ...body,
+      specMask: {
+        bands: [
+          { id: "eyewear", start: 520, stop: 540, step: 0.5, quantity: "OD", polarization: "sp", angleDeg: 0, angleRange: { fromDeg: 0, toDeg: 30 }, requirement: "min", value: 4 },
+          { id: "lens", start: 900, stop: 910, quantity: "T", polarization: "u", angleDeg: 5, cone: { fNumber: 2 }, requirement: "avgMin", value: 80 },
+        ],
+      },
+    } as unknown as Program;
+    const again = toProgramBody(formValuesFromProgram(stored));
+    expect(again.specMask.bands).toEqual([
+      expect.objectContaining({ id: "eyewear", step: 0.5, polarization: "sp", angleRange: { fromDeg: 0, toDeg: 30 } }),
+      expect.objectContaining({ id: "lens", angleDeg: 5, cone: { fNumber: 2 } }),
+    ]);
   });
 });

@@ -1,12 +1,12 @@
 // The program form's values (text as typed), their checks and the conversion to the API body.
 import { z } from "zod";
 import { ErrorModelSchema, MAX_TRIALS, SpecBandSchema } from "@stackproof/optics";
-import type { ErrorModel, SpecBand } from "../../../lib/types.ts";
+import type { ErrorModel, SpecBand } from "@stackproof/optics";
 import type { Program } from "../api/get-program.ts";
 import type { ProgramBody } from "../api/save-program.ts";
 
 const quantities = ["R", "T", "A", "OD"] as const;
-const polarizations = ["s", "p", "u"] as const;
+const polarizations = ["s", "p", "u", "sp"] as const;
 const requirements = ["min", "max", "avgMin", "avgMax"] as const;
 
 const bandValues = z.object({
@@ -20,6 +20,8 @@ const bandValues = z.object({
   requirement: z.enum(requirements),
   value: z.string(),
   tolerance: z.string(),
+  /** angle range, cone, angle average and step of a stored band, carried through unchanged (JSON) */
+  conditions: z.string().optional(),
 });
 export type BandValues = z.infer<typeof bandValues>;
 
@@ -149,6 +151,7 @@ export function formValuesFromProgram(p: Program): ProgramFormValues {
       requirement: b.requirement,
       value: String(b.value),
       tolerance: str(b.tolerance),
+      conditions: JSON.stringify({ step: b.step, angleRange: b.angleRange, angleAverage: b.angleAverage, cone: b.cone }),
     })),
   };
 }
@@ -189,12 +192,16 @@ export function fieldForPath(path: string): string | null {
 }
 
 function toBand(b: BandValues): Record<keyof SpecBand, unknown> {
+  const kept = (b.conditions ? JSON.parse(b.conditions) : {}) as Partial<SpecBand>;
   return {
+    angleRange: kept.angleRange,
+    angleAverage: kept.angleAverage,
+    cone: kept.cone,
     id: b.id.trim(),
     label: b.label.trim() || undefined,
     start: parseNumber(b.start),
     stop: parseNumber(b.stop),
-    step: undefined,
+    step: kept.step,
     quantity: b.quantity,
     polarization: b.polarization,
     angleDeg: parseNumber(b.angleDeg),

@@ -18,6 +18,7 @@ const polarizationOptions = [
   { value: "u", label: "unpolarized" },
   { value: "s", label: "s" },
   { value: "p", label: "p" },
+  { value: "sp", label: "s and p each" },
 ];
 const requirementOptions = [
   { value: "min", label: "every point ≥" },

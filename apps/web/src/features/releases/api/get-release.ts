@@ -1,105 +1,14 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { ErrorModel, PersonRef, RevisionStatus, SpecMask } from "../../../lib/types.ts";
+import { ReleaseRecordSchema, type Decision, type ReleaseRecord } from "@stackproof/contracts";
+import type { BandOutcome, Design } from "@stackproof/optics";
 
-export interface StackLayer {
-  material: string;
-  thickness: number;
-  label?: string;
-  locked?: boolean;
-}
+export type { Decision, ReleaseRecord };
+export type StackDesign = Design;
+export type StackLayer = Design["layers"][number];
+export type { BandOutcome };
 
-export interface StackDesign {
-  format?: string;
-  name?: string;
-  referenceWavelength?: number;
-  incident?: string;
-  layers: StackLayer[];
-  substrate?: { material: string; thicknessMm?: number; backside?: boolean };
-  exit?: string;
-}
-
-export interface BandOutcome {
-  id: string;
-  pass: boolean;
-  worst?: { wavelength: number; value: number };
-  margin: number;
-  average?: number;
-}
-
-export interface Decision {
-  id: string;
-  action: "submit" | "request_changes" | "approve" | "release" | "withdraw";
-  fromStatus?: RevisionStatus;
-  toStatus?: RevisionStatus;
-  actor: PersonRef;
-  at: string;
-  revisionHash: string;
-  yieldRunId: string | null;
-  note: string;
-}
-
-/** GET /releases/:id: the snapshot filed at release time, plus the revision's status now. */
-export interface ReleaseRecord {
-  id: string;
-  status: RevisionStatus | (string & {});
-  releasedAt: string;
-  releasedBy: PersonRef;
-  workspace: { id: string; name: string };
-  program: {
-    id: string;
-    name: string;
-    customer: string;
-    application: string;
-    description: string;
-    protective: boolean;
-    targetYield: number;
-  };
-  design: { id: string; name: string };
-  revision: {
-    id: string;
-    number: number;
-    hash: string;
-    note: string;
-    author: PersonRef | null;
-    createdAt: string;
-    stack: StackDesign;
-    specMask: SpecMask;
-  };
-  nominal: { pass: boolean; bands: BandOutcome[] };
-  yieldRun: {
-    id: string;
-    trials: number;
-    seed: string;
-    errorModel: ErrorModel;
-    yield: number;
-    passCount: number;
-    interval: { low: number; high: number; confidence?: number; method?: string };
-    bandFailures?: Array<{ id: string; count: number }>;
-    criticalLayers?: Array<{ index: number; score?: number; correlation?: number }>;
-    engineVersion: string;
-    verified: boolean | null;
-    clientVerified?: boolean;
-    finishedAt: string | null;
-  } | null;
-  decisions: Decision[];
-  threads: {
-    total: number;
-    open: number;
-    resolved: number;
-    items: Array<{
-      id: string;
-      severity: "blocking" | "advisory";
-      status: "open" | "resolved";
-      anchor: { kind: string; bandId?: string; start?: number; stop?: number; index?: number };
-      revisionNumber: number;
-      author: PersonRef | null;
-    }>;
-  };
-  caution: string | null;
-}
-
-export const getRelease = (id: string) => api.get<ReleaseRecord>(`/releases/${encodeURIComponent(id)}`);
+export const getRelease = (id: string) => api.get(`/releases/${encodeURIComponent(id)}`, { schema: ReleaseRecordSchema });
 
 export const releaseQueryOptions = (id: string) =>
   queryOptions({ queryKey: ["releases", id], queryFn: () => getRelease(id) });

@@ -218,7 +218,7 @@ function ThreadCard({ thread, bands, revisionId, revisionNumber, canModerate, cu
   const [reply, setReply] = useState("");
   const add = useAddComment(revisionId);
   const setState = useSetThreadState(revisionId);
-  const mayToggle = canModerate || currentUserId === thread.author.id;
+  const mayToggle = canModerate || currentUserId === thread.author?.id;
   const members = useMembers();
   const names = (members.data ?? []).flatMap((m) => [m.user.email, m.user.name]);
   const passes = thread.anchorPasses;
@@ -240,7 +240,7 @@ function ThreadCard({ thread, bands, revisionId, revisionNumber, canModerate, cu
       <ul className="mt-2 space-y-1.5">
         {thread.comments.map((c) => (
           <li key={c.id}>
-            <span className="text-xs font-semibold">{c.author.name}</span> <span className="text-xs text-ink-500">{new Date(c.createdAt).toLocaleString()}</span>
+            <span className="text-xs font-semibold">{c.author?.name ?? "unknown author"}</span> <span className="text-xs text-ink-500">{new Date(c.createdAt).toLocaleString()}</span>
             <p className="whitespace-pre-wrap">{highlightMentions(c.body, names)}</p>
           </li>
         ))}

@@ -1,25 +1,9 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { CreateYieldRunResponse, YieldRunListResponse, YieldRunSchema, type YieldRun, type YieldRunStatus } from "@stackproof/contracts";
 import type { ErrorModel, YieldResult } from "@stackproof/optics";
 import { api } from "../../../lib/api-client.ts";
 
-export type YieldRunStatus = "queued" | "running" | "done" | "failed" | "cancelled";
-
-export interface YieldRun {
-  id: string;
-  revisionId: string;
-  status: YieldRunStatus;
-  progress: { done: number; total: number };
-  trials: number;
-  seed: string;
-  errorModel: ErrorModel;
-  result: YieldResult | null;
-  verified: boolean | null;
-  mismatch?: string;
-  engineVersion: string;
-  error?: string;
-  createdAt: string;
-  finishedAt: string | null;
-}
+export type { YieldRun, YieldRunStatus };
 
 export interface CreateYieldRunInput {
   revisionId: string;
@@ -30,7 +14,7 @@ export interface CreateYieldRunInput {
 }
 
 export const createYieldRun = ({ revisionId, ...body }: CreateYieldRunInput) =>
-  api.post<{ run: YieldRun } | YieldRun>(`/revisions/${revisionId}/yield-runs`, body).then((r) => ("run" in r ? r.run : r));
+  api.post(`/revisions/${revisionId}/yield-runs`, body, { schema: CreateYieldRunResponse }).then((r) => r.run);
 
 export function useCreateYieldRun() {
   const qc = useQueryClient();
@@ -40,7 +24,7 @@ export function useCreateYieldRun() {
   });
 }
 
-export const getYieldRun = (runId: string) => api.get<YieldRun>(`/yield-runs/${runId}`);
+export const getYieldRun = (runId: string) => api.get(`/yield-runs/${runId}`, { schema: YieldRunSchema });
 
 const finished = (s: YieldRunStatus | undefined) => s === "done" || s === "failed" || s === "cancelled";
 
@@ -57,9 +41,9 @@ export const useYieldRun = (runId: string | null) => useQuery({ ...yieldRunQuery
 export const revisionYieldRunsQueryOptions = (revisionId: string) =>
   queryOptions({
     queryKey: ["revisions", revisionId, "yield-runs"],
-    queryFn: () => api.get<{ items: YieldRun[] }>(`/revisions/${revisionId}/yield-runs`).then((r) => r.items),
+    queryFn: () => api.get(`/revisions/${revisionId}/yield-runs`, { schema: YieldRunListResponse }).then((r) => r.items),
   });
 
 export const useRevisionYieldRuns = (revisionId: string) => useQuery(revisionYieldRunsQueryOptions(revisionId));
 
-export const cancelYieldRun = (runId: string) => api.post<unknown>(`/yield-runs/${runId}/cancel`);
+export const cancelYieldRun = (runId: string) => api.post(`/yield-runs/${runId}/cancel`, undefined, { schema: YieldRunSchema });

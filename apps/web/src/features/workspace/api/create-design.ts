@@ -1,5 +1,7 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import type { Design } from "@stackproof/optics";
+import { CreateDesignResponse } from "@stackproof/contracts";
+import type { z } from "zod";
 import { api } from "../../../lib/api-client.ts";
 
 export interface CreateDesignInput {
@@ -10,20 +12,14 @@ export interface CreateDesignInput {
 }
 
 /** Response of POST /programs/:id/designs: the design with its first revision. */
-export interface CreatedDesign {
-  id: string;
-  name: string;
-  revision?: { id: string };
-  revisions?: { id: string }[];
-  latestRevision?: { id: string };
-}
+export type CreatedDesign = z.infer<typeof CreateDesignResponse>;
 
 export const createDesign = ({ programId, ...body }: CreateDesignInput) =>
-  api.post<CreatedDesign>(`/programs/${programId}/designs`, body);
+  api.post(`/programs/${programId}/designs`, body, { schema: CreateDesignResponse });
 
-/** Id of the first revision in a create-design answer, whichever shape the server uses. */
-export function firstRevisionId(d: CreatedDesign): string | undefined {
-  return d.revision?.id ?? d.latestRevision?.id ?? d.revisions?.[0]?.id;
+/** Id of the first revision in a create-design answer. */
+export function firstRevisionId(d: CreatedDesign): string {
+  return d.revision.id;
 }
 
 export function useCreateDesign() {

@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import type { Design, SpecMask } from "@stackproof/optics";
 import { api } from "../../../lib/api-client.ts";
-import type { Revision } from "./types.ts";
+import { RevisionSchema } from "@stackproof/contracts";
 
 export interface CreateRevisionInput {
   designId: string;
@@ -11,7 +11,7 @@ export interface CreateRevisionInput {
 }
 
 export const createRevision = ({ designId, ...body }: CreateRevisionInput) =>
-  api.post<Revision>(`/designs/${designId}/revisions`, body);
+  api.post(`/designs/${designId}/revisions`, body, { schema: RevisionSchema });
 
 export function useCreateRevision() {
   const qc = useQueryClient();

@@ -1,8 +1,8 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { DesignDetail } from "./types.ts";
+import { DesignSchemaOut, type DesignDetail } from "@stackproof/contracts";
 
-export const getDesign = (designId: string) => api.get<DesignDetail>(`/designs/${designId}`);
+export const getDesign = (designId: string) => api.get(`/designs/${designId}`, { schema: DesignSchemaOut });
 
 export const designQueryOptions = (designId: string) =>
   queryOptions({ queryKey: ["designs", designId], queryFn: () => getDesign(designId) });

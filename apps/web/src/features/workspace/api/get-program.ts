@@ -1,8 +1,8 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import type { Program } from "./types.ts";
+import { ProgramDetailSchema } from "@stackproof/contracts";
 
-export const getProgram = (programId: string) => api.get<Program>(`/programs/${programId}`);
+export const getProgram = (programId: string) => api.get(`/programs/${programId}`, { schema: ProgramDetailSchema });
 
 export const programQueryOptions = (programId: string) =>
   queryOptions({ queryKey: ["programs", programId], queryFn: () => getProgram(programId) });

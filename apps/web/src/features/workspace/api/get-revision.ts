@@ -1,10 +1,10 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { parseDesign } from "@stackproof/optics";
 import { api } from "../../../lib/api-client.ts";
-import type { Revision } from "./types.ts";
+import { RevisionSchema, type Revision } from "@stackproof/contracts";
 
 export async function getRevision(revisionId: string): Promise<Revision> {
-  const r = await api.get<Revision>(`/revisions/${revisionId}`);
+  const r = await api.get(`/revisions/${revisionId}`, { schema: RevisionSchema });
   // Apply the format's defaults (incident/exit) so the editor starts from a complete design.
   return { ...r, stack: parseDesign(r.stack) };
 }

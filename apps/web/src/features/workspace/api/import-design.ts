@@ -1,5 +1,6 @@
 import { useMutation } from "@tanstack/react-query";
 import { parseDesign } from "@stackproof/optics";
+import { ImportDesignResponse } from "@stackproof/contracts";
 import type { Design } from "@stackproof/optics";
 import { api } from "../../../lib/api-client.ts";
 
@@ -12,8 +13,8 @@ export interface ImportedDesign {
 export async function importDesign(file: File): Promise<ImportedDesign> {
   const form = new FormData();
   form.append("file", file);
-  const r = await api.post<{ stack: Design; warnings?: string[] }>("/imports/design", form);
-  return { stack: parseDesign(r.stack), warnings: r.warnings ?? [] };
+  const r = await api.post("/imports/design", form, { schema: ImportDesignResponse });
+  return { stack: parseDesign(r.stack), warnings: r.warnings };
 }
 
 export const useImportDesign = () => useMutation({ mutationFn: importDesign });

@@ -3,9 +3,9 @@ import { render, screen } from "@testing-library/react";
 import { createMemoryRouter, RouterProvider } from "react-router";
 import { QueryClientProvider } from "@tanstack/react-query";
 import { AppShell } from "./app-shell.tsx";
-import { createQueryClient } from "../../lib/query-client.ts";
-import { requireSession } from "../../lib/session.ts";
-import { demoSession, healthyServer, stubApi } from "../../../test/stub-api.ts";
+import { createQueryClient } from "../lib/query-client.ts";
+import { requireSession } from "../lib/session.ts";
+import { demoSession, healthyServer, stubApi } from "../../test/stub-api.ts";
 
 function renderShell() {
   const client = createQueryClient();

@@ -1,13 +1,13 @@
 import { Navigate, NavLink, Outlet, useLocation, useNavigate, useNavigation } from "react-router";
-import { Brand } from "./brand.tsx";
-import { navItemsFor } from "./nav-items.ts";
-import { HealthBadge } from "../../features/health/components/health-badge.tsx";
-import { useOutboxAvailable } from "../../features/outbox/api/get-outbox.ts";
-import { useSignOut } from "../../features/auth/api/sign-out.ts";
-import { paths } from "../../config/paths.ts";
-import { roleLabel, signInPath, useSession } from "../../lib/session.ts";
-import { Badge } from "../ui/badge.tsx";
-import { cx } from "../ui/cx.ts";
+import { Brand } from "../components/layout/brand.tsx";
+import { navItemsFor } from "../components/layout/nav-items.ts";
+import { HealthBadge } from "../features/health/components/health-badge.tsx";
+import { useOutboxAvailable } from "../features/outbox/api/get-outbox.ts";
+import { useSignOut } from "../features/auth/api/sign-out.ts";
+import { paths } from "../config/paths.ts";
+import { roleLabel, signInPath, useSession } from "../lib/session.ts";
+import { Badge } from "../components/ui/badge.tsx";
+import { cx } from "../components/ui/cx.ts";
 
 /** The frame of every signed-in page: brand, navigation for the person's roles, who is signed in, sign-out. */
 export function AppShell() {

@@ -1,0 +1,4 @@
+// The Stackproof API's contracts: zod schemas of every request the API validates and every response the web app parses.
+export * from "./access.ts";
+export * from "./domain.ts";
+export * from "./json.ts";
