@@ -2,13 +2,7 @@
 // Evidence runs are computed here synchronously with the same optics functions the workers use, with the seed the
 // server assigns (evidencePlan) and the program's minimum evidence trials, so the demo's gate reads like a real one.
 import { eq } from "drizzle-orm";
-import {
-  ENGINE_VERSION,
-  mergeYieldChunks,
-  planChunks,
-  runYieldChunk,
-  type YieldStudy,
-} from "@stackproof/optics";
+import { ENGINE_VERSION, type YieldResult, type YieldStudy } from "@stackproof/optics";
 import { hashPassword } from "../auth/password.ts";
 import type { Db } from "../db/client.ts";
 import {
@@ -36,6 +30,7 @@ import { finishedRunValues } from "../yield/index.ts";
 import { releaseSnapshot } from "../domain/workflow.ts";
 import { evidenceSeed } from "../domain/evidence.ts";
 import { demoPrograms, type DemoProgram, type DemoSpeaker } from "./designs.ts";
+import { computeDemoEvidence, defaultEvidenceCacheDir } from "./evidence-cache.ts";
 
 /** Demo only: every demo account uses this password. */
 // Strong enough for the password rules (zxcvbn score ≥ 3), yet published: demo only, never in production unless asked.
@@ -86,10 +81,21 @@ export interface DemoSummary {
   revisions: number;
   yieldRuns: number;
   releases: number;
+  /** Evidence runs taken from the evidence cache (see evidence-cache.ts) rather than computed. */
+  cachedRuns: number;
   ms: number;
 }
 
-export async function seedDemo(db: Db): Promise<DemoSummary> {
+/**
+ * Load the demo workspace into a new database.
+ * @param options.evidenceCacheDir where computed demo evidence runs are kept between seedings (null: no cache)
+ */
+export async function seedDemo(
+  db: Db,
+  options: { evidenceCacheDir?: string | null } = {},
+): Promise<DemoSummary> {
+  const cacheDir =
+    options.evidenceCacheDir === undefined ? defaultEvidenceCacheDir() : options.evidenceCacheDir;
   const t0 = performance.now();
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const now = Date.now();
@@ -126,11 +132,12 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
       seed: evidenceSeed(revisionHash(rev.stack, d.mask), d.errorModel),
     };
   };
-  const compute = (s: YieldStudy) =>
-    mergeYieldChunks(
-      s,
-      planChunks(s.trials, 100).map(([start, count]) => runYieldChunk(s, start, count)),
-    );
+  let cachedRuns = 0;
+  const compute = (s: YieldStudy): YieldResult => {
+    const e = computeDemoEvidence(s, cacheDir);
+    if (e.cached) cachedRuns++;
+    return e.result;
+  };
   const studies = {
     kestrel: study(spec("kestrel"), 1),
     aster: study(spec("aster"), 1),
@@ -321,7 +328,8 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
       list.forEach((t, i) => {
         const first = t.comments[0];
         if (!first) throw new Error(`demo thread ${key} ${n}/${i} has no comment`);
-        if (t.resolvedBy && !resolvedAt) throw new Error(`demo thread ${key} ${n}/${i} needs a resolution time`);
+        if (t.resolvedBy && !resolvedAt)
+          throw new Error(`demo thread ${key} ${n}/${i} needs a resolution time`);
         thread(
           rev(key, n),
           t.anchor,
@@ -460,6 +468,7 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
     revisions: revisionCount,
     yieldRuns: runCount,
     releases: releaseCount,
+    cachedRuns,
     ms: Math.round(performance.now() - t0),
   };
 }
