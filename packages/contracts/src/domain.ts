@@ -347,6 +347,8 @@ export const GateSchema = z.object({
     seed: z.string(),
     seedRule: z.string(),
     errorModelVersion: z.string(),
+    /** The evidence run's error model (the program's) in plain words (optics' describeProcess). */
+    errorModelText: z.string(),
     run: z
       .object({ id: z.string(), status: z.string(), trials: z.number(), engineVersion: z.string() })
       .nullable(),

@@ -278,7 +278,8 @@ function write(doc: Doc, r: ReleaseRecord) {
     field(doc, "95 % interval (Wilson)", `${pct(y.low95)} - ${pct(y.high95)}`);
     field(doc, "Trials", String(y.trials ?? "-"));
     field(doc, "Seed", y.seed);
-    field(doc, "Error model", y.errorModel);
+    field(doc, "Error model", y.errorModelText);
+    field(doc, "Error model (as stored)", y.errorModel);
     field(doc, "Engine version", y.engineVersion);
     field(
       doc,

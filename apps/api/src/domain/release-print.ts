@@ -121,7 +121,8 @@ ${
 <dt>95 % interval (Wilson)</dt><dd>${pct(y.low95)} – ${pct(y.high95)}</dd>
 <dt>Trials</dt><dd>${esc(y.trials ?? "—")}</dd>
 <dt>Seed</dt><dd class="mono">${esc(y.seed)}</dd>
-<dt>Error model</dt><dd class="mono">${esc(y.errorModel)}</dd>
+<dt>Error model</dt><dd>${esc(y.errorModelText)}</dd>
+<dt>Error model (as stored)</dt><dd class="mono">${esc(y.errorModel)}</dd>
 <dt>Engine version</dt><dd>${esc(y.engineVersion)}</dd>
 <dt>Run</dt><dd class="mono">${esc(y.id)}${y.clientVerified ? " — browser result verified by the server's re-run" : " — computed by the server"}</dd>
 </dl>`

@@ -1,6 +1,7 @@
 // A release record read back from its stored snapshot, with every field the page and the PDF show given a safe
 // default. Snapshots are stored as taken at release: older ones lack the evidence, deviation and plot sections, and a
 // value that was not finite was stored as null. Reading never throws, so every stored release renders.
+import { describeProcess, type ErrorModel } from "@stackproof/optics";
 import type { ReleaseSnapshot } from "./workflow.ts";
 
 export interface RecordBand {
@@ -63,7 +64,10 @@ export interface ReleaseRecord {
     id: string;
     trials: number | null;
     seed: string;
+    /** The error model as stored (JSON). */
     errorModel: string;
+    /** The error model in plain words: the process model when present, else the independent errors. */
+    errorModelText: string;
     engineVersion: string;
     yield: number | null;
     passCount: number | null;
@@ -107,6 +111,19 @@ const num = (v: unknown): number | null => (typeof v === "number" && Number.isFi
 const bool = (v: unknown): boolean => v === true;
 const name = (v: unknown): string => str(obj(v).name, "");
 const nums = (v: unknown): (number | null)[] => arr(v).map(num);
+
+/**
+ * An error model in plain words (optics' describeProcess), e.g. "optical monitoring (T), turning points at 905 nm
+ * on the part, 0.05 % photometric noise"; a stored model it cannot read is said to be so (never throws).
+ */
+export function describeErrorModel(model: unknown): string {
+  try {
+    if (model === null || typeof model !== "object") return "not recorded";
+    return describeProcess(model as ErrorModel);
+  } catch {
+    return "not readable (see the stored error model)";
+  }
+}
 
 /** The record of a stored snapshot (any shape) with the revision's current status. */
 export function readReleaseRecord(snapshot: ReleaseSnapshot | unknown, status: string): ReleaseRecord {
@@ -207,6 +224,7 @@ export function readReleaseRecord(snapshot: ReleaseSnapshot | unknown, status: s
               return "";
             }
           })(),
+          errorModelText: describeErrorModel(run.errorModel),
           engineVersion: str(run.engineVersion),
           yield: num(run.yield),
           passCount: num(run.passCount),
