@@ -513,6 +513,8 @@ export const PlotSeriesSchema = z.object({
   quantity: z.string(),
   polarization: z.string(),
   angleDeg: z.number(),
+  /** The conditions in words, e.g. "f/2 cone (14.48° half-angle) about 0°, unpolarized"; absent on releases filed before. */
+  conditions: z.string().optional(),
   wavelengths: z.array(z.number()),
   nominal: nullableNumbers,
   low: nullableNumbers.nullable(),

@@ -679,6 +679,8 @@ export function demoPrograms(): DemoProgram[] {
                   body: "Baseline only: a single MgF2 layer leaves about 1.3 % at 550 nm and more at the ends; it cannot reach 0.5 % average.",
                 },
               ],
+              // resolved when the baseline is withdrawn
+              resolvedBy: "designer",
               explainsFailure: ["average", "peak"],
             },
           ],

@@ -411,7 +411,7 @@ export async function seedDemo(
 
     // Wren: the single-layer baseline was withdrawn; rev 2 is released with its decisions and release record.
     const w0 = rev("wren", 1);
-    threadsOf("wren", 1, at(8, -3));
+    threadsOf("wren", 1, at(8, -3), at(8));
     decide(
       w0,
       "withdraw",

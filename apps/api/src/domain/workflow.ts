@@ -646,6 +646,8 @@ export interface PlotSeries {
   quantity: string;
   polarization: string;
   angleDeg: number;
+  /** The conditions in words (optics' band conditions: angle, angle range or cone, polarization). */
+  conditions: string;
   wavelengths: number[];
   nominal: (number | null)[];
   low: (number | null)[] | null;
@@ -679,6 +681,7 @@ function plotSeries(design: Design, mask: SpecMask, result: YieldResult): PlotSe
       quantity: env.quantity,
       polarization: env.polarization,
       angleDeg: env.angleDeg,
+      conditions: env.conditions,
       wavelengths: env.wavelengths,
       nominal,
       low: lo ? lo.values.map(finite) : null,

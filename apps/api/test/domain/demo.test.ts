@@ -184,6 +184,23 @@ describe("demo workspace", () => {
     const releaseId = released.body.releaseId as string;
     const print = await approver.get(`${API}/releases/${releaseId}/print`).expect(200);
     for (const w of words) expect(print.text).toContain(w);
+    // One spectrum panel per set of conditions, each with its own bands' limits (labelled by band id) and its own
+    // caption: the cone and the field share 0° and "unpolarized" but not their conditions.
+    const figures = print.text.split("<figure").slice(1);
+    const panel = (caption: string) => {
+      const found = figures.filter((f) => f.includes(`<figcaption>${caption}:`));
+      expect(found, caption).toHaveLength(1);
+      return found[0] as string;
+    };
+    const limits = (f: string) => [...f.matchAll(/fill="#b3261e">([^<]+)</g)].map((m) => m[1]).sort();
+    expect(limits(panel("T (%), f/2 cone (14.48° half-angle) about 0°, unpolarized"))).toEqual(["pass-cone"]);
+    expect(limits(panel("T (%), 0–10°, unpolarized"))).toEqual(["pass-field"]);
+    const block0 = panel("T (%), 0°, unpolarized");
+    expect(limits(block0)).toEqual(["block-long", "block-long-peak", "block-short", "block-short-peak"]);
+    expect(limits(panel("T (%), 10°, unpolarized"))).toEqual(["block-long-10", "block-short-10"]);
+    // the nominal curve is not drawn across the passband gap between the two blocking ranges: two pieces
+    const nominalPath = /<path d="([^"]*)" fill="none" stroke="#1b1f1d"/.exec(block0)?.[1] ?? "";
+    expect(nominalPath.match(/M/g)).toHaveLength(2);
     const pdf = await approver
       .get(`${API}/releases/${releaseId}/pdf`)
       .buffer(true)
