@@ -49,7 +49,9 @@ describe("evidence at the gate (approver)", () => {
     expect(await evidence.textContent()).toContain("Lower bound (95 %)");
     // ... and states the run's process in plain words: cavities on 905 nm turning points, blockers on the crystal
     const model = await evidence.getByTestId("evidence-error-model").textContent();
-    expect(model).toContain("optical monitoring (T), turning points at 905 nm on the part, 0.05 % photometric noise");
+    expect(model).toContain(
+      "optical monitoring (T), turning points at 905 nm on the part, 0.05 % photometric noise",
+    );
     expect(model).toContain("quartz-crystal control");
     await page.locator('[data-check="verified_yield"][data-ok="true"]').waitFor();
     await browser.screenshot("evidence-1-gate-bound");

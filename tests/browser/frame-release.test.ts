@@ -68,6 +68,8 @@ describe("frame: release through the gate (approver)", () => {
     await page.waitForURL(/\/releases\//);
     await page.getByRole("heading", { level: 1, name: /Kestrel receiver bandpass r2/ }).waitFor();
     const decisions = page.locator(".release-decision");
+    // the revision page's heading also reads "… r2": wait for the record itself before counting
+    await decisions.first().waitFor();
     expect(await decisions.count()).toBeGreaterThanOrEqual(3);
     expect(await decisions.last().innerText()).toMatch(/Released by Sunniva Achterberg/);
     await page.getByText("Meets the mask with margin; yield verified.").waitFor();

@@ -25,7 +25,7 @@ describe("ErrorModelSummary", () => {
       /optical monitoring \(T\), turning points at 905 nm on the part, 0\.05 % photometric noise/,
     );
     expect(
-      screen.getByText(/0\.5 % \+ 0\.3 nm, normal \(not used: the process sets every thickness\)/),
+      screen.getByText(/0\.5 % \+ 0\.3 nm, normal; not used: the process sets every thickness/),
     ).toBeInTheDocument();
   });
 

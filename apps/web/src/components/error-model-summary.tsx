@@ -24,7 +24,7 @@ export function ErrorModelSummary({ model }: { model: ErrorModel | null | undefi
   if (!model) return <p className="text-sm text-ink-500">No error model set.</p>;
   const t = model.thickness ?? {};
   const process = model.process !== undefined;
-  const unused = process ? " (not used: the process sets every thickness)" : "";
+  const unused = process ? "; not used: the process sets every thickness" : "";
   const rows: Array<[string, string]> = [
     [
       "Thickness, per layer",
