@@ -112,6 +112,9 @@ describe("as built (designer)", () => {
     const csv = "wavelength_nm,T\n" + scan.map((w, i) => `${w},${(thick[i]! * 100).toFixed(4)}`).join("\n");
     const form = page.getByRole("form", { name: "Upload a measured spectrum" });
     await form.getByLabel(/CSV file/).setInputFiles({ name: "k-02-T.csv", mimeType: "text/csv", buffer: Buffer.from(csv) });
+    // the server's reading of the file is shown and its percent detection confirmed before anything is stored
+    await form.getByText("How the file was read — confirm").waitFor();
+    expect(await form.getByRole("radio", { name: "percent" }).isChecked()).toBe(true);
     await form.getByRole("button", { name: "Upload measurement" }).click();
     await page.getByRole("button", { name: /k-02-T · T · 0°/ }).waitFor();
     if ((await page.getByRole("button", { name: /k-02-T · T · 0°/ }).getAttribute("aria-pressed")) !== "true")

@@ -36,18 +36,23 @@ interface BandLike {
   step?: number;
 }
 
-/** Problems of a spec mask against MAX_SPEC_BANDS and MAX_POINTS_PER_BAND (an unparsed mask gives none). */
+/**
+ * Problems of a spec mask against MAX_SPEC_BANDS (bands and colour requirements together: each colour
+ * requirement is evaluated on 81 wavelengths) and MAX_POINTS_PER_BAND (an unparsed mask gives none).
+ */
 export function maskLimitProblems(mask: unknown): LimitProblem[] {
   const bands = (mask as { bands?: unknown } | null)?.bands;
   if (!Array.isArray(bands)) return [];
+  const colour = (mask as { colour?: unknown }).colour;
+  const colourCount = Array.isArray(colour) ? colour.length : 0;
   const out: LimitProblem[] = [];
-  if (bands.length > MAX_SPEC_BANDS) {
+  if (bands.length + colourCount > MAX_SPEC_BANDS) {
     out.push({
       limit: "MAX_SPEC_BANDS",
       max: MAX_SPEC_BANDS,
-      got: bands.length,
-      path: ["bands"],
-      message: `The spec mask has ${bands.length} bands; one request may ask for at most ${MAX_SPEC_BANDS} (MAX_SPEC_BANDS).`,
+      got: bands.length + colourCount,
+      path: colourCount > 0 && bands.length <= MAX_SPEC_BANDS ? ["colour"] : ["bands"],
+      message: `The spec mask has ${bands.length} bands${colourCount > 0 ? ` and ${colourCount} colour requirements` : ""}; one request may ask for at most ${MAX_SPEC_BANDS} together (MAX_SPEC_BANDS).`,
     });
     return out;
   }

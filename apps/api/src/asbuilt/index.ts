@@ -1,23 +1,35 @@
-// As-built fits off the request thread: each fit runs in its own worker thread (at most FIT_THREADS at once,
+// As-built fits (and the calibration of a program's error model) off the request thread: each runs in its own worker thread (at most FIT_THREADS at once,
 // the rest wait), so one long fit does not stall other requests. A RangeError from the optics package comes
 // back as a 400 naming the value; a fit running past FIT_TIMEOUT_MS is stopped (503).
 import { Worker } from "node:worker_threads";
 import type {
   BuiltFitOptions,
   BuiltFitResult,
+  Calibration,
+  CalibrationPart,
   Design,
+  ErrorModel,
   FilmFitOptions,
   FilmFitResult,
   MeasuredSpectrum,
 } from "@stackproof/optics";
 import { HttpError } from "../lib/errors.ts";
 
+/** Calibration of a program's error model from its fitted parts (designs by revision id, for optical monitoring). */
+export interface CalibrationRequest {
+  kind: "calibration";
+  parts: CalibrationPart[];
+  errorModel: ErrorModel;
+  designs: Record<string, Design>;
+}
+
 export type FitRequest =
   | { kind: "part"; design: Design; measurements: MeasuredSpectrum[]; options: Omit<BuiltFitOptions, "onProgress" | "shouldStop"> }
-  | { kind: "film"; measurements: MeasuredSpectrum[]; options: FilmFitOptions };
+  | { kind: "film"; measurements: MeasuredSpectrum[]; options: FilmFitOptions }
+  | CalibrationRequest;
 
 export type FitReply =
-  | { ok: true; result: BuiltFitResult | FilmFitResult }
+  | { ok: true; result: BuiltFitResult | FilmFitResult | Calibration }
   | { ok: false; range: boolean; message: string };
 
 /** Fits running at once (the machine's two cores; more would only slow each other). */
@@ -37,7 +49,7 @@ async function slot(): Promise<() => void> {
   };
 }
 
-async function run(req: FitRequest): Promise<BuiltFitResult | FilmFitResult> {
+async function run(req: FitRequest): Promise<BuiltFitResult | FilmFitResult | Calibration> {
   const done = await slot();
   try {
     // From source: the tsx boot file; in the compiled server (dist/): the bundled fit-worker.js beside this chunk.
@@ -71,3 +83,6 @@ export const fitPartOffThread = (design: Design, measurements: MeasuredSpectrum[
 /** {@link fitWitnessFilm} in a worker thread. */
 export const fitFilmOffThread = (measurements: MeasuredSpectrum[], options: FilmFitOptions) =>
   run({ kind: "film", measurements, options }) as Promise<FilmFitResult>;
+
+/** {@link calibrateErrorModel} and, when the error model has a process model, {@link calibrateProcessModel}, in a worker thread. */
+export const calibrateOffThread = (req: CalibrationRequest) => run(req) as Promise<Calibration>;

@@ -15,6 +15,7 @@ import {
   wilsonLowerBound,
   type ErrorModel,
   type SpecBand,
+  type SpecColour,
   type SpecMask,
   type YieldResult,
 } from "@stackproof/optics";
@@ -231,8 +232,13 @@ export function maskDifferences(
   revisionMask: unknown,
   programMask: unknown,
 ): { id: string; change: string }[] {
+  // bands and colour requirements share ids, so both are compared entry by entry
   const bandsOf = (m: unknown) =>
-    new Map(((m as SpecMask | null)?.bands ?? []).map((b: SpecBand) => [b.id, canonicalJson(b)]));
+    new Map(
+      [...((m as SpecMask | null)?.bands ?? []), ...((m as SpecMask | null)?.colour ?? [])].map(
+        (b: SpecBand | SpecColour) => [b.id, canonicalJson(b)],
+      ),
+    );
   const rev = bandsOf(revisionMask);
   const prog = bandsOf(programMask);
   const out: { id: string; change: string }[] = [];

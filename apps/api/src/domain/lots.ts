@@ -4,12 +4,13 @@
 // the transaction so a refused input stores nothing.
 import { and, desc, eq, inArray } from "drizzle-orm";
 import {
-  calibrateErrorModel,
   lotYield,
   MaterialSchema,
   partVerdict,
   type BuiltFitResult,
   type CalibrationPart,
+  type Design,
+  type ErrorModel,
   type FilmFitResult,
   type MeasuredPart,
   type MeasuredSpectrum,
@@ -17,12 +18,13 @@ import {
   type SpecMask,
 } from "@stackproof/optics";
 import type { Db } from "../db/client.ts";
-import { materials, measuredLots, measuredParts, releases, yieldRuns } from "../db/schema.ts";
+import { materials, measuredLots, measuredParts, releases, revisions, yieldRuns } from "../db/schema.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError, conflict } from "../lib/errors.ts";
 import { newId } from "./canonical.ts";
 import { isBuiltIn } from "./materials.ts";
-import { maskOf, type RevisionContext } from "./load.ts";
+import { maskOf, stackOf, type RevisionContext } from "./load.ts";
+import { calibrateOffThread, type CalibrationRequest } from "../asbuilt/index.ts";
 
 export type LotRow = typeof measuredLots.$inferSelect;
 export type PartRow = typeof measuredParts.$inferSelect;
@@ -190,7 +192,10 @@ export function lotSummary(db: DbOrTx, lot: LotRow, parts: PartRow[], mask: Spec
   return { ...y, predictedRunId: predicted?.yieldRunId ?? null };
 }
 
-/** Fitted parts of a program's lots, reduced to calibration input. */
+/**
+ * Fitted parts of a program's lots, reduced to calibration input: each part's determinable layers with their
+ * deposition index and nominal thickness, keyed by the revision it was built to.
+ */
 export function calibrationInput(db: DbOrTx, programId: string): CalibrationPart[] {
   const lots = db.select().from(measuredLots).where(eq(measuredLots.programId, programId)).all();
   if (lots.length === 0) return [];
@@ -211,19 +216,33 @@ export function calibrationInput(db: DbOrTx, programId: string): CalibrationPart
     return {
       runId: lot.runId,
       date: lot.runDate,
+      designKey: lot.revisionId,
       layers: fit.layers
         .filter((l) => l.determinable && l.errorPct !== null && l.sePct !== null)
-        .map((l) => ({ material: l.material, errorPct: l.errorPct!, sePct: l.sePct! })),
+        .map((l) => ({ material: l.material, errorPct: l.errorPct!, sePct: l.sePct!, index: l.index, nominalNm: l.nominalNm })),
       ...(Object.keys(index).length > 0 ? { index } : {}),
     };
   });
 }
 
-/** Calibrate the program's error model from its fitted parts (null when there are none). */
-export function programCalibration(db: DbOrTx, programId: string) {
-  const input = calibrationInput(db, programId);
-  if (input.length === 0) return null;
-  return physics(() => calibrateErrorModel(input));
+/** What the calibration worker needs: the fitted parts, the program's error model and the designs they were built to. */
+export function calibrationRequest(db: DbOrTx, programId: string, errorModel: ErrorModel): CalibrationRequest | null {
+  const parts = calibrationInput(db, programId);
+  if (parts.length === 0) return null;
+  const ids = [...new Set(parts.map((p) => p.designKey!))];
+  const designs: Record<string, Design> = {};
+  for (const r of db.select().from(revisions).where(inArray(revisions.id, ids)).all()) designs[r.id] = stackOf(r);
+  return { kind: "calibration", parts, errorModel, designs };
+}
+
+/**
+ * Calibrate the program's error model from its fitted parts (null when there are none), off the request thread:
+ * the independent-error model (calibrateErrorModel) and, when the program's error model has a process model,
+ * that model's parameters (calibrateProcessModel) in `process`.
+ */
+export async function programCalibration(db: DbOrTx, programId: string, errorModel: ErrorModel) {
+  const req = calibrationRequest(db, programId, errorModel);
+  return req ? calibrateOffThread(req) : null;
 }
 
 /** Store a fitted witness film as a workspace material; 409 when the id is taken. */

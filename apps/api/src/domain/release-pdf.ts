@@ -17,6 +17,7 @@ import {
 const SPELL: Record<string, string> = {
   "≥": ">=",
   "≤": "<=",
+  Δ: "Delta ",
   "→": "->",
   "−": "-",
   "—": "-",
@@ -321,7 +322,17 @@ function write(doc: Doc, r: ReleaseRecord) {
       b.nominalMargin !== null ? `${b.nominalMargin.toFixed(3)}${unitOf(b.quantity)}` : "-",
       b.nominalPass === null ? "-" : b.nominalPass ? "pass" : "FAIL",
       b.failures === null ? "" : String(b.failures),
-    ]),
+    ]).concat(
+      r.colour.map((c) => [
+        c.label ? `${c.label} (${c.id})` : c.id,
+        "380-780",
+        `colour${c.found ? `: ${c.found}` : ""}`,
+        c.wording,
+        c.nominalMargin !== null ? c.nominalMargin.toFixed(4) : "-",
+        c.nominalPass === null ? "-" : c.nominalPass ? "pass" : "FAIL",
+        c.failures === null ? "" : String(c.failures),
+      ]),
+    ),
   );
 
   heading(doc, "Spec deviations");

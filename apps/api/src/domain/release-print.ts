@@ -152,7 +152,17 @@ ${rows(
         ? `<span class="pass">pass</span>`
         : `<span class="fail">fail</span>`,
     b.failures === null ? "" : String(b.failures),
-  ]),
+  ]).concat(
+    r.colour.map((c) => [
+      esc(c.label ? `${c.label} (${c.id})` : c.id),
+      "380–780",
+      `colour${c.found ? `: ${esc(c.found)}` : ""}`,
+      esc(c.wording),
+      c.nominalMargin !== null ? c.nominalMargin.toFixed(4) : "—",
+      c.nominalPass === null ? "—" : c.nominalPass ? `<span class="pass">pass</span>` : `<span class="fail">fail</span>`,
+      c.failures === null ? "" : String(c.failures),
+    ]),
+  ),
 )}
 </tbody></table>
 <h2>Spec deviations</h2>

@@ -1,7 +1,14 @@
 // A release record read back from its stored snapshot, with every field the page and the PDF show given a safe
 // default. Snapshots are stored as taken at release: older ones lack the evidence, deviation and plot sections, and a
 // value that was not finite was stored as null. Reading never throws, so every stored release renders.
-import { bandConditionsText, describeProcess, type ErrorModel, type SpecBand } from "@stackproof/optics";
+import {
+  bandConditionsText,
+  describeColourIso,
+  describeProcess,
+  type ErrorModel,
+  type SpecBand,
+  type SpecColourInput,
+} from "@stackproof/optics";
 import type { ReleaseSnapshot } from "./workflow.ts";
 
 export interface RecordBand {
@@ -17,6 +24,19 @@ export interface RecordBand {
   requirement: string;
   value: number | null;
   tolerance: number | null;
+  nominalMargin: number | null;
+  nominalPass: boolean | null;
+  failures: number | null;
+}
+
+/** A colour requirement of the released mask, in ISO 9211 style words, with its nominal result. */
+export interface RecordColour {
+  id: string;
+  label: string;
+  /** e.g. "Colour of reflected light: CIE 1931 standard colorimetric observer (2°), CIE illuminant D65; …" */
+  wording: string;
+  /** the colour found, e.g. "L* 4.21, a* 2.10, b* −1.20" (empty when not recorded) */
+  found: string;
   nominalMargin: number | null;
   nominalPass: boolean | null;
   failures: number | null;
@@ -64,6 +84,8 @@ export interface ReleaseRecord {
     stackLine: string;
   };
   bands: RecordBand[];
+  /** colour requirements (masks without them: []) */
+  colour: RecordColour[];
   run: {
     id: string;
     trials: number | null;
@@ -167,6 +189,28 @@ export function readReleaseRecord(snapshot: ReleaseSnapshot | unknown, status: s
       failures: run ? (failures.get(id) ?? 0) : null,
     };
   });
+  const colour: RecordColour[] = arr(mask.colour).map((raw) => {
+    const c = obj(raw);
+    const id = str(c.id, "?");
+    const o = nominal.get(id);
+    const found = obj(o?.colour);
+    const f2 = (v: unknown) => (num(v) === null ? "—" : (num(v) as number).toFixed(2).replace(/^-/, "−"));
+    let wording: string;
+    try {
+      wording = describeColourIso(raw as SpecColourInput);
+    } catch {
+      wording = "colour requirement (not readable)";
+    }
+    return {
+      id,
+      label: str(c.label),
+      wording,
+      found: o?.colour ? `L* ${f2(found.L)}, a* ${f2(found.a)}, b* ${f2(found.b)}; x ${num(found.x)?.toFixed(4) ?? "—"}, y ${num(found.y)?.toFixed(4) ?? "—"}` : "",
+      nominalMargin: o ? num(o.margin) : null,
+      nominalPass: o ? (typeof o.pass === "boolean" ? o.pass : null) : null,
+      failures: run ? (failures.get(id) ?? 0) : null,
+    };
+  });
   const evidence = s.evidence ? obj(s.evidence) : null;
   const figures = obj(evidence?.figures);
   const interval = obj(run?.interval);
@@ -233,6 +277,7 @@ export function readReleaseRecord(snapshot: ReleaseSnapshot | unknown, status: s
       stackLine: `Incident medium ${str(stack.incident, "?")}; reference wavelength ${str(stack.referenceWavelength, "?")} nm; substrate ${str(substrate.material, "?")}, ${str(substrate.thicknessMm, "?")} mm${substrate.backside ? ", back surface counted" : ""}; exit medium ${str(stack.exit, "?")}. Layer 1 is next to the substrate.`,
     },
     bands,
+    colour,
     run: run
       ? {
           id: str(run.id),

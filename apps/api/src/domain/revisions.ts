@@ -2,9 +2,9 @@
 import { and, count, desc, eq, inArray, max } from "drizzle-orm";
 import {
   SpecMaskSchema,
-  bandWavelengths,
   checkDesignInputs,
   evaluateSpec,
+  maskWavelengths,
   type SpecMask,
   type SpecResult,
   type YieldResult,
@@ -68,7 +68,7 @@ export function revisionInput(
   // Physics inputs that could poison a verdict (n = 1e308, n ≤ 0, a 1e308 nm layer) are refused by name, here,
   // before anything is evaluated or stored.
   try {
-    checkDesignInputs(stack, mask.bands.flatMap((b) => bandWavelengths(b)));
+    checkDesignInputs(stack, maskWavelengths(mask));
   } catch (err) {
     if (err instanceof RangeError) throw new HttpError(400, "invalid_physics_input", err.message);
     throw err;

@@ -1,4 +1,5 @@
-// CSV readers for uploads: n,k tables, layer lists and measured spectra.
+// CSV readers for uploads: n,k tables, layer lists, and spectrophotometer files (one lenient reader for every
+// measured spectrum: the single-spectrum upload, lots and witness films).
 // Rows are numbered as lines of the file (the header is row 1); every problem names its row and column.
 // Lines starting with "#" are comments; blank lines are skipped; cells are trimmed.
 import { CsvError, parse } from "csv-parse/sync";
@@ -287,45 +288,6 @@ export function parseLayerCsv(text: string, known: (id: string) => boolean): Csv
   return layers;
 }
 
-/** Measured spectrum: header `wavelength_nm` and one of `R` or `T` (percent, −1..101 to allow for noise). */
-export function parseSpectrumCsv(text: string): {
-  quantity: "R" | "T";
-  wavelengths: number[];
-  values: number[];
-} {
-  const what = "measured spectrum";
-  const table = readTable(text, what);
-  const pos = columns(table, what, { required: ["wavelength_nm"], oneOf: [["r", "t"]] });
-  requireRows(table, what, 2);
-  const reader = new RowReader(pos);
-  const column = pos.has("r") ? "r" : "t";
-  const wavelengths: number[] = [];
-  const values: number[] = [];
-  for (const row of table.rows) {
-    if (!reader.width(row, table.header.length)) {
-      wavelengths.push(Number.NaN);
-      values.push(Number.NaN);
-      continue;
-    }
-    wavelengths.push(reader.number(row, "wavelength_nm", positive));
-    values.push(
-      reader.number(row, column, (v) =>
-        v >= -1 && v <= 101 ? null : `expected a percentage between 0 and 100, got ${v}`,
-      ),
-    );
-  }
-  increasing(table.rows, wavelengths, "wavelength_nm", reader);
-  if (reader.problems.length > 0)
-    throw new CsvProblems(
-      what,
-      reader.problems.map((p) => ({
-        ...p,
-        column: p.column === "r" ? "R" : p.column === "t" ? "T" : p.column,
-      })),
-    );
-  return { quantity: column === "r" ? "R" : "T", wavelengths, values };
-}
-
 // ---- Spectrophotometer exports: one wavelength column and one or more spectra columns -------------------
 
 /** How the values of a spectra file are written: percent (0–100) or fraction (0–1). */
@@ -429,7 +391,7 @@ export function parseSpectraTable(text: string, scale: ValueScale | "auto", what
       problems.push({
         row: r.info.lines,
         column: "-",
-        message: `expected ${header.length} cells, got ${r.record.length}`,
+        message: `expected ${header.length} cells, got ${r.record.length}${delimiter === "," && r.record.length > header.length ? " (a decimal comma needs ; or tab as the separator)" : ""}`,
       });
       continue;
     }
@@ -494,4 +456,81 @@ export function parseSpectraTable(text: string, scale: ValueScale | "auto", what
   if (problems.length > 0) throw new CsvProblems(what, problems);
   if (used === "fraction") for (const c of columns) c.values = c.values.map((v) => v * 100);
   return { delimiter, decimalComma, scale: used, detectedScale, reversed: desc, wavelengths, columns };
+}
+
+// ---- One measured spectrum (the single-spectrum upload) --------------------------------------------------
+
+/** A spectrum column header that names its quantity: R, T, %R, T (%), Reflectance [%], Transmittance, … */
+const R_HEADER = /^(%\s*)?(r|refl|reflectance|reflection)\s*(%|\(\s*%\s*\)|\[\s*%\s*\])?$/i;
+const T_HEADER = /^(%\s*)?(t|trans|transmittance|transmission)\s*(%|\(\s*%\s*\)|\[\s*%\s*\])?$/i;
+
+/** The quantity a spectrum column's header names, or null when it names none. */
+export function quantityOfHeader(header: string): "R" | "T" | null {
+  const h = header.trim();
+  if (R_HEADER.test(h)) return "R";
+  if (T_HEADER.test(h)) return "T";
+  return null;
+}
+
+/** A single measured spectrum read by the lenient reader, values in percent. */
+export interface SingleSpectrum {
+  quantity: "R" | "T";
+  wavelengths: number[];
+  values: number[];
+  table: SpectraTable;
+}
+
+/**
+ * Read one measured spectrum with the spectrophotometer reader ({@link parseSpectraTable}: separators, decimal
+ * comma, header spellings, µm, descending order) and exactly one spectrum column.
+ * - scale: the caller's explicit choice. When omitted, percent is taken only if the data prove it (some value
+ *   above 1.01, impossible for a fraction); values that all lie within 0–1 are ambiguous (a fraction, or the
+ *   percent of a dark part) and are refused until the user confirms the scale.
+ * - quantity: from the column header (R, T, %T, Reflectance, …) or the caller's field; both given must agree.
+ * Refusals: 422 (the file, with row and column) or 400 (a field the user must give, naming it). Nothing is kept.
+ */
+export function parseSingleSpectrum(
+  text: string,
+  options: { scale?: ValueScale | undefined; quantity?: "R" | "T" | undefined },
+): SingleSpectrum {
+  const what = "measured spectrum";
+  const table = parseSpectraTable(text, options.scale ?? "auto", what);
+  if (table.columns.length !== 1) {
+    throw new CsvProblems(what, [
+      {
+        row: 1,
+        column: table.columns.map((c) => c.name).join("|"),
+        message: `expected one spectrum column next to the wavelengths, got ${table.columns.length} (${table.columns.map((c) => `"${c.name}"`).join(", ")}); upload several parts as a lot`,
+      },
+    ]);
+  }
+  const column = table.columns[0]!;
+  if (options.scale === undefined && table.detectedScale === "fraction") {
+    throw new HttpError(
+      400,
+      "validation_failed",
+      "body.scale: every value lies between 0 and 1, so the file may hold fractions or the percentages of a dark part; confirm with scale=\"fraction\" or scale=\"percent\"",
+      [{ path: "scale", message: 'required for this file: "percent" or "fraction"' }],
+    );
+  }
+  const fromHeader = quantityOfHeader(column.name);
+  if (fromHeader && options.quantity && fromHeader !== options.quantity) {
+    throw new CsvProblems(what, [
+      {
+        row: 1,
+        column: column.name,
+        message: `the column reads as ${fromHeader} but the upload says quantity ${options.quantity}`,
+      },
+    ]);
+  }
+  const quantity = fromHeader ?? options.quantity;
+  if (!quantity) {
+    throw new HttpError(
+      400,
+      "validation_failed",
+      `body.quantity: the column "${column.name}" does not say whether it is R or T; send quantity="R" or quantity="T"`,
+      [{ path: "quantity", message: 'required for this file: "R" or "T"' }],
+    );
+  }
+  return { quantity, wavelengths: table.wavelengths, values: column.values, table };
 }

@@ -8,7 +8,7 @@ import {
   type CellProblem,
   parseIndexTable,
   parseLayerCsv,
-  parseSpectrumCsv,
+  parseSingleSpectrum,
 } from "../../src/uploads/csv.ts";
 import { chunkSizeFor } from "../../src/yield/index.ts";
 import { verifyClientResult } from "../../src/yield/verify.ts";
@@ -26,6 +26,13 @@ describe("canonical JSON and the content hash", () => {
     );
     expect(revisionHash({ x: 1 }, { bands: [] })).not.toBe(revisionHash({ x: 2 }, { bands: [] }));
     expect(revisionHash({}, {})).toMatch(/^[0-9a-f]{64}$/);
+  });
+  it("hashes a mask with an empty colour list like one without it, and a non-empty list differently", () => {
+    const box = { id: "c1", quantity: "R" };
+    expect(revisionHash({ x: 1 }, { bands: [], colour: [] })).toBe(revisionHash({ x: 1 }, { bands: [] }));
+    expect(revisionHash({ x: 1 }, { bands: [], colour: [box] })).not.toBe(
+      revisionHash({ x: 1 }, { bands: [] }),
+    );
   });
 });
 
@@ -76,13 +83,13 @@ describe("CSV readers", () => {
     expect(
       problems(() => parseLayerCsv("material,thickness_nm,locked\nSiO2,3,maybe\n", () => true))[0],
     ).toMatchObject({ column: "locked" });
-    expect(problems(() => parseSpectrumCsv("wavelength_nm,T\n500,50\n500,51\n"))[0]).toMatchObject({
+    expect(problems(() => parseSingleSpectrum("wavelength_nm,T\n500,50\n500,51\n", {}))[0]).toMatchObject({
       row: 3,
       column: "wavelength_nm",
     });
   });
   it("accepts R or T in any case and says which", () => {
-    expect(parseSpectrumCsv("Wavelength_nm,r\n500,4.2\n600,4.1\n")).toEqual({
+    expect(parseSingleSpectrum("Wavelength_nm,r\n500,4.2\n600,4.1\n", {})).toMatchObject({
       quantity: "R",
       wavelengths: [500, 600],
       values: [4.2, 4.1],

@@ -1,4 +1,4 @@
-import { bandConditionsText, type SpecBand, type SpecMask } from "@stackproof/optics";
+import { bandConditionsText, colourConditionsText, describeColourIso, type SpecBand, type SpecMask } from "@stackproof/optics";
 import { cx } from "./ui/cx.ts";
 
 const requirementText: Record<SpecBand["requirement"], string> = {
@@ -26,7 +26,10 @@ export interface SpecMaskTableProps {
   className?: string;
 }
 
-/** The bands of a spec mask as a table: range, quantity, angle and polarization, requirement. */
+/**
+ * The bands of a spec mask as a table: range, quantity, angle and polarization, requirement; then its colour
+ * requirements, if any, in the ISO 9211 style wording of the optics package.
+ */
 export function SpecMaskTable({
   mask,
   caption = "Spec mask bands",
@@ -34,7 +37,20 @@ export function SpecMaskTable({
   className,
 }: SpecMaskTableProps) {
   const bands = mask?.bands ?? [];
-  if (bands.length === 0) return <p className="text-sm text-ink-500">The spec mask has no bands.</p>;
+  const colour = mask?.colour ?? [];
+  if (bands.length === 0 && colour.length === 0) return <p className="text-sm text-ink-500">The spec mask has no bands.</p>;
+  const colourList =
+    colour.length > 0 ? (
+      <ul className="mt-3 flex flex-col gap-1 text-sm" aria-label={`${caption}: colour requirements`}>
+        {colour.map((c) => (
+          <li key={c.id} title={colourConditionsText(c)}>
+            <span className="font-medium">{c.label ?? c.id}</span>
+            {c.label && <span className="ml-1.5 font-mono text-xs text-ink-500">{c.id}</span>}: {describeColourIso(c)}
+          </li>
+        ))}
+      </ul>
+    ) : null;
+  if (bands.length === 0) return <div className={className}>{colourList}</div>;
   return (
     <div className={cx("overflow-x-auto", className)}>
       <table className="w-full border-collapse text-left text-sm">
@@ -80,6 +96,7 @@ export function SpecMaskTable({
           ))}
         </tbody>
       </table>
+      {colourList}
     </div>
   );
 }

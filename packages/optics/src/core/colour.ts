@@ -323,13 +323,18 @@ export const ColourDeltaESchema = z.object({
  * illuminant and observer, at one angle and polarization, must lie in a box or within ΔE of a target.
  */
 export const ColourRequirementSchema = z.object({
-  kind: z.literal("colour"),
+  /** optional tag, "colour" (a spec mask keeps colour requirements in their own list, `colour`) */
+  kind: z.literal("colour").optional(),
   label: z.string().optional(),
   quantity: z.enum(["R", "T"], { error: 'expected "R" or "T"' }),
   illuminant: IlluminantSchema.default("D65"),
   observer: ObserverSchema.default("2"),
-  angleDeg: z.number().min(0).lt(90, { error: "expected an angle 0 ≤ θ < 90°" }).default(0),
-  polarization: z.enum(["s", "p", "u"]).default("u"),
+  angleDeg: z
+    .number({ error: "expected an angle in degrees" })
+    .min(0, { error: "expected an angle 0 ≤ θ < 90°" })
+    .lt(90, { error: "expected an angle 0 ≤ θ < 90°" })
+    .default(0),
+  polarization: z.enum(["s", "p", "u"], { error: 'expected "s", "p" or "u"' }).default("u"),
   limit: z.discriminatedUnion("type", [ColourBoxXySchema, ColourBoxLabSchema, ColourDeltaESchema]),
 });
 /** A colour requirement (defaults applied). */
@@ -355,6 +360,67 @@ export interface ColourVerdict {
 
 function boxMargin(v: number, [lo, hi]: readonly [number, number]): number {
   return Math.min(v - lo, hi - v);
+}
+
+/** The coordinate that decides a colour verdict: nearest its limit (or furthest past it), or ΔE. */
+export type ColourLimiting = "x" | "y" | "L" | "a" | "b" | "deltaE";
+
+/** How a colour stands against a limit (see {@link judgeColour}). */
+export interface ColourJudgement {
+  /** limit − distance, in the limit's own units (x, y; L*, a*, b*; ΔE); negative or NaN: outside */
+  margin: number;
+  /** which coordinate sets the margin */
+  limiting: ColourLimiting;
+  /** value of that coordinate (ΔE for a ΔE limit) */
+  value: number;
+  /** ΔE against the target, ΔE limits only */
+  deltaE?: number;
+}
+
+/**
+ * Judge colour coordinates against the limit of a colour requirement, without parsing (the spec
+ * evaluator calls this once per trial): for a box the smallest distance to an edge over its
+ * coordinates, for ΔE the limit minus ΔE (CIE76 or CIEDE2000 via culori). A NaN coordinate gives a
+ * NaN margin.
+ */
+export function judgeColour(limit: ColourRequirement["limit"], colour: ColourCoordinates): ColourJudgement {
+  if (limit.type === "delta-e") {
+    const dE = deltaE(limit.formula, limit.target, colour);
+    return { margin: limit.max - dE, limiting: "deltaE", value: dE, deltaE: dE };
+  }
+  const axes: [ColourLimiting, number, readonly [number, number]][] =
+    limit.type === "box-xy"
+      ? [
+          ["x", colour.x, limit.x],
+          ["y", colour.y, limit.y],
+        ]
+      : [
+          ["a", colour.a, limit.a],
+          ["b", colour.b, limit.b],
+          ...(limit.L ? ([["L", colour.L, limit.L]] as [ColourLimiting, number, readonly [number, number]][]) : []),
+        ];
+  let best: ColourJudgement = { margin: Infinity, limiting: axes[0]![0], value: axes[0]![1] };
+  for (const [name, v, range] of axes) {
+    const m = boxMargin(v, range);
+    if (Number.isNaN(m)) return { margin: Number.NaN, limiting: name, value: v };
+    if (m < best.margin) best = { margin: m, limiting: name, value: v };
+  }
+  return best;
+}
+
+/** The reason a judged colour fails, in words (undefined when it passes). */
+export function colourFailureReason(
+  limit: ColourRequirement["limit"],
+  colour: ColourCoordinates,
+  judged: ColourJudgement,
+): string | undefined {
+  if (!Number.isFinite(judged.margin)) return "the colour is not finite";
+  if (judged.margin >= 0) return undefined;
+  return limit.type === "delta-e"
+    ? `ΔE (${limit.formula}) = ${judged.value.toFixed(2)} exceeds ${limit.max}`
+    : limit.type === "box-xy"
+      ? `(x, y) = (${colour.x.toFixed(4)}, ${colour.y.toFixed(4)}) outside the box`
+      : `(L*, a*, b*) = (${colour.L.toFixed(2)}, ${colour.a.toFixed(2)}, ${colour.b.toFixed(2)}) outside the box`;
 }
 
 /**
@@ -398,30 +464,13 @@ export function evaluateColourRequirement(
   } else {
     colour = subject;
   }
-  const lim = req.limit;
-  let margin: number;
-  let dE: number | undefined;
-  if (lim.type === "box-xy") {
-    margin = Math.min(boxMargin(colour.x, lim.x), boxMargin(colour.y, lim.y));
-  } else if (lim.type === "box-ab") {
-    margin = Math.min(boxMargin(colour.a, lim.a), boxMargin(colour.b, lim.b));
-    if (lim.L) margin = Math.min(margin, boxMargin(colour.L, lim.L));
-  } else {
-    dE = deltaE(lim.formula, lim.target, colour);
-    margin = lim.max - dE;
-  }
-  if (!Number.isFinite(margin)) {
+  const judged = judgeColour(req.limit, colour);
+  if (!Number.isFinite(judged.margin)) {
     return { pass: false, margin: -Infinity, colour, reason: "the colour is not finite" };
   }
-  const verdict: ColourVerdict = { pass: margin >= 0, margin, colour };
-  if (dE !== undefined) verdict.deltaE = dE;
-  if (margin < 0) {
-    verdict.reason =
-      lim.type === "delta-e"
-        ? `ΔE (${lim.formula}) = ${dE!.toFixed(2)} exceeds ${lim.max}`
-        : lim.type === "box-xy"
-          ? `(x, y) = (${colour.x.toFixed(4)}, ${colour.y.toFixed(4)}) outside the box`
-          : `(L*, a*, b*) = (${colour.L.toFixed(2)}, ${colour.a.toFixed(2)}, ${colour.b.toFixed(2)}) outside the box`;
-  }
+  const verdict: ColourVerdict = { pass: judged.margin >= 0, margin: judged.margin, colour };
+  if (judged.deltaE !== undefined) verdict.deltaE = judged.deltaE;
+  const reason = colourFailureReason(req.limit, colour, judged);
+  if (reason) verdict.reason = reason;
   return verdict;
 }

@@ -107,6 +107,8 @@ export {
   colourSwatch,
   deltaE,
   evaluateColourRequirement,
+  judgeColour,
+  colourFailureReason,
 } from "./colour.ts";
 export type {
   Observer,
@@ -117,5 +119,7 @@ export type {
   ColourRequirement,
   ColourRequirementInput,
   ColourVerdict,
+  ColourJudgement,
+  ColourLimiting,
 } from "./colour.ts";
 export { CIE_START_NM, CIE_STEP_NM, CIE_ROWS } from "./cie-tables.ts";

@@ -7,8 +7,9 @@ import { computeSpectrumAtAngles } from "../core/spectrum.ts";
 import type { Design } from "../core/index.ts";
 import { coneHalfAngleDeg } from "../core/spectrum.ts";
 import { bandConditionsText } from "./spec-conditions.ts";
-import { bandLimit, createSpecEvaluator, parseSpecMask } from "./spec.ts";
-import type { BandOutcome, SpecBand, SpecBandInput, SpecMaskInput, WorstPoint } from "./spec.ts";
+import { bandLimit, createSpecEvaluator, parseSpecMask, SpecColourSchema } from "./spec.ts";
+import type { BandOutcome, SpecBand, SpecBandInput, SpecColourInput, SpecMaskInput, WorstPoint } from "./spec.ts";
+import { parseWith } from "./validate.ts";
 
 /** Largest display grid of {@link bandView}. */
 export const MAX_VIEW_POINTS = 4001;
@@ -66,7 +67,11 @@ export function bandView(design: Design, maskInput: SpecMaskInput, bandId: strin
   const mask = parseSpecMask(maskInput);
   const b = mask.bands.findIndex((x) => x.id === bandId);
   const band = mask.bands[b];
-  if (!band) throw new RangeError(`bandId: no band ${JSON.stringify(bandId)} in the mask`);
+  if (!band) {
+    if ((mask.colour ?? []).some((c) => c.id === bandId))
+      throw new RangeError(`bandId: ${JSON.stringify(bandId)} is a colour requirement, which has no curve (its outcome carries the colour)`);
+    throw new RangeError(`bandId: no band ${JSON.stringify(bandId)} in the mask`);
+  }
   // the verdict: the whole mask, as evaluateSpec does
   const ev = createSpecEvaluator(design, mask);
   const outcomes = ev.evaluate(ev.nominalThicknesses);
@@ -217,4 +222,31 @@ export function describeBandIso(bandInput: SpecBandInput): string {
   const pol = { s: "s-polarized", p: "p-polarized", u: "unpolarized", sp: "s and p polarization each" }[band.polarization];
   const name = quantityWords[band.quantity];
   return `${name[0]!.toUpperCase()}${name.slice(1)}: ${sym} ${rel} ${f(band.value)}${unit}${tol}${every} ${range}; ${angle}; ${pol}`;
+}
+
+const observerIso = { "2": "CIE 1931 standard colorimetric observer (2°)", "10": "CIE 1964 standard colorimetric observer (10°)" } as const;
+const c4 = (x: number): string => String(Math.round(x * 10000) / 10000);
+const neg = (t: string): string => t.replace(/^-/, "−");
+
+/**
+ * A colour requirement in the wording of an ISO 9211 style coating specification: quantity (colour of the
+ * reflected or transmitted light), observer, illuminant, angle of incidence, polarization and requirement, e.g.
+ * "Colour of reflected light: CIE 1931 standard colorimetric observer (2°), CIE illuminant D65; angle of
+ * incidence 0°; unpolarized; ΔE*ab (CIEDE2000) ≤ 2 from L* = 50, a* = 0, b* = 0". The colour is computed
+ * over 380–780 nm in 5 nm steps (CIE 015:2018).
+ * @throws RangeError naming the field for an invalid requirement
+ */
+export function describeColourIso(input: SpecColourInput): string {
+  const c = parseWith(SpecColourSchema, input, "colour");
+  const lim = c.limit;
+  const range = (name: string, r: readonly [number, number]): string =>
+    `${neg(c4(r[0]))} ≤ ${name} ≤ ${neg(c4(r[1]))}`;
+  const requirement =
+    lim.type === "box-xy"
+      ? `chromaticity ${range("x", lim.x)} and ${range("y", lim.y)}`
+      : lim.type === "box-ab"
+        ? `CIELAB ${range("a*", lim.a)} and ${range("b*", lim.b)}${lim.L ? ` and ${range("L*", lim.L)}` : ""}`
+        : `ΔE*ab (${lim.formula}) ≤ ${c4(lim.max)} from L* = ${neg(c4(lim.target.L))}, a* = ${neg(c4(lim.target.a))}, b* = ${neg(c4(lim.target.b))}`;
+  const pol = { s: "s-polarized", p: "p-polarized", u: "unpolarized" }[c.polarization];
+  return `Colour of ${c.quantity === "R" ? "reflected" : "transmitted"} light: ${observerIso[c.observer]}, CIE illuminant ${c.illuminant}; angle of incidence ${f(c.angleDeg)}°; ${pol}; ${requirement}`;
 }

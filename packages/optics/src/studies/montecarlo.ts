@@ -59,9 +59,9 @@ export interface YieldChunk {
   startTrial: number;
   count: number;
   passCount: number;
-  /** Failures per band, in mask order. */
+  /** Failures per band, in mask order, then per colour requirement (SpecEvaluator.ids). */
   bandFailures: number[];
-  /** Per trial (in index order): the smallest band margin (band units); < 0 means the trial failed. */
+  /** Per trial (in index order): the smallest margin (band or colour units); < 0 means the trial failed. */
   worstMargins: number[];
   /**
    * Per layer, integer sums of q = round(e · ERROR_QUANTUM) where e is the layer's relative thickness
@@ -94,8 +94,9 @@ export interface YieldResult {
   passCount: number;
   yield: number;
   interval: ProportionInterval;
+  /** Failing trials per band, then per colour requirement (ids as in the mask). */
   bandFailures: { id: string; count: number }[];
-  /** Histogram of each trial's worst band margin (band units). */
+  /** Histogram of each trial's worst margin (band units; a colour requirement's margin in its limit's units). */
   marginHistogram: { edges: number[]; counts: number[] };
   envelopes: YieldEnvelope[];
   /**
@@ -184,7 +185,7 @@ export function createYieldRunner(studyInput: YieldStudy): YieldRunner {
   const rng = new TrialRandom();
   const thick = new Float64Array(layers);
   const scale = new Float64Array(layers);
-  const margins = new Float64Array(evaluator.bands.length);
+  const margins = new Float64Array(evaluator.ids.length);
   const qBuf = new Float64Array(layers);
 
   return {
@@ -197,7 +198,7 @@ export function createYieldRunner(studyInput: YieldStudy): YieldRunner {
       if (!Number.isInteger(count) || count < 1 || startTrial + count > study.trials) {
         throw new RangeError(`count must be an integer in 1..${study.trials - startTrial}, got ${count}`);
       }
-      const bandFailures = new Array<number>(evaluator.bands.length).fill(0);
+      const bandFailures = new Array<number>(evaluator.ids.length).fill(0);
       const worstMargins = new Array<number>(count);
       const sums = {
         q: new Array<number>(layers).fill(0),
@@ -303,7 +304,7 @@ export function mergeYieldChunks(studyInput: YieldStudy, chunks: readonly YieldC
   const study = parseYieldStudy(studyInput);
   const design = study.design as Design;
   const evaluator = createSpecEvaluator(design, study.mask);
-  const bandsN = evaluator.bands.length;
+  const bandsN = evaluator.ids.length;
   const layers = evaluator.layerCount;
   const ordered = [...chunks].sort((a, b) => a.startTrial - b.startTrial);
   let next = 0;
@@ -426,7 +427,7 @@ export function mergeYieldChunks(studyInput: YieldStudy, chunks: readonly YieldC
     passCount,
     yield: passCount / n,
     interval: wilsonInterval(passCount, n),
-    bandFailures: evaluator.bands.map((b, i) => ({ id: b.id, count: bandFailures[i] as number })),
+    bandFailures: evaluator.ids.map((id, i) => ({ id, count: bandFailures[i] as number })),
     marginHistogram: { edges, counts },
     envelopes,
     criticalLayers,

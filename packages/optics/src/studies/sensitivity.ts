@@ -1,14 +1,14 @@
 import { createStackEvaluator } from "../core/index.ts";
 import type { Design } from "../core/index.ts";
 import { createSpecEvaluator, parseSpecMask } from "./spec.ts";
-import type { Polarization, SpecMask } from "./spec.ts";
+import type { Polarization, SpecMaskInput } from "./spec.ts";
 
 /** Central-difference thickness step (nm); layers thinner than this use a forward difference. */
 export const SENSITIVITY_STEP_NM = 0.05;
 /** Central-difference step of the index factor (relative change of N). */
 export const SENSITIVITY_INDEX_STEP = 1e-4;
 
-/** Per-band derivatives of the margin (band units: percent, or OD). */
+/** Per-band (and per colour requirement) derivatives of the margin (band units: percent, or OD; colour: the limit's units). */
 export interface BandSensitivity {
   id: string;
   margin: number;
@@ -38,7 +38,7 @@ export interface SpecSensitivity {
  */
 export function specSensitivity(
   design: Design,
-  maskInput: SpecMask,
+  maskInput: SpecMaskInput,
   options: { stepNm?: number } = {},
 ): SpecSensitivity {
   const mask = parseSpecMask(maskInput);
@@ -47,7 +47,7 @@ export function specSensitivity(
     throw new RangeError(`stepNm must be a positive number of nm, got ${h}`);
   const ev = createSpecEvaluator(design, mask);
   const L = ev.layerCount;
-  const B = ev.bands.length;
+  const B = ev.ids.length;
   const nominal = Float64Array.from(ev.nominalThicknesses);
   const base = new Float64Array(B);
   const plus = new Float64Array(B);
@@ -82,8 +82,8 @@ export function specSensitivity(
     for (let b = 0; b < B; b++)
       (dIndex[b] as Record<string, number>)[m] = ((plus[b] as number) - (minus[b] as number)) / (2 * e) / 100;
   }
-  const bands = ev.bands.map((plan, b) => ({
-    id: plan.id,
+  const bands = ev.ids.map((id, b) => ({
+    id,
     margin: base[b] as number,
     thickness: dThick[b] as number[],
     index: dIndex[b] as Record<string, number>,

@@ -43,6 +43,24 @@ const polWords: Record<BandPolarization, string> = {
   sp: "s and p each",
 };
 
+/** One angle and polarization in words, e.g. "12°, s-polarized". */
+export function conditionsText(angleDeg: number, polarization: BandPolarization): string {
+  return `${fmt(angleDeg)}°, ${polWords[polarization]}`;
+}
+
+const observerWords = { "2": "CIE 1931 2°", "10": "CIE 1964 10°" } as const;
+
+/** The conditions of a colour requirement in words, e.g. "reflected, D65, CIE 1931 2°, 0°, unpolarized". */
+export function colourConditionsText(c: {
+  quantity: "R" | "T";
+  illuminant: "D65" | "A";
+  observer: "2" | "10";
+  angleDeg: number;
+  polarization: Polarization;
+}): string {
+  return `${c.quantity === "R" ? "reflected" : "transmitted"}, ${c.illuminant}, ${observerWords[c.observer]}, ${conditionsText(c.angleDeg, c.polarization)}`;
+}
+
 /** The conditions of a band in words, e.g. "0–10°, s and p each" or "f/2 cone (14.48° half-angle) about 0°, unpolarized". */
 export function bandConditionsText(band: SpecBand): string {
   let where: string;

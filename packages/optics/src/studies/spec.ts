@@ -1,8 +1,17 @@
 import { z } from "zod";
-import { createStackEvaluator, coneHalfAngleDeg } from "../core/index.ts";
-import type { Design } from "../core/index.ts";
-import { ComplexBand, POL_CODES, bandConditionsText, isComplexBand } from "./spec-conditions.ts";
-export { bandAngles, bandConditionsText, isComplexBand } from "./spec-conditions.ts";
+import {
+  COLOUR_WAVELENGTHS,
+  ColourRequirementSchema,
+  colourFailureReason,
+  colourFromSamples,
+  colourSwatch,
+  createStackEvaluator,
+  coneHalfAngleDeg,
+  judgeColour,
+} from "../core/index.ts";
+import type { ColourCoordinates, ColourJudgement, ColourLimiting, Design, Illuminant, Observer } from "../core/index.ts";
+import { ComplexBand, POL_CODES, bandConditionsText, conditionsText, isComplexBand } from "./spec-conditions.ts";
+export { bandAngles, bandConditionsText, colourConditionsText, isComplexBand } from "./spec-conditions.ts";
 import { parseWith } from "./validate.ts";
 
 /** Quantities a spec band can constrain: R, T, A in percent, OD = −log10(T) in optical-density units. */
@@ -129,13 +138,40 @@ export const SpecBandSchema = z
   });
 export type SpecBand = z.output<typeof SpecBandSchema>;
 
-/** A specification: every band must pass. `protective` marks eye or sensor protection filters. */
+/**
+ * A colour requirement of a spec mask (its `colour` list): the colour of the reflected ("R") or
+ * transmitted ("T") light under illuminant D65 or A, for the CIE 1931 2° or 1964 10° observer, at one
+ * angle of incidence (degrees) and polarization, must lie in a box (x/y, or a* and b* with optional L*) or
+ * within a ΔE*ab limit (CIE76 or CIEDE2000) of a target L*a*b* (see {@link ColourRequirementSchema};
+ * CIE 015:2018). The colour is computed on 380–780 nm every 5 nm ({@link COLOUR_WAVELENGTHS}).
+ * `id` is shared with the bands' ids: no band and no colour requirement may have the same one. A `kind`
+ * tag is dropped (the list says what the entries are), so a stored mask has one canonical form.
+ */
+export const SpecColourSchema = ColourRequirementSchema.omit({ kind: true }).extend({ id: z.string().min(1) });
+export type SpecColour = z.output<typeof SpecColourSchema>;
+/** A colour requirement as written (illuminant D65, observer 2°, 0°, unpolarized when left out). */
+export type SpecColourInput = z.input<typeof SpecColourSchema>;
+
+/**
+ * A specification: every band and every colour requirement must pass. `protective` marks eye or sensor
+ * protection filters. `colour` is optional (masks without it keep their stored form and hash); a mask
+ * needs at least one band or one colour requirement, and ids are unique across both lists.
+ */
 export const SpecMaskSchema = z
   .object({
-    bands: z.array(SpecBandSchema).min(1),
+    bands: z.array(SpecBandSchema),
+    colour: z.array(SpecColourSchema).optional(),
     protective: z.boolean().optional(),
   })
   .superRefine((mask, ctx) => {
+    if (mask.bands.length === 0 && (mask.colour ?? []).length === 0) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["bands"],
+        input: mask.bands,
+        message: "a mask needs at least one band or colour requirement",
+      });
+    }
     const seen = new Set<string>();
     mask.bands.forEach((band, i) => {
       if (seen.has(band.id)) {
@@ -147,6 +183,17 @@ export const SpecMaskSchema = z
         });
       }
       seen.add(band.id);
+    });
+    (mask.colour ?? []).forEach((c, i) => {
+      if (seen.has(c.id)) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["colour", i, "id"],
+          input: c.id,
+          message: "duplicate id (bands and colour requirements share ids)",
+        });
+      }
+      seen.add(c.id);
     });
   });
 export type SpecMask = z.output<typeof SpecMaskSchema>;
@@ -165,7 +212,11 @@ export const PROTECTIVE_CAUTION =
   "This specification protects eyes or sensors. A computed result is not a certification: protective " +
   "equipment must be tested to the applicable local standards by qualified people.";
 
-/** The worst point of a band: wavelength (nm), value (band units), angle (degrees) and polarization. */
+/**
+ * The worst point of a band: wavelength (nm), value (band units), angle (degrees) and polarization. For a
+ * colour requirement the colour is an integral over 380–780 nm: `wavelength` is NaN and `value` is the
+ * deciding coordinate (see {@link ColourOutcome.limiting}).
+ */
 export interface WorstPoint {
   wavelength: number;
   value: number;
@@ -175,7 +226,35 @@ export interface WorstPoint {
   polarization: Polarization;
 }
 
-/** Outcome of one band: margin in the band's units (percent or OD), positive = inside the limit. */
+/** The colour found for a colour requirement, and how it stands against the limit. */
+export interface ColourOutcome {
+  quantity: "R" | "T";
+  illuminant: Illuminant;
+  observer: Observer;
+  /** tristimulus values, perfect reflector Y = 100 (Y is the luminous reflectance or transmittance, %) */
+  X: number;
+  Y: number;
+  Z: number;
+  /** chromaticity */
+  x: number;
+  y: number;
+  /** CIELAB relative to the illuminant's white */
+  L: number;
+  a: number;
+  b: number;
+  /** ΔE*ab against the target (ΔE limits only) */
+  deltaE?: number;
+  /** the coordinate that sets the margin: nearest its box edge (or furthest past it), or ΔE */
+  limiting: ColourLimiting;
+  /** sRGB swatch for display (hue at full brightness, clipped to the gamut), e.g. "#f3e9ff" */
+  swatch: string;
+}
+
+/**
+ * Outcome of one band or colour requirement: margin in the band's units (percent or OD), positive = inside
+ * the limit. For a colour requirement the margin is in the limit's units (x, y; L*, a*, b*; or ΔE), `colour`
+ * holds the colour found and `average` is its Y (luminous R or T, %).
+ */
 export interface BandOutcome {
   id: string;
   pass: boolean;
@@ -187,11 +266,14 @@ export interface BandOutcome {
   average: number;
   /** Why the band fails without a margin, e.g. "the spectrum is not finite at 532 nm". */
   reason?: string;
+  /** Colour requirements only: the colour found. */
+  colour?: ColourOutcome;
 }
 
 /** Result of {@link evaluateSpec}. */
 export interface SpecResult {
   pass: boolean;
+  /** one outcome per band (mask order), then one per colour requirement (mask order) */
   bands: BandOutcome[];
   /** Merit: Σ over bands of the mean squared violation (see {@link createSpecEvaluator}); 0 = all pass. */
   merit: number;
@@ -223,6 +305,19 @@ export function bandWavelengths(band: Pick<SpecBand, "start" | "stop" | "step">)
   for (let k = 0; k <= n; k++) out.push(start + k * step);
   if (stop - (out[out.length - 1] ?? start) > 1e-9 * Math.max(1, stop)) out.push(stop);
   return out;
+}
+
+/**
+ * Every wavelength (nm, sorted, without duplicates) at which a mask evaluates the design: the bands'
+ * samples and, with colour requirements, 380–780 nm every 5 nm. For checking a design's physical inputs
+ * before evaluation.
+ */
+export function maskWavelengths(maskInput: SpecMaskInput): number[] {
+  const mask = parseSpecMask(maskInput);
+  const all = new Set<number>();
+  for (const band of mask.bands) for (const w of bandWavelengths(band)) all.add(w);
+  if ((mask.colour ?? []).length > 0) for (const w of COLOUR_WAVELENGTHS) all.add(w);
+  return [...all].sort((a, b) => a - b);
 }
 
 /** Convert a fraction triple to a band value: percent for R/T/A, OD = −log10 T. */
@@ -281,11 +376,35 @@ export interface GroupPlan {
   conditions: string;
 }
 
+/**
+ * Residual scale of an x/y colour box in the merit: chromaticity is counted in hundredths, so that a
+ * violation of 0.01 in x or y weighs like 1 % in R or 1 ΔE (a choice for the optimizer, no source).
+ */
+export const COLOUR_XY_RESIDUAL_SCALE = 100;
+
+/** A colour requirement compiled against one evaluator group (whose wavelengths include 380–780 nm every 5 nm). */
+export interface ColourPlan {
+  id: string;
+  colour: SpecColour;
+  group: number;
+  /** indices of 380, 385, …, 780 nm in the group's wavelength array */
+  indices: Int32Array;
+  /** factor on the margin in the merit: {@link COLOUR_XY_RESIDUAL_SCALE} for an x/y box, 1 otherwise */
+  residualScale: number;
+}
+
 /** Precompiled spec mask evaluation for one design's layer structure. */
 export interface SpecEvaluator {
   readonly layerCount: number;
   readonly nominalThicknesses: Float64Array;
   readonly bands: readonly BandPlan[];
+  /** colour requirements, mask order */
+  readonly colour: readonly ColourPlan[];
+  /**
+   * Ids of everything judged, in the order of {@link SpecEvaluator.evaluate} and {@link SpecEvaluator.margins}:
+   * the bands (mask order), then the colour requirements (mask order).
+   */
+  readonly ids: readonly string[];
   readonly groups: readonly GroupPlan[];
   /** Total residual count of {@link SpecEvaluator.residuals}. */
   readonly residualCount: number;
@@ -293,9 +412,12 @@ export interface SpecEvaluator {
   readonly warnings: readonly string[];
   /** Compute all group spectra for the given thicknesses (nm, deposition order) and per-layer N factors. */
   compute(thicknesses: Float64Array, indexScale?: Float64Array): void;
-  /** Full band outcomes (allocates only the result). */
+  /** Full outcomes, one per entry of {@link SpecEvaluator.ids} (allocates only the result). */
   evaluate(thicknesses: Float64Array, indexScale?: Float64Array): BandOutcome[];
-  /** Margins per band into `out` (no allocation); returns true when every band passes. */
+  /**
+   * Margins per band, then per colour requirement, into `out` (length ≥ ids.length; bands allocate nothing,
+   * a colour requirement a few small objects); returns true when everything passes.
+   */
   margins(thicknesses: Float64Array, out: Float64Array, indexScale?: Float64Array): boolean;
   /**
    * Residuals whose sum of squares is the merit (no allocation). Limits are moved inward by
@@ -313,6 +435,7 @@ export interface SpecEvaluator {
   /**
    * Samples of band `b` outside its limit (min/max requirements) or not finite, from the last
    * {@link SpecEvaluator.compute} or {@link SpecEvaluator.evaluate}: wavelength, value, angle, polarization.
+   * An index past the bands (a colour requirement) has none: [].
    */
   violations(b: number): WorstPoint[];
 }
@@ -330,26 +453,43 @@ const wavelengthKey = (w: number): number => Math.round(w * 1e6);
  * sample k lies past the limit (N_b = number of samples) and for average bands it is how far the
  * average lies past the limit (N_b = 1). Units: percent² (OD² for OD bands). The merit is 0 exactly
  * when every band passes and grows quadratically with the violation.
+ *
+ * Colour requirements join the group of their angle and polarization (its wavelengths then include
+ * 380–780 nm every 5 nm); their colour is summed from that group's R or T by {@link colourFromSamples} and
+ * judged by {@link judgeColour}. Margin in the limit's units (x, y; L*, a*, b*; ΔE); merit term
+ * max(0, −margin · s)² with s = {@link COLOUR_XY_RESIDUAL_SCALE} for x/y boxes, 1 otherwise.
  */
 export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): SpecEvaluator {
   const mask = parseSpecMask(maskInput);
+  const colourList = mask.colour ?? [];
   const groupKeys: string[] = [];
   const groupBands: number[][] = [];
+  const groupColours: number[][] = [];
+  const groupAt: { angleDeg: number; polarization: Polarization }[] = [];
   const bandSamples = mask.bands.map((band) => bandWavelengths(band));
   const complexOf = new Map<number, number>(); // band index → own group
-  mask.bands.forEach((band, b) => {
-    if (isComplexBand(band)) return;
-    const key = `${band.angleDeg}|${band.polarization}`;
+  const groupOf = (angleDeg: number, polarization: Polarization): number => {
+    const key = `${angleDeg}|${polarization}`;
     let g = groupKeys.indexOf(key);
     if (g < 0) {
       g = groupKeys.length;
       groupKeys.push(key);
       groupBands.push([]);
+      groupColours.push([]);
+      groupAt.push({ angleDeg, polarization });
     }
-    groupBands[g]?.push(b);
+    return g;
+  };
+  mask.bands.forEach((band, b) => {
+    if (isComplexBand(band)) return;
+    groupBands[groupOf(band.angleDeg, band.polarization as Polarization)]?.push(b);
   });
+  // a colour requirement joins the simple group of its angle and polarization: the group's wavelengths
+  // then include 380–780 nm every 5 nm, and the colour is summed from the group's own R or T
+  colourList.forEach((c, k) => groupColours[groupOf(c.angleDeg, c.polarization)]?.push(k));
 
   const bands: BandPlan[] = new Array<BandPlan>(mask.bands.length);
+  const colourPlans: ColourPlan[] = new Array<ColourPlan>(colourList.length);
   const groups: GroupPlan[] = [];
   const evaluators: ReturnType<typeof createStackEvaluator>[] = [];
   const plan = (band: SpecBand, g: number, indices: Int32Array, samples: number[]): BandPlan => {
@@ -364,37 +504,51 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
       residualCount: avg ? 1 : samples.length,
     };
   };
-  groupBands.forEach((members) => {
-    const first = mask.bands[members[0] ?? 0];
-    if (!first) return;
+  groupKeys.forEach((_, k) => {
+    const members = groupBands[k] ?? [];
+    const colourMembers = groupColours[k] ?? [];
+    const at = groupAt[k]!;
     const unique = new Map<number, number>();
     for (const b of members)
       for (const w of bandSamples[b] ?? [])
         if (!unique.has(wavelengthKey(w))) unique.set(wavelengthKey(w), w);
+    if (colourMembers.length > 0)
+      for (const w of COLOUR_WAVELENGTHS) if (!unique.has(wavelengthKey(w))) unique.set(wavelengthKey(w), w);
     const wl = Float64Array.from([...unique.values()].sort((a, c) => a - c));
     const position = new Map<number, number>();
     wl.forEach((w, i) => position.set(wavelengthKey(w), i));
     const evaluator = createStackEvaluator(design, {
       wavelengths: wl,
-      angleDeg: first.angleDeg,
-      polarization: first.polarization as Polarization,
+      angleDeg: at.angleDeg,
+      polarization: at.polarization,
     });
     const g = groups.length;
     evaluators.push(evaluator);
     groups.push({
-      angleDeg: first.angleDeg,
-      polarization: first.polarization,
+      angleDeg: at.angleDeg,
+      polarization: at.polarization,
       wavelengths: wl,
       R: new Float64Array(wl.length),
       T: new Float64Array(wl.length),
       A: new Float64Array(wl.length),
-      conditions: bandConditionsText(first),
+      conditions: conditionsText(at.angleDeg, at.polarization),
     });
     for (const b of members) {
       const band = mask.bands[b];
       const samples = bandSamples[b];
       if (!band || !samples) continue;
       bands[b] = plan(band, g, Int32Array.from(samples, (w) => position.get(wavelengthKey(w)) ?? 0), samples);
+    }
+    const colourIndices = Int32Array.from(COLOUR_WAVELENGTHS, (w) => position.get(wavelengthKey(w)) ?? 0);
+    for (const c of colourMembers) {
+      const colour = colourList[c]!;
+      colourPlans[c] = {
+        id: colour.id,
+        colour,
+        group: g,
+        indices: colourIndices,
+        residualScale: colour.limit.type === "box-xy" ? COLOUR_XY_RESIDUAL_SCALE : 1,
+      };
     }
   });
   // bands with conditions: one own group each
@@ -417,10 +571,43 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
     bands[b] = plan(band, g, Int32Array.from(samples, (_, i) => i), samples);
   });
 
-  if (bands.length === 0) throw new RangeError("mask.bands: no bands to evaluate");
+  if (bands.length + colourPlans.length === 0) throw new RangeError("mask.bands: no bands to evaluate");
   layerCount = design.layers.length;
   const nominalThicknesses = Float64Array.from(design.layers, (l) => l.thickness);
-  const residualCount = bands.reduce((s, b) => s + b.residualCount, 0);
+  const residualCount = bands.reduce((s, b) => s + b.residualCount, 0) + colourPlans.length;
+  const ids = [...bands.map((b) => b.id), ...colourPlans.map((c) => c.id)];
+
+  // Colour of a colour requirement from the last computation: samples gathered from its group (fractions),
+  // summed with the CIE weights (colourFromSamples) and judged against the limit. A non-finite sample makes
+  // the colour undefined: `nonFiniteAt` names the wavelength and the margin is NaN.
+  const colourSamples = new Float64Array(COLOUR_WAVELENGTHS.length);
+  const colourState: { colour: ColourCoordinates | null; judged: ColourJudgement | null; nonFiniteAt: number } = {
+    colour: null,
+    judged: null,
+    nonFiniteAt: Number.NaN,
+  };
+  const judgeColourPlan = (cp: ColourPlan): void => {
+    const group = groups[cp.group] as GroupPlan;
+    const src = cp.colour.quantity === "R" ? group.R : group.T;
+    colourState.colour = null;
+    colourState.judged = null;
+    colourState.nonFiniteAt = Number.NaN;
+    for (let k = 0; k < colourSamples.length; k++) {
+      const v = src[cp.indices[k] as number] as number;
+      if (!Number.isFinite(v)) {
+        colourState.nonFiniteAt = COLOUR_WAVELENGTHS[k] as number;
+        return;
+      }
+      colourSamples[k] = v;
+    }
+    const colour = colourFromSamples(colourSamples, { illuminant: cp.colour.illuminant, observer: cp.colour.observer });
+    colourState.colour = colour;
+    colourState.judged = judgeColour(cp.colour.limit, colour);
+  };
+  const colourMargin = (cp: ColourPlan): number => {
+    judgeColourPlan(cp);
+    return colourState.judged ? colourState.judged.margin : Number.NaN;
+  };
   const warnings = [...new Set([...evaluators.flatMap((e) => e.warnings), ...complex.flatMap((c) => c.warnings)])];
 
   /** refine: search the worst angle of angle ranges; verdictOnly: skip the search where a sample already fails. */
@@ -512,17 +699,59 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
     }
   };
 
+  const colourOutcome = (cp: ColourPlan): BandOutcome => {
+    const req = cp.colour;
+    judgeColourPlan(cp);
+    const nan = Number.NaN;
+    const c = colourState.colour;
+    const j = colourState.judged;
+    const detail: ColourOutcome = {
+      quantity: req.quantity,
+      illuminant: req.illuminant,
+      observer: req.observer,
+      X: c ? c.X : nan,
+      Y: c ? c.Y : nan,
+      Z: c ? c.Z : nan,
+      x: c ? c.x : nan,
+      y: c ? c.y : nan,
+      L: c ? c.L : nan,
+      a: c ? c.a : nan,
+      b: c ? c.b : nan,
+      limiting: j ? j.limiting : req.limit.type === "delta-e" ? "deltaE" : req.limit.type === "box-xy" ? "x" : "a",
+      swatch: c ? colourSwatch(c, true).hex : "#000000",
+    };
+    if (j?.deltaE !== undefined) detail.deltaE = j.deltaE;
+    const worst: WorstPoint = { wavelength: nan, value: j ? j.value : nan, angleDeg: req.angleDeg, polarization: req.polarization };
+    if (!c || !j) {
+      return {
+        id: cp.id,
+        pass: false,
+        worst,
+        margin: nan,
+        average: nan,
+        reason: `the spectrum is not finite at ${colourState.nonFiniteAt} nm (${req.angleDeg}°, ${req.polarization})`,
+        colour: detail,
+      };
+    }
+    const out: BandOutcome = { id: cp.id, pass: j.margin >= 0, worst, margin: j.margin, average: c.Y, colour: detail };
+    const reason = colourFailureReason(req.limit, c, j);
+    if (reason) out.reason = reason;
+    return out;
+  };
+
   return {
     layerCount,
     nominalThicknesses,
     bands,
+    colour: colourPlans,
+    ids,
     groups,
     residualCount,
     warnings,
     compute,
     evaluate(thicknesses, indexScale) {
       compute(thicknesses, indexScale);
-      return bands.map((plan) => {
+      const outcomes: BandOutcome[] = bands.map((plan) => {
         scanBand(plan);
         const worst = worstPoint(plan);
         if (scan.nonFinite >= 0) {
@@ -539,6 +768,8 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
         const margin = marginOf(plan);
         return { id: plan.id, pass: margin >= 0, worst, margin, average: scan.mean };
       });
+      for (const cp of colourPlans) outcomes.push(colourOutcome(cp));
+      return outcomes;
     },
     margins(thicknesses, out, indexScale) {
       computeWith(thicknesses, indexScale, true, true);
@@ -547,6 +778,11 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
         scanBand(bands[b] as BandPlan);
         const m = marginOf(bands[b] as BandPlan);
         out[b] = m;
+        if (!(m >= 0)) pass = false;
+      }
+      for (let c = 0; c < colourPlans.length; c++) {
+        const m = colourMargin(colourPlans[c] as ColourPlan);
+        out[bands.length + c] = m;
         if (!(m >= 0)) pass = false;
       }
       return pass;
@@ -580,8 +816,14 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
           out[r++] = v > 0 ? v * w : Number.isFinite(v) ? 0 : NON_FINITE_PENALTY * w;
         }
       }
+      // colour: how far the colour lies past its limit (moved inward by marginGoal), x/y boxes in hundredths
+      for (const cp of colourPlans) {
+        const v = marginGoal - colourMargin(cp) * cp.residualScale;
+        out[r++] = v > 0 ? v : Number.isFinite(v) ? 0 : NON_FINITE_PENALTY;
+      }
     },
     violations(b) {
+      if (b >= bands.length && b < bands.length + colourPlans.length) return []; // a colour has no sample points
       const plan = bands[b];
       if (!plan) throw new RangeError(`band index ${b} out of range`);
       const group = groups[plan.group] as GroupPlan;
@@ -607,7 +849,7 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
     },
     bandValues(b, out) {
       const plan = bands[b];
-      if (!plan) throw new RangeError(`band index ${b} out of range`);
+      if (!plan) throw new RangeError(`band index ${b} out of range (colour requirements have no band values)`);
       const group = groups[plan.group] as GroupPlan;
       const idx = plan.indices;
       for (let k = 0; k < idx.length; k++) {

@@ -313,26 +313,27 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
     {
       method: "get",
       path: "/programs/:id/calibration",
-      summary: "Error model estimated from the program's fitted parts, with intervals, as a proposed new error model; yield history",
+      summary: "Error model (and the program's process model) estimated from the program's fitted parts, with intervals, as proposed new error models; yield history",
       tag: TAG,
       access: "member",
       params: IdParams,
       response: CalibrationResponse,
       errors: { 404: "No such program" },
     },
-    ({ req, params }) => {
+    async ({ req, params }) => {
       const auth = getAuth(req);
       const program = loadProgram(ctx.db, auth.workspaceId, params.id);
+      const current = parseErrorModel(program.errorModel);
       const lots = ctx.db.select().from(measuredLots).where(eq(measuredLots.programId, program.id)).orderBy(asc(measuredLots.runDate)).all();
       const history = lots.map((l) => {
         const v = lotView(l, false);
         return { lotId: l.id, runId: l.runId, runDate: l.runDate, revisionId: l.revisionId, summary: v.summary };
       });
       return {
-        current: parseErrorModel(program.errorModel),
-        calibration: programCalibration(ctx.db, program.id),
+        current,
+        calibration: await programCalibration(ctx.db, program.id, current),
         history,
-        adoptWith: `PATCH /api/v1/programs/${program.id} with { "errorModel": calibration.proposed } (approver or admin); yield evidence must then be re-run`,
+        adoptWith: `PATCH /api/v1/programs/${program.id} with { "errorModel": calibration.proposed } (independent errors) or { "errorModel": calibration.process.proposed } (the program's process model, calibrated) (approver or admin); yield evidence must then be re-run`,
       };
     },
   );

@@ -13,7 +13,7 @@ import { route } from "../../lib/route.ts";
 import { newId } from "../../domain/canonical.ts";
 import { loadRevision } from "../../domain/load.ts";
 import { isBuiltIn } from "../../domain/materials.ts";
-import { parseIndexTable, parseSpectrumCsv } from "../../uploads/csv.ts";
+import { parseIndexTable, parseSingleSpectrum } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
 import {
   IdParams,
@@ -179,15 +179,23 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
     {
       method: "post",
       path: "/revisions/:id/measurements",
-      summary: "Attach a measured spectrum (CSV wavelength_nm and R or T in percent)",
+      summary:
+        "Attach a measured spectrum: a wavelength column and one R or T column (, ; or tab separated, decimal comma, percent or fraction)",
       tag: TAG,
       access: ["designer"],
       params: IdParams,
       multipart: true,
       before: [singleFile],
       body: z.object({
-        file: fileField("CSV wavelength_nm and R or T in percent (at most 1 MB)"),
+        file: fileField("Spectrophotometer CSV: a wavelength column and one R or T column (at most 1 MB)"),
         label: z.string().trim().max(200).optional(),
+        scale: z.enum(["percent", "fraction"]).optional().meta({
+          description:
+            "How the values are written (POST /lots/preview detects it for the user to confirm); required when every value lies within 0–1",
+        }),
+        quantity: z.enum(["R", "T"]).optional().meta({
+          description: "R or T; required when the column header does not say (R, T, %T, Reflectance, …)",
+        }),
         angleDeg: z.coerce.number().min(0).lt(90).default(0),
         polarization: z.enum(["s", "p", "u"]).default("u"),
       }),
@@ -195,6 +203,7 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
       response: MeasurementOutSchema,
       errors: {
         404: "No such revision",
+        400: "Scale or quantity needed for this file (the message names it)",
         413: "File over 1 MB",
         415: "Binary (non-text) file",
         422: "Bad CSV (details: row, column, message)",
@@ -204,7 +213,7 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
       const file = uploadedText(req);
-      const spectrum = parseSpectrumCsv(file.text);
+      const spectrum = parseSingleSpectrum(file.text, { scale: body.scale, quantity: body.quantity });
       const id = newId();
       ctx.db.transaction((tx) => {
         tx.insert(measurements)

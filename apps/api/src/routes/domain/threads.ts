@@ -82,7 +82,10 @@ export function threadRoutes(ctx: AppContext, router: Router): void {
       const anchor = body.anchor;
       if (
         anchor.kind === "band" &&
-        !maskOf(rc.revision, rc.program).bands.some((b) => b.id === anchor.bandId)
+        // a band or a colour requirement (they share ids)
+        ![...maskOf(rc.revision, rc.program).bands, ...(maskOf(rc.revision, rc.program).colour ?? [])].some(
+          (b) => b.id === anchor.bandId,
+        )
       ) {
         throw new HttpError(
           422,

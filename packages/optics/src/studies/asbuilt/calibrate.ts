@@ -17,14 +17,20 @@
  */
 import type { ErrorModel } from "../error-model.ts";
 import { Z_95 } from "../wilson.ts";
+import type { ProcessCalibration } from "./calibrate-process.ts";
 
 /** One fitted part, reduced to what calibration needs. */
 export interface CalibrationPart {
   runId: string;
   /** ISO date of the run (for the time series), optional */
   date?: string;
-  /** determinable layers only; errors and standard errors in percent */
-  layers: { material: string; errorPct: number; sePct: number }[];
+  /** which design the part was built to (e.g. a revision id); the process calibration compares layers of one design */
+  designKey?: string;
+  /**
+   * determinable layers only; errors and standard errors in percent; `index` is the layer's deposition index in its
+   * design and `nominalNm` its nominal thickness (both needed by the process calibration, not by the error model's)
+   */
+  layers: { material: string; errorPct: number; sePct: number; index?: number; nominalNm?: number }[];
   /** fitted index scale per material, percent (scale − 1), with its standard error */
   index?: Record<string, { valuePct: number; sePct: number }>;
 }
@@ -49,6 +55,8 @@ export interface Calibration {
   /** the calibrated model, in the error-model format the Monte Carlo reads */
   proposed: ErrorModel;
   notes: string[];
+  /** the program's process model calibrated (calibrateProcessModel), when the program's error model has one */
+  process?: ProcessCalibration | null;
 }
 
 /** Chi-square quantile by Wilson–Hilferty: ν (1 − 2/(9ν) + z √(2/(9ν)))³. */

@@ -9,7 +9,8 @@
  * The film is computed by the engine (characteristic matrix, incoherent substrate back surface when the
  * substrate's `backside` is set) with its n, k written as a table material at the measured wavelengths.
  * Global stage: a grid over A and the thickness (fringe order) before the local fit — the classic failure
- * of a local fit of a thick film is a wrong fringe order. Cross-check: Swanepoel's envelope method
+ * of a local fit of a thick film is a wrong fringe order — over the whole range and, for strongly dispersive
+ * films, over the long-wavelength half first (range continuation). Cross-check: Swanepoel's envelope method
  * (J. Phys. E 16:1214, 1983) gives the same n at the transmission extrema  of a weakly absorbing film,
  * n = √(M + √(M² − s²)), M = 2s/T_m − (s² + 1)/2 (tested).
  */
@@ -123,13 +124,6 @@ export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFi
   });
   // validate once (substrate id, material) with the full parser; the fit loop builds the same shape directly
   parseDesign(designFor({ A: 2, B: 0, C: 0, k0: 0, E0, Eu: 1 }, 100));
-  const n = measurements.reduce((s, m) => s + m.wavelengths.length, 0);
-  const out = measurements.map((m) => ({
-    R: new Float64Array(m.wavelengths.length),
-    T: new Float64Array(m.wavelengths.length),
-    A: new Float64Array(m.wavelengths.length),
-  }));
-  const thick = new Float64Array(1);
   // parameters: d, A, B, [C], [ln k0, Eu]
   const names = ["d", "A", "B", ...(fitC ? ["C"] : []), ...(absorbing ? ["lnk0", "Eu"] : [])];
   const P = names.length;
@@ -140,68 +134,111 @@ export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFi
     const Eu = absorbing ? (x[i++] as number) : 1;
     return { d: x[0] as number, p: { A: x[1] as number, B: x[2] as number, C, k0, E0, Eu } };
   };
-  const model = (x: ArrayLike<number>, res: Float64Array): void => {
-    const { p, d } = unpack(x);
-    const design = designFor(p, d);
-    thick[0] = d;
-    let off = 0;
-    measurements.forEach((m, k) => {
-      const ev = createStackEvaluator(design, { wavelengths: m.wavelengths, angleDeg: m.angleDeg, polarization: m.polarization });
-      const o = out[k]!;
-      ev.evaluate(thick, o);
-      const q = m.quantity === "R" ? o.R : o.T;
-      const u = m.uncertaintyPct ?? DEFAULT_UNCERTAINTY_PCT;
-      for (let i = 0; i < q.length; i++) res[off + i] = ((q[i] as number) * 100 - (m.values[i] as number)) / u;
-      off += q.length;
-    });
+  const thick = new Float64Array(1);
+  /** Weighted residuals of a set of spectra: model(x) fills res, cost(x) is Σ res². */
+  const residualsOf = (ms: MeasuredSpectrum[]) => {
+    const count = ms.reduce((s, m) => s + m.wavelengths.length, 0);
+    const outs = ms.map((m) => ({
+      R: new Float64Array(m.wavelengths.length),
+      T: new Float64Array(m.wavelengths.length),
+      A: new Float64Array(m.wavelengths.length),
+    }));
+    const model = (x: ArrayLike<number>, res: Float64Array): void => {
+      const { p, d } = unpack(x);
+      const design = designFor(p, d);
+      thick[0] = d;
+      let off = 0;
+      ms.forEach((m, k) => {
+        const ev = createStackEvaluator(design, { wavelengths: m.wavelengths, angleDeg: m.angleDeg, polarization: m.polarization });
+        const o = outs[k]!;
+        ev.evaluate(thick, o);
+        const q = m.quantity === "R" ? o.R : o.T;
+        const u = m.uncertaintyPct ?? DEFAULT_UNCERTAINTY_PCT;
+        for (let i = 0; i < q.length; i++) res[off + i] = ((q[i] as number) * 100 - (m.values[i] as number)) / u;
+        off += q.length;
+      });
+    };
+    /** Grid over A and d at B = 0, no absorption (costs of every grid point). */
+    const grid = (): { c: number; x: number[] }[] => {
+      const cand: { c: number; x: number[] }[] = [];
+      const shortest = Math.min(...ms.map((m) => m.wavelengths[0] as number));
+      for (let A = aLo; A <= aHi + 1e-9; A += 0.05) {
+        const design = designFor({ A, B: 0, C: 0, k0: 0, E0, Eu: 1 }, 100);
+        const evs = ms.map((m) =>
+          createStackEvaluator(design, { wavelengths: m.wavelengths, angleDeg: m.angleDeg, polarization: m.polarization }),
+        );
+        // d step: a twentieth of a fringe at the shortest wavelength (Δ(2 n d) = λ/10)
+        const step = shortest / (20 * A);
+        for (let d = dLo; d <= dHi; d += step) {
+          thick[0] = d;
+          let c = 0;
+          ms.forEach((m, k) => {
+            const o = outs[k]!;
+            evs[k]!.evaluate(thick, o);
+            const q = m.quantity === "R" ? o.R : o.T;
+            const u = m.uncertaintyPct ?? DEFAULT_UNCERTAINTY_PCT;
+            for (let i = 0; i < q.length; i++) c += (((q[i] as number) * 100 - (m.values[i] as number)) / u) ** 2;
+          });
+          cand.push({ c, x: [d, A, 0, ...tail()] });
+        }
+      }
+      return cand.sort((a, b) => a.c - b.c);
+    };
+    return { count, model, grid };
   };
+  const lnk0Start = Math.log(1e-3);
+  const EuStart = 0.2;
+  const tail = (): number[] => [...(fitC ? [0] : []), ...(absorbing ? [lnk0Start, EuStart] : [])];
+  const lower = Float64Array.from(names, (nm) => ({ d: dLo * 0.9, A: 1, B: -0.5, C: -0.1, lnk0: -25, Eu: 0.01 })[nm as "d"]);
+  const upper = Float64Array.from(names, (nm) => ({ d: dHi * 1.1, A: 6, B: 2, C: 0.1, lnk0: 2, Eu: 3 })[nm as "d"]);
+  const steps = Float64Array.from(names, (nm) => ({ d: 1e-3, A: 1e-6, B: 1e-6, C: 1e-7, lnk0: 1e-4, Eu: 1e-5 })[nm as "d"]);
+  const localFit = (r: ReturnType<typeof residualsOf>, start: ArrayLike<number>) =>
+    levenbergMarquardt(
+      { parameterCount: P, residualCount: r.count, residuals: (x, res) => r.model(x, res), lower, upper, steps },
+      start,
+      { maxIterations: 200, relativeTolerance: 1e-12 },
+    );
+  /** The few best grid points that are not near one another (another fringe order or index). */
+  const distinct = (cand: { c: number; x: number[] }[], max: number): number[][] => {
+    const seen: number[][] = [];
+    for (const c of cand) {
+      if (seen.length >= max) break;
+      if (seen.some((s) => Math.abs((s[0] as number) - (c.x[0] as number)) < 20 && Math.abs((s[1] as number) - (c.x[1] as number)) < 0.2)) continue;
+      seen.push(c.x);
+    }
+    return seen;
+  };
+  const full = residualsOf(measurements);
+  const n = full.count;
+  const model = full.model;
   const cost = (x: ArrayLike<number>, res: Float64Array): number => {
     model(x, res);
     let s = 0;
     for (let i = 0; i < res.length; i++) s += (res[i] as number) ** 2;
     return s;
   };
-  // global stage: grid over A and d at B = 0, no absorption; the local fit starts from the best few
   const res = new Float64Array(n);
-  const cand: { c: number; x: number[] }[] = [];
-  const lnk0Start = Math.log(1e-3);
-  const EuStart = 0.2;
-  const tail = (): number[] => [...(fitC ? [0] : []), ...(absorbing ? [lnk0Start, EuStart] : [])];
-  for (let A = aLo; A <= aHi + 1e-9; A += 0.05) {
-    const design = designFor({ A, B: 0, C: 0, k0: 0, E0, Eu: 1 }, 100);
-    const evs = measurements.map((m) =>
-      createStackEvaluator(design, { wavelengths: m.wavelengths, angleDeg: m.angleDeg, polarization: m.polarization }),
-    );
-    // d step: a twentieth of a fringe at the shortest wavelength (Δ(2 n d) = λ/10)
-    const step = (all[0] as number) / (20 * A);
-    for (let d = dLo; d <= dHi; d += step) {
-      thick[0] = d;
-      let c = 0;
-      measurements.forEach((m, k) => {
-        const o = out[k]!;
-        evs[k]!.evaluate(thick, o);
-        const q = m.quantity === "R" ? o.R : o.T;
-        const u = m.uncertaintyPct ?? DEFAULT_UNCERTAINTY_PCT;
-        for (let i = 0; i < q.length; i++) c += (((q[i] as number) * 100 - (m.values[i] as number)) / u) ** 2;
-      });
-      cand.push({ c, x: [d, A, 0, ...tail()] });
-    }
+  // Global stage 1: grid over A and d at B = 0 on the whole range; the local fit starts from the best few.
+  const starts: number[][] = distinct(full.grid(), 4);
+  // Global stage 2 (range continuation): a strongly dispersive film (n falling by 0.5 over the range, as in
+  // Swanepoel's example) matches no B = 0 grid point over the whole range, so the grid is also run on the
+  // long-wavelength half of the fringes (1/λ above the midpoint in 1/λ), fitted there with B free, and the
+  // result extended to the whole range (common practice, no source).
+  const invMid = (1 / (all[0] as number) + 1 / (all[all.length - 1] as number)) / 2;
+  const longHalf = measurements
+    .map((m) => {
+      const keep: number[] = [];
+      for (let i = 0; i < m.wavelengths.length; i++) if (1 / (m.wavelengths[i] as number) <= invMid) keep.push(i);
+      return { ...m, wavelengths: keep.map((i) => m.wavelengths[i] as number), values: keep.map((i) => m.values[i] as number) };
+    })
+    .filter((m) => m.wavelengths.length >= 8);
+  if (longHalf.length > 0) {
+    const half = residualsOf(longHalf);
+    for (const x0 of distinct(half.grid(), 4)) starts.push(Array.from(localFit(half, x0).x));
   }
-  cand.sort((a, b) => a.c - b.c);
-  const lower = Float64Array.from(names, (nm) => ({ d: dLo * 0.9, A: 1, B: -0.5, C: -0.1, lnk0: -25, Eu: 0.01 })[nm as "d"]);
-  const upper = Float64Array.from(names, (nm) => ({ d: dHi * 1.1, A: 6, B: 2, C: 0.1, lnk0: 2, Eu: 3 })[nm as "d"]);
-  const steps = Float64Array.from(names, (nm) => ({ d: 1e-3, A: 1e-6, B: 1e-6, C: 1e-7, lnk0: 1e-4, Eu: 1e-5 })[nm as "d"]);
   let best: ReturnType<typeof levenbergMarquardt> | null = null;
-  const seen: number[][] = [];
-  for (const c of cand) {
-    if (seen.length >= 4) break;
-    if (seen.some((s) => Math.abs((s[0] as number) - (c.x[0] as number)) < 20 && Math.abs((s[1] as number) - (c.x[1] as number)) < 0.2)) continue;
-    seen.push(c.x);
-    const f = levenbergMarquardt(
-      { parameterCount: P, residualCount: n, residuals: (x, r) => model(x, r), lower, upper, steps },
-      c.x,
-      { maxIterations: 200, relativeTolerance: 1e-12 },
-    );
+  for (const x0 of starts) {
+    const f = localFit(full, x0);
     if (!best || f.cost < best.cost) best = f;
   }
   const x = best!.x;

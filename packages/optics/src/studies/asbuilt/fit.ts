@@ -19,6 +19,7 @@
  * A parameter is "not determinable" when the data shrink its prior σ by less than {@link DETERMINABLE_RATIO}
  * (posterior σ / prior σ above it) or, without a prior, when its standard error exceeds {@link MAX_FREE_SE}
  * (or it is correlated above {@link MAX_CORRELATION} with another and its standard error is not small).
+ * With a process model (error-model field `process`) the priors come from it ({@link processPriors}).
  * In the per-layer model the process model is the prior of every term: tooling and index terms for which
  * it gives no σ are held at 0 there (the free tooling model competes with it through BIC).
  *
@@ -28,6 +29,8 @@
  */
 import { createStackEvaluator, type Design, type StackEvaluator } from "../../core/index.ts";
 import { parseErrorModel, type ErrorModel } from "../error-model.ts";
+import { processErrorStats } from "../process/compare.ts";
+import { ProcessModelSchema, resolveControl, type Control, type ResolvedControl } from "../process/schema.ts";
 import { levenbergMarquardt } from "../least-squares.ts";
 import { withThicknesses } from "../refine.ts";
 import { gram, invertSpd } from "./linalg.ts";
@@ -236,6 +239,42 @@ class Forward {
   }
 }
 
+/**
+ * Priors of the as-built fit from a process model (the error model's `thickness` and `systematicPct` are not used
+ * with a process): per material the run-level σ as the tooling prior (crystal tooling, time rate error) and per
+ * layer the σ of its own error — crystal noise and termination/d; time drift, within-layer and shutter/d (the
+ * drift's correlation between layers is not part of a per-layer prior); optical monitoring the layer's σ from
+ * processErrorStats (2000 trials, fixed seed), which includes what the cuts carry from the layers below.
+ * Fractions of the nominal thickness.
+ */
+export function processPriors(design: Design, errorModel: ErrorModel): { layer: number[]; tooling: Record<string, number> } {
+  const process = ProcessModelSchema.parse(errorModel.process);
+  const controlOf = (m: string): ResolvedControl | null => {
+    if ("method" in process.control) return resolveControl(process.control as Control);
+    const c = (process.control as Record<string, Control>)[m];
+    return c ? resolveControl(c) : null;
+  };
+  const optical = design.layers.some((l) => controlOf(l.material)?.method === "optical")
+    ? processErrorStats(design, errorModel, 2000, "as-built prior")
+    : null;
+  const tooling: Record<string, number> = {};
+  const layer = design.layers.map((l, j) => {
+    const c = controlOf(l.material);
+    const d = l.thickness;
+    if (!c || !(d > 0)) return 0;
+    if (c.method === "crystal") {
+      tooling[l.material] = c.toolingPct / 100;
+      return Math.hypot(c.noisePct / 100, c.terminationNm / d);
+    }
+    if (c.method === "time") {
+      tooling[l.material] = c.rateErrorPct / 100;
+      return Math.hypot(c.rateDriftPct / 100, c.withinLayerPct / 100, c.shutterNm / d);
+    }
+    return (optical?.[j]?.sigmaPct ?? 0) / 100;
+  });
+  return { layer, tooling };
+}
+
 const sigmaOf = (v: ErrorModel["systematicPct"], m: string): number =>
   v === undefined ? 0 : typeof v === "number" ? v / 100 : (v[m] ?? 0) / 100;
 
@@ -297,8 +336,10 @@ export function fitBuiltPart(
       baseParams.push({ name: `shift[${k}]`, kind: "shift", measurement: k, lower: -20, upper: 20, step: 1e-3 });
   }
   const mats = fwd.materials;
+  const fromProcess = errorModel?.process ? processPriors(design, errorModel) : null;
   const layerPrior = (j: number): number => {
     if (!errorModel) return 0;
+    if (fromProcess) return fromProcess.layer[j] ?? 0;
     const d = fwd.nominal[j] as number;
     const rd = (errorModel.thickness.relativePct / 100) * d;
     const s = Math.sqrt(rd * rd + errorModel.thickness.absoluteNm ** 2);
@@ -306,7 +347,7 @@ export function fitBuiltPart(
   };
   const toolingParams = (): Param[] =>
     mats.map((m) => {
-      const s = errorModel ? sigmaOf(errorModel.systematicPct, m) : 0;
+      const s = fromProcess ? (fromProcess.tooling[m] ?? 0) : errorModel ? sigmaOf(errorModel.systematicPct, m) : 0;
       return { name: `tooling ${m}`, kind: "tooling", material: m, ...(s > 0 ? { prior: s } : {}), lower: -0.4, upper: 0.4, step: 1e-6 };
     });
   const indexParams = (): Param[] =>

@@ -3,4 +3,5 @@ export * from "./measurement.ts";
 export * from "./fit.ts";
 export * from "./verdict.ts";
 export * from "./calibrate.ts";
+export * from "./calibrate-process.ts";
 export * from "./film.ts";

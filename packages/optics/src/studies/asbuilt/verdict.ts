@@ -6,8 +6,22 @@
  * a band passes only when its margin exceeds k · u, with u the 1σ measurement uncertainty of the value
  * the margin is taken on (percentage points; for OD propagated as u / (ln 10 · T)) and k the coverage
  * factor (default 2). A part exactly at the limit therefore fails whenever u > 0.
+ *
+ * Colour requirements are judged on a measurement of their quantity, angle and polarization that covers at
+ * least 430–700 nm (colourOfSpectrum; ends held to 380–780 nm). Their guard is the margin lost when the whole
+ * measured spectrum is moved by ±k·u percentage points (a fully correlated photometric error; common
+ * practice, no source), in the limit's own units.
  */
-import { evaluateBandOnArrays, parseSpecMask, PROTECTIVE_CAUTION, type SpecBand, type SpecMask } from "../spec.ts";
+import { colourOfSpectrum, judgeColour } from "../../core/index.ts";
+import {
+  evaluateBandOnArrays,
+  parseSpecMask,
+  PROTECTIVE_CAUTION,
+  type SpecBand,
+  type SpecColour,
+  type SpecMask,
+  type SpecMaskInput,
+} from "../spec.ts";
 import { wilsonInterval, type ProportionInterval } from "../wilson.ts";
 import { DEFAULT_UNCERTAINTY_PCT, validateMeasured, type MeasuredSpectrum } from "./measurement.ts";
 
@@ -20,8 +34,9 @@ export interface MeasuredPart {
   measurements: MeasuredSpectrum[];
 }
 
-/** Verdict of one band of one part. */
+/** Verdict of one band (or colour requirement) of one part. */
 export interface PartBandVerdict {
+  /** the band's id, or the colour requirement's */
   bandId: string;
   /** "not-measured": no spectrum of this quantity, angle and polarization covers the band */
   status: "pass" | "fail" | "not-measured";
@@ -31,6 +46,7 @@ export interface PartBandVerdict {
   guardedMargin: number | null;
   /** k·u in the band's units */
   guard: number | null;
+  /** for a colour requirement: wavelength NaN and the deciding coordinate's value */
   worst: { wavelength: number; value: number } | null;
   /** index of the measurement used */
   measurement: number | null;
@@ -42,6 +58,38 @@ export interface PartVerdict {
   /** "incomplete": some band not measured and no measured band failed */
   status: "pass" | "fail" | "incomplete";
   bands: PartBandVerdict[];
+}
+
+function coversColour(c: SpecColour, m: MeasuredSpectrum): boolean {
+  if (c.quantity !== m.quantity || c.polarization !== m.polarization) return false;
+  if (Math.abs(c.angleDeg - m.angleDeg) > 1e-6) return false;
+  return (m.wavelengths[0] as number) <= 430 && (m.wavelengths[m.wavelengths.length - 1] as number) >= 700;
+}
+
+function colourVerdict(c: SpecColour, part: MeasuredPart, k: number): PartBandVerdict {
+  const idx = part.measurements.findIndex((m) => coversColour(c, m));
+  if (idx < 0)
+    return { bandId: c.id, status: "not-measured", margin: null, guardedMargin: null, guard: null, worst: null, measurement: null };
+  const m = part.measurements[idx]!;
+  const u = m.uncertaintyPct ?? DEFAULT_UNCERTAINTY_PCT;
+  const judge = (shift: number) => {
+    const values = Array.from(m.values, (v) => Math.min(1, Math.max(0, (v + shift) / 100)));
+    return judgeColour(c.limit, colourOfSpectrum(m.wavelengths, values, { illuminant: c.illuminant, observer: c.observer }));
+  };
+  const j = judge(0);
+  const lowest = Math.min(j.margin, judge(k * u).margin, judge(-k * u).margin);
+  const guard = Number.isFinite(lowest) ? j.margin - lowest : Number.NaN;
+  const guarded = j.margin - guard;
+  const pass = guard > 0 ? guarded > 0 : guarded >= 0;
+  return {
+    bandId: c.id,
+    status: pass ? "pass" : "fail",
+    margin: j.margin,
+    guardedMargin: guarded,
+    guard,
+    worst: { wavelength: Number.NaN, value: j.value },
+    measurement: idx,
+  };
 }
 
 function matches(band: SpecBand, m: MeasuredSpectrum): boolean {
@@ -59,7 +107,7 @@ function matches(band: SpecBand, m: MeasuredSpectrum): boolean {
  * interpolation (A cannot be measured directly and is reported "not-measured").
  * @param k guard-band coverage factor (≥ 0; 0 switches the guard band off)
  */
-export function partVerdict(maskInput: SpecMask, part: MeasuredPart, k: number = DEFAULT_GUARD_K): PartVerdict {
+export function partVerdict(maskInput: SpecMaskInput, part: MeasuredPart, k: number = DEFAULT_GUARD_K): PartVerdict {
   const mask = parseSpecMask(maskInput);
   if (!(k >= 0) || !Number.isFinite(k)) throw new RangeError(`guard k: expected a number ≥ 0, got ${k}`);
   if (typeof part?.id !== "string" || part.id === "") throw new RangeError(`part.id: expected a non-empty string, got ${String(part?.id)}`);
@@ -91,6 +139,7 @@ export function partVerdict(maskInput: SpecMask, part: MeasuredPart, k: number =
       measurement: idx,
     };
   });
+  for (const c of mask.colour ?? []) bands.push(colourVerdict(c, part, k));
   const status = bands.some((b) => b.status === "fail")
     ? "fail"
     : bands.some((b) => b.status === "not-measured")

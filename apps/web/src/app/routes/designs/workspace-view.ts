@@ -8,7 +8,11 @@ export const CHART_POINTS = 1000;
 
 export function defaultView(design: Design, mask: SpecMask | null | undefined): ChartView {
   const bands = mask?.bands ?? [];
-  const range = defaultRange(bands, design.referenceWavelength);
+  // colour requirements are judged over 380–780 nm: the chart shows that span too
+  const range = defaultRange(
+    (mask?.colour ?? []).length > 0 ? [...bands, { start: 380, stop: 780 }] : bands,
+    design.referenceWavelength,
+  );
   const first = bands[0];
   const used = new Set(bands.map((b) => b.quantity));
   const quantities: ChartQuantity[] = used.size === 0 ? ["R", "T"] : (["R", "T", "A"] as const).filter((q) => used.has(q));

@@ -1,7 +1,6 @@
 // As-built: measured spectra of built coatings against the revision's curve, their difference, a fit (in a
 // worker, with progress and cancel) that reports what the measurement can tell, and the lots of measured parts.
 import { useMemo, useState, memo } from "react";
-import type { FormEvent } from "react";
 import { modelAtMeasurement } from "@stackproof/optics";
 import type { BuiltFitResult, Design, ErrorModel, SpecMask } from "@stackproof/optics";
 import { scaleLinear } from "@visx/scale";
@@ -11,8 +10,8 @@ import { Group } from "@visx/group";
 import { useFitJob } from "../hooks/use-fit-job.ts";
 import { FitReport } from "./fit-report.tsx";
 import { LotPanel } from "./lot-panel.tsx";
-import { ApiError } from "../../../lib/api-client.ts";
-import { useMeasurements, useUploadMeasurement } from "../api/measurements.ts";
+import { SpectrumUploadForm } from "./spectrum-upload-form.tsx";
+import { useMeasurements } from "../api/measurements.ts";
 import type { MeasuredSpectrum } from "../api/measurements.ts";
 
 export interface MeasuredOverlay {
@@ -37,8 +36,6 @@ export interface AsBuiltPanelProps {
   onOverlay: (overlays: MeasuredOverlay[]) => void;
 }
 
-const field = "mt-0.5 w-full rounded border border-ink-300 bg-white px-2 py-1 text-sm";
-
 function modelValues(design: Design, m: MeasuredSpectrum): number[] | string {
   try {
     return modelAtMeasurement(design, m);
@@ -49,14 +46,9 @@ function modelValues(design: Design, m: MeasuredSpectrum): number[] | string {
 
 export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps) {
   const list = useMeasurements(props.revisionId);
-  const upload = useUploadMeasurement(props.revisionId);
   const [selected, setSelected] = useState<string | null>(null);
   const job = useFitJob();
   const [baseline, setBaseline] = useState({ offset: false, shift: false });
-  const [form, setForm] = useState({ label: "", angleDeg: "0", polarization: "u" as "s" | "p" | "u", file: null as File | null });
-  const [formError, setFormError] = useState<string | null>(null);
-  // Bumped after an upload so the file input forgets the file it held.
-  const [fileKey, setFileKey] = useState(0);
   const m = (list.data ?? []).find((x) => x.id === selected) ?? null;
   const model = useMemo(() => (m ? modelValues(props.design, m) : null), [m, props.design]);
 
@@ -67,24 +59,6 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
     const fv = fitted?.models[fitted.chosen]?.fitted[0];
     if (fv) overlays.push({ id: `fitted-${next.id}`, label: `Fitted ${next.quantity}`, quantity: next.quantity, wavelengths: next.wavelengths, values: fv, kind: "fitted" });
     props.onOverlay(overlays);
-  };
-
-  const submit = (e: FormEvent) => {
-    e.preventDefault();
-    const angle = Number(form.angleDeg);
-    if (!form.file) return setFormError("Choose a CSV file (wavelength_nm,R or wavelength_nm,T in percent).");
-    if (!(angle >= 0 && angle < 90)) return setFormError("The angle must be between 0 and 90°.");
-    setFormError(null);
-    upload.mutate(
-      { file: form.file, label: form.label.trim() || defaultLabel(form.file.name), angleDeg: angle, polarization: form.polarization },
-      {
-        onSuccess: (created) => {
-          setForm({ ...form, label: "", file: null });
-          setFileKey((k) => k + 1);
-          if (created && typeof created === "object" && "id" in created && Array.isArray(created.wavelengths)) show(created);
-        },
-      },
-    );
   };
 
   const runFit = async () => {
@@ -158,67 +132,11 @@ export const AsBuiltPanel = memo(function AsBuiltPanel(props: AsBuiltPanelProps)
         </div>
       ) : null}
       {m && typeof model === "string" ? <p role="alert" className="text-xs text-verdict-fail">The model cannot be evaluated at the measured wavelengths: {model}</p> : null}
-      {props.canUpload ? (
-        <form onSubmit={submit} aria-label="Upload a measured spectrum" className="grid grid-cols-2 gap-2 rounded-md border border-ink-100 p-3 text-xs text-ink-700 md:grid-cols-5">
-          <label className="md:col-span-2">
-            CSV file (wavelength_nm,R or wavelength_nm,T, in %)
-            <input key={fileKey} type="file" accept=".csv,text/csv" className={field} onChange={(e) => setForm({ ...form, file: e.target.files?.[0] ?? null })} />
-          </label>
-          <label>
-            Label
-            <input className={field} value={form.label} placeholder={form.file ? defaultLabel(form.file.name) : "the file name"} onChange={(e) => setForm({ ...form, label: e.target.value })} />
-          </label>
-          <label>
-            Angle (°)
-            <input className={field} value={form.angleDeg} inputMode="decimal" onChange={(e) => setForm({ ...form, angleDeg: e.target.value })} />
-          </label>
-          <label>
-            Polarization
-            <select className={field} value={form.polarization} onChange={(e) => setForm({ ...form, polarization: e.target.value as "s" | "p" | "u" })}>
-              <option value="u">unpolarized</option>
-              <option value="s">s</option>
-              <option value="p">p</option>
-            </select>
-          </label>
-          <div className="col-span-2 flex items-center gap-2 md:col-span-5">
-            <button type="submit" disabled={upload.isPending} className="rounded border border-ink-300 bg-white px-3 py-1 text-sm">
-              {upload.isPending ? "Uploading…" : "Upload measurement"}
-            </button>
-            {formError ? <span role="alert" className="text-verdict-fail">{formError}</span> : null}
-            {upload.error ? <span role="alert" className="text-verdict-fail">{upload.error.message}</span> : null}
-          </div>
-          {csvProblems(upload.error).length > 0 ? (
-            <ul className="col-span-2 list-disc space-y-0.5 pl-5 text-verdict-fail md:col-span-5" aria-label="Problems in the file">
-              {csvProblems(upload.error).map((d, i) => (
-                <li key={i}>
-                  line {d.row}
-                  {d.column && d.column !== "-" ? `, column ${d.column}` : ""}: {d.message}
-                </li>
-              ))}
-            </ul>
-          ) : null}
-          {upload.error ? <p className="col-span-2 text-ink-500 md:col-span-5">Nothing was stored; fix the file and upload it again.</p> : null}
-        </form>
-      ) : null}
+      {props.canUpload ? <SpectrumUploadForm revisionId={props.revisionId} onUploaded={(created) => show(created)} /> : null}
       {props.programId && props.mask ? <LotPanel revisionId={props.revisionId} programId={props.programId} design={props.design} canUpload={props.canUpload} width={props.width} /> : null}
     </section>
   );
 });
-
-/** The label the server would give: the file name without its extension. */
-function defaultLabel(fileName: string): string {
-  return fileName.replace(/\.[^.]+$/, "") || fileName;
-}
-
-/** Row and column of each CSV problem the server reported (422 invalid_csv). */
-function csvProblems(error: Error | null): { row: number; column: string; message: string }[] {
-  if (!(error instanceof ApiError) || !Array.isArray(error.details)) return [];
-  return error.details.flatMap((d: unknown) => {
-    if (!d || typeof d !== "object") return [];
-    const r = d as { row?: unknown; column?: unknown; message?: unknown };
-    return typeof r.row === "number" && typeof r.message === "string" ? [{ row: r.row, column: typeof r.column === "string" ? r.column : "-", message: r.message }] : [];
-  });
-}
 
 function DifferenceChart({ m, model, fitted, width }: { m: MeasuredSpectrum; model: number[]; fitted: number[] | null; width: number }) {
   const mg = { top: 8, right: 22, bottom: 44, left: 44 };

@@ -4,9 +4,74 @@ import { scaleLinear } from "@visx/scale";
 import { Line, LinePath } from "@visx/shape";
 import { AxisBottom, AxisLeft } from "@visx/axis";
 import { Group } from "@visx/group";
+import type { ProcessCalibration, ProcessParameterEstimate } from "@stackproof/optics";
 import { useAdoptErrorModel, useCalibration, type CalibrationView } from "../api/lots.ts";
 
 const pct = (v: number) => `${v.toFixed(2)} %`;
+
+const PARAMETER_NAMES: Record<ProcessParameterEstimate["parameter"], string> = {
+  toolingPct: "tooling σ (per run)",
+  noisePct: "crystal noise σ (per layer)",
+  rateErrorPct: "rate error σ (per run)",
+  rateDriftPct: "rate drift σ",
+  driftCorrelation: "drift correlation ρ (layer to layer)",
+  withinLayerPct: "within-layer σ",
+  opticalScale: "optical noise scale (× the model's spreads)",
+};
+
+/** A process parameter's value in its unit: ρ and the optical scale are plain numbers, the rest percent. */
+const value = (p: ProcessParameterEstimate, v: number) => (p.parameter === "driftCorrelation" || p.parameter === "opticalScale" ? v.toFixed(2) : pct(v));
+
+/** The program's process model calibrated: each identifiable parameter with its interval next to the model's value. */
+function ProcessCalibrationView({ process }: { process: ProcessCalibration }) {
+  const off = process.layers.filter((l) => !l.consistent);
+  return (
+    <div className="space-y-1" data-testid="process-calibration">
+      <p>Process model, calibrated from {process.runs} runs (95 % intervals):</p>
+      {process.parameters.length > 0 ? (
+        <table className="border-collapse text-left" aria-label="Calibrated process parameters">
+          <thead>
+            <tr className="text-ink-500">
+              <th className="pr-3 font-medium">Parameter</th>
+              <th className="pr-3 font-medium">Material</th>
+              <th className="pr-3 font-medium">Estimate (interval)</th>
+              <th className="pr-3 font-medium">Model now</th>
+              <th className="pr-3 font-medium">Interval</th>
+            </tr>
+          </thead>
+          <tbody>
+            {process.parameters.map((p) => (
+              <tr key={`${p.material ?? "all"}-${p.parameter}`} data-consistent={p.consistent}>
+                <td className="pr-3">{PARAMETER_NAMES[p.parameter]}</td>
+                <td className="pr-3">{p.material ?? "all"}</td>
+                <td className="pr-3 font-mono">
+                  {value(p, p.value)} ({value(p, p.low)}–{value(p, p.high)})
+                </td>
+                <td className={`pr-3 font-mono ${p.consistent ? "" : "text-verdict-fail"}`}>
+                  {value(p, p.current)}
+                  {p.consistent ? "" : " — outside"}
+                </td>
+                <td className="pr-3 text-ink-500">
+                  {p.interval}
+                  {p.dof !== undefined ? `, ν = ${p.dof}` : ""}
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      ) : null}
+      {process.layers.length > 0 ? (
+        <p>
+          Optical monitoring: {process.layers.length - off.length} of {process.layers.length} layers’ realised σ agree with the model
+          {off.length > 0 ? `; outside: ${off.map((l) => `layer ${l.layer + 1} (${l.material}) ${pct(l.realisedPct)} (${pct(l.lowPct)}–${pct(l.highPct)}) against ${pct(l.predictedPct)}`).join("; ")}` : ""}.
+        </p>
+      ) : null}
+      {process.notes.map((n) => (
+        <p key={n} role="note">{n}</p>
+      ))}
+    </div>
+  );
+}
 
 export function YieldHistory({ programId, canAdopt, width = 640 }: { programId: string; canAdopt: boolean; width?: number }) {
   const cal = useCalibration(programId);
@@ -37,10 +102,18 @@ export function YieldHistory({ programId, canAdopt, width = 640 }: { programId: 
           {c.calibration.notes.map((n) => (
             <p key={n} role="note">{n}</p>
           ))}
+          {c.calibration.process ? <ProcessCalibrationView process={c.calibration.process} /> : null}
           {canAdopt ? (
-            <button type="button" disabled={adopt.isPending} onClick={() => adopt.mutate(c.calibration!.proposed)} className="rounded border border-ink-300 bg-white px-3 py-1 text-sm">
-              {adopt.isPending ? "Adopting…" : "Adopt as the program's error model"}
-            </button>
+            <div className="flex flex-wrap gap-2">
+              {c.calibration.process?.proposed ? (
+                <button type="button" disabled={adopt.isPending} onClick={() => adopt.mutate(c.calibration!.process!.proposed!)} className="rounded border border-ink-300 bg-white px-3 py-1 text-sm">
+                  {adopt.isPending ? "Adopting…" : "Adopt the calibrated process model"}
+                </button>
+              ) : null}
+              <button type="button" disabled={adopt.isPending} onClick={() => adopt.mutate(c.calibration!.proposed)} className="rounded border border-ink-300 bg-white px-3 py-1 text-sm">
+                {adopt.isPending ? "Adopting…" : c.current.process ? "Adopt independent errors instead (drops the process model)" : "Adopt as the program's error model"}
+              </button>
+            </div>
           ) : (
             <p className="text-ink-500">An approver can adopt this as the program’s error model.</p>
           )}

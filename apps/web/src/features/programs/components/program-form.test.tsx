@@ -170,6 +170,59 @@ describe("ProgramForm", () => {
     ]);
   });
 
+  it("creates an angle range with 's and p each', a cone about a chief ray, and a colour requirement", async () => {
+    const { calls } = stubApi({ "PATCH /api/v1/programs/p1": program });
+    const onSaved = renderForm({ program });
+    const user = userEvent.setup();
+    // band 1: every angle 0–30° in 2° steps, s and p each
+    await user.selectOptions(screen.getByLabelText("Band 1 polarization"), "sp");
+    await user.selectOptions(screen.getByLabelText("Band 1 incidence"), "range");
+    expect(screen.queryByLabelText("Band 1 angle (°)")).not.toBeInTheDocument();
+    await user.type(screen.getByLabelText("Band 1 angles from (°)"), "0");
+    await user.type(screen.getByLabelText("Band 1 angles to (°)"), "95");
+    await user.type(screen.getByLabelText("Band 1 angle step (°)"), "2");
+    // band 2: an f/2 cone about a 5° chief ray, averaged transmittance
+    await user.click(screen.getByRole("button", { name: "Add band" }));
+    await user.type(screen.getByLabelText("Band 2 start (nm)"), "1062");
+    await user.type(screen.getByLabelText("Band 2 stop (nm)"), "1066");
+    await user.selectOptions(screen.getByLabelText("Band 2 quantity"), "T");
+    await user.selectOptions(screen.getByLabelText("Band 2 requirement"), "avgMin");
+    await user.type(screen.getByLabelText("Band 2 value"), "90");
+    await user.selectOptions(screen.getByLabelText("Band 2 incidence"), "cone");
+    await user.clear(screen.getByLabelText("Band 2 chief ray (°)"));
+    await user.type(screen.getByLabelText("Band 2 chief ray (°)"), "5");
+    await user.type(screen.getByLabelText("Band 2 cone f-number"), "2");
+    // a reflected-colour box under illuminant A, 10° observer
+    await user.click(screen.getByRole("button", { name: "Add colour requirement" }));
+    await user.selectOptions(screen.getByLabelText("Colour 1 illuminant"), "A");
+    await user.selectOptions(screen.getByLabelText("Colour 1 observer"), "10");
+    await user.type(screen.getByLabelText("Colour 1 a* from"), "-2");
+    await user.type(screen.getByLabelText("Colour 1 a* to"), "2");
+    await user.type(screen.getByLabelText("Colour 1 b* from"), "3");
+    await user.type(screen.getByLabelText("Colour 1 b* to"), "1");
+
+    await user.click(screen.getByRole("button", { name: "Save program" }));
+    // the form's own checks, at the fields; nothing is sent
+    expect(await screen.findByLabelText("Band 1 angles to (°)")).toHaveAccessibleDescription("Enter an angle from 0 to below 90°.");
+    expect(screen.getByLabelText("Colour 1 b* to")).toHaveAccessibleDescription("The upper end must not be below the lower end.");
+    expect(calls).toHaveLength(0);
+
+    await user.clear(screen.getByLabelText("Band 1 angles to (°)"));
+    await user.type(screen.getByLabelText("Band 1 angles to (°)"), "30");
+    await user.clear(screen.getByLabelText("Colour 1 b* from"));
+    await user.type(screen.getByLabelText("Colour 1 b* from"), "-3");
+    await user.click(screen.getByRole("button", { name: "Save program" }));
+    await vi.waitFor(() => expect(onSaved).toHaveBeenCalled());
+    const body = calls[0]?.body as { specMask: { bands: unknown[]; colour: unknown[] } };
+    expect(body.specMask.bands).toEqual([
+      { id: "nir-ar", label: "NIR AR", start: 880, stop: 940, quantity: "R", polarization: "sp", angleDeg: 0, angleRange: { fromDeg: 0, toDeg: 30, stepDeg: 2 }, requirement: "max", value: 0.5 },
+      { id: "band-2", start: 1062, stop: 1066, quantity: "T", polarization: "u", angleDeg: 5, cone: { fNumber: 2 }, requirement: "avgMin", value: 90 },
+    ]);
+    expect(body.specMask.colour).toEqual([
+      { id: "colour-1", quantity: "R", illuminant: "A", observer: "10", angleDeg: 0, polarization: "u", limit: { type: "box-ab", a: [-2, 2], b: [-3, 1] } },
+    ]);
+  });
+
   it("shows the caution when the program is marked protective", async () => {
     stubApi({});
     renderForm({ program });

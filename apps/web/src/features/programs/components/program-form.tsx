@@ -24,6 +24,7 @@ import {
   type ProgramFormValues,
 } from "./program-form-model.ts";
 import { SpecBandTable } from "./spec-band-table.tsx";
+import { ColourRequirementTable } from "./colour-requirement-table.tsx";
 
 export interface ProgramFormProps {
   /** The program to edit; without it the form creates a new one. */
@@ -69,6 +70,8 @@ export function ProgramForm({ program, onSaved, onCancel }: ProgramFormProps) {
   });
   const protective = useWatch({ control, name: "protective" });
   const application = useWatch({ control, name: "application" });
+  const bandCount = useWatch({ control, name: "bands" }).length;
+  const colourCount = useWatch({ control, name: "colour" }).length;
 
   const onSubmit = handleSubmit((values) => {
     setUnplaced([]);
@@ -234,11 +237,13 @@ export function ProgramForm({ program, onSaved, onCancel }: ProgramFormProps) {
         title="Spec mask"
         description={
           editing
-            ? "A design passes when every band passes. Existing revisions keep the mask they were created with."
-            : "A design passes when every band passes."
+            ? "A design passes when every band and colour requirement passes. Existing revisions keep the mask they were created with."
+            : "A design passes when every band and colour requirement passes."
         }
       >
-        <SpecBandTable control={control} register={register} errors={errors} />
+        <SpecBandTable control={control} register={register} errors={errors} colourCount={colourCount} />
+        <h3 className="mb-2 mt-5 text-sm font-semibold text-ink-800">Colour requirements</h3>
+        <ColourRequirementTable control={control} register={register} errors={errors} bandCount={bandCount} />
       </Card>
 
       {mutation.isError && (

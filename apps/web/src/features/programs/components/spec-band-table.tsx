@@ -5,8 +5,8 @@ import {
   type FieldErrors,
   type UseFormRegister,
 } from "react-hook-form";
-import { Button, SelectField, TextField } from "../../../components/ui/index.ts";
-import { emptyBand, type ProgramFormValues } from "./program-form-model.ts";
+import { Button, Checkbox, SelectField, TextField } from "../../../components/ui/index.ts";
+import { emptyBand, type BandValues, type ProgramFormValues } from "./program-form-model.ts";
 
 const quantityOptions = [
   { value: "R", label: "R (%)" },
@@ -27,6 +27,16 @@ const requirementOptions = [
   { value: "avgMax", label: "band average ≤" },
 ];
 
+const incidenceOptions = [
+  { value: "single", label: "one angle" },
+  { value: "range", label: "angle range" },
+  { value: "cone", label: "cone of light" },
+];
+const coneOptions = [
+  { value: "fNumber", label: "f-number" },
+  { value: "halfAngle", label: "half-angle (°)" },
+];
+
 export interface SpecBandTableProps {
   control: Control<ProgramFormValues>;
   register: UseFormRegister<ProgramFormValues>;
@@ -38,8 +48,97 @@ function BandUnit({ control, index }: { control: Control<ProgramFormValues>; ind
   return <>{q === "OD" ? "OD" : "%"}</>;
 }
 
-/** The spec mask's bands, one editable row each; rows can be added and removed (at least one stays). */
-export function SpecBandTable({ control, register, errors }: SpecBandTableProps) {
+/** The angle conditions of one band: one angle, an angle range (every angle, or its average), or a cone. */
+function BandConditions({
+  control,
+  register,
+  errors,
+  index,
+  defaults,
+}: SpecBandTableProps & { index: number; defaults: Pick<BandValues, "incidence" | "coneBy"> }) {
+  const n = index + 1;
+  const e = errors.bands?.[index];
+  const incidence = useWatch({ control, name: `bands.${index}.incidence` });
+  const coneBy = useWatch({ control, name: `bands.${index}.coneBy` });
+  return (
+    <div className="col-span-full grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-6" data-testid={`band-${n}-conditions`}>
+      <SelectField
+        label="Incidence"
+        aria-label={`Band ${n} incidence`}
+        options={incidenceOptions}
+        defaultValue={defaults.incidence}
+        error={e?.incidence?.message}
+        {...register(`bands.${index}.incidence`)}
+      />
+      {incidence === "range" ? (
+        <>
+          <TextField
+            label="From (°)"
+            aria-label={`Band ${n} angles from (°)`}
+            inputMode="decimal"
+            error={e?.rangeFrom?.message}
+            {...register(`bands.${index}.rangeFrom`)}
+          />
+          <TextField
+            label="To (°)"
+            aria-label={`Band ${n} angles to (°)`}
+            inputMode="decimal"
+            error={e?.rangeTo?.message}
+            {...register(`bands.${index}.rangeTo`)}
+          />
+          <TextField
+            label="Angle step (°)"
+            aria-label={`Band ${n} angle step (°)`}
+            inputMode="decimal"
+            placeholder="1"
+            error={e?.rangeStep?.message}
+            {...register(`bands.${index}.rangeStep`)}
+          />
+          <div className="flex items-end pb-2 lg:col-span-2">
+            <Checkbox
+              label="Average over the range (instead of every angle)"
+              aria-label={`Band ${n} average over the angle range`}
+              {...register(`bands.${index}.angleAverage`)}
+            />
+          </div>
+        </>
+      ) : (
+        <TextField
+          label={incidence === "cone" ? "Chief ray (°)" : "Angle (°)"}
+          aria-label={incidence === "cone" ? `Band ${n} chief ray (°)` : `Band ${n} angle (°)`}
+          inputMode="decimal"
+          error={e?.angleDeg?.message}
+          {...register(`bands.${index}.angleDeg`)}
+        />
+      )}
+      {incidence === "cone" ? (
+        <>
+          <SelectField
+            label="Cone given by"
+            aria-label={`Band ${n} cone given by`}
+            options={coneOptions}
+            defaultValue={defaults.coneBy}
+            {...register(`bands.${index}.coneBy`)}
+          />
+          <TextField
+            label={coneBy === "fNumber" ? "f-number" : "Half-angle (°)"}
+            aria-label={`Band ${n} cone ${coneBy === "fNumber" ? "f-number" : "half-angle (°)"}`}
+            inputMode="decimal"
+            hint={coneBy === "fNumber" ? "half-angle = arcsin(1/(2N))" : undefined}
+            error={e?.cone?.message}
+            {...register(`bands.${index}.cone`)}
+          />
+        </>
+      ) : null}
+    </div>
+  );
+}
+
+/**
+ * The spec mask's bands, one editable row each with its wavelength range, quantity, polarization, angle
+ * conditions and requirement; rows can be added and removed (the mask keeps at least one entry).
+ */
+export function SpecBandTable({ control, register, errors, colourCount = 0 }: SpecBandTableProps & { colourCount?: number }) {
   const { fields, append, remove } = useFieldArray({ control, name: "bands" });
   const bandErrors = errors.bands;
   const listError = bandErrors?.message ?? bandErrors?.root?.message;
@@ -53,7 +152,7 @@ export function SpecBandTable({ control, register, errors }: SpecBandTableProps)
             <li
               key={f.id}
               aria-label={`Band ${n}`}
-              className="grid grid-cols-2 gap-3 rounded-lg border border-ink-100 bg-paper/40 p-3 sm:grid-cols-3 lg:grid-cols-6 2xl:grid-cols-[8rem_minmax(8rem,1fr)_6rem_6rem_7rem_8rem_5rem_10rem_6rem_6rem_auto]"
+              className="grid grid-cols-2 gap-3 rounded-lg border border-ink-100 bg-paper/40 p-3 sm:grid-cols-3 lg:grid-cols-6 2xl:grid-cols-[8rem_minmax(8rem,1fr)_6rem_6rem_5rem_7rem_8rem_10rem_6rem_6rem_auto]"
             >
               <TextField
                 label="Id"
@@ -83,6 +182,14 @@ export function SpecBandTable({ control, register, errors }: SpecBandTableProps)
                 error={e?.stop?.message}
                 {...register(`bands.${i}.stop`)}
               />
+              <TextField
+                label="Step (nm)"
+                aria-label={`Band ${n} step (nm)`}
+                inputMode="decimal"
+                placeholder="1"
+                error={e?.step?.message}
+                {...register(`bands.${i}.step`)}
+              />
               <SelectField
                 label="Quantity"
                 aria-label={`Band ${n} quantity`}
@@ -98,13 +205,6 @@ export function SpecBandTable({ control, register, errors }: SpecBandTableProps)
                 defaultValue={f.polarization}
                 error={e?.polarization?.message}
                 {...register(`bands.${i}.polarization`)}
-              />
-              <TextField
-                label="Angle (°)"
-                aria-label={`Band ${n} angle (°)`}
-                inputMode="decimal"
-                error={e?.angleDeg?.message}
-                {...register(`bands.${i}.angleDeg`)}
               />
               <SelectField
                 label="Requirement"
@@ -138,12 +238,13 @@ export function SpecBandTable({ control, register, errors }: SpecBandTableProps)
                   variant="ghost"
                   size="sm"
                   aria-label={`Remove band ${n}`}
-                  disabled={fields.length <= 1}
+                  disabled={fields.length + colourCount <= 1}
                   onClick={() => remove(i)}
                 >
                   Remove
                 </Button>
               </div>
+              <BandConditions control={control} register={register} errors={errors} index={i} defaults={f} />
             </li>
           );
         })}
@@ -155,7 +256,8 @@ export function SpecBandTable({ control, register, errors }: SpecBandTableProps)
         </Button>
         <p className="text-xs text-ink-500">
           R, T and A limits in percent, OD = −log₁₀ T. The tolerance relaxes the limit (a ≥ limit becomes
-          value − tolerance, a ≤ limit value + tolerance).
+          value − tolerance, a ≤ limit value + tolerance). An angle range must pass at every angle (or on
+          average); a cone is averaged over the light it holds; “s and p each” must pass for both.
         </p>
       </div>
     </div>

@@ -1,5 +1,5 @@
 import type { ReactNode } from "react";
-import { bandConditionsText, describeBandIso, type SpecBand } from "@stackproof/optics";
+import { bandConditionsText, describeBandIso, describeColourIso, type SpecBand } from "@stackproof/optics";
 import { ProtectiveCaution } from "../../../components/protective-caution.tsx";
 import { describeRequirement } from "../../../components/spec-mask-table.tsx";
 import { ErrorModelSummary } from "../../../components/error-model-summary.tsx";
@@ -415,6 +415,44 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
                   </td>
                   <td className={cx(td, "text-right font-mono tabular")}>{o ? o.margin.toFixed(3) : "—"}</td>
                   {y && <td className={cx(td, "text-right font-mono tabular")}>{failures.get(b.id) ?? 0}</td>}
+                </tr>
+              );
+            })}
+            {(r.revision.specMask.colour ?? []).map((c) => {
+              const o = outcomes.get(c.id);
+              return (
+                <tr key={c.id} data-colour-requirement={c.id}>
+                  <td className={td}>{c.label ?? c.id}</td>
+                  <td className={cx(td, "font-mono tabular")}>380–780</td>
+                  <td className={cx(td, "font-mono")}>
+                    {o?.colour ? (
+                      <>
+                        <span
+                          className="mr-1 inline-block h-3 w-5 rounded border border-ink-300 align-middle print:border-black"
+                          style={{ backgroundColor: o.colour.swatch }}
+                          aria-hidden
+                        />
+                        L* {o.colour.L.toFixed(2)}, a* {o.colour.a.toFixed(2)}, b* {o.colour.b.toFixed(2)}
+                      </>
+                    ) : (
+                      "colour"
+                    )}
+                  </td>
+                  <td className={td}>{describeColourIso(c)}</td>
+                  <td
+                    className={cx(
+                      td,
+                      "font-semibold",
+                      o?.pass ? "text-verdict-pass" : "text-verdict-fail",
+                      "print:text-black",
+                    )}
+                  >
+                    {o ? (o.pass ? "pass" : "FAIL") : "—"}
+                  </td>
+                  <td className={cx(td, "text-right font-mono tabular")}>
+                    {o && Number.isFinite(o.margin) ? o.margin.toFixed(4) : "—"}
+                  </td>
+                  {y && <td className={cx(td, "text-right font-mono tabular")}>{failures.get(c.id) ?? 0}</td>}
                 </tr>
               );
             })}

@@ -10,6 +10,7 @@ import type { ChartQuantity } from "../lib/mask-geometry.ts";
 import { QUANTITY_COLORS, QUANTITY_NAMES, spectrumCurves } from "../lib/curves.ts";
 import type { SpectrumSettings } from "../lib/spectrum-engine.ts";
 import { ColourReadout } from "./colour-readout.tsx";
+import { ColourVerdict } from "./colour-verdict.tsx";
 
 export interface ChartView {
   settings: SpectrumSettings;
@@ -214,7 +215,9 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
           <p className="ml-auto text-sm" data-testid="nominal-verdict">
             {verdicts.ok ? (
               <span className={verdicts.pass ? "font-semibold text-verdict-pass" : "font-semibold text-verdict-fail"}>
-                {verdicts.pass ? "Nominal design meets the mask" : `Nominal design misses ${verdicts.bands.filter((b) => !b.pass).length} band(s)`}
+                {verdicts.pass
+                  ? "Nominal design meets the mask"
+                  : `Nominal design misses ${verdicts.bands.filter((b) => !b.pass).length} ${mask?.colour?.length ? "requirement(s)" : "band(s)"}`}
               </span>
             ) : (
               <span className="text-verdict-fail">{verdicts.error}</span>
@@ -330,6 +333,24 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
       {verdicts?.ok && mask ? (
         <ul className="mt-2 grid max-h-24 gap-1 overflow-y-auto text-xs sm:grid-cols-2" aria-label="Spec bands">
           {verdicts.bands.map((b) => {
+            if (b.colour) {
+              const requirement = mask.colour?.find((x) => x.id === b.id);
+              return (
+                <li key={b.id} className="flex items-center gap-2 sm:col-span-2" data-colour-requirement={b.id}>
+                  <ColourVerdict outcome={b} requirement={requirement} />
+                  {props.bandAction ? (
+                    <button
+                      type="button"
+                      className="rounded border border-film-violet/40 px-1.5 text-film-violet hover:bg-film-violet/10"
+                      aria-label={`${props.bandAction.label}: ${requirement?.label ?? b.id}`}
+                      onClick={() => props.bandAction?.onPick(b.id)}
+                    >
+                      {props.bandAction.label}
+                    </button>
+                  ) : null}
+                </li>
+              );
+            }
             const band = mask.bands.find((x) => x.id === b.id);
             return (
               <li key={b.id} className={`flex items-center gap-2 ${selected === b.id ? "rounded bg-ink-100" : ""}`} data-band={b.id}>

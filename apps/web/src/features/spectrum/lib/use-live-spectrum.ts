@@ -49,9 +49,12 @@ export type VerdictState =
   | { ok: true; bands: BandOutcome[]; pass: boolean; violations: Map<string, WorstPoint[]> }
   | { ok: false; error: string };
 
-/** Band outcomes of the design against the mask, each band at its own angle and polarization. */
+/**
+ * Outcomes of the design against the mask, each band at its own angle and polarization, then each colour
+ * requirement (outcomes with `colour`: the colour found, from the same evaluation).
+ */
 export function computeVerdicts(design: Design, mask: SpecMask | null): VerdictState | null {
-  if (!mask || mask.bands.length === 0) return null;
+  if (!mask || mask.bands.length + (mask.colour?.length ?? 0) === 0) return null;
   try {
     const key = JSON.stringify([design.layers.map((l) => l.material), design.incident, design.exit, design.substrate, design.materials ?? null, mask]);
     const ev = remember(verdictEngines, key, () => createSpecEvaluator(design, mask));
