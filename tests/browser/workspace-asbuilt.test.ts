@@ -27,7 +27,7 @@ const kestrelProgram = demoPrograms().find((p) => p.key === "kestrel");
 const kestrel = kestrelProgram?.revisions[1]?.stack;
 if (!kestrel) throw new Error("no Kestrel demo design");
 const layerCount = kestrel.layers.length;
-const ta2o5Layers = kestrel.layers.filter((l) => l.material === "Ta2O5").length;
+const cavityLayers = kestrel.layers.filter((l) => l.material === "Ta2O5" || l.material === "SiO2").length;
 const wl = Array.from({ length: 701 }, (_, i) => 400 + i);
 const T = (scale: number, angleDeg = 0, wavelengths = wl) => {
   const d = { ...kestrel, layers: kestrel.layers.map((l) => ({ ...l, thickness: l.thickness * scale })) };
@@ -124,16 +124,20 @@ describe("as built (designer)", () => {
     await report.waitFor({ timeout: 90_000 });
     await expect(report.innerText()).resolves.toMatch(/Tooling \(thickness scale per material\) — chosen/);
     // A passband scan alone at the default 0.2 pp cannot tell the cavities' Ta2O5 tooling from their SiO2 tooling
-    // (the passband moves with both): the page says so for Ta2O5 and greys each of its layers with the reason,
-    // never a number; the other materials' layers are shown.
-    await expect(report.innerText()).resolves.toMatch(/tooling Ta2O5: cannot be determined/);
+    // (the passband moves with both; correlated 100 %): the page says so for both and greys each of their layers
+    // with the reason, never a number; the blockers' materials are determined, at the +1.5 % put in.
+    const text = await report.innerText();
+    expect(text).toMatch(/tooling Ta2O5: cannot be determined/);
+    expect(text).toMatch(/tooling SiO2: cannot be determined/);
+    expect(text).toMatch(/tooling MgF2: \+1\.50 %/);
+    expect(text).toMatch(/tooling ZrO2: \+1\.50 %/);
     const shown = await report.locator('[data-determinable="true"]').count();
     const notDetermined = report.locator('[data-determinable="false"]');
-    expect(await notDetermined.count()).toBe(ta2o5Layers);
-    expect(shown).toBe(layerCount - ta2o5Layers);
+    expect(await notDetermined.count()).toBe(cavityLayers);
+    expect(shown).toBe(layerCount - cavityLayers);
     const titles = await notDetermined.locator("title").allTextContents();
-    expect(titles).toHaveLength(ta2o5Layers);
-    for (const title of titles) expect(title).toMatch(/\(Ta2O5\): cannot be determined — \S/);
+    expect(titles).toHaveLength(cavityLayers);
+    for (const title of titles) expect(title).toMatch(/\((Ta2O5|SiO2)\): cannot be determined — \S/);
     expect(browser.consoleErrors).toEqual([]);
     await browser.screenshot("asbuilt-3-worker-fit");
   });
