@@ -21,7 +21,8 @@ const server = app.listen(env.PORT, env.HOST, () => {
   if (ctx.demo) {
     console.log(
       `Loaded the demo workspace "${DEMO_WORKSPACE}" (${ctx.demo.programs} programs, ${ctx.demo.revisions} revisions, ` +
-        `${ctx.demo.yieldRuns} verified yield runs, ${ctx.demo.releases} release) in ${ctx.demo.ms} ms.`,
+        `${ctx.demo.yieldRuns} evidence runs${ctx.demo.cachedRuns ? `, ${ctx.demo.cachedRuns} of them from the demo evidence cache` : ""}, ` +
+        `${ctx.demo.releases} release) in ${ctx.demo.ms} ms.`,
     );
   }
   if (env.DEMO_DATA && isDemoWorkspacePresent(ctx.db)) {
