@@ -44,9 +44,15 @@ describe("evidence at the gate (approver)", () => {
     await evidence.getByTestId("evidence-bound").waitFor();
     expect(await evidence.getByTestId("evidence-bound").textContent()).toMatch(/^\d{1,3}\.\d{2} %$/);
     expect(await evidence.getByTestId("evidence-yield").textContent()).toMatch(/^\d{1,3}\.\d %$/);
-    // The demo's bandpass program asks for 1,000 evidence trials at 95 %.
-    expect(await evidence.getByTestId("evidence-trials").textContent()).toMatch(/\/ 1,000$/);
+    // The demo's bandpass program asks for 500 evidence trials at 95 % (apps/api/src/demo/designs.ts).
+    expect(await evidence.getByTestId("evidence-trials").textContent()).toMatch(/\/ 500$/);
     expect(await evidence.textContent()).toContain("Lower bound (95 %)");
+    // ... and states the run's process in plain words: cavities on 905 nm turning points, blockers on the crystal
+    const model = await evidence.getByTestId("evidence-error-model").textContent();
+    expect(model).toContain(
+      "optical monitoring (T), turning points at 905 nm on the part, 0.05 % photometric noise",
+    );
+    expect(model).toContain("quartz-crystal control");
     await page.locator('[data-check="verified_yield"][data-ok="true"]').waitFor();
     await browser.screenshot("evidence-1-gate-bound");
   });

@@ -68,9 +68,16 @@ describe("frame: release through the gate (approver)", () => {
     await page.waitForURL(/\/releases\//);
     await page.getByRole("heading", { level: 1, name: /Kestrel receiver bandpass r2/ }).waitFor();
     const decisions = page.locator(".release-decision");
+    // the revision page's heading also reads "… r2": wait for the record itself before counting
+    await decisions.first().waitFor();
     expect(await decisions.count()).toBeGreaterThanOrEqual(3);
     expect(await decisions.last().innerText()).toMatch(/Released by Sunniva Achterberg/);
     await page.getByText("Meets the mask with margin; yield verified.").waitFor();
+    // The record states the evidence run's process in plain words (optics' describeProcess).
+    expect(await page.getByTestId("error-model-words").textContent()).toContain(
+      "optical monitoring (T), turning points at 905 nm on the part, 0.05 % photometric noise",
+    );
+    await page.getByTestId("error-model-words").scrollIntoViewIfNeeded();
     await browser.screenshot("frame-23-release-record-kestrel");
 
     // The home queue has moved on: nothing waits to be released any more.

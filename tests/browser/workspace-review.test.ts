@@ -70,14 +70,15 @@ describe("review threads (reviewer)", () => {
 
   it("starts a thread from a spec band beside the chart", async () => {
     const { page } = browser;
-    await page.getByRole("button", { name: "Thread: Excitation reflection" }).click();
+    // the band as the demo's Aster mask labels it (apps/api/src/demo/designs.ts)
+    await page.getByRole("button", { name: "Thread: Excitation 440–485 nm: R avg ≥ 95 % at 45°" }).click();
     const form = page.getByRole("form", { name: "Start a review thread" });
     await expect.poll(() => form.getByLabel("Pinned to").inputValue()).toBe("band");
     await expect.poll(() => form.getByLabel(/^Band/).inputValue()).toBe("reflect");
     await form.getByLabel("Severity").selectOption("advisory");
     await form.getByRole("combobox", { name: /Comment/ }).fill("Average passes, but the 485 nm end sits close to the edge at 45°.");
     await form.getByRole("button", { name: "Start thread" }).click();
-    const card = page.locator("[data-thread]").filter({ hasText: "Band Excitation reflection" });
+    const card = page.locator("[data-thread]").filter({ hasText: "Band Excitation 440–485 nm: R avg ≥ 95 % at 45°" });
     await card.waitFor();
     expect(await card.locator("[data-anchor-passes]").getAttribute("data-anchor-passes")).toBe("true");
   });

@@ -25,7 +25,8 @@ const server = app.listen(env.PORT, env.HOST, () => {
   if (demo) {
     console.log(
       `Loaded the demo workspace "${DEMO_WORKSPACE}" (${demo.programs} programs, ${demo.revisions} revisions, ` +
-        `${demo.yieldRuns} verified yield runs, ${demo.releases} release) in ${demo.ms} ms.`,
+        `${demo.yieldRuns} evidence runs${demo.cachedRuns ? `, ${demo.cachedRuns} of them from the demo evidence cache` : ""}, ` +
+        `${demo.releases} release) in ${demo.ms} ms.`,
     );
   }
   if (env.DEMO_DATA && isDemoWorkspacePresent(ctx.db)) {

@@ -347,6 +347,8 @@ export const GateSchema = z.object({
     seed: z.string(),
     seedRule: z.string(),
     errorModelVersion: z.string(),
+    /** The evidence run's error model (the program's) in plain words (optics' describeProcess). */
+    errorModelText: z.string(),
     run: z
       .object({ id: z.string(), status: z.string(), trials: z.number(), engineVersion: z.string() })
       .nullable(),
@@ -511,6 +513,8 @@ export const PlotSeriesSchema = z.object({
   quantity: z.string(),
   polarization: z.string(),
   angleDeg: z.number(),
+  /** The conditions in words, e.g. "f/2 cone (14.48° half-angle) about 0°, unpolarized"; absent on releases filed before. */
+  conditions: z.string().optional(),
   wavelengths: z.array(z.number()),
   nominal: nullableNumbers,
   low: nullableNumbers.nullable(),

@@ -2,13 +2,7 @@
 // Evidence runs are computed here synchronously with the same optics functions the workers use, with the seed the
 // server assigns (evidencePlan) and the program's minimum evidence trials, so the demo's gate reads like a real one.
 import { eq } from "drizzle-orm";
-import {
-  ENGINE_VERSION,
-  mergeYieldChunks,
-  planChunks,
-  runYieldChunk,
-  type YieldStudy,
-} from "@stackproof/optics";
+import { ENGINE_VERSION, type YieldResult, type YieldStudy } from "@stackproof/optics";
 import { hashPassword } from "../auth/password.ts";
 import type { Db } from "../db/client.ts";
 import type { Env } from "../env.ts";
@@ -36,7 +30,8 @@ import type { RevisionContext } from "../domain/load.ts";
 import { finishedRunValues } from "../yield/index.ts";
 import { releaseSnapshot } from "../domain/workflow.ts";
 import { evidenceSeed } from "../domain/evidence.ts";
-import { demoPrograms, type DemoProgram } from "./designs.ts";
+import { demoPrograms, type DemoProgram, type DemoSpeaker } from "./designs.ts";
+import { computeDemoEvidence, defaultEvidenceCacheDir } from "./evidence-cache.ts";
 
 /** Demo only: every demo account uses this password. */
 // Strong enough for the password rules (zxcvbn score ≥ 3), yet published: demo only, never in production unless asked.
@@ -87,10 +82,21 @@ export interface DemoSummary {
   revisions: number;
   yieldRuns: number;
   releases: number;
+  /** Evidence runs taken from the evidence cache (see evidence-cache.ts) rather than computed. */
+  cachedRuns: number;
   ms: number;
 }
 
-export async function seedDemo(db: Db): Promise<DemoSummary> {
+/**
+ * Load the demo workspace into a new database.
+ * @param options.evidenceCacheDir where computed demo evidence runs are kept between seedings (null: no cache)
+ */
+export async function seedDemo(
+  db: Db,
+  options: { evidenceCacheDir?: string | null } = {},
+): Promise<DemoSummary> {
+  const cacheDir =
+    options.evidenceCacheDir === undefined ? defaultEvidenceCacheDir() : options.evidenceCacheDir;
   const t0 = performance.now();
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const now = Date.now();
@@ -127,11 +133,12 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
       seed: evidenceSeed(revisionHash(rev.stack, d.mask), d.errorModel),
     };
   };
-  const compute = (s: YieldStudy) =>
-    mergeYieldChunks(
-      s,
-      planChunks(s.trials, 100).map(([start, count]) => runYieldChunk(s, start, count)),
-    );
+  let cachedRuns = 0;
+  const compute = (s: YieldStudy): YieldResult => {
+    const e = computeDemoEvidence(s, cacheDir);
+    if (e.cached) cachedRuns++;
+    return e.result;
+  };
   const studies = {
     kestrel: study(spec("kestrel"), 1),
     aster: study(spec("aster"), 1),
@@ -314,6 +321,32 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
       return id;
     };
 
+    // The review threads of a revision come from its data in designs.ts (the demo-specs test reads the same data):
+    // opened at `when`, one after the other; those marked resolved are resolved at `resolvedAt`.
+    const speakers: Record<DemoSpeaker, { id: string; name: string }> = { designer, reviewer, approver };
+    const threadsOf = (key: string, n: number, when: Date, resolvedAt?: Date) => {
+      const list = spec(key).revisions[n - 1]?.threads ?? [];
+      list.forEach((t, i) => {
+        const first = t.comments[0];
+        if (!first) throw new Error(`demo thread ${key} ${n}/${i} has no comment`);
+        if (t.resolvedBy && !resolvedAt)
+          throw new Error(`demo thread ${key} ${n}/${i} needs a resolution time`);
+        thread(
+          rev(key, n),
+          t.anchor,
+          t.severity,
+          speakers[first.by],
+          new Date(when.getTime() + i * 3 * 3600 * 1000),
+          t.comments.map((c) => ({
+            by: speakers[c.by],
+            body: c.body,
+            mentions: (c.mentions ?? []).map((m) => speakers[m].id),
+          })),
+          t.resolvedBy && resolvedAt ? { by: speakers[t.resolvedBy], when: resolvedAt } : undefined,
+        );
+      });
+    };
+
     const storeRun = (
       rc: RevisionContext,
       s: YieldStudy,
@@ -352,38 +385,19 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
       return id;
     };
 
-    // Kestrel: rev 1 sent back (blocking thread on the short-side blocking, resolved by rev 2); rev 2 in review,
-    // verified yield above target, one advisory thread: the approver can approve it.
+    // Kestrel: rev 1 (cavities only) sent back with a blocking thread on the open blocking bands, resolved by
+    // rev 2; rev 2 (blockers added) in review, evidence run under 905 nm turning-point monitoring above target,
+    // one advisory thread: the approver can approve it.
     const k1 = rev("kestrel", 1);
     decide(k1, "submit", "in_review", designer, at(19), "Ready for a first look.");
-    thread(
-      k1,
-      { kind: "band", bandId: "block-short" },
-      "blocking",
-      reviewer,
-      at(18),
-      [
-        {
-          by: reviewer,
-          body: "Short-side blocking fails nominally (T ≈ 1.9 % at 850 nm). Four mirror pairs are not enough.",
-        },
-        { by: designer, body: "Agreed, adding a pair on each side in rev 2." },
-      ],
-      { by: reviewer, when: at(13) },
-    );
+    threadsOf("kestrel", 1, at(18), at(13));
     decide(k1, "request_changes", "changes_requested", reviewer, at(18, 4), "Blocking bands fail nominally.");
     const k2 = rev("kestrel", 2);
     storeRun(k2, studies.kestrel, results.kestrel, designer, at(14));
-    decide(k2, "submit", "in_review", designer, at(14, 2), "Five pairs; evidence run attached.");
-    thread(k2, { kind: "range", start: 903, stop: 907 }, "advisory", reviewer, at(13), [
-      {
-        by: reviewer,
-        body: `Most failures are peak shift out of 904–906 nm. Fine for the target, but @${approver.name} may want the cavity flagged as critical in the run sheet.`,
-        mentions: [approver.id],
-      },
-    ]);
+    decide(k2, "submit", "in_review", designer, at(14, 2), "Blockers added; evidence run attached.");
+    threadsOf("kestrel", 2, at(13));
 
-    // Aster: rev 2 in review with a verified yield below target and an advisory thread on the emission band.
+    // Aster: rev 2 in review with an evidence run below target (crystal control) and an advisory thread on the edge.
     const a2 = rev("aster", 2);
     storeRun(a2, studies.aster, results.aster, designer, at(10));
     decide(
@@ -392,17 +406,13 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
       "in_review",
       designer,
       at(10, 2),
-      "Ten periods; ripple in the emission band is still high.",
+      "Twelve periods; the 505 nm edge window is tight on the crystal.",
     );
-    thread(a2, { kind: "band", bandId: "transmit" }, "advisory", reviewer, at(7), [
-      {
-        by: reviewer,
-        body: "Emission average sits just under 75 % at 45°. Matching layers against the substrate and the air side would flatten the ripple.",
-      },
-    ]);
+    threadsOf("aster", 2, at(7));
 
     // Wren: the single-layer baseline was withdrawn; rev 2 is released with its decisions and release record.
     const w0 = rev("wren", 1);
+    threadsOf("wren", 1, at(8, -3), at(8));
     decide(
       w0,
       "withdraw",
@@ -414,20 +424,7 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
     const w1 = rev("wren", 2);
     const wrenRun = storeRun(w1, studies.wren, results.wren, designer, at(7, 1));
     decide(w1, "submit", "in_review", designer, at(7, 2), "Standard QHQ recipe for the window.");
-    thread(
-      w1,
-      { kind: "layer", index: 1 },
-      "advisory",
-      reviewer,
-      at(7, 6),
-      [
-        {
-          by: reviewer,
-          body: "The half-wave ZrO2 layer dominates the critical-layer ranking; keep its monitoring chip fresh.",
-        },
-      ],
-      { by: designer, when: at(6, 2) },
-    );
+    threadsOf("wren", 2, at(7, 6), at(6, 2));
     decide(w1, "approve", "approved", approver, at(6), "Yield well above target.", wrenRun);
     decide(w1, "release", "released", approver, at(5), "Released for the spring lot.", wrenRun);
     const releaseId = newId();
@@ -456,13 +453,7 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
     // Merlin (protective): rev 1 sent back with a blocking thread still open; rev 2 is a draft it carries forward to.
     const m1 = rev("merlin", 1);
     decide(m1, "submit", "in_review", designer, at(7), "First notch candidate.");
-    thread(m1, { kind: "band", bandId: "od" }, "blocking", reviewer, at(6), [
-      {
-        by: reviewer,
-        body: `OD margin at 528 and 536 nm is under 0.5. For an eye-protection window I want at least 1 OD of margin before we go further. @${designer.name.split(" ")[0]}`,
-        mentions: [designer.id],
-      },
-    ]);
+    threadsOf("merlin", 1, at(6));
     decide(
       m1,
       "request_changes",
@@ -478,6 +469,7 @@ export async function seedDemo(db: Db): Promise<DemoSummary> {
     revisions: revisionCount,
     yieldRuns: runCount,
     releases: releaseCount,
+    cachedRuns,
     ms: Math.round(performance.now() - t0),
   };
 }

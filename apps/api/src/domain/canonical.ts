@@ -19,9 +19,20 @@ export function canonicalJson(value: unknown): string {
   return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(",")}}`;
 }
 
-/** sha-256 hex of canonicalJson({stack, specMask}). */
+/** A mask's empty colour list says the same as no list: drop it so both hash alike. */
+function withoutEmptyColour(specMask: unknown): unknown {
+  if (specMask === null || typeof specMask !== "object" || Array.isArray(specMask)) return specMask;
+  const m = specMask as Record<string, unknown>;
+  if (!Array.isArray(m.colour) || m.colour.length > 0) return specMask;
+  const { colour: _empty, ...rest } = m;
+  return rest;
+}
+
+/** sha-256 hex of canonicalJson({stack, specMask}); an empty colour list hashes as none. */
 export function revisionHash(stack: unknown, specMask: unknown): string {
-  return createHash("sha256").update(canonicalJson({ stack, specMask })).digest("hex");
+  return createHash("sha256")
+    .update(canonicalJson({ stack, specMask: withoutEmptyColour(specMask) }))
+    .digest("hex");
 }
 
 /** Opaque random id (20 lowercase base-32 characters, 100 bits). */

@@ -4,7 +4,9 @@ import PDFDocument from "pdfkit";
 import {
   ACTION_LABEL,
   REQUIREMENT_LABEL,
+  plotCaption,
   plotRange,
+  plotSegments,
   readReleaseRecord,
   unitOf,
   type RecordPlot,
@@ -109,11 +111,13 @@ function plot(doc: Doc, p: RecordPlot) {
   const { x0, x1, y0, y1 } = plotRange(p);
   const X = (x: number) => LEFT + m.l + ((x - x0) / (x1 - x0)) * (WIDTH - m.l - m.r);
   const Y = (y: number) => top + H - m.b - ((y - y0) / (y1 - y0)) * (H - m.t - m.b);
+  const segments = plotSegments(p.wavelengths);
   if (p.low && p.high) {
     const lo = p.low;
     const hi = p.high;
-    const idx = p.wavelengths.map((_, i) => i).filter((i) => lo[i] !== null && hi[i] !== null);
-    if (idx.length > 1) {
+    for (const run of segments) {
+      const idx = run.filter((i) => lo[i] !== null && hi[i] !== null);
+      if (idx.length < 2) continue;
       const pts: [number, number][] = [
         ...idx.map((i): [number, number] => [X(p.wavelengths[i] as number), Y(hi[i] as number)]),
         ...idx
@@ -144,17 +148,20 @@ function plot(doc: Doc, p: RecordPlot) {
         lineBreak: false,
       });
   }
-  let pen = false;
-  p.wavelengths.forEach((x, i) => {
-    const y = p.nominal[i];
-    if (y === null || y === undefined || !Number.isFinite(x)) {
-      pen = false;
-      return;
+  for (const run of segments) {
+    let pen = false;
+    for (const i of run) {
+      const x = p.wavelengths[i] as number;
+      const y = p.nominal[i];
+      if (y === null || y === undefined || !Number.isFinite(x)) {
+        pen = false;
+        continue;
+      }
+      if (pen) doc.lineTo(X(x), Y(y));
+      else doc.moveTo(X(x), Y(y));
+      pen = true;
     }
-    if (pen) doc.lineTo(X(x), Y(y));
-    else doc.moveTo(X(x), Y(y));
-    pen = true;
-  });
+  }
   doc.lineWidth(1.1).strokeColor("#1b1f1d").stroke();
   // axes
   const ax0 = LEFT + m.l;
@@ -188,7 +195,7 @@ function plot(doc: Doc, p: RecordPlot) {
     .fillColor("#4a524e")
     .text(
       pdfText(
-        `${p.quantity}${p.quantity === "OD" ? "" : " (%)"} at ${p.angleDeg} deg, polarization ${p.polarization}: nominal (black line), ${p.lowP ?? 5}-${p.highP ?? 95} % envelope of the evidence run (shaded), band limits (red).`,
+        `${plotCaption(p)}: nominal (black line), ${p.lowP ?? 5}-${p.highP ?? 95} % envelope of the evidence run (shaded), band limits (red).`,
       ),
       LEFT,
       doc.y,
@@ -279,7 +286,8 @@ function write(doc: Doc, r: ReleaseRecord) {
     field(doc, "95 % interval (Wilson)", `${pct(y.low95)} - ${pct(y.high95)}`);
     field(doc, "Trials", String(y.trials ?? "-"));
     field(doc, "Seed", y.seed);
-    field(doc, "Error model", y.errorModel);
+    field(doc, "Error model", y.errorModelText);
+    field(doc, "Error model (as stored)", y.errorModel);
     field(doc, "Engine version", y.engineVersion);
     field(
       doc,

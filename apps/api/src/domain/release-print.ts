@@ -2,7 +2,9 @@
 import {
   ACTION_LABEL,
   REQUIREMENT_LABEL,
+  plotCaption,
   plotRange,
+  plotSegments,
   readReleaseRecord,
   unitOf,
   type RecordPlot,
@@ -30,26 +32,31 @@ function plotSvg(p: RecordPlot): string {
   const { x0, x1, y0, y1 } = plotRange(p);
   const X = (x: number) => m.l + ((x - x0) / (x1 - x0)) * (W - m.l - m.r);
   const Y = (y: number) => H - m.b - ((y - y0) / (y1 - y0)) * (H - m.t - m.b);
+  const segments = plotSegments(p.wavelengths);
   const path = (ys: (number | null)[]) => {
     let d = "";
-    let pen = false;
-    p.wavelengths.forEach((x, i) => {
-      const y = ys[i];
-      if (y === null || y === undefined || !Number.isFinite(x)) {
-        pen = false;
-        return;
+    for (const run of segments) {
+      let pen = false;
+      for (const i of run) {
+        const x = p.wavelengths[i] as number;
+        const y = ys[i];
+        if (y === null || y === undefined || !Number.isFinite(x)) {
+          pen = false;
+          continue;
+        }
+        d += `${pen ? "L" : "M"}${X(x).toFixed(1)},${Y(y).toFixed(1)}`;
+        pen = true;
       }
-      d += `${pen ? "L" : "M"}${X(x).toFixed(1)},${Y(y).toFixed(1)}`;
-      pen = true;
-    });
+    }
     return d;
   };
   let band = "";
   if (p.low && p.high) {
     const lo = p.low;
     const hi = p.high;
-    const idx = p.wavelengths.map((_, i) => i).filter((i) => lo[i] !== null && hi[i] !== null);
-    if (idx.length > 1) {
+    for (const run of segments) {
+      const idx = run.filter((i) => lo[i] !== null && hi[i] !== null);
+      if (idx.length < 2) continue;
       const top = idx.map(
         (i) => `${X(p.wavelengths[i] as number).toFixed(1)},${Y(hi[i] as number).toFixed(1)}`,
       );
@@ -57,7 +64,7 @@ function plotSvg(p: RecordPlot): string {
         .slice()
         .reverse()
         .map((i) => `${X(p.wavelengths[i] as number).toFixed(1)},${Y(lo[i] as number).toFixed(1)}`);
-      band = `<polygon points="${[...top, ...bottom].join(" ")}" fill="#9fb7c9" fill-opacity="0.55" stroke="none"/>`;
+      band += `<polygon points="${[...top, ...bottom].join(" ")}" fill="#9fb7c9" fill-opacity="0.55" stroke="none"/>`;
     }
   }
   const limits = p.bands
@@ -82,8 +89,8 @@ function plotSvg(p: RecordPlot): string {
     `<text x="${(m.l + W - m.r) / 2}" y="${H - 4}" font-size="10" text-anchor="middle">Wavelength (nm)</text>`,
     `<text x="12" y="${(m.t + H - m.b) / 2}" font-size="10" text-anchor="middle" transform="rotate(-90 12 ${(m.t + H - m.b) / 2})">${esc(p.quantity)}${p.quantity === "OD" ? "" : " (%)"}</text>`,
   ].join("");
-  return `<figure class="plot"><svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${W} ${H}" width="100%" role="img" aria-label="${esc(`${p.quantity} at ${p.angleDeg}°, ${p.polarization}`)}">${band}${limits}<path d="${path(p.nominal)}" fill="none" stroke="#1b1f1d" stroke-width="1.4"/>${axes}</svg>
-<figcaption>${esc(p.quantity)} at ${esc(p.angleDeg)}°, polarization ${esc(p.polarization)}: nominal (black line), ${p.lowP ?? 5}–${p.highP ?? 95} % envelope of the evidence run (shaded), band limits (red).</figcaption></figure>`;
+  return `<figure class="plot"><svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${W} ${H}" width="100%" role="img" aria-label="${esc(plotCaption(p))}">${band}${limits}<path d="${path(p.nominal)}" fill="none" stroke="#1b1f1d" stroke-width="1.4"/>${axes}</svg>
+<figcaption>${esc(plotCaption(p))}: nominal (black line), ${p.lowP ?? 5}–${p.highP ?? 95} % envelope of the evidence run (shaded), band limits (red).</figcaption></figure>`;
 }
 
 function body(r: ReleaseRecord): string {
@@ -121,7 +128,8 @@ ${
 <dt>95 % interval (Wilson)</dt><dd>${pct(y.low95)} – ${pct(y.high95)}</dd>
 <dt>Trials</dt><dd>${esc(y.trials ?? "—")}</dd>
 <dt>Seed</dt><dd class="mono">${esc(y.seed)}</dd>
-<dt>Error model</dt><dd class="mono">${esc(y.errorModel)}</dd>
+<dt>Error model</dt><dd>${esc(y.errorModelText)}</dd>
+<dt>Error model (as stored)</dt><dd class="mono">${esc(y.errorModel)}</dd>
 <dt>Engine version</dt><dd>${esc(y.engineVersion)}</dd>
 <dt>Run</dt><dd class="mono">${esc(y.id)}${y.clientVerified ? " — browser result verified by the server's re-run" : " — computed by the server"}</dd>
 </dl>`

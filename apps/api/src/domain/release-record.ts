@@ -1,7 +1,14 @@
 // A release record read back from its stored snapshot, with every field the page and the PDF show given a safe
 // default. Snapshots are stored as taken at release: older ones lack the evidence, deviation and plot sections, and a
 // value that was not finite was stored as null. Reading never throws, so every stored release renders.
-import { describeColourIso, type SpecColourInput } from "@stackproof/optics";
+import {
+  bandConditionsText,
+  describeColourIso,
+  describeProcess,
+  type ErrorModel,
+  type SpecBand,
+  type SpecColourInput,
+} from "@stackproof/optics";
 import type { ReleaseSnapshot } from "./workflow.ts";
 
 export interface RecordBand {
@@ -12,6 +19,8 @@ export interface RecordBand {
   quantity: string;
   polarization: string;
   angleDeg: number;
+  /** The band's conditions in words (as a plot series states them), or null when the stored band cannot say. */
+  conditions: string | null;
   requirement: string;
   value: number | null;
   tolerance: number | null;
@@ -37,6 +46,8 @@ export interface RecordPlot {
   quantity: string;
   polarization: string;
   angleDeg: number;
+  /** The series' conditions in words (null on releases filed before they were stored). */
+  conditions: string | null;
   wavelengths: number[];
   nominal: (number | null)[];
   low: (number | null)[] | null;
@@ -79,7 +90,10 @@ export interface ReleaseRecord {
     id: string;
     trials: number | null;
     seed: string;
+    /** The error model as stored (JSON). */
     errorModel: string;
+    /** The error model in plain words: the process model when present, else the independent errors. */
+    errorModelText: string;
     engineVersion: string;
     yield: number | null;
     passCount: number | null;
@@ -124,6 +138,19 @@ const bool = (v: unknown): boolean => v === true;
 const name = (v: unknown): string => str(obj(v).name, "");
 const nums = (v: unknown): (number | null)[] => arr(v).map(num);
 
+/**
+ * An error model in plain words (optics' describeProcess), e.g. "optical monitoring (T), turning points at 905 nm
+ * on the part, 0.05 % photometric noise"; a stored model it cannot read is said to be so (never throws).
+ */
+export function describeErrorModel(model: unknown): string {
+  try {
+    if (model === null || typeof model !== "object") return "not recorded";
+    return describeProcess(model as ErrorModel);
+  } catch {
+    return "not readable (see the stored error model)";
+  }
+}
+
 /** The record of a stored snapshot (any shape) with the revision's current status. */
 export function readReleaseRecord(snapshot: ReleaseSnapshot | unknown, status: string): ReleaseRecord {
   const s = obj(snapshot);
@@ -147,6 +174,13 @@ export function readReleaseRecord(snapshot: ReleaseSnapshot | unknown, status: s
       quantity: str(b.quantity, "?"),
       polarization: str(b.polarization, "?"),
       angleDeg: num(b.angleDeg) ?? 0,
+      conditions: (() => {
+        try {
+          return bandConditionsText(b as unknown as SpecBand);
+        } catch {
+          return null;
+        }
+      })(),
       requirement: str(b.requirement, "?"),
       value: num(b.value),
       tolerance: num(b.tolerance),
@@ -187,18 +221,28 @@ export function readReleaseRecord(snapshot: ReleaseSnapshot | unknown, status: s
     const quantity = str(p.quantity, "?");
     const polarization = str(p.polarization, "?");
     const angleDeg = num(p.angleDeg) ?? 0;
+    const conditions = typeof p.conditions === "string" ? p.conditions : null;
+    const wavelengths = nums(p.wavelengths).map((x) => x ?? NaN);
     return {
       quantity,
       polarization,
       angleDeg,
-      wavelengths: nums(p.wavelengths).map((x) => x ?? NaN),
+      conditions,
+      wavelengths,
       nominal: nums(p.nominal),
       low: p.low ? nums(p.low) : null,
       high: p.high ? nums(p.high) : null,
       lowP: num(p.lowP),
       highP: num(p.highP),
+      // A series shows the limits of the bands evaluated under its conditions (a band with a cone, an angle range
+      // or "s and p each" has a series of its own) that it has samples of.
       bands: bands.filter(
-        (b) => b.quantity === quantity && b.polarization === polarization && b.angleDeg === angleDeg,
+        (b) =>
+          b.quantity === quantity &&
+          (conditions !== null && b.conditions !== null
+            ? b.conditions === conditions
+            : b.polarization === polarization && b.angleDeg === angleDeg) &&
+          wavelengths.some((w) => w >= b.start && w <= b.stop),
       ),
     };
   });
@@ -246,6 +290,7 @@ export function readReleaseRecord(snapshot: ReleaseSnapshot | unknown, status: s
               return "";
             }
           })(),
+          errorModelText: describeErrorModel(run.errorModel),
           engineVersion: str(run.engineVersion),
           yield: num(run.yield),
           passCount: num(run.passCount),
@@ -295,6 +340,37 @@ export function readReleaseRecord(snapshot: ReleaseSnapshot | unknown, status: s
     },
     caution: typeof s.caution === "string" ? s.caution : null,
   };
+}
+
+/**
+ * Runs of sample indices to draw as one line or one shaded area: a series is split where its wavelengths jump by
+ * more than three times the steps on either side of the jump (the gap between two bands, e.g. a blocking range on
+ * each side of a passband), so nothing is drawn where nothing was computed.
+ */
+export function plotSegments(wavelengths: readonly number[]): number[][] {
+  const step = (i: number) => {
+    const a = wavelengths[i - 1];
+    const b = wavelengths[i];
+    return a === undefined || b === undefined ? 0 : b - a;
+  };
+  const out: number[][] = [];
+  let run: number[] = [];
+  wavelengths.forEach((_, i) => {
+    const d = step(i);
+    const around = Math.max(step(i - 1), step(i + 1));
+    if (run.length > 0 && around > 0 && d > 3 * around) {
+      out.push(run);
+      run = [];
+    }
+    run.push(i);
+  });
+  if (run.length > 0) out.push(run);
+  return out;
+}
+
+/** The words under a plot: quantity and conditions (or angle and polarization on older records). */
+export function plotCaption(p: RecordPlot): string {
+  return `${p.quantity} (${p.quantity === "OD" ? "optical density" : "%"}), ${p.conditions ?? `${p.angleDeg}°, polarization ${p.polarization}`}`;
 }
 
 /** Axis range of a plot: the finite values of every curve and the band limits, padded by 5 %. */

@@ -42,6 +42,7 @@ import {
 } from "./load.ts";
 import { mailApproved, mailChangesRequested, mailReleased, mailReviewRequested } from "./notify.ts";
 import { openBlockingThreads, threadsForRevision } from "./threads.ts";
+import { describeErrorModel } from "./release-record.ts";
 import {
   deviationState,
   deviationView,
@@ -72,6 +73,8 @@ export interface GateEvidence {
   seed: string;
   seedRule: string;
   errorModelVersion: string;
+  /** The program's error model (the evidence run's) in plain words. */
+  errorModelText: string;
   run: { id: string; status: string; trials: number; engineVersion: string } | null;
   figures: EvidenceFigures | null;
 }
@@ -282,6 +285,7 @@ export function gateOf(
       seed: plan.seed,
       seedRule: plan.seedRule,
       errorModelVersion: plan.errorModelVersion,
+      errorModelText: describeErrorModel(plan.errorModel),
       run: run
         ? { id: run.id, status: run.status, trials: run.trials, engineVersion: run.engineVersion }
         : null,
@@ -691,6 +695,8 @@ export interface PlotSeries {
   quantity: string;
   polarization: string;
   angleDeg: number;
+  /** The conditions in words (optics' band conditions: angle, angle range or cone, polarization). */
+  conditions: string;
   wavelengths: number[];
   nominal: (number | null)[];
   low: (number | null)[] | null;
@@ -724,6 +730,7 @@ function plotSeries(design: Design, mask: SpecMask, result: YieldResult): PlotSe
       quantity: env.quantity,
       polarization: env.polarization,
       angleDeg: env.angleDeg,
+      conditions: env.conditions,
       wavelengths: env.wavelengths,
       nominal,
       low: lo ? lo.values.map(finite) : null,

@@ -27,6 +27,13 @@ describe("canonical JSON and the content hash", () => {
     expect(revisionHash({ x: 1 }, { bands: [] })).not.toBe(revisionHash({ x: 2 }, { bands: [] }));
     expect(revisionHash({}, {})).toMatch(/^[0-9a-f]{64}$/);
   });
+  it("hashes a mask with an empty colour list like one without it, and a non-empty list differently", () => {
+    const box = { id: "c1", quantity: "R" };
+    expect(revisionHash({ x: 1 }, { bands: [], colour: [] })).toBe(revisionHash({ x: 1 }, { bands: [] }));
+    expect(revisionHash({ x: 1 }, { bands: [], colour: [box] })).not.toBe(
+      revisionHash({ x: 1 }, { bands: [] }),
+    );
+  });
 });
 
 describe("mentions", () => {

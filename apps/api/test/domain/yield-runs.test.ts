@@ -231,7 +231,8 @@ describe("restart during a run", () => {
       });
       const pm = await signIn(first, "pm@halvorsen-thinfilm.test", "pm-password-long");
       const agent = await signIn(first, designer.email, designer.password);
-      // The Kestrel bandpass (21 layers) makes each chunk take long enough to stop the process mid-run.
+      // The demo's Kestrel bandpass (about 100 layers, f/2 cone and 0–10° field, optical-monitoring process model)
+      // makes each 250-trial chunk take about a second, long enough to stop the process mid-run.
       const kestrel = demoPrograms().find((p) => p.key === "kestrel");
       const kStack = kestrel?.revisions[1]?.stack;
       if (!kestrel || !kStack) throw new Error("no demo design");
@@ -243,7 +244,7 @@ describe("restart during a run", () => {
         .post(`${API}/programs/${program.body.id}/designs`)
         .send({ name: "K", stack: kStack })
         .expect(201);
-      const trials = 2400;
+      const trials = 1000; // four chunks: one stored, one in flight at the stop, two left for the next process
       const started = await agent
         .post(`${API}/revisions/${design.body.revision.id}/yield-runs`)
         .send({ trials, seed: "restart" })

@@ -150,11 +150,17 @@ export function Component() {
         </div>
       </div>
 
-      <Card title="Measured lots" description="Actual yield of built parts against the predicted yield, and the error model they imply.">
+      <Card
+        title="Measured lots"
+        description="Actual yield of built parts against the predicted yield, and the error model they imply."
+      >
         <YieldHistory programId={p.id} canAdopt={canEdit} />
       </Card>
 
-      <Card title="Spec mask" description="A design passes when every band passes.">
+      <Card
+        title="Spec mask"
+        description="A design passes when every band and every colour requirement passes."
+      >
         <SpecMaskTable mask={p.specMask} caption={`Spec mask of ${p.name}`} />
       </Card>
     </div>

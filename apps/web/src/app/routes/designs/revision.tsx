@@ -162,12 +162,13 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
   }
   const envelopes: ChartEnvelope[] = [];
   // The study ran on the stack as it was when started; its 5–95 % envelope is drawn over the live curve.
-  for (const env of studyResult?.envelopes ?? []) {
+  // Several envelopes may share quantity, angle and polarization (a cone and an angle range both about 0°): the index keys them.
+  (studyResult?.envelopes ?? []).forEach((env, i) => {
     const lo = env.percentiles.find((p) => p.p === 5) ?? env.percentiles[0];
     const hi = env.percentiles.find((p) => p.p === 95) ?? env.percentiles[env.percentiles.length - 1];
-    if (!lo || !hi) continue;
-    envelopes.push({ id: `env-${env.quantity}-${env.angleDeg}-${env.polarization}`, label: `${env.quantity} 5–95 %`, quantity: env.quantity, wavelengths: env.wavelengths, lower: lo.values, upper: hi.values, color: "#7cc6c0" });
-  }
+    if (!lo || !hi) return;
+    envelopes.push({ id: `env-${i}-${env.quantity}-${env.angleDeg}-${env.polarization}`, label: `${env.quantity} 5–95 % (${env.conditions})`, quantity: env.quantity, wavelengths: env.wavelengths, lower: lo.values, upper: hi.values, color: "#7cc6c0" });
+  });
   const markers: ChartMarker[] = [];
   for (const t of threads.data ?? []) {
     const span = anchorSpan(t.anchor, mask.bands);

@@ -63,7 +63,10 @@ export function EvidencePanel({ revisionId, gate }: { revisionId: string; gate: 
             : "No evidence run yet."}
         </p>
       )}
-      <p className="mt-2 break-all text-xs text-ink-500">
+      <p className="mt-2 text-xs text-ink-700" data-testid="evidence-error-model">
+        <span className="text-ink-500">Error model:</span> {e.errorModelText}
+      </p>
+      <p className="mt-1 break-all text-xs text-ink-500">
         Seed <span className="font-mono">{e.seed}</span>, assigned by the server from the revision's content
         and the program's error model. Runs with any other seed, trial count or error model are what-if
         studies and do not count.

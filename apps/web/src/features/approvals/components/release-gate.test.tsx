@@ -19,6 +19,7 @@ const evidenceNone: Pick<Gate, "evidence" | "deviation"> = {
     seed: "ev-0123456789abcdef-m01234567",
     seedRule: "server-assigned",
     errorModelVersion: "01234567",
+    errorModelText: "optical monitoring (T), turning points at 905 nm on the part, 0.05 % photometric noise",
     run: null,
     figures: null,
   },
@@ -82,6 +83,14 @@ describe("ReleaseGate", () => {
     const yieldCheck = list.querySelector('[data-check="verified_yield"]');
     expect(yieldCheck).toHaveTextContent("Evidence run: lower yield bound meets the target: not met");
     expect(within(list).getByText("Verified yield 91.2 % is below the target 95 %.")).toBeInTheDocument();
+  });
+
+  it("states the evidence run's error model in the server's plain words", async () => {
+    setup(["approver"], "in_review", blockedGate);
+    const model = await screen.findByTestId("evidence-error-model");
+    expect(model).toHaveTextContent(
+      "Error model: optical monitoring (T), turning points at 905 nm on the part, 0.05 % photometric noise",
+    );
   });
 
   it("keeps sign-off disabled with the failing checks as its reason", async () => {

@@ -1,5 +1,5 @@
 import type { ReactNode } from "react";
-import { describeBandIso, describeColourIso } from "@stackproof/optics";
+import { bandConditionsText, describeBandIso, describeColourIso, type SpecBand } from "@stackproof/optics";
 import { ProtectiveCaution } from "../../../components/protective-caution.tsx";
 import { describeRequirement } from "../../../components/spec-mask-table.tsx";
 import { ErrorModelSummary } from "../../../components/error-model-summary.tsx";
@@ -40,6 +40,39 @@ const th =
   "border-b border-ink-300 py-1.5 pr-3 text-left text-xs font-semibold tracking-wide text-ink-500 uppercase";
 const td = "border-b border-ink-100 py-1.5 pr-3 align-top";
 
+/** The band's conditions in words, as a plot series states them (null when the stored band cannot say). */
+function conditionsOf(b: SpecBand): string | null {
+  try {
+    return bandConditionsText(b);
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * Runs of sample indices drawn as one line or shaded area: split where the wavelengths jump by more than three times
+ * the steps on either side (the gap between two bands), so nothing is drawn where nothing was computed.
+ */
+function segmentsOf(wl: readonly number[]): number[][] {
+  const step = (i: number) => {
+    const a = wl[i - 1];
+    const b = wl[i];
+    return a === undefined || b === undefined ? 0 : b - a;
+  };
+  const out: number[][] = [];
+  let run: number[] = [];
+  wl.forEach((_, i) => {
+    const around = Math.max(step(i - 1), step(i + 1));
+    if (run.length > 0 && around > 0 && step(i) > 3 * around) {
+      out.push(run);
+      run = [];
+    }
+    run.push(i);
+  });
+  if (run.length > 0) out.push(run);
+  return out;
+}
+
 /** Nominal (line), 5–95 % envelope (shaded) and band limits (red), drawn from the stored numbers as SVG. */
 function EnvelopePlot({
   series: p,
@@ -51,10 +84,19 @@ function EnvelopePlot({
   const W = 640;
   const H = 220;
   const m = { l: 44, r: 8, t: 8, b: 30 };
-  const mine = bands.filter(
-    (b) => b.quantity === p.quantity && b.polarization === p.polarization && b.angleDeg === p.angleDeg,
-  );
   const xs = p.wavelengths.filter(Number.isFinite);
+  // The limits of the bands evaluated under this series' conditions (a cone, an angle range or "s and p each" has a
+  // series of its own) that it has samples of; older records without conditions match angle and polarization.
+  const mine = bands.filter((b) => {
+    const c = p.conditions !== undefined ? conditionsOf(b as SpecBand) : null;
+    return (
+      b.quantity === p.quantity &&
+      (c !== null ? c === p.conditions : b.polarization === p.polarization && b.angleDeg === p.angleDeg) &&
+      p.wavelengths.some((w) => w >= b.start && w <= b.stop)
+    );
+  });
+  const caption = `${p.quantity} (${p.quantity === "OD" ? "optical density" : "%"}), ${p.conditions ?? `${p.angleDeg}°, polarization ${p.polarization}`}`;
+  const segments = segmentsOf(p.wavelengths);
   const ys = [...p.nominal, ...(p.low ?? []), ...(p.high ?? []), ...mine.map((b) => b.value)].filter(
     (v): v is number => typeof v === "number" && Number.isFinite(v),
   );
@@ -67,28 +109,40 @@ function EnvelopePlot({
   const X = (x: number) => m.l + ((x - x0) / (x1 - x0)) * (W - m.l - m.r);
   const Y = (y: number) => H - m.b - ((y - y0) / (y1 - y0)) * (H - m.t - m.b);
   const line = (vals: (number | null)[]) =>
-    p.wavelengths
-      .map((x, i) => {
-        const v = vals[i];
-        return v === null || v === undefined ? null : `${X(x).toFixed(1)},${Y(v).toFixed(1)}`;
-      })
-      .reduce<string>(
-        (d, pt, i, all) => (pt === null ? d : `${d}${i > 0 && all[i - 1] !== null ? "L" : "M"}${pt}`),
-        "",
-      );
+    segments
+      .map((run) =>
+        run
+          .map((i) => {
+            const v = vals[i];
+            return v === null || v === undefined
+              ? null
+              : `${X(p.wavelengths[i] as number).toFixed(1)},${Y(v).toFixed(1)}`;
+          })
+          .reduce<string>(
+            (d, pt, k, all) => (pt === null ? d : `${d}${k > 0 && all[k - 1] !== null ? "L" : "M"}${pt}`),
+            "",
+          ),
+      )
+      .join("");
   const lo = p.low;
   const hi = p.high;
-  const idx = lo && hi ? p.wavelengths.map((_, i) => i).filter((i) => lo[i] != null && hi[i] != null) : [];
-  const poly =
-    lo && hi && idx.length > 1
-      ? [
-          ...idx.map((i) => `${X(p.wavelengths[i] as number).toFixed(1)},${Y(hi[i] as number).toFixed(1)}`),
-          ...idx
-            .slice()
-            .reverse()
-            .map((i) => `${X(p.wavelengths[i] as number).toFixed(1)},${Y(lo[i] as number).toFixed(1)}`),
-        ].join(" ")
-      : null;
+  const polys =
+    lo && hi
+      ? segments
+          .map((run) => run.filter((i) => lo[i] != null && hi[i] != null))
+          .filter((idx) => idx.length > 1)
+          .map((idx) =>
+            [
+              ...idx.map(
+                (i) => `${X(p.wavelengths[i] as number).toFixed(1)},${Y(hi[i] as number).toFixed(1)}`,
+              ),
+              ...idx
+                .slice()
+                .reverse()
+                .map((i) => `${X(p.wavelengths[i] as number).toFixed(1)},${Y(lo[i] as number).toFixed(1)}`),
+            ].join(" "),
+          )
+      : [];
   const ticks = (a: number, b: number) => [0, 1, 2, 3, 4].map((k) => a + ((b - a) * k) / 4);
   return (
     <figure className="mb-4" data-testid="release-plot">
@@ -96,9 +150,11 @@ function EnvelopePlot({
         viewBox={`0 0 ${W} ${H}`}
         className="w-full"
         role="img"
-        aria-label={`${p.quantity} at ${p.angleDeg}°, ${p.polarization}: nominal and 5–95 % envelope against the mask`}
+        aria-label={`${caption}: nominal and 5–95 % envelope against the mask`}
       >
-        {poly && <polygon points={poly} fill="#9fb7c9" fillOpacity={0.55} />}
+        {polys.map((pts, k) => (
+          <polygon key={k} points={pts} fill="#9fb7c9" fillOpacity={0.55} />
+        ))}
         {mine.map((b) => (
           <line
             key={b.id}
@@ -128,9 +184,8 @@ function EnvelopePlot({
         </text>
       </svg>
       <figcaption className="text-xs text-ink-500">
-        {p.quantity}
-        {od ? "" : " (%)"} at {p.angleDeg}°, polarization {p.polarization}: nominal (black), {p.lowP ?? 5}–
-        {p.highP ?? 95} % envelope of the evidence run (shaded), band limits (red).
+        {caption}: nominal (black), {p.lowP ?? 5}–{p.highP ?? 95} % envelope of the evidence run (shaded),
+        band limits (red).
       </figcaption>
     </figure>
   );
@@ -282,9 +337,10 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
 
       {r.plot && r.plot.length > 0 && (
         <Section title="Spectrum against the mask">
-          {r.plot.map((p) => (
+          {r.plot.map((p, i) => (
             <EnvelopePlot
-              key={`${p.quantity}-${p.polarization}-${p.angleDeg}`}
+              // several series can share quantity, angle and polarization (a cone and a field at 0°): the index keys
+              key={i}
               series={p}
               bands={r.revision.specMask.bands}
             />
@@ -344,7 +400,9 @@ export function ReleaseDocument({ record: r }: { record: ReleaseRecord }) {
                   <td className={cx(td, "font-mono")}>
                     {b.quantity} {b.angleDeg}° {b.polarization}
                   </td>
-                  <td className={td} title={describeRequirement(b)}>{describeBandIso(b)}</td>
+                  <td className={td} title={describeRequirement(b)}>
+                    {describeBandIso(b)}
+                  </td>
                   <td
                     className={cx(
                       td,

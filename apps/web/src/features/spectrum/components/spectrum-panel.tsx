@@ -55,7 +55,15 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
   const bandState = useMemo((): { ok: true; view: BandView } | { ok: false; error: string } | null => {
     if (!mask || !selectedBand) return null;
     try {
-      return { ok: true, view: bandView(deferredDesign, mask, selectedBand.id, { start: view.settings.start, stop: view.settings.stop, points: Math.min(801, Math.max(2, view.settings.points)) }) };
+      // The band's curve is drawn over the band and a quarter of its width on each side, at the chart's density:
+      // a cone or an angle range costs many evaluations per wavelength (a ~100-layer bandpass in an f/2 cone takes
+      // about 20 ms a wavelength here, so the whole chart's 801 points would hold the page for seconds).
+      const [start, stop, points] = [view.settings.start, view.settings.stop, view.settings.points];
+      const margin = (selectedBand.stop - selectedBand.start) / 4;
+      const a = Math.max(start, selectedBand.start - margin);
+      const b = Math.min(stop, selectedBand.stop + margin);
+      const n = b > a && stop > start ? Math.round((points * (b - a)) / (stop - start)) : 2;
+      return { ok: true, view: bandView(deferredDesign, mask, selectedBand.id, b > a ? { start: a, stop: b, points: Math.min(801, Math.max(2, n)) } : { start, stop, points: Math.min(801, Math.max(2, points)) }) };
     } catch (e) {
       return { ok: false, error: e instanceof Error ? e.message : String(e) };
     }
