@@ -3,7 +3,10 @@ import js from "@eslint/js";
 import tseslint from "typescript-eslint";
 import reactHooks from "eslint-plugin-react-hooks";
 import globals from "globals";
-import house from "./eslint-rules/one-way-imports.js";
+import oneWay from "./eslint-rules/one-way-imports.js";
+import routesCallDomain from "./eslint-rules/routes-call-domain.js";
+
+const house = { rules: { ...oneWay.rules, ...routesCallDomain.rules } };
 
 export default tseslint.config(
   { ignores: ["**/dist/**", "**/node_modules/**", "**/.turbo/**", "apps/api/drizzle/**", "**/test-results/**"] },
@@ -18,9 +21,20 @@ export default tseslint.config(
     },
   },
   {
-    files: ["apps/web/src/**/*.{ts,tsx}", "packages/*/src/**/*.ts"],
+    files: ["apps/web/src/**/*.{ts,tsx}", "packages/*/src/**/*.ts", "apps/api/src/**/*.ts"],
     plugins: { house },
     rules: { "house/one-way-imports": "error" },
+  },
+  {
+    files: ["apps/api/src/routes/**/*.ts"],
+    plugins: { house },
+    rules: { "house/routes-call-domain": "error" },
+  },
+  {
+    // The demo seeder builds its data through the domain functions, inside the one transaction it opens.
+    files: ["apps/api/src/demo/**/*.ts"],
+    plugins: { house },
+    rules: { "house/routes-call-domain": ["error", { allow: ["transaction"] }] },
   },
   {
     files: ["apps/web/**/*.{ts,tsx}"],

@@ -1,7 +1,9 @@
 // One-way imports across the house (DEVELOPERS.md, "Layout and why"):
 //   - a web feature does not import another feature (shared code moves down to src/components or src/lib);
 //   - shared web code (src/components, src/lib, src/config, src/workers) does not import features;
-//   - packages/optics and packages/contracts import nothing of apps/.
+//   - packages/optics and packages/contracts import nothing of apps/;
+//   - in apps/api/src: only app.ts imports routes/; only the entry point (index.ts) imports demo/; the domain layer
+//     imports no routes, app, context, entry point or demo (domain functions take db, mail, env).
 // Hand-written (about 50 lines) rather than eslint-plugin-import-x's no-restricted-paths: our imports are relative
 // with explicit .ts extensions, so resolving them is a path.resolve, and the rule needs no resolver configuration.
 import path from "node:path";
@@ -13,6 +15,8 @@ const SHARED_WEB = ["components", "lib", "config", "workers"].map((d) => path.jo
 const PACKAGES = ["optics", "contracts"].map((d) => path.join(ROOT, "packages", d));
 const APPS = path.join(ROOT, "apps");
 const APP_PACKAGES = /^@stackproof\/(api|web)(\/|$)/;
+const API_SRC = path.join(ROOT, "apps/api/src");
+const api = (p) => path.join(API_SRC, p);
 
 const inside = (dir, file) => file === dir || file.startsWith(dir + path.sep);
 const featureOf = (file) => (inside(FEATURES, file) ? path.relative(FEATURES, file).split(path.sep)[0] : null);
@@ -26,6 +30,7 @@ export function violation(file, specifier) {
     return null;
   }
   if (!target) return null;
+  if (inside(API_SRC, file)) return apiViolation(file, target);
   const from = featureOf(file);
   const to = featureOf(target);
   if (from && to && from !== to)
@@ -35,9 +40,23 @@ export function violation(file, specifier) {
   return null;
 }
 
+function apiViolation(file, target) {
+  const routes = api("routes");
+  if (inside(api("domain"), file)) {
+    const upward = [api("app.ts"), api("context.ts"), api("index.ts")];
+    if (inside(routes, target) || inside(api("demo"), target) || upward.includes(target))
+      return "the domain layer imports no routes, app, context, entry point or demo: domain functions take what they use (db, mail, env)";
+  }
+  if (inside(routes, target) && !inside(routes, file) && file !== api("app.ts"))
+    return "only src/app.ts imports routes/: move what is shared into src/domain or src/lib";
+  if (inside(api("demo"), target) && !inside(api("demo"), file) && file !== api("index.ts"))
+    return "only the entry point (src/index.ts) loads the demo seeder: the demo builds on the domain, nothing builds on the demo";
+  return null;
+}
+
 /** @type {import("eslint").Rule.RuleModule} */
 const rule = {
-  meta: { type: "problem", docs: { description: "Imports go one way: features ↛ features, shared ↛ features, packages ↛ apps" }, schema: [] },
+  meta: { type: "problem", docs: { description: "Imports go one way: features ↛ features, shared ↛ features, packages ↛ apps, api domain ↛ routes" }, schema: [] },
   create(context) {
     const file = path.resolve(context.filename);
     const check = (node) => {

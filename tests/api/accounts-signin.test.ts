@@ -9,6 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
 import { createContext, loadEnv } from "@stackproof/api";
 import { createTestServer, type TestServer } from "../../apps/api/test/support/context.ts";
+import { loadDemoData } from "../../apps/api/src/demo/index.ts";
 import { createMember, signIn, signedInMember, withOrigin } from "../../apps/api/test/support/auth.ts";
 import { lastMailTo, tokenIn } from "../../apps/api/test/support/mail.ts";
 
@@ -224,7 +225,7 @@ describe("production defaults", () => {
       loadEnv({ NODE_ENV: "production", MAIL_CAPTURE: "true", DATA_DIR: dir, YIELD_WORKERS: "1" }),
     );
     try {
-      expect(plain.demo).toBeNull();
+      expect(await loadDemoData(plain.env, plain.db)).toBeNull();
       expect(plain.mail.captureMode).toBe(true);
       const count = plain.db.$client.prepare("select count(*) as n from users").get() as { n: number };
       expect(count.n).toBe(0);
@@ -242,7 +243,7 @@ describe("production defaults", () => {
       PUBLIC_URL: "http://stackproof.test",
     });
     try {
-      expect(server.ctx.demo).not.toBeNull();
+      expect(server.demo).not.toBeNull();
       const { DEMO_PASSWORD } = await import("../../apps/api/src/demo/index.ts");
       const admin = await signIn(server, "admin@halvorsen.example", DEMO_PASSWORD);
       const me = await admin.get(`${API}/auth/me`).expect(200);

@@ -14,6 +14,7 @@ import {
   type YieldStudy,
 } from "@stackproof/optics";
 import { createApp, createContext, loadEnv, type AppContext } from "@stackproof/api";
+import { loadDemoData, type DemoSummary } from "../../apps/api/src/demo/index.ts";
 
 const HOST = "stackproof.test";
 const ORIGIN = `http://${HOST}`;
@@ -21,6 +22,7 @@ const API = "/api/v1";
 const PASSWORD = "demo-quartz-lantern";
 
 let ctx: AppContext;
+let demo: DemoSummary | null;
 let app: ReturnType<typeof createApp>;
 let dir: string;
 
@@ -43,9 +45,10 @@ async function waitForRun(agent: ReturnType<typeof request.agent>, id: string) {
 
 beforeAll(async () => {
   dir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-journey-"));
-  ctx = await createContext(
-    loadEnv({ NODE_ENV: "test", DATA_DIR: dir, DEMO_DATA: "true", YIELD_WORKERS: "1", PUBLIC_URL: ORIGIN }),
-  );
+  const env = loadEnv({ NODE_ENV: "test", DATA_DIR: dir, DEMO_DATA: "true", YIELD_WORKERS: "1", PUBLIC_URL: ORIGIN });
+  ctx = await createContext(env);
+  // As the entry point (apps/api/src/index.ts) does.
+  demo = await loadDemoData(env, ctx.db);
   app = createApp(ctx);
 });
 afterAll(async () => {
@@ -55,7 +58,7 @@ afterAll(async () => {
 
 describe("review journey", () => {
   it("loads the demo workspace with a release, open threads and a revision ready for decision", async () => {
-    expect(ctx.demo).toMatchObject({ programs: 4, releases: 1 });
+    expect(demo).toMatchObject({ programs: 4, releases: 1 });
     const approver = await signIn("approver@halvorsen.example");
     const overview = await approver.get(`${API}/overview`).expect(200);
     expect(overview.body.items).toHaveLength(4);

@@ -6,7 +6,6 @@ import { createMailService, type MailService } from "./mail/index.ts";
 import { createJobService, type JobService } from "./yield/index.ts";
 import { createCompute, type Compute } from "./yield/compute.ts";
 import { createLogger, type Logger } from "./lib/log.ts";
-import { isNewDatabase, seedDemo, type DemoSummary } from "./demo/index.ts";
 
 export interface AppContext {
   env: Env;
@@ -17,8 +16,6 @@ export interface AppContext {
   compute: Compute;
   /** pino logger (JSON lines; the level comes from LOG_LEVEL). */
   log: Logger;
-  /** Set when this start-up loaded the demo workspace into a new database. */
-  demo: DemoSummary | null;
   /** Closes the job service, the pool, mail and the database (after the chunks and tasks in flight are back). */
   close(): Promise<void>;
 }
@@ -27,8 +24,6 @@ export async function createContext(env: Env): Promise<AppContext> {
   const file = env.DATABASE_FILE ?? path.join(env.DATA_DIR, "stackproof.db");
   const db = openDatabase(file);
   runMigrations(db);
-  // Demo data only into a new database (no workspace yet), before the job service looks for runs to resume.
-  const demo = env.DEMO_DATA && isNewDatabase(db) ? await seedDemo(db) : null;
   const mail = await createMailService(env);
   const compute = createCompute(env);
   const jobs = createJobService({ env, db, mail, compute });
@@ -39,7 +34,6 @@ export async function createContext(env: Env): Promise<AppContext> {
     jobs,
     compute,
     log: createLogger(env),
-    demo,
     async close() {
       await jobs.close();
       await compute.close();

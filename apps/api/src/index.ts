@@ -1,12 +1,16 @@
-// Process entry: read configuration, open the database, listen; SIGTERM/SIGINT drain and exit.
+// Process entry: read configuration, open the database, load the demo data when asked, listen; SIGTERM/SIGINT drain
+// and exit. The demo seeder is imported here only (imports go entry → demo → domain, never back).
 import net from "node:net";
 import { createApp } from "./app.ts";
 import { createContext } from "./context.ts";
 import { loadEnv } from "./env.ts";
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, DEMO_WORKSPACE, isDemoWorkspacePresent } from "./demo/index.ts";
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, DEMO_WORKSPACE, isDemoWorkspacePresent, loadDemoData } from "./demo/index.ts";
 
 const env = loadEnv();
 const ctx = await createContext(env);
+// Demo data only into a new database (no workspace yet); its evidence runs are stored finished, so the job service
+// (started with the context) has nothing of them to resume.
+const demo = await loadDemoData(env, ctx.db);
 const app = createApp(ctx);
 const server = app.listen(env.PORT, env.HOST, () => {
   const address = server.address();
@@ -18,11 +22,11 @@ const server = app.listen(env.PORT, env.HOST, () => {
   );
   // The human-readable banner stays on stdout for whoever started the server by hand.
   console.log(`\nStackproof is running: open ${url}\n`);
-  if (ctx.demo) {
+  if (demo) {
     console.log(
-      `Loaded the demo workspace "${DEMO_WORKSPACE}" (${ctx.demo.programs} programs, ${ctx.demo.revisions} revisions, ` +
-        `${ctx.demo.yieldRuns} evidence runs${ctx.demo.cachedRuns ? `, ${ctx.demo.cachedRuns} of them from the demo evidence cache` : ""}, ` +
-        `${ctx.demo.releases} release) in ${ctx.demo.ms} ms.`,
+      `Loaded the demo workspace "${DEMO_WORKSPACE}" (${demo.programs} programs, ${demo.revisions} revisions, ` +
+        `${demo.yieldRuns} evidence runs${demo.cachedRuns ? `, ${demo.cachedRuns} of them from the demo evidence cache` : ""}, ` +
+        `${demo.releases} release) in ${demo.ms} ms.`,
     );
   }
   if (env.DEMO_DATA && isDemoWorkspacePresent(ctx.db)) {

@@ -1,6 +1,6 @@
 // Request and response shapes of the access routes (also the OpenAPI components of these routes).
 import { z } from "zod";
-import { PersonRefSchema, pageSchema } from "./json.ts";
+import { PageQuery, PersonRefSchema, pageSchema } from "./json.ts";
 
 /** Membership roles (the API's database stores them as text). */
 export const ROLES = ["admin", "designer", "reviewer", "approver"] as const;
@@ -42,6 +42,37 @@ export type SessionInfo = z.infer<typeof SessionInfo>;
 
 export const UserIdParams = z.object({ userId: z.string().min(1).max(100) });
 export type SessionUser = z.infer<typeof UserSchema>;
+
+// ---- Request bodies, params and queries of the access routes ----
+
+/** POST /auth/sign-in. */
+export const SignInBody = z.object({ email: EmailInput, password: z.string().min(1, "Enter your password.").max(1000) });
+export type SignInInput = z.input<typeof SignInBody>;
+/** POST /auth/password-reset. */
+export const PasswordResetBody = z.object({ email: EmailInput });
+/** POST /auth/password-reset/confirm. */
+export const PasswordResetConfirmBody = z.object({ token: TokenInput, password: NewPassword });
+export type PasswordResetConfirmInput = z.input<typeof PasswordResetConfirmBody>;
+/** GET /invitations/lookup/:token. */
+export const TokenParams = z.object({ token: TokenInput });
+/** POST /invitations. */
+export const InvitationBody = z.object({ email: EmailInput, roles: RolesInput });
+export type InvitationInput = z.input<typeof InvitationBody>;
+/** POST /invitations/accept: `name` is needed when the address has no account yet. */
+export const AcceptInvitationBody = z.object({
+  token: TokenInput,
+  name: PersonName.optional(),
+  password: z.string().min(1).max(1000),
+});
+export type AcceptInvitationInput = z.input<typeof AcceptInvitationBody>;
+/** PATCH /members/:userId. */
+export const MemberRolesBody = z.object({ roles: RolesInput });
+/** GET /audit: a page, filtered by subject or action. */
+export const AuditListQuery = PageQuery.extend({
+  subjectType: z.string().max(50).optional(),
+  subjectId: z.string().max(100).optional(),
+  action: z.string().max(100).optional(),
+});
 
 // ---- Members, invitations, audit, outbox ----
 

@@ -650,3 +650,85 @@ export const HealthSchema = z.object({
   migrations: z.object({ applied: z.number(), available: z.number(), upToDate: z.boolean() }),
 });
 export type Health = z.infer<typeof HealthSchema>;
+
+// ---- Error details (the `details` of an error answer the web app reads) ----
+
+/** One problem in an uploaded CSV file; a 422 invalid_csv answer's details are a list of these (at most 50). */
+export const CsvProblemSchema = z.object({
+  /** Line of the file (the header is line 1). */
+  row: z.number(),
+  /** Column name, "a|b" for a missing choice, or "-" when the problem is not in one column. */
+  column: z.string(),
+  message: z.string(),
+});
+export type CsvProblem = z.infer<typeof CsvProblemSchema>;
+export const CsvProblemsDetails = z.array(CsvProblemSchema);
+
+const RevisionNumberRef = z.object({ id: z.string(), number: z.number() });
+/** 409 stale_base: the revision a save started from (null: none) and the design's latest revision. */
+export const StaleBaseDetails = z.object({ baseRevision: RevisionNumberRef.nullable(), latestRevision: RevisionNumberRef });
+export type StaleBase = z.infer<typeof StaleBaseDetails>;
+
+// ---- Request bodies, params and queries of the domain routes (JSON; multipart upload fields stay with their routes)
+
+/** POST /revisions/:id/threads. */
+export const NewThreadBody = z.object({
+  anchor: AnchorSchema,
+  severity: z.enum(["blocking", "advisory"]),
+  body: CommentBodySchema,
+});
+export type NewThreadInput = z.input<typeof NewThreadBody>;
+/** POST /threads/:id/comments. */
+export const CommentBody = z.object({ body: CommentBodySchema });
+/** POST /threads/:id/resolve and /reopen: an optional note, kept as a comment. */
+export const ThreadStatusBody = z.object({ note: z.string().trim().max(10000).optional() });
+
+/** GET /revisions/:id/gate: pin the yield check to one run. */
+export const GateQuery = z.object({ yieldRunId: z.string().min(1).max(100).optional() });
+/** POST /revisions/:id/transitions. */
+export const TransitionBody = z.object({
+  action: z.enum(["submit", "request_changes", "approve", "release", "withdraw"]),
+  note: z.string().trim().max(5000).optional(),
+  yieldRunId: z.string().min(1).max(100).optional(),
+});
+export type TransitionInput = z.input<typeof TransitionBody>;
+/** POST /revisions/:id/deviations. */
+export const DeviationRequestBody = z.object({
+  reason: z.string().trim().min(10, { message: "write the reason (10 characters or more)" }).max(5000),
+});
+/** /revisions/:id/deviations/:deviationId/decision. */
+export const DeviationParams = z.object({ id: z.string().min(1).max(100), deviationId: z.string().min(1).max(100) });
+/** POST /revisions/:id/deviations/:deviationId/decision. */
+export const DeviationDecisionBody = z.object({ accept: z.boolean(), note: z.string().trim().max(5000).default("") });
+export type DeviationDecisionInput = z.input<typeof DeviationDecisionBody>;
+
+/** GET /revisions/:id/diff?against=: the revision compared with (before). */
+export const DiffQuery = z.object({ against: z.string().min(1).max(100) });
+
+/**
+ * A yield result computed in the browser, sent with a run request so the server compares it with its own (the
+ * optics YieldResult's fields that verification reads; other fields are kept as sent).
+ */
+export const ClientResultSchema = z
+  .object({
+    trials: z.number().int().min(1),
+    seed: z.string().min(1),
+    passCount: z.number().int().min(0),
+    yield: z.number().min(0).max(1),
+    interval: z.looseObject({ low: z.number(), high: z.number() }),
+    bandFailures: z.array(z.object({ id: z.string(), count: z.number().int().min(0) })),
+    errorModel: ErrorModelSchema,
+    engineVersion: z.string().optional(),
+  })
+  .loose();
+export type ClientResult = z.infer<typeof ClientResultSchema>;
+/** POST /revisions/:id/yield-runs: without seed, trials and error model (or with the evidence run's) the evidence run. */
+export const YieldRunBody = z.object({
+  trials: z.number().int().min(1).max(Math.min(MAX_TRIALS, MAX_TRIALS_PER_RUN), trialsLimitMessage).optional(),
+  seed: z.string().min(1).max(200).optional(),
+  errorModel: ErrorModelSchema.optional(),
+  clientResult: ClientResultSchema.optional(),
+});
+export type YieldRunInput = z.input<typeof YieldRunBody>;
+/** POST /revisions/:id/evidence-run. */
+export const EvidenceRunBody = z.object({ clientResult: ClientResultSchema.optional() });

@@ -16,6 +16,16 @@ export const YieldResultJson = opticsJson<YieldResult>();
 export const BandOutcomeJson = opticsJson<BandOutcome>();
 export const MaterialModelJson = opticsJson<MaterialModel>();
 
+/** Page size of a list when `?limit=` is not given, and the most a request may ask for. */
+export const DEFAULT_PAGE_LIMIT = 50;
+export const MAX_PAGE_LIMIT = 200;
+
+/** Query of a paginated list: `?limit=` (default 50, at most 200) and `?cursor=` (from the previous page). */
+export const PageQuery = z.object({
+  limit: z.coerce.number().int().min(1).max(MAX_PAGE_LIMIT).default(DEFAULT_PAGE_LIMIT),
+  cursor: z.string().min(1).max(500).optional(),
+});
+
 /** A cursor page: `?limit=&cursor=` → `{ items, nextCursor }`. */
 export function pageSchema<T extends z.ZodType>(item: T) {
   return z.object({ items: z.array(item), nextCursor: z.string().nullable() });

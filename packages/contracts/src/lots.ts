@@ -69,3 +69,16 @@ export const WitnessFitResponse = z.object({
   materialId: z.string(),
   fit: obj<Omit<FilmFitResult, "fitted">>(),
 });
+
+/** POST /parts/:id/fit: fit the index scale too (default), and which baseline terms are fixed or fitted. */
+export const PartFitBody = z.object({
+  fitIndexScale: z.boolean().default(true),
+  baseline: z
+    .object({
+      scale: z.union([z.number().positive(), z.literal("fit")]).optional(),
+      offset: z.union([z.number(), z.literal("fit")]).optional(),
+      shiftNm: z.union([z.number(), z.literal("fit")]).optional(),
+    })
+    .default({}),
+});
+export type PartFitInput = z.input<typeof PartFitBody>;

@@ -1,33 +1,31 @@
 // Demo data: the fictional Halvorsen Thinfilm Works, loaded into a new database when DEMO_DATA is on.
 // Evidence runs are computed here synchronously with the same optics functions the workers use, with the seed the
 // server assigns (evidencePlan) and the program's minimum evidence trials, so the demo's gate reads like a real one.
+// Every row is written through the domain functions (src/domain: storeProgram, storeRevision, recordDecision, ...),
+// back-dated with their `at`; the entry point (src/index.ts) calls loadDemoData, nothing else imports this module.
 import { eq } from "drizzle-orm";
-import { ENGINE_VERSION, type YieldResult, type YieldStudy } from "@stackproof/optics";
+import type { YieldResult, YieldStudy } from "@stackproof/optics";
 import { hashPassword } from "../auth/password.ts";
 import type { Db } from "../db/client.ts";
+import type { Env } from "../env.ts";
 import {
-  comments,
-  decisions,
-  designs,
-  memberships,
-  programVersions,
-  programs,
-  releases,
-  revisions,
-  threads,
   users,
   workspaces,
-  yieldRuns,
   type DecisionAction,
   type RevisionStatus,
   type Role,
   type ThreadAnchor,
 } from "../db/schema.ts";
-import { recordAudit } from "../lib/audit.ts";
-import { newId, revisionHash } from "../domain/canonical.ts";
+import { revisionHash } from "../domain/canonical.ts";
+import { createAccount } from "../domain/accounts.ts";
+import { addMember } from "../domain/members.ts";
+import { storeProgram } from "../domain/programs.ts";
+import { storeDesign, storeRevision } from "../domain/revisions.ts";
+import { storeComment, storeThread } from "../domain/threads.ts";
+import { recordEvidenceResult } from "../domain/yield-runs.ts";
+import { createWorkspace, DEMO_ADMIN_EMAIL } from "../domain/workspaces.ts";
 import type { RevisionContext } from "../domain/load.ts";
-import { finishedRunValues } from "../yield/index.ts";
-import { releaseSnapshot } from "../domain/workflow.ts";
+import { recordDecision, storeRelease } from "../domain/workflow.ts";
 import { evidenceSeed } from "../domain/evidence.ts";
 import { demoPrograms, type DemoProgram, type DemoSpeaker } from "./designs.ts";
 import { computeDemoEvidence, defaultEvidenceCacheDir } from "./evidence-cache.ts";
@@ -41,7 +39,7 @@ export const DEMO_ACCOUNTS: { key: string; name: string; email: string; roles: R
   {
     key: "admin",
     name: "Maren Kolstad",
-    email: "admin@halvorsen.example",
+    email: DEMO_ADMIN_EMAIL,
     roles: ["admin"],
     title: "administrator",
   },
@@ -100,8 +98,8 @@ export async function seedDemo(
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const now = Date.now();
   const at = (daysAgo: number, hours = 0) => new Date(now - daysAgo * DAY + hours * 3600 * 1000);
-  const workspaceId = newId();
-  const people = Object.fromEntries(DEMO_ACCOUNTS.map((a) => [a.key, { ...a, id: newId() }])) as Record<
+  let workspaceId = "";
+  const people = Object.fromEntries(DEMO_ACCOUNTS.map((a) => [a.key, { ...a, id: "" }])) as Record<
     string,
     (typeof DEMO_ACCOUNTS)[number] & { id: string }
   >;
@@ -153,83 +151,51 @@ export async function seedDemo(
   let runCount = 0;
   let releaseCount = 0;
   db.transaction((tx) => {
-    tx.insert(workspaces)
-      .values({ id: workspaceId, name: DEMO_WORKSPACE, createdAt: at(30) })
-      .run();
+    workspaceId = createWorkspace(tx, { name: DEMO_WORKSPACE, at: at(30) });
     for (const person of Object.values(people)) {
-      tx.insert(users)
-        .values({ id: person.id, email: person.email, name: person.name, passwordHash, createdAt: at(30) })
-        .run();
-      tx.insert(memberships)
-        .values({ workspaceId, userId: person.id, roles: person.roles, createdAt: at(30) })
-        .run();
+      person.id = createAccount(tx, { email: person.email, name: person.name, passwordHash, at: at(30) });
+      addMember(tx, { workspaceId, userId: person.id, roles: person.roles, at: at(30) });
     }
 
     const contexts = new Map<string, RevisionContext[]>();
     let day = 21;
     for (const d of specs.values()) {
-      const programId = newId();
-      const program = {
-        id: programId,
+      const program = storeProgram(tx, {
         workspaceId,
-        name: d.name,
-        customer: d.customer,
-        description: d.description,
-        application: d.application,
-        protective: d.protective,
-        targetYield: d.targetYield,
-        specMask: d.mask,
-        errorModel: d.errorModel,
-        studyDefaults: { trials: 2000, seed: d.key },
-        minEvidenceTrials: d.trials,
-        confidence: 0.95,
-        version: 1,
         createdBy: approver.id,
-        createdAt: at(day),
-      };
-      tx.insert(programs).values(program).run();
-      tx.insert(programVersions)
-        .values({
-          id: newId(),
-          programId,
-          version: 1,
+        at: at(day),
+        program: {
+          name: d.name,
+          customer: d.customer,
+          description: d.description,
+          application: d.application,
+          protective: d.protective,
           targetYield: d.targetYield,
-          minEvidenceTrials: d.trials,
-          confidence: 0.95,
           specMask: d.mask,
           errorModel: d.errorModel,
-          changes: {},
-          changedBy: null,
-          note: "program created",
-          createdAt: at(day),
-        })
-        .run();
-      const design = {
-        id: newId(),
-        programId,
+          studyDefaults: { trials: 2000, seed: d.key },
+          minEvidenceTrials: d.trials,
+          confidence: 0.95,
+        },
+      });
+      const design = storeDesign(tx, {
+        programId: program.id,
         name: d.designName,
         createdBy: designer.id,
-        createdAt: at(day - 1),
-      };
-      tx.insert(designs).values(design).run();
+        at: at(day - 1),
+      });
       const list: RevisionContext[] = [];
       d.revisions.forEach((r, i) => {
-        const row = {
-          id: newId(),
-          designId: design.id,
-          number: i + 1,
+        const revision = storeRevision(tx, {
+          design,
           stack: r.stack,
           specMask: d.mask,
           note: r.note,
           authorId: designer.id,
-          hash: revisionHash(r.stack, d.mask),
-          status: "draft" as RevisionStatus,
-          statusChangedAt: null,
-          createdAt: at(day - 1 - 5 * i),
-        };
-        tx.insert(revisions).values(row).run();
+          at: at(day - 1 - 5 * i),
+        });
         revisionCount++;
-        list.push({ revision: row, design, program });
+        list.push({ revision, design, program });
       });
       contexts.set(d.key, list);
       day -= 4;
@@ -250,34 +216,17 @@ export async function seedDemo(
       note = "",
       yieldRunId: string | null = null,
     ) => {
-      const from = rc.revision.status;
-      tx.insert(decisions)
-        .values({
-          id: newId(),
-          revisionId: rc.revision.id,
-          action,
-          fromStatus: from,
-          toStatus: to,
-          actorId: by.id,
-          actorName: by.name,
-          revisionHash: rc.revision.hash,
-          yieldRunId,
-          programVersion: 1,
-          note,
-          at: when,
-        })
-        .run();
-      tx.update(revisions).set({ status: to, statusChangedAt: when }).where(eqId(rc.revision.id)).run();
-      rc.revision = { ...rc.revision, status: to, statusChangedAt: when };
-      recordAudit(tx, {
+      rc.revision = recordDecision(tx, {
         workspaceId,
-        actorId: by.id,
-        action: `revision.${{ submit: "submitted", request_changes: "changes_requested", approve: "approved", release: "released", withdraw: "withdrawn", return_to_review: "returned_to_review" }[action]}`,
-        subjectType: "revision",
-        subjectId: rc.revision.id,
-        summary: `${by.name} ${{ submit: "submitted", request_changes: "requested changes on", approve: "approved", release: "released", withdraw: "withdrew", return_to_review: "returned to review" }[action]} ${rc.design.name} rev ${rc.revision.number}${note ? `: ${note}` : ""}`,
-        data: { from, to, demo: true },
-      });
+        rc,
+        action,
+        to,
+        actor: by,
+        at: when,
+        note,
+        yieldRunId,
+        programVersion: 1,
+      }).revision;
     };
 
     const thread = (
@@ -289,33 +238,22 @@ export async function seedDemo(
       talk: { by: { id: string }; body: string; mentions?: string[] }[],
       resolved?: { by: { id: string }; when: Date },
     ) => {
-      const id = newId();
-      tx.insert(threads)
-        .values({
-          id,
-          designId: rc.design.id,
-          revisionId: rc.revision.id,
-          revisionNumber: rc.revision.number,
-          anchor,
-          severity,
-          status: resolved ? "resolved" : "open",
-          authorId: by.id,
-          resolvedBy: resolved?.by.id ?? null,
-          resolvedAt: resolved?.when ?? null,
-          createdAt: when,
-        })
-        .run();
+      const id = storeThread(tx, {
+        rc,
+        anchor,
+        severity,
+        authorId: by.id,
+        at: when,
+        ...(resolved ? { resolved: { by: resolved.by.id, at: resolved.when } } : {}),
+      });
       talk.forEach((c, i) => {
-        tx.insert(comments)
-          .values({
-            id: newId(),
-            threadId: id,
-            authorId: c.by.id,
-            body: c.body,
-            mentions: c.mentions ?? [],
-            createdAt: new Date(when.getTime() + i * 3600 * 1000),
-          })
-          .run();
+        storeComment(tx, {
+          threadId: id,
+          authorId: c.by.id,
+          body: c.body,
+          mentions: c.mentions ?? [],
+          at: new Date(when.getTime() + i * 3600 * 1000),
+        });
       });
       return id;
     };
@@ -353,33 +291,16 @@ export async function seedDemo(
       by: { id: string },
       when: Date,
     ) => {
-      const id = newId();
-      const base = {
-        id,
-        revisionId: rc.revision.id,
-        requestedBy: by.id,
-        status: "running" as const,
-        progressDone: 0,
-        trials: s.trials,
-        seed: s.seed,
-        errorModel: s.errorModel,
-        clientResult: null,
-        result: null,
-        verified: null,
-        mismatch: null,
-        engineVersion: ENGINE_VERSION,
-        kind: "evidence" as const,
-        programVersion: 1,
-        error: null,
-        createdAt: when,
-        startedAt: when,
-        finishedAt: null,
-      };
       // A server-only run: verified, since the server computed it itself.
-      const done = finishedRunValues(base, result);
-      tx.insert(yieldRuns)
-        .values({ ...base, ...done, finishedAt: new Date(when.getTime() + 60_000) })
-        .run();
+      const id = recordEvidenceResult(tx, {
+        rc,
+        study: s,
+        result,
+        requestedBy: by.id,
+        at: when,
+        finishedAt: new Date(when.getTime() + 60_000),
+        programVersion: 1,
+      });
       runCount++;
       return id;
     };
@@ -426,7 +347,6 @@ export async function seedDemo(
     threadsOf("wren", 2, at(7, 6), at(6, 2));
     decide(w1, "approve", "approved", approver, at(6), "Yield well above target.", wrenRun);
     decide(w1, "release", "released", approver, at(5), "Released for the spring lot.", wrenRun);
-    const releaseId = newId();
     const approverAuth = {
       user: { id: approver.id, email: approver.email, name: approver.name },
       sessionId: "demo",
@@ -434,19 +354,7 @@ export async function seedDemo(
       workspaceName: DEMO_WORKSPACE,
       roles: approver.roles,
     };
-    tx.insert(releases)
-      .values({
-        id: releaseId,
-        workspaceId,
-        revisionId: w1.revision.id,
-        designId: w1.design.id,
-        programId: w1.program.id,
-        yieldRunId: wrenRun,
-        releasedBy: approver.id,
-        releasedAt: at(5),
-        snapshot: releaseSnapshot(tx, w1, wrenRun, releaseId, approverAuth, at(5)),
-      })
-      .run();
+    storeRelease(tx, { rc: w1, yieldRunId: wrenRun, releasedBy: approverAuth, at: at(5) });
     releaseCount++;
 
     // Merlin (protective): rev 1 sent back with a blocking thread still open; rev 2 is a draft it carries forward to.
@@ -473,16 +381,17 @@ export async function seedDemo(
   };
 }
 
-const eqId = (id: string) => eq(revisions.id, id);
-
 /** Whether the demo accounts exist in this database (they are printed at start-up only then). */
 export function isDemoWorkspacePresent(db: Db): boolean {
   return (
-    db
-      .select({ id: users.id })
-      .from(users)
-      .where(eq(users.email, DEMO_ACCOUNTS[0]?.email ?? ""))
-      .limit(1)
-      .all().length > 0
+    db.select({ id: users.id }).from(users).where(eq(users.email, DEMO_ADMIN_EMAIL)).limit(1).all().length > 0
   );
+}
+
+/**
+ * The demo workspace, loaded when DEMO_DATA asks for it and the database is new (no workspace yet); null otherwise.
+ * Called by the entry point (src/index.ts) after the context is built.
+ */
+export async function loadDemoData(env: Pick<Env, "DEMO_DATA">, db: Db): Promise<DemoSummary | null> {
+  return env.DEMO_DATA && isNewDatabase(db) ? seedDemo(db) : null;
 }

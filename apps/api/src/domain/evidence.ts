@@ -24,7 +24,7 @@ import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError, conflict, forbidden } from "../lib/errors.ts";
 import { ClientResultSchema, verifyClientResult } from "../yield/verify.ts";
 import { canonicalJson, newId } from "./canonical.ts";
-import { maskOf, stackOf, type ProgramRow, type RevisionContext, type YieldRunRow } from "./load.ts";
+import { loadRevision, maskOf, stackOf, type ProgramRow, type RevisionContext, type YieldRunRow } from "./load.ts";
 
 export const SEED_RULE =
   'seed = "ev-" + first 16 hex digits of the revision content hash + "-m" + first 8 hex digits of the sha-256 of the error model (canonical JSON); trials = the program\'s minimum evidence trials';
@@ -144,6 +144,10 @@ export interface EvidenceRequest {
  * Returns whether a new run was created; the caller enqueues it.
  */
 export function requestEvidenceRun(db: DbOrTx, req: EvidenceRequest): { run: YieldRunRow; created: boolean } {
+  return db.transaction((tx) => requestEvidenceRunIn(tx, req));
+}
+
+function requestEvidenceRunIn(db: DbOrTx, req: EvidenceRequest): { run: YieldRunRow; created: boolean } {
   const { rc, actor } = req;
   const plan = evidencePlan(rc);
   const existing = findEvidenceRun(db, rc);
@@ -308,6 +312,15 @@ export function deviationsOf(db: DbOrTx, revisionIds: readonly string[]): Deviat
 /** A designer asks for the revision's mask to be accepted as a deviation from the program's mask. */
 export function requestDeviation(
   db: DbOrTx,
+  input: { revisionId: string; actor: { id: string; name: string }; workspaceId: string; reason: string },
+): DeviationRow {
+  return db.transaction((tx) =>
+    requestDeviationIn(tx, { ...input, rc: loadRevision(tx, input.workspaceId, input.revisionId) }),
+  );
+}
+
+function requestDeviationIn(
+  db: DbOrTx,
   input: { rc: RevisionContext; actor: { id: string; name: string }; workspaceId: string; reason: string },
 ): DeviationRow {
   const { rc, actor } = input;
@@ -351,6 +364,22 @@ export function requestDeviation(
 
 /** An approver other than the deviation's author (and the revision's author) accepts or rejects it. */
 export function decideDeviation(
+  db: DbOrTx,
+  input: {
+    revisionId: string;
+    actor: { id: string; name: string; roles: readonly string[] };
+    workspaceId: string;
+    deviationId: string;
+    accept: boolean;
+    note: string;
+  },
+): DeviationRow {
+  return db.transaction((tx) =>
+    decideDeviationIn(tx, { ...input, rc: loadRevision(tx, input.workspaceId, input.revisionId) }),
+  );
+}
+
+function decideDeviationIn(
   db: DbOrTx,
   input: {
     rc: RevisionContext;

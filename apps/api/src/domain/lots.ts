@@ -25,14 +25,11 @@ import { newId } from "./canonical.ts";
 import { isBuiltIn } from "./materials.ts";
 import { maskOf, stackOf, type RevisionContext } from "./load.ts";
 import { calibrateOffThread, type CalibrationRequest } from "../asbuilt/index.ts";
+import type { Actor } from "./deps.ts";
 
 export type LotRow = typeof measuredLots.$inferSelect;
 export type PartRow = typeof measuredParts.$inferSelect;
 
-interface Actor {
-  id: string;
-  name: string;
-}
 
 /** Run a pure optics call; its RangeError becomes a 400 naming the value. */
 function physics<T>(fn: () => T): T {

@@ -1,6 +1,6 @@
 // Workspace materials and how designs use them: a revision embeds every workspace material it refers to
 // as a design-local material, so the stored stack is self-contained and its hash covers the constants.
-import { eq } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import {
   MATERIAL_LIBRARY,
   MaterialSchema,
@@ -8,9 +8,12 @@ import {
   type Design,
   type Material,
 } from "@stackproof/optics";
+import type { Db } from "../db/client.ts";
 import { materials } from "../db/schema.ts";
-import type { DbOrTx } from "../lib/audit.ts";
-import { HttpError } from "../lib/errors.ts";
+import { recordAudit, type DbOrTx } from "../lib/audit.ts";
+import { HttpError, conflict } from "../lib/errors.ts";
+import { newId } from "./canonical.ts";
+import type { Actor } from "./deps.ts";
 
 export function workspaceMaterials(db: DbOrTx, workspaceId: string): Material[] {
   return db
@@ -78,4 +81,59 @@ export function resolveDesign(db: DbOrTx, workspaceId: string, input: unknown): 
     if (err instanceof RangeError) throw new HttpError(400, "invalid_design", `Design: ${err.message}`);
     throw err;
   }
+}
+
+/** 409 when `id` is a built-in material's (checked before an upload is read, and again when storing). */
+export function assertNotBuiltIn(id: string): void {
+  if (isBuiltIn(id)) throw conflict(`"${id}" is a built-in material id; choose another id.`);
+}
+
+/**
+ * Stores an uploaded material in the workspace: 409 for a built-in id or one the workspace already has (materials
+ * are never replaced: stored revisions embed their constants, and the id must keep meaning the same). Returns it as
+ * listed.
+ */
+export function createMaterial(db: Db, input: { workspaceId: string; actor: Actor; material: Material }) {
+  const { workspaceId, actor, material } = input;
+  assertNotBuiltIn(material.id);
+  const id = newId();
+  db.transaction((tx) => {
+    const taken = tx
+      .select({ id: materials.id })
+      .from(materials)
+      .where(and(eq(materials.workspaceId, workspaceId), eq(materials.materialId, material.id)))
+      .get();
+    if (taken)
+      throw conflict(`The workspace already has a material "${material.id}"; materials are not replaced, choose another id.`);
+    tx.insert(materials)
+      .values({
+        id,
+        workspaceId,
+        materialId: material.id,
+        name: material.name,
+        role: material.role,
+        source: material.source,
+        model: material.model,
+        createdBy: actor.id,
+      })
+      .run();
+    recordAudit(tx, {
+      workspaceId,
+      actorId: actor.id,
+      action: "material.created",
+      subjectType: "material",
+      subjectId: id,
+      summary: `${actor.name} uploaded the material ${material.id} (${material.name})`,
+    });
+  });
+  const row = db.select().from(materials).where(eq(materials.id, id)).get();
+  return {
+    id: material.id,
+    name: material.name,
+    role: material.role,
+    source: material.source,
+    builtIn: false,
+    model: material.model,
+    createdAt: row ? row.createdAt.toISOString() : new Date().toISOString(),
+  };
 }

@@ -1,6 +1,8 @@
 // E-mails of the review workflow. Sent after the change is committed; a failed send is logged by the mail service.
 import { appUrl, templates } from "../mail/index.ts";
-import type { AppContext } from "../context.ts";
+import type { Env } from "../env.ts";
+import type { DbOrTx } from "../lib/audit.ts";
+import type { MailDeps } from "./deps.ts";
 import type { Role } from "../db/schema.ts";
 import { memberships, users } from "../db/schema.ts";
 import { eq } from "drizzle-orm";
@@ -13,8 +15,8 @@ export interface Recipient {
   roles: Role[];
 }
 
-export function membersWithRoles(ctx: AppContext, workspaceId: string): Recipient[] {
-  return ctx.db
+export function membersWithRoles(db: DbOrTx, workspaceId: string): Recipient[] {
+  return db
     .select({ id: users.id, name: users.name, email: users.email, roles: memberships.roles })
     .from(memberships)
     .innerJoin(users, eq(memberships.userId, users.id))
@@ -22,27 +24,27 @@ export function membersWithRoles(ctx: AppContext, workspaceId: string): Recipien
     .all();
 }
 
-export function revisionLink(ctx: AppContext, rc: RevisionContext): string {
-  return appUrl(ctx.env, `/designs/${rc.design.id}/revisions/${rc.revision.id}`);
+export function revisionLink(env: Env, rc: RevisionContext): string {
+  return appUrl(env, `/designs/${rc.design.id}/revisions/${rc.revision.id}`);
 }
 
-function base(ctx: AppContext, rc: RevisionContext, recipient: Recipient) {
+function base(deps: MailDeps, rc: RevisionContext, recipient: Recipient) {
   return {
     recipientName: recipient.name,
     programName: rc.program.name,
     designName: rc.design.name,
     revisionNumber: rc.revision.number,
-    link: revisionLink(ctx, rc),
+    link: revisionLink(deps.env, rc),
   };
 }
 
 function send(
-  ctx: AppContext,
+  deps: MailDeps,
   rc: RevisionContext,
   to: Recipient,
   content: { subject: string; text: string; html: string },
 ) {
-  void ctx.mail.send({
+  void deps.mail.send({
     to: to.email,
     subject: content.subject,
     text: content.text,
@@ -52,40 +54,40 @@ function send(
 }
 
 export function mailReviewRequested(
-  ctx: AppContext,
+  deps: MailDeps,
   rc: RevisionContext,
   author: { id: string; name: string },
   note: string,
 ) {
-  for (const r of membersWithRoles(ctx, rc.program.workspaceId)) {
+  for (const r of membersWithRoles(deps.db, rc.program.workspaceId)) {
     if (r.id === author.id || !r.roles.includes("reviewer")) continue;
     send(
-      ctx,
+      deps,
       rc,
       r,
-      templates.reviewRequested({ ...base(ctx, rc, r), authorName: author.name, note: note || undefined }),
+      templates.reviewRequested({ ...base(deps, rc, r), authorName: author.name, note: note || undefined }),
     );
   }
 }
 
-function authorOf(ctx: AppContext, rc: RevisionContext): Recipient | undefined {
-  return membersWithRoles(ctx, rc.program.workspaceId).find((m) => m.id === rc.revision.authorId);
+function authorOf(deps: MailDeps, rc: RevisionContext): Recipient | undefined {
+  return membersWithRoles(deps.db, rc.program.workspaceId).find((m) => m.id === rc.revision.authorId);
 }
 
 export function mailChangesRequested(
-  ctx: AppContext,
+  deps: MailDeps,
   rc: RevisionContext,
   reviewer: { id: string; name: string },
   note: string,
 ) {
-  const author = authorOf(ctx, rc);
+  const author = authorOf(deps, rc);
   if (!author || author.id === reviewer.id) return;
   send(
-    ctx,
+    deps,
     rc,
     author,
     templates.changesRequested({
-      ...base(ctx, rc, author),
+      ...base(deps, rc, author),
       reviewerName: reviewer.name,
       note: note || undefined,
     }),
@@ -93,39 +95,39 @@ export function mailChangesRequested(
 }
 
 export function mailApproved(
-  ctx: AppContext,
+  deps: MailDeps,
   rc: RevisionContext,
   approver: { id: string; name: string },
   note: string,
 ) {
-  const author = authorOf(ctx, rc);
+  const author = authorOf(deps, rc);
   if (!author || author.id === approver.id) return;
   send(
-    ctx,
+    deps,
     rc,
     author,
-    templates.approved({ ...base(ctx, rc, author), approverName: approver.name, note: note || undefined }),
+    templates.approved({ ...base(deps, rc, author), approverName: approver.name, note: note || undefined }),
   );
 }
 
 /** To the author and the other approvers of the workspace. */
 export function mailReleased(
-  ctx: AppContext,
+  deps: MailDeps,
   rc: RevisionContext,
   approver: { id: string; name: string },
   releaseId: string,
   yieldText: string,
 ) {
-  const link = appUrl(ctx.env, `/releases/${releaseId}`);
-  for (const r of membersWithRoles(ctx, rc.program.workspaceId)) {
+  const link = appUrl(deps.env, `/releases/${releaseId}`);
+  for (const r of membersWithRoles(deps.db, rc.program.workspaceId)) {
     if (r.id === approver.id) continue;
     if (r.id !== rc.revision.authorId && !r.roles.includes("approver")) continue;
     send(
-      ctx,
+      deps,
       rc,
       r,
       templates.released({
-        ...base(ctx, rc, r),
+        ...base(deps, rc, r),
         link,
         approverName: approver.name,
         yieldText,
@@ -136,7 +138,7 @@ export function mailReleased(
 }
 
 export function mailMention(
-  ctx: AppContext,
+  deps: MailDeps,
   rc: RevisionContext,
   to: Recipient | { id: string; name: string; email: string },
   authorName: string,
@@ -148,11 +150,11 @@ export function mailMention(
     programName: rc.program.name,
     designName: rc.design.name,
     revisionNumber: rc.revision.number,
-    link: revisionLink(ctx, rc),
+    link: revisionLink(deps.env, rc),
     authorName,
     excerpt,
   });
-  void ctx.mail.send({
+  void deps.mail.send({
     to: to.email,
     subject: content.subject,
     text: content.text,

@@ -17,14 +17,12 @@ import type { ErrorModel, SpecMask } from "@stackproof/optics";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { conflict } from "../lib/errors.ts";
 import { canonicalJson, newId } from "./canonical.ts";
-import type { ProgramRow } from "./load.ts";
+import { loadProgram, type ProgramRow } from "./load.ts";
+import type { Actor } from "./deps.ts";
 
 export type ProgramVersionRow = typeof programVersions.$inferSelect;
 
-export interface Actor {
-  id: string;
-  name: string;
-}
+export type { Actor };
 
 export interface ProgramInput {
   name: string;
@@ -59,12 +57,24 @@ function describeChange(field: EvidenceRuleField, c: RuleChange): string {
     : `${RULE_LABEL[field]} ${fmt(c.before)} → ${fmt(c.after)}`;
 }
 
+/** Creates a program at version 1 (its first program_versions row) with the audit entry; returns its id. */
 export function createProgram(
   db: DbOrTx,
   input: { workspaceId: string; actor: Actor; program: ProgramInput },
-) {
+): string {
+  return db.transaction((tx) => createProgramIn(tx, input));
+}
+
+/**
+ * Stores a new program at version 1 with its first program_versions row ("program created"), as of `at`. No audit
+ * entry: createProgram writes one; the demo seeder (which back-dates its programs) calls this directly.
+ */
+export function storeProgram(
+  db: DbOrTx,
+  input: { workspaceId: string; createdBy: string; program: ProgramInput; at?: Date },
+): ProgramRow {
   const id = newId();
-  const at = new Date();
+  const at = input.at ?? new Date();
   const p = input.program;
   db.insert(programs)
     .values({
@@ -72,7 +82,7 @@ export function createProgram(
       workspaceId: input.workspaceId,
       ...p,
       version: 1,
-      createdBy: input.actor.id,
+      createdBy: input.createdBy,
       createdAt: at,
     })
     .run();
@@ -92,6 +102,12 @@ export function createProgram(
       createdAt: at,
     })
     .run();
+  return db.select().from(programs).where(eq(programs.id, id)).get() as ProgramRow;
+}
+
+function createProgramIn(db: DbOrTx, input: { workspaceId: string; actor: Actor; program: ProgramInput }): string {
+  const p = input.program;
+  const { id } = storeProgram(db, { workspaceId: input.workspaceId, createdBy: input.actor.id, program: p });
   recordAudit(db, {
     workspaceId: input.workspaceId,
     actorId: input.actor.id,
@@ -112,7 +128,8 @@ export function createProgram(
 export interface ProgramUpdate {
   workspaceId: string;
   actor: Actor;
-  before: ProgramRow;
+  /** The program to edit (404 when it is not in the workspace). */
+  programId: string;
   changes: Partial<ProgramInput>;
   /** Why the rules changed (kept with the version). */
   note?: string;
@@ -123,7 +140,15 @@ export interface ProgramUpdate {
  * revisions of the program go back to in_review with a `return_to_review` decision by the editor.
  */
 export function updateProgram(db: DbOrTx, u: ProgramUpdate): { version: number | null; returned: string[] } {
-  const { before, actor } = u;
+  return db.transaction((tx) => updateProgramIn(tx, u, loadProgram(tx, u.workspaceId, u.programId)));
+}
+
+function updateProgramIn(
+  db: DbOrTx,
+  u: ProgramUpdate,
+  before: ProgramRow,
+): { version: number | null; returned: string[] } {
+  const { actor } = u;
   const ruleChanges: Partial<Record<EvidenceRuleField, RuleChange>> = {};
   for (const f of EVIDENCE_RULE_FIELDS) {
     const next = u.changes[f];

@@ -5,18 +5,21 @@ import {
   checkDesignInputs,
   evaluateSpec,
   maskWavelengths,
+  type Design,
   type SpecMask,
   type SpecResult,
   type YieldResult,
 } from "@stackproof/optics";
 import { designs, revisions, threads, yieldRuns } from "../db/schema.ts";
 import { deviationState, evidenceFigures, evidencePlan, pickEvidenceRun } from "./evidence.ts";
-import type { DbOrTx } from "../lib/audit.ts";
+import type { StaleBase } from "@stackproof/contracts";
+import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError } from "../lib/errors.ts";
 import { assertWithinLimits, designLimitProblems, maskLimitProblems } from "../lib/limits.ts";
 import { zodDetails } from "../lib/errors.ts";
 import { newId, revisionHash } from "./canonical.ts";
 import { resolveDesign } from "./materials.ts";
+import type { Actor } from "./deps.ts";
 import {
   maskOf,
   person,
@@ -102,6 +105,18 @@ export function createRevision(tx: DbOrTx, input: NewRevision): RevisionRow {
       notComputable(err);
     }
   }
+  return storeRevision(tx, { design: input.design, stack, specMask: storedMask, note: input.note, authorId: input.authorId });
+}
+
+/**
+ * Stores the next revision of a design as given (number = last + 1, status draft, content hash of the stack and the
+ * stored mask), as of `at`. The caller has validated the stack and mask: createRevision does, the demo seeder's
+ * designs are the optics package's own.
+ */
+export function storeRevision(
+  tx: DbOrTx,
+  input: { design: Pick<DesignRow, "id">; stack: Design; specMask: SpecMask; note: string; authorId: string; at?: Date },
+): RevisionRow {
   const last = tx
     .select({ n: max(revisions.number) })
     .from(revisions)
@@ -111,16 +126,100 @@ export function createRevision(tx: DbOrTx, input: NewRevision): RevisionRow {
     id: newId(),
     designId: input.design.id,
     number: (last?.n ?? 0) + 1,
-    stack,
-    specMask: storedMask,
+    stack: input.stack,
+    specMask: input.specMask,
     note: input.note,
     authorId: input.authorId,
-    hash: revisionHash(stack, storedMask),
+    hash: revisionHash(input.stack, input.specMask),
     status: "draft" as const,
-    createdAt: new Date(),
+    statusChangedAt: null,
+    createdAt: input.at ?? new Date(),
   };
   tx.insert(revisions).values(row).run();
   return tx.select().from(revisions).where(eq(revisions.id, row.id)).get() as RevisionRow;
+}
+
+/** Stores a new design (no revision yet) in a program, as of `at`. */
+export function storeDesign(
+  tx: DbOrTx,
+  input: { programId: string; name: string; createdBy: string; at?: Date },
+): DesignRow {
+  const design = {
+    id: newId(),
+    programId: input.programId,
+    name: input.name,
+    createdBy: input.createdBy,
+    createdAt: input.at ?? new Date(),
+  };
+  tx.insert(designs).values(design).run();
+  return design;
+}
+
+/**
+ * Creates a design in a program with its revision 1 (see createRevision) and the audit entry, in one transaction.
+ */
+export function createDesign(
+  db: DbOrTx,
+  input: Omit<NewRevision, "design" | "authorId"> & { actor: Actor; name: string },
+): { design: DesignRow; revision: RevisionRow } {
+  const { actor, program } = input;
+  return db.transaction((tx) => {
+    const design = storeDesign(tx, { programId: program.id, name: input.name, createdBy: actor.id });
+    const revision = createRevision(tx, {
+      workspaceId: input.workspaceId,
+      design,
+      program,
+      stack: input.stack,
+      specMask: input.specMask,
+      note: input.note,
+      authorId: actor.id,
+      evaluated: input.evaluated,
+    });
+    recordAudit(tx, {
+      workspaceId: input.workspaceId,
+      actorId: actor.id,
+      action: "design.created",
+      subjectType: "design",
+      subjectId: design.id,
+      summary: `${actor.name} created the design ${design.name} in ${program.name} (rev 1)`,
+      data: { revisionId: revision.id, hash: revision.hash },
+    });
+    return { design, revision };
+  });
+}
+
+/**
+ * Adds the next revision of a design, saved from `baseRevisionId` (409 stale_base when that is not the design's
+ * latest: checked inside the transaction, so two saves from one base cannot both pass), with the audit entry.
+ */
+export function addRevision(
+  db: DbOrTx,
+  input: Omit<NewRevision, "authorId"> & { actor: Actor; baseRevisionId: string | null },
+): RevisionRow {
+  const { actor, design } = input;
+  return db.transaction((tx) => {
+    assertFreshBase(tx, design.id, input.baseRevisionId);
+    const revision = createRevision(tx, {
+      workspaceId: input.workspaceId,
+      design,
+      program: input.program,
+      stack: input.stack,
+      specMask: input.specMask,
+      note: input.note,
+      authorId: actor.id,
+      evaluated: input.evaluated,
+    });
+    recordAudit(tx, {
+      workspaceId: input.workspaceId,
+      actorId: actor.id,
+      action: "revision.created",
+      subjectType: "revision",
+      subjectId: revision.id,
+      summary: `${actor.name} added ${design.name} rev ${revision.number}`,
+      data: { hash: revision.hash },
+    });
+    return revision;
+  });
 }
 
 /**
@@ -164,7 +263,7 @@ export function assertFreshBase(tx: DbOrTx, designId: string, baseRevisionId: st
     {
       baseRevision: base ? { id: base.id, number: base.number } : null,
       latestRevision: { id: latest.id, number: latest.number },
-    },
+    } satisfies StaleBase,
   );
 }
 

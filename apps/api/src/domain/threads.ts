@@ -1,10 +1,14 @@
 // Review threads: anchors, the anchor verdict on a given revision, and @mentions.
-import { and, asc, eq, inArray, lte } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, lte } from "drizzle-orm";
 import { evaluateSpec, type SpecMask, type SpecResult } from "@stackproof/optics";
 import type { Db } from "../db/client.ts";
-import { comments, memberships, threads, users, type ThreadAnchor } from "../db/schema.ts";
-import type { DbOrTx } from "../lib/audit.ts";
-import { maskOf, person, stackOf, userNames, type RevisionContext, type ThreadRow } from "./load.ts";
+import { comments, memberships, revisions, threads, users, type Role, type ThreadAnchor } from "../db/schema.ts";
+import { recordAudit, type DbOrTx } from "../lib/audit.ts";
+import { HttpError, conflict, forbidden } from "../lib/errors.ts";
+import { newId } from "./canonical.ts";
+import type { Actor, MailDeps } from "./deps.ts";
+import { loadRevision, loadThread, maskOf, person, stackOf, userNames, type RevisionContext, type ThreadRow } from "./load.ts";
+import { mailMention } from "./notify.ts";
 
 /**
  * Whether a thread's anchor passes on a revision, from that revision's nominal evaluation:
@@ -173,4 +177,199 @@ export function threadViews(
     })),
     anchorPasses: nominal && mask ? anchorPasses(t.anchor, mask, nominal) : null,
   }));
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// Writing: opening, commenting, resolving and reopening. Each is one transaction with its audit entry; members
+// @mentioned get an e-mail once it is committed.
+
+/**
+ * Stores a thread on a revision as of `at`, open or (with `resolved`) already resolved; its comments are stored
+ * with storeComment. Returns its id. openThread is the product's way in; the demo seeder back-dates its threads.
+ */
+export function storeThread(
+  db: DbOrTx,
+  input: {
+    rc: RevisionContext;
+    anchor: ThreadAnchor;
+    severity: "blocking" | "advisory";
+    authorId: string;
+    at?: Date;
+    resolved?: { by: string; at: Date };
+  },
+): string {
+  const { rc } = input;
+  const id = newId();
+  db.insert(threads)
+    .values({
+      id,
+      designId: rc.design.id,
+      revisionId: rc.revision.id,
+      revisionNumber: rc.revision.number,
+      anchor: input.anchor,
+      severity: input.severity,
+      status: input.resolved ? "resolved" : "open",
+      authorId: input.authorId,
+      resolvedBy: input.resolved?.by ?? null,
+      resolvedAt: input.resolved?.at ?? null,
+      createdAt: input.at ?? new Date(),
+    })
+    .run();
+  return id;
+}
+
+/** Stores a comment on a thread as of `at`, with the ids of the members it mentions. */
+export function storeComment(
+  db: DbOrTx,
+  input: { threadId: string; authorId: string; body: string; mentions: string[]; at?: Date },
+): void {
+  db.insert(comments)
+    .values({
+      id: newId(),
+      threadId: input.threadId,
+      authorId: input.authorId,
+      body: input.body,
+      mentions: input.mentions,
+      createdAt: input.at ?? new Date(),
+    })
+    .run();
+}
+
+function addComment(db: DbOrTx, workspaceId: string, actor: Actor, threadId: string, body: string) {
+  const members = workspaceMembers(db, workspaceId);
+  const mentioned = findMentions(body, members).filter((m) => m.id !== actor.id);
+  storeComment(db, { threadId, authorId: actor.id, body, mentions: mentioned.map((m) => m.id) });
+  return mentioned;
+}
+
+function threadRow(db: DbOrTx, id: string): ThreadRow | undefined {
+  return db.select().from(threads).where(eq(threads.id, id)).get();
+}
+
+/**
+ * Opens a thread on a revision with its first comment. 422 unknown_anchor when the anchor names a spec band or a
+ * layer the revision does not have. Returns the stored thread.
+ */
+export function openThread(
+  deps: MailDeps,
+  input: {
+    workspaceId: string;
+    actor: Actor;
+    rc: RevisionContext;
+    anchor: ThreadAnchor;
+    severity: "blocking" | "advisory";
+    body: string;
+  },
+): ThreadRow | undefined {
+  const { workspaceId, actor, rc, anchor } = input;
+  const mask = maskOf(rc.revision, rc.program);
+  // a band or a colour requirement (they share ids)
+  if (anchor.kind === "band" && ![...mask.bands, ...(mask.colour ?? [])].some((b) => b.id === anchor.bandId)) {
+    throw new HttpError(422, "unknown_anchor", `Revision ${rc.revision.number} has no spec band "${anchor.bandId}".`);
+  }
+  if (anchor.kind === "layer" && anchor.index >= stackOf(rc.revision).layers.length) {
+    throw new HttpError(
+      422,
+      "unknown_anchor",
+      `Revision ${rc.revision.number} has ${stackOf(rc.revision).layers.length} layers; there is no layer ${anchor.index}.`,
+    );
+  }
+  const { id, mentioned } = deps.db.transaction((tx) => {
+    const id = storeThread(tx, { rc, anchor, severity: input.severity, authorId: actor.id });
+    const mentioned = addComment(tx, workspaceId, actor, id, input.body);
+    recordAudit(tx, {
+      workspaceId,
+      actorId: actor.id,
+      action: "thread.opened",
+      subjectType: "thread",
+      subjectId: id,
+      summary: `${actor.name} opened a ${input.severity} thread on ${rc.design.name} rev ${rc.revision.number}`,
+    });
+    return { id, mentioned };
+  });
+  for (const m of mentioned) mailMention(deps, rc, m, actor.name, input.body);
+  return threadRow(deps.db, id);
+}
+
+/**
+ * Comments on a thread (403 for a member holding only the admin role: admins do not take part in reviews).
+ * Returns the thread and the revision it was opened on.
+ */
+export function commentOnThread(
+  deps: MailDeps,
+  input: { workspaceId: string; actor: Actor & { roles: readonly Role[] }; threadId: string; body: string },
+): { thread: ThreadRow | undefined; rc: RevisionContext } {
+  const { workspaceId, actor } = input;
+  if (!actor.roles.some((r) => r !== "admin")) throw forbidden("Commenting needs a designer, reviewer or approver role.");
+  const { thread } = loadThread(deps.db, workspaceId, input.threadId);
+  const rc = loadRevision(deps.db, workspaceId, thread.revisionId);
+  const mentioned = deps.db.transaction((tx) => {
+    const mentioned = addComment(tx, workspaceId, actor, thread.id, input.body);
+    recordAudit(tx, {
+      workspaceId,
+      actorId: actor.id,
+      action: "thread.commented",
+      subjectType: "thread",
+      subjectId: thread.id,
+      summary: `${actor.name} commented on a thread of ${rc.design.name}`,
+    });
+    return mentioned;
+  });
+  for (const m of mentioned) mailMention(deps, rc, m, actor.name, input.body);
+  return { thread: threadRow(deps.db, thread.id), rc };
+}
+
+/**
+ * Resolves or reopens a thread, with an optional note as a comment. Only a reviewer, an approver or the thread's
+ * author may (403); a thread already in that state is 409. Returns the thread and the design's latest revision
+ * (where the thread now matters).
+ */
+export function setThreadStatus(
+  deps: MailDeps,
+  input: {
+    workspaceId: string;
+    actor: Actor & { roles: readonly Role[] };
+    threadId: string;
+    action: "resolve" | "reopen";
+    note?: string | undefined;
+  },
+): { thread: ThreadRow | undefined; rc: RevisionContext } {
+  const { workspaceId, actor, action } = input;
+  const { thread } = loadThread(deps.db, workspaceId, input.threadId);
+  if (thread.authorId !== actor.id && !actor.roles.includes("reviewer") && !actor.roles.includes("approver")) {
+    throw forbidden(`Only a reviewer, an approver or the thread's author may ${action} it.`);
+  }
+  const rc = loadRevision(deps.db, workspaceId, thread.revisionId);
+  const from = action === "resolve" ? "open" : "resolved";
+  const to = action === "resolve" ? "resolved" : "open";
+  const mentioned = deps.db.transaction((tx) => {
+    const res = tx
+      .update(threads)
+      .set(
+        to === "resolved"
+          ? { status: to, resolvedAt: new Date(), resolvedBy: actor.id }
+          : { status: to, resolvedAt: null, resolvedBy: null },
+      )
+      .where(and(eq(threads.id, thread.id), eq(threads.status, from)))
+      .run();
+    if (res.changes !== 1) throw conflict(`The thread is already ${to}.`);
+    const mentioned = input.note ? addComment(tx, workspaceId, actor, thread.id, input.note) : [];
+    recordAudit(tx, {
+      workspaceId,
+      actorId: actor.id,
+      action: action === "resolve" ? "thread.resolved" : "thread.reopened",
+      subjectType: "thread",
+      subjectId: thread.id,
+      summary: `${actor.name} ${action === "resolve" ? "resolved" : "reopened"} a ${thread.severity} thread on ${rc.design.name}`,
+    });
+    return mentioned;
+  });
+  for (const m of mentioned) mailMention(deps, rc, m, actor.name, input.note ?? "");
+  const latest = deps.db
+    .select()
+    .from(revisions)
+    .where(eq(revisions.designId, thread.designId))
+    .orderBy(desc(revisions.number))
+    .get();
+  return { thread: threadRow(deps.db, thread.id), rc: latest ? { ...rc, revision: latest } : rc };
 }

@@ -18,7 +18,7 @@ import {
   type YieldResult,
 } from "@stackproof/optics";
 import type { AuthContext } from "../auth/types.ts";
-import type { AppContext } from "../context.ts";
+import type { MailDeps } from "./deps.ts";
 import {
   decisions,
   releases,
@@ -377,14 +377,18 @@ export interface TransitionOutcome {
   releaseId: string | null;
 }
 
+/**
+ * Moves a revision through the workflow in one transaction (state check, decision, audit entry, release record),
+ * then mails the people the step concerns.
+ */
 export function applyTransition(
-  ctx: AppContext,
+  deps: MailDeps,
   auth: AuthContext,
   revisionId: string,
   input: TransitionInput,
 ): TransitionOutcome {
   const note = input.note?.trim() ?? "";
-  const outcome = ctx.db.transaction((tx) => {
+  const outcome = deps.db.transaction((tx) => {
     const rc = loadRevision(tx, auth.workspaceId, revisionId);
     checkRole(input.action, auth, rc);
     const from = rc.revision.status;
@@ -440,71 +444,35 @@ export function applyTransition(
       }
     }
     const at = new Date();
-    const changed = tx
-      .update(revisions)
-      .set({ status: rule.to, statusChangedAt: at })
-      .where(and(eq(revisions.id, rc.revision.id), eq(revisions.status, from)))
-      .run();
-    if (changed.changes !== 1) throw conflict("The revision changed state meanwhile; reload it.");
-    const decision = {
-      id: newId(),
-      revisionId: rc.revision.id,
-      action: input.action,
-      fromStatus: from,
-      toStatus: rule.to,
-      actorId: auth.user.id,
-      actorName: auth.user.name,
-      revisionHash: rc.revision.hash,
-      yieldRunId,
-      programVersion: rc.program.version,
-      note,
-      at,
-    };
-    tx.insert(decisions).values(decision).run();
-    recordAudit(tx, {
+    const { decision } = recordDecision(tx, {
       workspaceId: auth.workspaceId,
-      actorId: auth.user.id,
-      action: AUDIT_ACTION[input.action],
-      subjectType: "revision",
-      subjectId: rc.revision.id,
-      summary: `${auth.user.name} ${AUDIT_SENTENCE[input.action]} ${rc.design.name} rev ${rc.revision.number}${input.action === "submit" ? " for review" : ""}${note ? `: ${note.slice(0, 120)}` : ""}`,
-      data: {
-        from,
-        to: rule.to,
-        revisionHash: rc.revision.hash,
-        yieldRunId,
-        programVersion: rc.program.version,
-        decisionId: decision.id,
-      },
+      rc,
+      action: input.action,
+      to: rule.to,
+      actor: auth.user,
+      at,
+      note,
+      yieldRunId,
     });
     let releaseId: string | null = null;
     if (input.action === "release" && yieldRunId) {
-      releaseId = newId();
-      const updated = { ...rc, revision: { ...rc.revision, status: rule.to } };
-      tx.insert(releases)
-        .values({
-          id: releaseId,
-          workspaceId: auth.workspaceId,
-          revisionId: rc.revision.id,
-          designId: rc.design.id,
-          programId: rc.program.id,
-          yieldRunId,
-          releasedBy: auth.user.id,
-          releasedAt: at,
-          snapshot: releaseSnapshot(tx, updated, yieldRunId, releaseId, auth, at),
-        })
-        .run();
+      releaseId = storeRelease(tx, {
+        rc: { ...rc, revision: { ...rc.revision, status: rule.to } },
+        yieldRunId,
+        releasedBy: auth,
+        at,
+      });
     }
     return { rc, decision, releaseId };
   });
 
   const actor = { id: auth.user.id, name: auth.user.name };
   const rc = outcome.rc;
-  if (input.action === "submit") mailReviewRequested(ctx, rc, actor, note);
-  if (input.action === "request_changes") mailChangesRequested(ctx, rc, actor, note);
-  if (input.action === "approve") mailApproved(ctx, rc, actor, note);
+  if (input.action === "submit") mailReviewRequested(deps, rc, actor, note);
+  if (input.action === "request_changes") mailChangesRequested(deps, rc, actor, note);
+  if (input.action === "approve") mailApproved(deps, rc, actor, note);
   if (input.action === "release" && outcome.releaseId) {
-    const run = ctx.db
+    const run = deps.db
       .select()
       .from(yieldRuns)
       .where(eq(yieldRuns.id, outcome.decision.yieldRunId ?? ""))
@@ -513,10 +481,91 @@ export function applyTransition(
     const yieldText = result
       ? `${pct(result.yield)} (95 % interval ${pct(result.interval.low)}–${pct(result.interval.high)}, ${result.trials} trials)`
       : "";
-    mailReleased(ctx, rc, actor, outcome.releaseId, yieldText);
+    mailReleased(deps, rc, actor, outcome.releaseId, yieldText);
   }
-  const revision = ctx.db.select().from(revisions).where(eq(revisions.id, revisionId)).get() ?? rc.revision;
+  const revision = deps.db.select().from(revisions).where(eq(revisions.id, revisionId)).get() ?? rc.revision;
   return { revision, decision: outcome.decision, releaseId: outcome.releaseId };
+}
+
+export interface DecisionInput {
+  workspaceId: string;
+  rc: RevisionContext;
+  action: DecisionAction;
+  to: RevisionStatus;
+  actor: { id: string; name: string };
+  at: Date;
+  note: string;
+  yieldRunId: string | null;
+  /** The program version the decision is made against (default: the program's current one). */
+  programVersion?: number;
+}
+
+/**
+ * Records a workflow decision: moves the revision from the state it was read in to `to` (409 when it changed
+ * meanwhile), appends the decision (decisions are never changed) and its audit entry. The caller has checked that
+ * the move is allowed (applyTransition: roles, states, the gate).
+ */
+export function recordDecision(tx: DbOrTx, input: DecisionInput) {
+  const { rc, action, to, actor, at, note, yieldRunId } = input;
+  const from = rc.revision.status;
+  const programVersion = input.programVersion ?? rc.program.version;
+  const changed = tx
+    .update(revisions)
+    .set({ status: to, statusChangedAt: at })
+    .where(and(eq(revisions.id, rc.revision.id), eq(revisions.status, from)))
+    .run();
+  if (changed.changes !== 1) throw conflict("The revision changed state meanwhile; reload it.");
+  const decision = {
+    id: newId(),
+    revisionId: rc.revision.id,
+    action,
+    fromStatus: from,
+    toStatus: to,
+    actorId: actor.id,
+    actorName: actor.name,
+    revisionHash: rc.revision.hash,
+    yieldRunId,
+    programVersion,
+    note,
+    at,
+  };
+  tx.insert(decisions).values(decision).run();
+  recordAudit(tx, {
+    workspaceId: input.workspaceId,
+    actorId: actor.id,
+    action: AUDIT_ACTION[action],
+    subjectType: "revision",
+    subjectId: rc.revision.id,
+    summary: `${actor.name} ${AUDIT_SENTENCE[action]} ${rc.design.name} rev ${rc.revision.number}${action === "submit" ? " for review" : ""}${note ? `: ${note.slice(0, 120)}` : ""}`,
+    data: { from, to, revisionHash: rc.revision.hash, yieldRunId, programVersion, decisionId: decision.id },
+  });
+  return { decision, revision: { ...rc.revision, status: to, statusChangedAt: at } };
+}
+
+/**
+ * Files the release record of a released revision: the snapshot (releaseSnapshot) taken now, so it reads the same
+ * later. Returns the release id.
+ */
+export function storeRelease(
+  tx: DbOrTx,
+  input: { rc: RevisionContext; yieldRunId: string; releasedBy: AuthContext; at: Date },
+): string {
+  const { rc, yieldRunId, releasedBy, at } = input;
+  const id = newId();
+  tx.insert(releases)
+    .values({
+      id,
+      workspaceId: releasedBy.workspaceId,
+      revisionId: rc.revision.id,
+      designId: rc.design.id,
+      programId: rc.program.id,
+      yieldRunId,
+      releasedBy: releasedBy.user.id,
+      releasedAt: at,
+      snapshot: releaseSnapshot(tx, rc, yieldRunId, id, releasedBy, at),
+    })
+    .run();
+  return id;
 }
 
 export function decisionViews(db: DbOrTx, revisionId: string) {

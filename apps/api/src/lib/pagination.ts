@@ -11,19 +11,13 @@
 //   });
 import { sql, type SQL } from "drizzle-orm";
 import type { SQLiteColumn } from "drizzle-orm/sqlite-core";
-import { z } from "zod";
-import type { Page } from "@stackproof/contracts";
+import type { z } from "zod";
+import type { PageQuery as ContractPageQuery, Page } from "@stackproof/contracts";
 import { HttpError } from "./errors.ts";
 
-export const DEFAULT_LIMIT = 50;
-export const MAX_LIMIT = 200;
-
-/** Query schema for a paginated list; extend it with `.extend({...})` for filters. */
-export const pageQuery = z.object({
-  limit: z.coerce.number().int().min(1).max(MAX_LIMIT).default(DEFAULT_LIMIT),
-  cursor: z.string().min(1).max(500).optional(),
-});
-export type PageQuery = z.infer<typeof pageQuery>;
+/** Query schema for a paginated list (the contracts' PageQuery; extend it there with `.extend({...})` for filters). */
+export { PageQuery as pageQuery, DEFAULT_PAGE_LIMIT as DEFAULT_LIMIT, MAX_PAGE_LIMIT as MAX_LIMIT } from "@stackproof/contracts";
+export type PageQuery = z.infer<typeof ContractPageQuery>;
 
 /** Response schema `{ items: T[], nextCursor: string | null }` and its type live with the contracts. */
 export { pageSchema, type Page } from "@stackproof/contracts";

@@ -3,13 +3,11 @@
 // Rows are numbered as lines of the file (the header is row 1); every problem names its row and column.
 // Lines starting with "#" are comments; blank lines are skipped; cells are trimmed.
 import { CsvError, parse } from "csv-parse/sync";
+import type { CsvProblem } from "@stackproof/contracts";
 import { HttpError } from "../lib/errors.ts";
 
-export interface CellProblem {
-  row: number;
-  column: string;
-  message: string;
-}
+/** One problem of a file (contract: CsvProblemSchema, the details of a 422 invalid_csv answer). */
+export type CellProblem = CsvProblem;
 
 /** At most this many problems are reported for one file. */
 const MAX_PROBLEMS = 50;

@@ -18,11 +18,11 @@ import type { Db } from "../db/client.ts";
 import type { MailService } from "../mail/index.ts";
 import { designs, programs, revisions, yieldChunks, yieldRuns } from "../db/schema.ts";
 import { maskOf, stackOf, type YieldRunRow } from "../domain/load.ts";
+import { finishedRunValues } from "../domain/yield-runs.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { createFairScheduler, FAIR_CHUNK_TRIALS } from "@stackproof/optics/node-pool";
 import { HttpError } from "../lib/errors.ts";
 import type { Compute } from "./compute.ts";
-import { ClientResultSchema, verifyClientResult } from "./verify.ts";
 
 export interface JobService {
   /** Number of worker threads in this process (0 when only Redis workers compute). */
@@ -65,33 +65,8 @@ export function studyForRun(db: Db, run: YieldRunRow): YieldStudy | null {
   };
 }
 
-/** The finished run's columns: result, verification against a submitted client result, timestamps. */
-export function finishedRunValues(run: YieldRunRow, result: YieldResult) {
-  let verified = true;
-  let mismatch: string | null = null;
-  if (run.clientResult !== null && run.clientResult !== undefined) {
-    const parsed = ClientResultSchema.safeParse(run.clientResult);
-    if (!parsed.success) {
-      verified = false;
-      mismatch = "the submitted client result is not a yield result";
-    } else {
-      ({ verified, mismatch } = verifyClientResult(result, parsed.data, {
-        trials: run.trials,
-        seed: run.seed,
-        errorModel: run.errorModel,
-      }));
-    }
-  }
-  return {
-    status: "done" as const,
-    progressDone: run.trials,
-    result,
-    verified,
-    mismatch,
-    engineVersion: result.engineVersion,
-    finishedAt: new Date(),
-  };
-}
+// finishedRunValues (the finished run's columns) lives with the domain: the demo seeder stores finished runs too.
+export { finishedRunValues } from "../domain/yield-runs.ts";
 
 /** Audit entry for a state the job service gave a run (the system is the actor). */
 function auditRun(db: DbOrTx, runId: string, action: string, summary: (label: string) => string) {

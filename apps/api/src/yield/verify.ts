@@ -1,22 +1,9 @@
 // Verification of a browser-computed yield result against the server's own re-run.
-import { z } from "zod";
-import { ErrorModelSchema, type ErrorModel, type YieldResult } from "@stackproof/optics";
+import type { ErrorModel, YieldResult } from "@stackproof/optics";
 import { canonicalJson } from "../domain/canonical.ts";
 
-/** The parts of a submitted YieldResult that verification reads; other members are kept but not compared. */
-export const ClientResultSchema = z
-  .object({
-    trials: z.number().int().min(1),
-    seed: z.string().min(1),
-    passCount: z.number().int().min(0),
-    yield: z.number().min(0).max(1),
-    interval: z.looseObject({ low: z.number(), high: z.number() }),
-    bandFailures: z.array(z.object({ id: z.string(), count: z.number().int().min(0) })),
-    errorModel: ErrorModelSchema,
-    engineVersion: z.string().optional(),
-  })
-  .loose();
-export type ClientResult = z.infer<typeof ClientResultSchema>;
+// The parts of a submitted YieldResult that verification reads live with the contracts (the run requests carry them).
+export { ClientResultSchema, type ClientResult } from "@stackproof/contracts";
 
 /** What verification compares (a parsed ClientResult, or any YieldResult). */
 export interface ComparableResult {

@@ -11,31 +11,35 @@ import * as C from "@stackproof/contracts";
 import { createApp } from "../../src/app.ts";
 import { createContext, type AppContext } from "../../src/context.ts";
 import { loadEnv } from "../../src/env.ts";
-import { DEMO_PASSWORD } from "../../src/demo/index.ts";
+import { DEMO_PASSWORD, loadDemoData } from "../../src/demo/index.ts";
 import { routeRegistry } from "../../src/lib/route.ts";
-import { signIn } from "../support/auth.ts";
+import { signIn, withOrigin } from "../support/auth.ts";
+import type { TestServer } from "../support/context.ts";
 import { expectContract } from "../support/contract.ts";
+import { lastMailTo, tokenIn } from "../support/mail.ts";
+import request from "supertest";
 import { API, AR_MASK, ERROR_MODEL, programBody, singleLayerAr } from "../domain/fixtures.ts";
 
 let dir: string;
 let ctx: AppContext;
-let server: { ctx: AppContext; app: ReturnType<typeof createApp>; dir: string; close(): Promise<void> };
+let server: TestServer;
 type Agent = Awaited<ReturnType<typeof signIn>>;
 let admin: Agent, designer: Agent, reviewer: Agent, approver: Agent;
 
 beforeAll(async () => {
   dir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-contracts-"));
-  ctx = await createContext(
-    loadEnv({
-      NODE_ENV: "test",
-      DATA_DIR: dir,
-      DEMO_DATA: "true",
-      YIELD_WORKERS: "1",
-      // The origin the support agents send (support/auth.ts TEST_ORIGIN).
-      ALLOWED_ORIGINS: "http://stackproof.test",
-    }),
-  );
-  server = { ctx, app: createApp(ctx), dir, close: async () => {} };
+  const env = loadEnv({
+    NODE_ENV: "test",
+    DATA_DIR: dir,
+    DEMO_DATA: "true",
+    YIELD_WORKERS: "1",
+    // The origin the support agents send (support/auth.ts TEST_ORIGIN).
+    ALLOWED_ORIGINS: "http://stackproof.test",
+  });
+  ctx = await createContext(env);
+  // As the entry point (src/index.ts) does.
+  const demo = await loadDemoData(env, ctx.db);
+  server = { ctx, app: createApp(ctx), dir, demo, close: async () => {} };
   admin = await signIn(server, "admin@halvorsen.example", DEMO_PASSWORD);
   designer = await signIn(server, "designer@halvorsen.example", DEMO_PASSWORD);
   reviewer = await signIn(server, "reviewer@halvorsen.example", DEMO_PASSWORD);
@@ -211,5 +215,155 @@ describe("responses match their contracts", () => {
       C.MemberUpdateResponse,
       "PATCH /members/:userId",
     );
+  });
+
+  it("the other routes: versions, evidence, deviations, reopen, cancel, uploads, invitation links, sign-in, error details", async () => {
+    const program = check(
+      await approver.post(`${API}/programs`).send(programBody({ specMask: AR_MASK, errorModel: ERROR_MODEL })).expect(201),
+      C.ProgramSchema,
+      "POST /programs",
+    );
+    check(await approver.get(`${API}/programs/${program.id}/versions`).expect(200), C.ProgramVersionsResponse, "GET /programs/:id/versions");
+    // A revision whose mask loosens the program's average limit from 2 % to 2.5 %: it needs a deviation.
+    const loosened = { bands: AR_MASK.bands.map((b) => (b.id === "avg" ? { ...b, value: 2.5 } : b)) };
+    const created = check(
+      await designer
+        .post(`${API}/programs/${program.id}/designs`)
+        .send({ name: "Contract deviation", stack: singleLayerAr(), specMask: loosened })
+        .expect(201),
+      C.CreateDesignResponse,
+      "POST /programs/:id/designs",
+    );
+    const revisionId = created.revision.id;
+    check(await designer.get(`${API}/revisions/${revisionId}/evidence`).expect(200), C.EvidenceResponse, "GET /revisions/:id/evidence");
+    check(
+      await designer.post(`${API}/revisions/${revisionId}/evidence-run`).send({}).expect(202),
+      C.CreateYieldRunResponse,
+      "POST /revisions/:id/evidence-run",
+    );
+    const asked = check(
+      await designer.post(`${API}/revisions/${revisionId}/deviations`).send({ reason: "The customer accepts 2.5 % average." }).expect(201),
+      C.DeviationSchema,
+      "POST /revisions/:id/deviations",
+    );
+    check(
+      await approver.post(`${API}/revisions/${revisionId}/deviations/${asked.id}/decision`).send({ accept: true }).expect(200),
+      C.DeviationSchema,
+      "POST /revisions/:id/deviations/:deviationId/decision",
+    );
+    const deviations = check(
+      await approver.get(`${API}/revisions/${revisionId}/deviations`).expect(200),
+      C.DeviationListResponse,
+      "GET /revisions/:id/deviations",
+    );
+    expect(deviations.items.map((d) => d.status)).toEqual(["accepted"]);
+
+    const thread = check(
+      await reviewer
+        .post(`${API}/revisions/${revisionId}/threads`)
+        .send({ anchor: { kind: "design" }, severity: "advisory", body: "Looks fine." })
+        .expect(201),
+      C.ThreadSchema,
+      "POST /revisions/:id/threads",
+    );
+    await reviewer.post(`${API}/threads/${thread.id}/resolve`).send({}).expect(200);
+    check(await reviewer.post(`${API}/threads/${thread.id}/reopen`).send({}).expect(200), C.ThreadSchema, "POST /threads/:id/reopen");
+
+    // A run large enough to be still queued or running when the cancel arrives.
+    const { run } = check(
+      await designer.post(`${API}/revisions/${revisionId}/yield-runs`).send({ trials: 150000, seed: "to-cancel" }).expect(202),
+      C.CreateYieldRunResponse,
+      "POST /revisions/:id/yield-runs",
+    );
+    const cancelled = check(await designer.post(`${API}/yield-runs/${run.id}/cancel`).expect(200), C.YieldRunSchema, "POST /yield-runs/:id/cancel");
+    expect(cancelled.status).toBe("cancelled");
+
+    check(
+      await designer
+        .post(`${API}/materials`)
+        .field("id", "contract-film")
+        .field("name", "Contract film")
+        .attach("file", Buffer.from("wavelength_nm,n,k\n400,1.46,0\n800,1.45,0\n"), "film.csv")
+        .expect(201),
+      C.MaterialOutSchema,
+      "POST /materials",
+    );
+    check(
+      await designer
+        .post(`${API}/revisions/${revisionId}/measurements`)
+        .attach("file", Buffer.from("wavelength_nm,R\n500,1.2\n550,1.1\n600,1.3\n"), "measured.csv")
+        .expect(201),
+      C.MeasurementOutSchema,
+      "POST /revisions/:id/measurements",
+    );
+
+    // Error details the web app reads with their contracts: a refused CSV and a save from a stale base.
+    const badCsv = await designer
+      .post(`${API}/materials`)
+      .field("id", "contract-bad")
+      .field("name", "Bad film")
+      .attach("file", Buffer.from("wavelength_nm,n,k\n400,abc,0\n800,1.45,0\n"), "bad.csv")
+      .expect(422);
+    expect(badCsv.body.error.code).toBe("invalid_csv");
+    const problems = expectContract(C.CsvProblemsDetails, badCsv.body.error.details, "422 invalid_csv details");
+    expect(problems[0]).toMatchObject({ row: 2, column: "n" });
+    const thicker = singleLayerAr();
+    thicker.layers[0]!.thickness += 1;
+    await designer
+      .post(`${API}/designs/${created.design.id}/revisions`)
+      .send({ baseRevisionId: revisionId, stack: thicker, note: "first save" })
+      .expect(201);
+    const stale = await designer
+      .post(`${API}/designs/${created.design.id}/revisions`)
+      .send({ baseRevisionId: revisionId, stack: thicker, note: "second save from the same base" })
+      .expect(409);
+    expect(stale.body.error.code).toBe("stale_base");
+    const details = expectContract(C.StaleBaseDetails, stale.body.error.details, "409 stale_base details");
+    expect(details.baseRevision?.id).toBe(revisionId);
+
+    // An invitation link: looked up and accepted by a new person (who is then signed in), then a plain sign-in.
+    await admin.post(`${API}/invitations`).send({ email: "linked.person@halvorsen.example", roles: ["designer"] }).expect(201);
+    const token = tokenIn(await lastMailTo(server, "linked.person@halvorsen.example"), "/accept-invitation");
+    check(await request(server.app).get(`${API}/invitations/lookup/${token}`).expect(200), C.InvitationLookupSchema, "GET /invitations/lookup/:token");
+    const password = "amber-lattice-quarry-91";
+    check(
+      await withOrigin(request(server.app).post(`${API}/invitations/accept`)).send({ token, name: "Linnea Holt", password }).expect(200),
+      C.SessionInfo,
+      "POST /invitations/accept",
+    );
+    check(
+      await withOrigin(request(server.app).post(`${API}/auth/sign-in`)).send({ email: "linked.person@halvorsen.example", password }).expect(200),
+      C.SessionInfo,
+      "POST /auth/sign-in",
+    );
+  });
+
+  it("every JSON request schema a route validates with is an export of the contracts package", () => {
+    const exported = new Set<unknown>(Object.values(C));
+    const inline = [...routeRegistry.entries()]
+      .flatMap(([key, r]) =>
+        (["params", "query", "body"] as const)
+          .filter((part) => r[part] && !exported.has(r[part]) && !(part === "body" && r.multipart))
+          .map((part) => `${key} ${part}`),
+      )
+      .sort();
+    expect(inline).toEqual([]);
+  });
+
+  it("every route that answers JSON declares its response with a schema exported by the contracts package", () => {
+    const exported = new Set<unknown>(Object.values(C));
+    const inline = [...routeRegistry.entries()].filter(([, r]) => r.response && !exported.has(r.response)).map(([key]) => key);
+    expect(inline).toEqual([]);
+    // Routes without a response schema answer 202/204 with no body, or a file (HTML, PDF).
+    const without = [...routeRegistry.entries()].filter(([, r]) => !r.response).map(([key]) => key).sort();
+    expect(without).toEqual([
+      "DELETE /invitations/:id",
+      "DELETE /members/:userId",
+      "GET /releases/:id/pdf",
+      "GET /releases/:id/print",
+      "POST /auth/password-reset",
+      "POST /auth/password-reset/confirm",
+      "POST /auth/sign-out",
+    ]);
   });
 });

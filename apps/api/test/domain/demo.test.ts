@@ -7,14 +7,16 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createApp } from "../../src/app.ts";
 import { createContext, type AppContext } from "../../src/context.ts";
 import { loadEnv } from "../../src/env.ts";
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from "../../src/demo/index.ts";
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, loadDemoData, type DemoSummary } from "../../src/demo/index.ts";
 import { demoPrograms } from "../../src/demo/designs.ts";
 import { signIn } from "../support/auth.ts";
+import type { TestServer } from "../support/context.ts";
 import { API } from "./fixtures.ts";
 
 let dir: string;
 let ctx: AppContext;
-let server: { ctx: AppContext; app: ReturnType<typeof createApp>; dir: string; close(): Promise<void> };
+let demo: DemoSummary | null;
+let server: TestServer;
 const env = () =>
   loadEnv({
     NODE_ENV: "test",
@@ -27,7 +29,9 @@ const env = () =>
 beforeAll(async () => {
   dir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-demo-"));
   ctx = await createContext(env());
-  server = { ctx, app: createApp(ctx), dir, close: async () => {} };
+  // As the entry point (src/index.ts) does.
+  demo = await loadDemoData(env(), ctx.db);
+  server = { ctx, app: createApp(ctx), dir, demo, close: async () => {} };
 });
 afterAll(async () => {
   await ctx.close();
@@ -61,8 +65,8 @@ function pdfText(bytes: Buffer): string {
 
 describe("demo workspace", () => {
   it("has the four demo accounts with exactly their roles", async () => {
-    expect(ctx.demo).toMatchObject({ programs: 4, yieldRuns: 3, releases: 1 });
-    expect(ctx.demo?.ms).toBeLessThan(10000);
+    expect(demo).toMatchObject({ programs: 4, yieldRuns: 3, releases: 1 });
+    expect(demo?.ms).toBeLessThan(10000);
     for (const account of DEMO_ACCOUNTS) {
       const agent = await signIn(server, account.email, DEMO_PASSWORD);
       const me = await agent.get(`${API}/auth/me`).expect(200);
@@ -217,8 +221,9 @@ describe("demo workspace", () => {
   it("is not loaded again into a database that has a workspace", async () => {
     await ctx.close();
     ctx = await createContext(env());
-    server = { ctx, app: createApp(ctx), dir, close: async () => {} };
-    expect(ctx.demo).toBeNull();
+    const again = await loadDemoData(env(), ctx.db);
+    server = { ctx, app: createApp(ctx), dir, demo: again, close: async () => {} };
+    expect(again).toBeNull();
     const count = ctx.db.$client.prepare("SELECT count(*) AS n FROM workspaces").get() as { n: number };
     expect(count.n).toBe(1);
   });

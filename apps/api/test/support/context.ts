@@ -5,11 +5,14 @@ import path from "node:path";
 import { createApp } from "../../src/app.ts";
 import { createContext, type AppContext } from "../../src/context.ts";
 import { loadEnv } from "../../src/env.ts";
+import { loadDemoData, type DemoSummary } from "../../src/demo/index.ts";
 
 export interface TestServer {
   ctx: AppContext;
   app: ReturnType<typeof createApp>;
   dir: string;
+  /** The demo workspace's summary when DEMO_DATA loaded it (as the entry point does), else null. */
+  demo?: DemoSummary | null;
   close(): Promise<void>;
 }
 
@@ -25,11 +28,13 @@ export async function createTestServer(overrides: Record<string, string> = {}): 
     ...overrides,
   });
   const ctx = await createContext(env);
+  const demo = await loadDemoData(env, ctx.db);
   const app = createApp(ctx);
   return {
     ctx,
     app,
     dir,
+    demo,
     async close() {
       await ctx.close();
       fs.rmSync(dir, { recursive: true, force: true });

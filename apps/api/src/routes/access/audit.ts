@@ -1,12 +1,11 @@
 // The audit log of the workspace, newest first.
 import type { Router } from "express";
 import { and, desc, eq } from "drizzle-orm";
-import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { auditLog, users } from "../../db/schema.ts";
 import { getAuth } from "../../auth/guards.ts";
-import { AuditListResponse } from "@stackproof/contracts";
-import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
+import { AuditListQuery, AuditListResponse } from "@stackproof/contracts";
+import { keysetWhere, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 
 export function auditRoutes(ctx: AppContext, router: Router): void {
@@ -18,11 +17,7 @@ export function auditRoutes(ctx: AppContext, router: Router): void {
       summary: "Audit log, newest first; filter by subject or action",
       tag: "access",
       access: ["admin", "approver"],
-      query: pageQuery.extend({
-        subjectType: z.string().max(50).optional(),
-        subjectId: z.string().max(100).optional(),
-        action: z.string().max(100).optional(),
-      }),
+      query: AuditListQuery,
       response: AuditListResponse,
     },
     ({ req, query }) => {

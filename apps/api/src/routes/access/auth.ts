@@ -1,26 +1,24 @@
-// Sign-in, sign-out, the current member, and password reset by e-mail.
+// Sign-in, sign-out, the current member, and password reset by e-mail. The accounts domain (domain/accounts.ts)
+// does the work; this file keeps the HTTP part: rate limits, cookies, status codes.
 import type { Request, Router } from "express";
-import { and, asc, eq, gt, isNull } from "drizzle-orm";
-import { z } from "zod";
 import type { AppContext } from "../../context.ts";
-import { memberships, passwordResets, sessions, users, workspaces } from "../../db/schema.ts";
 import { getAuth } from "../../auth/guards.ts";
-import { luciaFor } from "../../auth/lucia.ts";
-import { hashPassword, normalizeEmail, passwordProblem, verifyAgainstDummy, verifyPassword } from "../../auth/password.ts";
-import { hashToken, newId, newToken } from "../../auth/tokens.ts";
-import { recordAudit } from "../../lib/audit.ts";
-import { HttpError } from "../../lib/errors.ts";
+import { normalizeEmail } from "../../auth/password.ts";
 import { route } from "../../lib/route.ts";
 import { clientAddress, createFailureLimiter, failureLimit } from "../../lib/rate-limit.ts";
-import { appUrl } from "../../mail/links.ts";
-import { templates } from "../../mail/templates.ts";
-import { isDemoWorkspace, startSession } from "./session-cookie.ts";
-import { EmailInput, NewPassword, SessionInfo, TokenInput } from "@stackproof/contracts";
+import {
+  checkCredentials,
+  deleteExpiredSessions,
+  endSession,
+  requestPasswordReset,
+  resetPassword,
+  sessionInfo,
+  startSession,
+} from "../../domain/accounts.ts";
+import { PasswordResetBody, PasswordResetConfirmBody, SessionInfo, SignInBody } from "@stackproof/contracts";
 
 /** Sign-in: 5 failures per e-mail and address, or 50 per address, within 15 minutes. */
 export const SIGN_IN_LIMIT = { perAccount: 5, perAddress: 50, windowMs: 15 * 60_000 };
-/** A reset link works for one hour. */
-export const RESET_LIFETIME_MS = 60 * 60_000;
 /** At most 5 reset e-mails per account per hour. */
 const RESET_MAILS_PER_HOUR = 5;
 
@@ -28,15 +26,13 @@ const accountKey = (req: Request) => {
   const email = typeof req.body?.email === "string" ? normalizeEmail(req.body.email) : "";
   return `${email}|${clientAddress(req)}`;
 };
-/** 400 weak_password, naming why (too short, or what zxcvbn found guessable). */
-export const weakPassword = (problem: string) =>
-  new HttpError(400, "weak_password", problem, [{ path: "password", message: problem }]);
 
 const signInWait = (wait: string) =>
   `Too many failed sign-in attempts. Wait ${wait} and try again, or reset your password.`;
 
 export function authRoutes(ctx: AppContext, router: Router): void {
-  const lucia = luciaFor(ctx.db, ctx.env);
+  const { db, env } = ctx;
+  const mailDeps = { db, mail: ctx.mail, env };
   const perAccount = failureLimit({
     limit: SIGN_IN_LIMIT.perAccount,
     windowMs: SIGN_IN_LIMIT.windowMs,
@@ -55,7 +51,7 @@ export function authRoutes(ctx: AppContext, router: Router): void {
   async function sweepExpiredSessions() {
     if (Date.now() - lastSweep < 60 * 60_000) return;
     lastSweep = Date.now();
-    await lucia.deleteExpiredSessions();
+    await deleteExpiredSessions(db, env);
   }
 
   route(
@@ -66,7 +62,7 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       summary: "Sign in with e-mail and password; sets the session cookie",
       tag: "access",
       access: "public",
-      body: z.object({ email: EmailInput, password: z.string().min(1, "Enter your password.").max(1000) }),
+      body: SignInBody,
       response: SessionInfo,
       before: [perAccount, perAddress],
       errors: {
@@ -76,25 +72,12 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       },
     },
     async ({ body, req, res }) => {
-      const user = ctx.db.select().from(users).where(eq(users.email, body.email)).get();
-      const ok = user ? await verifyPassword(user.passwordHash, body.password) : await verifyAgainstDummy(body.password);
-      if (!user || !ok) {
-        throw new HttpError(401, "invalid_credentials", "That e-mail address and password do not match an account.");
-      }
-      const membership = ctx.db
-        .select({ roles: memberships.roles, id: workspaces.id, name: workspaces.name })
-        .from(memberships)
-        .innerJoin(workspaces, eq(workspaces.id, memberships.workspaceId))
-        .where(eq(memberships.userId, user.id))
-        .orderBy(asc(memberships.createdAt))
-        .get();
-      if (!membership) {
-        throw new HttpError(403, "no_membership", "This account is not a member of any workspace. Ask an admin to invite you.");
-      }
+      const member = await checkCredentials(db, body.email, body.password);
       await perAccount.resetKey(accountKey(req));
-      if (req.auth) await lucia.invalidateSession(req.auth.sessionId);
       await sweepExpiredSessions();
-      return startSession(ctx, res, user, { id: membership.id, name: membership.name }, membership.roles);
+      const { cookie, info } = await startSession(db, env, member, req.auth?.sessionId);
+      res.append("Set-Cookie", cookie);
+      return info;
     },
   );
 
@@ -102,8 +85,7 @@ export function authRoutes(ctx: AppContext, router: Router): void {
     router,
     { method: "post", path: "/auth/sign-out", summary: "End the current session", tag: "access", access: "member", status: 204 },
     async ({ req, res }) => {
-      await lucia.invalidateSession(getAuth(req).sessionId);
-      res.append("Set-Cookie", lucia.createBlankSessionCookie().serialize());
+      res.append("Set-Cookie", await endSession(db, env, getAuth(req).sessionId));
       return undefined;
     },
   );
@@ -113,11 +95,7 @@ export function authRoutes(ctx: AppContext, router: Router): void {
     { method: "get", path: "/auth/me", summary: "The signed-in member, workspace and roles", tag: "access", access: "member", response: SessionInfo },
     ({ req }) => {
       const auth = getAuth(req);
-      return {
-        user: auth.user,
-        workspace: { id: auth.workspaceId, name: auth.workspaceName, demo: isDemoWorkspace(ctx.db, auth.workspaceId) },
-        roles: auth.roles,
-      };
+      return sessionInfo(db, { user: auth.user, workspace: { id: auth.workspaceId, name: auth.workspaceName }, roles: auth.roles });
     },
   );
 
@@ -130,23 +108,13 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       tag: "access",
       access: "public",
       status: 202,
-      body: z.object({ email: EmailInput }),
+      body: PasswordResetBody,
     },
     ({ body }) => {
-      const email = normalizeEmail(body.email);
-      const user = ctx.db.select().from(users).where(eq(users.email, email)).get();
-      if (!user || resetMails.retryAfter(user.id) > 0) return undefined;
-      resetMails.fail(user.id);
-      const { token, hash } = newToken();
-      const now = new Date();
-      ctx.db
-        .insert(passwordResets)
-        .values({ id: newId(), userId: user.id, tokenHash: hash, createdAt: now, expiresAt: new Date(now.getTime() + RESET_LIFETIME_MS) })
-        .run();
-      // Not awaited: the answer must not take longer when the account exists.
-      void ctx.mail.send({
-        to: user.email,
-        ...templates.passwordReset({ name: user.name, link: appUrl(ctx.env, "/reset-password", { token }) }),
+      requestPasswordReset(mailDeps, body.email, (userId) => {
+        if (resetMails.retryAfter(userId) > 0) return false;
+        resetMails.fail(userId);
+        return true;
       });
       return undefined;
     },
@@ -161,53 +129,13 @@ export function authRoutes(ctx: AppContext, router: Router): void {
       tag: "access",
       access: "public",
       status: 204,
-      body: z.object({ token: TokenInput, password: NewPassword }),
+      body: PasswordResetConfirmBody,
       errors: {
         400: "Invalid input, a password shorter than 12 characters or too easy to guess (weak_password), or the link is unknown, used or expired (invalid_token)",
       },
     },
     async ({ body }) => {
-      const invalid = () =>
-        new HttpError(400, "invalid_token", "This reset link is not valid any more. Ask for a new one.");
-      const tokenHash = hashToken(body.token);
-      const found = ctx.db
-        .select()
-        .from(passwordResets)
-        .where(and(eq(passwordResets.tokenHash, tokenHash), isNull(passwordResets.usedAt), gt(passwordResets.expiresAt, new Date())))
-        .get();
-      if (!found) throw invalid();
-      const owner = ctx.db.select({ email: users.email, name: users.name }).from(users).where(eq(users.id, found.userId)).get();
-      const problem = passwordProblem(body.password, owner ? [owner.email, owner.name] : []);
-      if (problem) throw weakPassword(problem);
-      const passwordHash = await hashPassword(body.password);
-      ctx.db.transaction((tx) => {
-        const now = new Date();
-        const claimed = tx
-          .update(passwordResets)
-          .set({ usedAt: now })
-          .where(and(eq(passwordResets.id, found.id), isNull(passwordResets.usedAt), gt(passwordResets.expiresAt, now)))
-          .run();
-        if (claimed.changes !== 1) throw invalid();
-        // Other outstanding links of the account stop working too.
-        tx.update(passwordResets)
-          .set({ usedAt: now })
-          .where(and(eq(passwordResets.userId, found.userId), isNull(passwordResets.usedAt)))
-          .run();
-        tx.update(users).set({ passwordHash }).where(eq(users.id, found.userId)).run();
-        tx.delete(sessions).where(eq(sessions.userId, found.userId)).run();
-        const user = tx.select({ name: users.name }).from(users).where(eq(users.id, found.userId)).get();
-        const spaces = tx.select({ workspaceId: memberships.workspaceId }).from(memberships).where(eq(memberships.userId, found.userId)).all();
-        for (const { workspaceId } of spaces) {
-          recordAudit(tx, {
-            workspaceId,
-            actorId: found.userId,
-            action: "user.password_reset",
-            subjectType: "user",
-            subjectId: found.userId,
-            summary: `${user?.name ?? "A member"} reset their password with an e-mailed link.`,
-          });
-        }
-      });
+      await resetPassword(db, body.token, body.password);
       return undefined;
     },
   );

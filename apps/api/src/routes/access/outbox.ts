@@ -3,19 +3,15 @@
 // from everyone but their addressee (mail/outbox.ts). With a real SMTP host these answer 404.
 import type { Router } from "express";
 import { eq } from "drizzle-orm";
-import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { memberships, users } from "../../db/schema.ts";
 import { getAuth } from "../../auth/guards.ts";
 import type { AuthContext } from "../../auth/types.ts";
 import { HttpError, notFound } from "../../lib/errors.ts";
-import { pageQuery, pageSchema } from "../../lib/pagination.ts";
+import { pageQuery } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import type { OutboxViewer } from "../../mail/outbox.ts";
-import { IdParams } from "@stackproof/contracts";
-
-const OutboxItem = z.object({ id: z.string(), to: z.string(), subject: z.string(), receivedAt: z.string() });
-const OutboxDetail = OutboxItem.extend({ from: z.string(), text: z.string(), html: z.string().nullable() });
+import { IdParams, OutboxDetail, OutboxListResponse } from "@stackproof/contracts";
 
 export function outboxRoutes(ctx: AppContext, router: Router): void {
   const outbox = () => {
@@ -45,7 +41,7 @@ export function outboxRoutes(ctx: AppContext, router: Router): void {
       tag: "access",
       access: ["admin"],
       query: pageQuery,
-      response: pageSchema(OutboxItem),
+      response: OutboxListResponse,
       errors: { 404: "A real SMTP host is configured (outbox_disabled)" },
     },
     ({ req, query }) => outbox().list(viewerOf(getAuth(req)), query),

@@ -6,7 +6,6 @@ import { DESIGN_FORMAT, MATERIAL_LIBRARY } from "@stackproof/optics";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { designs, programs } from "../../db/schema.ts";
-import { recordAudit } from "../../lib/audit.ts";
 import { HttpError } from "../../lib/errors.ts";
 import { assertWithinLimits, designLimitProblems } from "../../lib/limits.ts";
 import { route } from "../../lib/route.ts";
@@ -14,8 +13,8 @@ import { diffStacks } from "../../domain/diff.ts";
 import { loadDesign, loadRevision, stackOf } from "../../domain/load.ts";
 import { resolveDesign, workspaceMaterials } from "../../domain/materials.ts";
 import {
+  addRevision,
   assertFreshBase,
-  createRevision,
   designView,
   notComputable,
   overviewRows,
@@ -29,11 +28,14 @@ import { parseLayerCsv } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
 import {
   DesignSchemaOut,
+  DiffQuery,
   IdParams,
+  ImportDesignResponse,
   NewRevisionBody,
+  OverviewResponse,
+  QueueResponse,
+  RevisionDiffSchema,
   RevisionSchema,
-  RevisionSummarySchema,
-  SpecDeviationSummarySchema,
   fileField,
 } from "@stackproof/contracts";
 
@@ -48,7 +50,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       summary: "One row per design for the home table",
       tag: TAG,
       access: "member",
-      response: z.object({ items: z.array(z.unknown()) }),
+      response: OverviewResponse,
     },
     ({ req }) => {
       const auth = getAuth(req);
@@ -71,12 +73,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       summary: "Revisions waiting for the signed-in member, by role",
       tag: TAG,
       access: "member",
-      response: z.object({
-        changesRequested: z.array(RevisionSummarySchema),
-        reviewRequested: z.array(RevisionSummarySchema),
-        readyForDecision: z.array(RevisionSummarySchema),
-        readyForRelease: z.array(RevisionSummarySchema),
-      }),
+      response: QueueResponse,
     },
     ({ req }) => workQueue(ctx.db, getAuth(req)),
   );
@@ -130,28 +127,16 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         specMask: body.specMask,
       });
       const nominal = await ctx.compute.evaluateSpec(input.stack, input.evalMask).catch(notComputable);
-      const revision = ctx.db.transaction((tx) => {
-        assertFreshBase(tx, design.id, body.baseRevisionId);
-        const revision = createRevision(tx, {
-          workspaceId: auth.workspaceId,
-          design,
-          program,
-          stack: body.stack,
-          specMask: body.specMask,
-          note: body.note,
-          authorId: auth.user.id,
-          evaluated: true,
-        });
-        recordAudit(tx, {
-          workspaceId: auth.workspaceId,
-          actorId: auth.user.id,
-          action: "revision.created",
-          subjectType: "revision",
-          subjectId: revision.id,
-          summary: `${auth.user.name} added ${design.name} rev ${revision.number}`,
-          data: { hash: revision.hash },
-        });
-        return revision;
+      const revision = addRevision(ctx.db, {
+        workspaceId: auth.workspaceId,
+        actor: auth.user,
+        design,
+        program,
+        baseRevisionId: body.baseRevisionId,
+        stack: body.stack,
+        specMask: body.specMask,
+        note: body.note,
+        evaluated: true,
       });
       return revisionView(ctx.db, { revision, design, program }, nominal);
     },
@@ -186,20 +171,8 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      query: z.object({ against: z.string().min(1).max(100) }),
-      response: z.object({
-        added: z.array(z.unknown()),
-        removed: z.array(z.unknown()),
-        changed: z.array(z.unknown()),
-        unchanged: z.number(),
-        other: z.array(z.string()),
-        totalThicknessDeltaNm: z.number(),
-        specMaskChanged: z.boolean(),
-        specDeviation: z.object({ before: SpecDeviationSummarySchema, after: SpecDeviationSummarySchema }),
-        summary: z.string(),
-        before: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
-        after: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
-      }),
+      query: DiffQuery,
+      response: RevisionDiffSchema,
       errors: { 404: "No such revision in this workspace" },
     },
     ({ req, params, query }) => {
@@ -242,7 +215,7 @@ export function designRoutes(ctx: AppContext, router: Router): void {
         substrateThicknessMm: z.coerce.number().min(0).max(1000).optional(),
         incident: z.string().trim().max(100).optional(),
       }),
-      response: z.object({ stack: z.unknown(), warnings: z.array(z.string()) }),
+      response: ImportDesignResponse,
       errors: {
         413: "File over 1 MB",
         415: "Binary (non-text) file",

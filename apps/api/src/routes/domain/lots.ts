@@ -30,6 +30,7 @@ import {
   LotListResponse,
   LotPartSchema,
   LotSchema,
+  PartFitBody,
   SpectraPreviewSchema,
   WitnessFitResponse,
   fileField,
@@ -272,16 +273,7 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: ["designer", "admin"],
       params: IdParams,
-      body: z.object({
-        fitIndexScale: z.boolean().default(true),
-        baseline: z
-          .object({
-            scale: z.union([z.number().positive(), z.literal("fit")]).optional(),
-            offset: z.union([z.number(), z.literal("fit")]).optional(),
-            shiftNm: z.union([z.number(), z.literal("fit")]).optional(),
-          })
-          .default({}),
-      }),
+      body: PartFitBody,
       response: LotPartSchema,
       errors: { 400: "Bad input (the message names it)", 404: "No such part" },
     },

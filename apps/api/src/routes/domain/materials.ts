@@ -6,13 +6,11 @@ import { MATERIAL_LIBRARY, MaterialSchema } from "@stackproof/optics";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { materials, measurements } from "../../db/schema.ts";
-import { recordAudit } from "../../lib/audit.ts";
-import { conflict } from "../../lib/errors.ts";
 import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
-import { newId } from "../../domain/canonical.ts";
 import { loadRevision } from "../../domain/load.ts";
-import { isBuiltIn } from "../../domain/materials.ts";
+import { assertNotBuiltIn, createMaterial } from "../../domain/materials.ts";
+import { addMeasurement, measurementView } from "../../domain/measurements.ts";
 import { parseIndexTable, parseSingleSpectrum } from "../../uploads/csv.ts";
 import { singleFile, uploadedText } from "../../uploads/index.ts";
 import {
@@ -25,20 +23,6 @@ import {
 } from "@stackproof/contracts";
 
 const TAG = "Materials and measurements";
-
-function measurementView(m: typeof measurements.$inferSelect) {
-  return {
-    id: m.id,
-    revisionId: m.revisionId,
-    label: m.label,
-    quantity: m.quantity,
-    angleDeg: m.angleDeg,
-    polarization: m.polarization,
-    wavelengths: m.wavelengths,
-    values: m.values,
-    createdAt: m.createdAt.toISOString(),
-  };
-}
 
 export function materialRoutes(ctx: AppContext, router: Router): void {
   route(
@@ -117,7 +101,8 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
     },
     ({ req, body }) => {
       const auth = getAuth(req);
-      if (isBuiltIn(body.id)) throw conflict(`"${body.id}" is a built-in material id; choose another id.`);
+      // Refused before the file is read: a built-in id answers 409 whatever the file holds.
+      assertNotBuiltIn(body.id);
       const file = uploadedText(req);
       const points = parseIndexTable(file.text);
       const material = MaterialSchema.parse({
@@ -129,48 +114,7 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
           `uploaded n,k table ${file.name} (${points.length} points, ${points[0]?.[0]}–${points[points.length - 1]?.[0]} nm)`,
         model: { kind: "table", points },
       });
-      const id = newId();
-      ctx.db.transaction((tx) => {
-        const taken = tx
-          .select({ id: materials.id })
-          .from(materials)
-          .where(and(eq(materials.workspaceId, auth.workspaceId), eq(materials.materialId, material.id)))
-          .get();
-        if (taken)
-          throw conflict(
-            `The workspace already has a material "${material.id}"; materials are not replaced, choose another id.`,
-          );
-        tx.insert(materials)
-          .values({
-            id,
-            workspaceId: auth.workspaceId,
-            materialId: material.id,
-            name: material.name,
-            role: material.role,
-            source: material.source,
-            model: material.model,
-            createdBy: auth.user.id,
-          })
-          .run();
-        recordAudit(tx, {
-          workspaceId: auth.workspaceId,
-          actorId: auth.user.id,
-          action: "material.created",
-          subjectType: "material",
-          subjectId: id,
-          summary: `${auth.user.name} uploaded the material ${material.id} (${material.name})`,
-        });
-      });
-      const row = ctx.db.select().from(materials).where(eq(materials.id, id)).get();
-      return {
-        id: material.id,
-        name: material.name,
-        role: material.role,
-        source: material.source,
-        builtIn: false,
-        model: material.model,
-        createdAt: row ? row.createdAt.toISOString() : new Date().toISOString(),
-      };
+      return createMaterial(ctx.db, { workspaceId: auth.workspaceId, actor: auth.user, material });
     },
   );
 
@@ -214,33 +158,19 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
       const file = uploadedText(req);
       const spectrum = parseSingleSpectrum(file.text, { scale: body.scale, quantity: body.quantity });
-      const id = newId();
-      ctx.db.transaction((tx) => {
-        tx.insert(measurements)
-          .values({
-            id,
-            revisionId: rc.revision.id,
-            label: body.label || file.name,
-            quantity: spectrum.quantity,
-            angleDeg: body.angleDeg,
-            polarization: body.polarization,
-            wavelengths: spectrum.wavelengths,
-            values: spectrum.values,
-            createdBy: auth.user.id,
-            createdAt: new Date(),
-          })
-          .run();
-        recordAudit(tx, {
-          workspaceId: auth.workspaceId,
-          actorId: auth.user.id,
-          action: "measurement.added",
-          subjectType: "revision",
-          subjectId: rc.revision.id,
-          summary: `${auth.user.name} attached a measured ${spectrum.quantity} spectrum to ${rc.design.name} rev ${rc.revision.number}`,
-        });
+      const row = addMeasurement(ctx.db, {
+        workspaceId: auth.workspaceId,
+        actor: auth.user,
+        rc,
+        measurement: {
+          label: body.label || file.name,
+          quantity: spectrum.quantity,
+          angleDeg: body.angleDeg,
+          polarization: body.polarization,
+          wavelengths: spectrum.wavelengths,
+          values: spectrum.values,
+        },
       });
-      const row = ctx.db.select().from(measurements).where(eq(measurements.id, id)).get();
-      if (!row) throw new Error("measurement not stored");
       return measurementView(row);
     },
   );

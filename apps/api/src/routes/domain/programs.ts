@@ -1,18 +1,15 @@
 // Programs and the designs in them.
 import type { Router } from "express";
 import { and, desc, eq } from "drizzle-orm";
-import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
-import { designs, programs } from "../../db/schema.ts";
+import { programs } from "../../db/schema.ts";
 import { createProgram, programVersionsOf, updateProgram, type ProgramInput } from "../../domain/programs.ts";
-import { recordAudit } from "../../lib/audit.ts";
-import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
+import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
-import { newId } from "../../domain/canonical.ts";
 import { loadProgram, person, userNames } from "../../domain/load.ts";
 import {
-  createRevision,
+  createDesign,
   notComputable,
   revisionInput,
   designView,
@@ -22,14 +19,16 @@ import {
   revisionView,
 } from "../../domain/revisions.ts";
 import {
-  DesignSchemaOut,
+  CreateDesignResponse,
   IdParams,
   NewDesignBody,
   ProgramCreateBody,
+  ProgramDesignsResponse,
+  ProgramDetailSchema,
+  ProgramListResponse,
   ProgramPatchBody,
   ProgramSchema,
-  ProgramVersionSchema,
-  RevisionSchema,
+  ProgramVersionsResponse,
 } from "@stackproof/contracts";
 
 const TAG = "Programs";
@@ -44,7 +43,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       query: pageQuery,
-      response: pageSchema(ProgramSchema),
+      response: ProgramListResponse,
     },
     ({ req, query }) => {
       const auth = getAuth(req);
@@ -79,13 +78,11 @@ export function programRoutes(ctx: AppContext, router: Router): void {
     ({ req, body }) => {
       const auth = getAuth(req);
       const { protective: _p, ...mask } = body.specMask;
-      const id = ctx.db.transaction((tx) =>
-        createProgram(tx, {
-          workspaceId: auth.workspaceId,
-          actor: auth.user,
-          program: { ...body, specMask: mask },
-        }),
-      );
+      const id = createProgram(ctx.db, {
+        workspaceId: auth.workspaceId,
+        actor: auth.user,
+        program: { ...body, specMask: mask },
+      });
       return programView(loadProgram(ctx.db, auth.workspaceId, id));
     },
   );
@@ -99,7 +96,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: ProgramSchema.extend({ designs: z.array(z.unknown()) }),
+      response: ProgramDetailSchema,
       errors: { 404: "No such program in this workspace" },
     },
     ({ req, params }) => {
@@ -137,10 +134,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
         const { protective: _p, ...mask } = specMask;
         changes.specMask = mask;
       }
-      ctx.db.transaction((tx) => {
-        const before = loadProgram(tx, auth.workspaceId, params.id);
-        updateProgram(tx, { workspaceId: auth.workspaceId, actor: auth.user, before, changes, note });
-      });
+      updateProgram(ctx.db, { workspaceId: auth.workspaceId, actor: auth.user, programId: params.id, changes, note });
       return programView(loadProgram(ctx.db, auth.workspaceId, params.id));
     },
   );
@@ -155,7 +149,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({ items: z.array(ProgramVersionSchema) }),
+      response: ProgramVersionsResponse,
       errors: { 404: "No such program in this workspace" },
     },
     ({ req, params }) => {
@@ -192,7 +186,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({ items: z.array(DesignSchemaOut) }),
+      response: ProgramDesignsResponse,
       errors: { 404: "No such program in this workspace" },
     },
     ({ req, params }) => {
@@ -213,7 +207,7 @@ export function programRoutes(ctx: AppContext, router: Router): void {
       params: IdParams,
       body: NewDesignBody,
       status: 201,
-      response: DesignSchemaOut.extend({ design: DesignSchemaOut, revision: RevisionSchema }),
+      response: CreateDesignResponse,
       errors: { 404: "No such program in this workspace" },
     },
     async ({ req, params, body }) => {
@@ -227,35 +221,15 @@ export function programRoutes(ctx: AppContext, router: Router): void {
         specMask: body.specMask,
       });
       const nominal = await ctx.compute.evaluateSpec(input.stack, input.evalMask).catch(notComputable);
-      const { design, revision } = ctx.db.transaction((tx) => {
-        const design = {
-          id: newId(),
-          programId: program.id,
-          name: body.name,
-          createdBy: auth.user.id,
-          createdAt: new Date(),
-        };
-        tx.insert(designs).values(design).run();
-        const revision = createRevision(tx, {
-          workspaceId: auth.workspaceId,
-          design,
-          program,
-          stack: body.stack,
-          specMask: body.specMask,
-          note: body.note,
-          authorId: auth.user.id,
-          evaluated: true,
-        });
-        recordAudit(tx, {
-          workspaceId: auth.workspaceId,
-          actorId: auth.user.id,
-          action: "design.created",
-          subjectType: "design",
-          subjectId: design.id,
-          summary: `${auth.user.name} created the design ${design.name} in ${program.name} (rev 1)`,
-          data: { revisionId: revision.id, hash: revision.hash },
-        });
-        return { design, revision };
+      const { design, revision } = createDesign(ctx.db, {
+        workspaceId: auth.workspaceId,
+        actor: auth.user,
+        program,
+        name: body.name,
+        stack: body.stack,
+        specMask: body.specMask,
+        note: body.note,
+        evaluated: true,
       });
       const view = designView(ctx.db, design, program);
       // The design's own fields at the top level too, so the answer reads like GET /designs/:id.

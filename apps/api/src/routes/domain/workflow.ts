@@ -1,12 +1,11 @@
 // The release gate, workflow transitions, decisions and release records.
 import type { Router } from "express";
 import { and, desc, eq } from "drizzle-orm";
-import { z } from "zod";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { releases, revisions } from "../../db/schema.ts";
 import { notFound } from "../../lib/errors.ts";
-import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
+import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
 import { loadRevision, userNames } from "../../domain/load.ts";
 import {
@@ -21,29 +20,23 @@ import { releasePdf } from "../../domain/release-pdf.ts";
 import { revisionView } from "../../domain/revisions.ts";
 import { nominalFor } from "../../yield/nominal.ts";
 import { applyTransition, decisionViews, evaluateGate, type ReleaseSnapshot } from "../../domain/workflow.ts";
-import { DecisionSchema, DeviationSchema, GateSchema, IdParams, RevisionSchema } from "@stackproof/contracts";
+import {
+  DecisionListResponse,
+  DeviationDecisionBody,
+  DeviationListResponse,
+  DeviationParams,
+  DeviationRequestBody,
+  DeviationSchema,
+  GateQuery,
+  GateSchema,
+  IdParams,
+  ReleaseListResponse,
+  ReleaseRecordSchema,
+  TransitionBody,
+  TransitionResponse,
+} from "@stackproof/contracts";
 
 const TAG = "Workflow and release";
-
-const ReleaseSummary = z.object({
-  id: z.string(),
-  releasedAt: z.string(),
-  releasedBy: z.object({ id: z.string(), name: z.string() }),
-  status: z.string(),
-  program: z.object({ id: z.string(), name: z.string(), protective: z.boolean() }),
-  design: z.object({ id: z.string(), name: z.string() }),
-  revision: z.object({ id: z.string(), number: z.number(), hash: z.string() }),
-  yield: z
-    .object({
-      yield: z.number(),
-      low: z.number(),
-      high: z.number(),
-      trials: z.number(),
-      lowerBound: z.number().nullable(),
-      confidence: z.number().nullable(),
-    })
-    .nullable(),
-});
 
 function loadRelease(ctx: AppContext, workspaceId: string, id: string) {
   const row = ctx.db
@@ -93,7 +86,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      query: z.object({ yieldRunId: z.string().min(1).max(100).optional() }),
+      query: GateQuery,
       response: GateSchema,
       errors: { 404: "No such revision" },
     },
@@ -121,16 +114,8 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      body: z.object({
-        action: z.enum(["submit", "request_changes", "approve", "release", "withdraw"]),
-        note: z.string().trim().max(5000).optional(),
-        yieldRunId: z.string().min(1).max(100).optional(),
-      }),
-      response: z.object({
-        revision: RevisionSchema,
-        decision: DecisionSchema,
-        releaseId: z.string().nullable(),
-      }),
+      body: TransitionBody,
+      response: TransitionResponse,
       errors: {
         403: "The role does not allow this action",
         404: "No such revision",
@@ -140,7 +125,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
     },
     async ({ req, params, body }) => {
       const auth = getAuth(req);
-      const out = applyTransition(ctx, auth, params.id, body);
+      const out = applyTransition({ db: ctx.db, mail: ctx.mail, env: ctx.env }, auth, params.id, body);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
       const decision = decisionViews(ctx.db, params.id).find((d) => d.id === out.decision.id);
       return {
@@ -160,11 +145,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({
-        required: z.boolean(),
-        bands: z.array(z.object({ id: z.string(), change: z.string() })),
-        items: z.array(DeviationSchema),
-      }),
+      response: DeviationListResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params }) => {
@@ -194,9 +175,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: ["designer", "approver"],
       params: IdParams,
-      body: z.object({
-        reason: z.string().trim().min(10, { message: "write the reason (10 characters or more)" }).max(5000),
-      }),
+      body: DeviationRequestBody,
       status: 201,
       response: DeviationSchema,
       errors: {
@@ -206,14 +185,12 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
-      const row = ctx.db.transaction((tx) =>
-        requestDeviation(tx, {
-          rc: loadRevision(tx, auth.workspaceId, params.id),
-          actor: auth.user,
-          workspaceId: auth.workspaceId,
-          reason: body.reason,
-        }),
-      );
+      const row = requestDeviation(ctx.db, {
+        revisionId: params.id,
+        actor: auth.user,
+        workspaceId: auth.workspaceId,
+        reason: body.reason,
+      });
       return deviationView(row, userNames(ctx.db, [row.requestedBy]));
     },
   );
@@ -227,8 +204,8 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
         "Accept or reject a spec deviation (an approver other than its author and the revision's author)",
       tag: TAG,
       access: ["approver"],
-      params: z.object({ id: z.string().min(1).max(100), deviationId: z.string().min(1).max(100) }),
-      body: z.object({ accept: z.boolean(), note: z.string().trim().max(5000).default("") }),
+      params: DeviationParams,
+      body: DeviationDecisionBody,
       response: DeviationSchema,
       errors: {
         403: "The deviation's or the revision's author",
@@ -238,16 +215,14 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
-      const row = ctx.db.transaction((tx) =>
-        decideDeviation(tx, {
-          rc: loadRevision(tx, auth.workspaceId, params.id),
-          actor: { ...auth.user, roles: auth.roles },
-          workspaceId: auth.workspaceId,
-          deviationId: params.deviationId,
-          accept: body.accept,
-          note: body.note,
-        }),
-      );
+      const row = decideDeviation(ctx.db, {
+        revisionId: params.id,
+        actor: { ...auth.user, roles: auth.roles },
+        workspaceId: auth.workspaceId,
+        deviationId: params.deviationId,
+        accept: body.accept,
+        note: body.note,
+      });
       return deviationView(row, userNames(ctx.db, [row.requestedBy, row.decidedBy]));
     },
   );
@@ -261,7 +236,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({ items: z.array(DecisionSchema) }),
+      response: DecisionListResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params }) => {
@@ -280,7 +255,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       query: pageQuery,
-      response: pageSchema(ReleaseSummary),
+      response: ReleaseListResponse,
     },
     ({ req, query }) => {
       const auth = getAuth(req);
@@ -315,7 +290,7 @@ export function workflowRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.looseObject({ id: z.string(), status: z.string(), caution: z.string().nullable() }),
+      response: ReleaseRecordSchema,
       errors: { 404: "No such release" },
     },
     ({ req, params }) => {

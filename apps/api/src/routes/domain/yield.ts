@@ -1,34 +1,14 @@
 // Server-verified Monte Carlo yield runs.
 import type { Router } from "express";
-import { and, desc, eq, inArray } from "drizzle-orm";
-import { z } from "zod";
-import {
-  ENGINE_VERSION,
-  ErrorModelSchema,
-  MAX_TRIALS,
-  parseYieldStudy,
-  type ErrorModel,
-  type YieldResult,
-} from "@stackproof/optics";
-import { MAX_TRIALS_PER_RUN, trialsLimitMessage } from "../../lib/limits.ts";
+import { and, desc, eq } from "drizzle-orm";
+import type { ErrorModel, YieldResult } from "@stackproof/optics";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
 import { yieldRuns } from "../../db/schema.ts";
-import { recordAudit, type DbOrTx } from "../../lib/audit.ts";
-import { HttpError, conflict, forbidden } from "../../lib/errors.ts";
-import { keysetWhere, pageQuery, pageSchema, toPage } from "../../lib/pagination.ts";
+import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
-import { newId } from "../../domain/canonical.ts";
-import {
-  loadRevision,
-  loadYieldRun,
-  maskOf,
-  person,
-  stackOf,
-  userNames,
-  type YieldRunRow,
-} from "../../domain/load.ts";
-import { ClientResultSchema } from "../../yield/verify.ts";
+import { loadRevision, loadYieldRun, userNames } from "../../domain/load.ts";
+import { cancelYieldRun, startWhatIfRun, yieldRunView } from "../../domain/yield-runs.ts";
 import {
   evidenceFigures,
   evidencePlan,
@@ -36,38 +16,17 @@ import {
   matchesPlan,
   requestEvidenceRun,
 } from "../../domain/evidence.ts";
-import { EvidenceFiguresSchema, EvidencePlanSchema, IdParams, YieldRunSchema } from "@stackproof/contracts";
+import {
+  CreateYieldRunResponse,
+  EvidenceResponse,
+  EvidenceRunBody,
+  IdParams,
+  YieldRunBody,
+  YieldRunListResponse,
+  YieldRunSchema,
+} from "@stackproof/contracts";
 
 const TAG = "Yield runs";
-
-/** A run as the API shows it; `names` (requester id → person) saves the lookup when listing many runs. */
-export function yieldRunView(
-  db: DbOrTx,
-  run: YieldRunRow,
-  names: Map<string, { id: string; name: string }> = userNames(db, [run.requestedBy]),
-) {
-  return {
-    id: run.id,
-    revisionId: run.revisionId,
-    status: run.status,
-    progress: { done: run.progressDone, total: run.trials },
-    trials: run.trials,
-    seed: run.seed,
-    errorModel: run.errorModel,
-    result: run.result ?? null,
-    verified: run.status === "done" ? (run.verified ?? null) : null,
-    clientSubmitted: run.clientResult !== null && run.clientResult !== undefined,
-    mismatch: run.mismatch ?? null,
-    engineVersion: run.engineVersion,
-    kind: run.kind,
-    programVersion: run.programVersion ?? null,
-    error: run.error ?? null,
-    requestedBy: person(names, run.requestedBy),
-    createdAt: run.createdAt.toISOString(),
-    startedAt: run.startedAt ? run.startedAt.toISOString() : null,
-    finishedAt: run.finishedAt ? run.finishedAt.toISOString() : null,
-  };
-}
 
 export function yieldRoutes(ctx: AppContext, router: Router): void {
   route(
@@ -80,19 +39,9 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: ["designer", "reviewer", "approver"],
       params: IdParams,
-      body: z.object({
-        trials: z
-          .number()
-          .int()
-          .min(1)
-          .max(Math.min(MAX_TRIALS, MAX_TRIALS_PER_RUN), trialsLimitMessage)
-          .optional(),
-        seed: z.string().min(1).max(200).optional(),
-        errorModel: ErrorModelSchema.optional(),
-        clientResult: ClientResultSchema.optional(),
-      }),
+      body: YieldRunBody,
       status: 202,
-      response: z.object({ run: YieldRunSchema, reused: z.boolean() }),
+      response: CreateYieldRunResponse,
       errors: {
         404: "No such revision",
         429: "A cap on yield runs queued or running at once is reached (named in the message)",
@@ -108,58 +57,25 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       const errorModel = (body.errorModel ?? plan.errorModel) as ErrorModel;
       // A request for exactly the evidence run's study is the evidence run (idempotent); anything else is what-if.
       if (matchesPlan({ seed, trials, errorModel }, plan)) {
-        const out = ctx.db.transaction((tx) =>
-          requestEvidenceRun(tx, {
-            rc,
-            actor: auth.user,
-            workspaceId: auth.workspaceId,
-            clientResult: body.clientResult,
-          }),
-        );
+        const out = requestEvidenceRun(ctx.db, {
+          rc,
+          actor: auth.user,
+          workspaceId: auth.workspaceId,
+          clientResult: body.clientResult,
+        });
         if (out.created) ctx.jobs.enqueue(out.run.id);
         return { run: yieldRunView(ctx.db, out.run), reused: !out.created };
       }
-      try {
-        parseYieldStudy({
-          design: stackOf(rc.revision),
-          mask: maskOf(rc.revision, rc.program),
-          errorModel,
-          trials,
-          seed,
-        });
-      } catch (err) {
-        if (err instanceof RangeError) throw new HttpError(400, "invalid_study", err.message);
-        throw err;
-      }
-      const id = newId();
-      ctx.db.transaction((tx) => {
-        tx.insert(yieldRuns)
-          .values({
-            id,
-            revisionId: rc.revision.id,
-            requestedBy: auth.user.id,
-            status: "queued",
-            trials,
-            seed,
-            errorModel,
-            clientResult: body.clientResult ?? null,
-            engineVersion: ENGINE_VERSION,
-            kind: "what_if",
-            programVersion: rc.program.version,
-            createdAt: new Date(),
-          })
-          .run();
-        recordAudit(tx, {
-          workspaceId: auth.workspaceId,
-          actorId: auth.user.id,
-          action: "yield_run.started",
-          subjectType: "yield_run",
-          subjectId: id,
-          summary: `${auth.user.name} started a ${trials}-trial what-if yield run on ${rc.design.name} rev ${rc.revision.number}${body.clientResult ? " (verifying a browser result)" : ""}`,
-        });
+      const run = startWhatIfRun(ctx.db, {
+        workspaceId: auth.workspaceId,
+        actor: auth.user,
+        rc,
+        trials,
+        seed,
+        errorModel,
+        clientResult: body.clientResult,
       });
-      ctx.jobs.enqueue(id);
-      const run = ctx.db.select().from(yieldRuns).where(eq(yieldRuns.id, id)).get() as YieldRunRow;
+      ctx.jobs.enqueue(run.id);
       return { run: yieldRunView(ctx.db, run), reused: false };
     },
   );
@@ -174,11 +90,7 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: "member",
       params: IdParams,
-      response: z.object({
-        plan: EvidencePlanSchema,
-        run: YieldRunSchema.nullable(),
-        figures: EvidenceFiguresSchema.nullable(),
-      }),
+      response: EvidenceResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params }) => {
@@ -204,22 +116,20 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       tag: TAG,
       access: ["designer", "reviewer", "approver"],
       params: IdParams,
-      body: z.object({ clientResult: ClientResultSchema.optional() }),
+      body: EvidenceRunBody,
       status: 202,
-      response: z.object({ run: YieldRunSchema, reused: z.boolean() }),
+      response: CreateYieldRunResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
       const rc = loadRevision(ctx.db, auth.workspaceId, params.id);
-      const out = ctx.db.transaction((tx) =>
-        requestEvidenceRun(tx, {
-          rc,
-          actor: auth.user,
-          workspaceId: auth.workspaceId,
-          clientResult: body.clientResult,
-        }),
-      );
+      const out = requestEvidenceRun(ctx.db, {
+        rc,
+        actor: auth.user,
+        workspaceId: auth.workspaceId,
+        clientResult: body.clientResult,
+      });
       if (out.created) ctx.jobs.enqueue(out.run.id);
       return { run: yieldRunView(ctx.db, out.run), reused: !out.created };
     },
@@ -235,7 +145,7 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
       access: "member",
       params: IdParams,
       query: pageQuery,
-      response: pageSchema(YieldRunSchema),
+      response: YieldRunListResponse,
       errors: { 404: "No such revision" },
     },
     ({ req, params, query }) => {
@@ -302,43 +212,13 @@ export function yieldRoutes(ctx: AppContext, router: Router): void {
     },
     ({ req, params }) => {
       const auth = getAuth(req);
-      const { run, design, revision } = loadYieldRun(ctx.db, auth.workspaceId, params.id);
-      if (run.requestedBy !== auth.user.id && !auth.roles.includes("approver")) {
-        throw forbidden("Only the member who started the run or an approver may cancel it.");
-      }
-      const changed = ctx.db.transaction((tx) => {
-        const res = tx
-          .update(yieldRuns)
-          .set({ status: "cancelled", finishedAt: new Date(), error: `cancelled by ${auth.user.name}` })
-          .where(and(eq(yieldRuns.id, run.id), inArray(yieldRuns.status, ["queued", "running"])))
-          .run();
-        if (res.changes === 1) {
-          recordAudit(tx, {
-            workspaceId: auth.workspaceId,
-            actorId: auth.user.id,
-            action: "yield_run.cancelled",
-            subjectType: "yield_run",
-            subjectId: run.id,
-            summary: `${auth.user.name} cancelled a yield run on ${design.name} rev ${revision.number}`,
-          });
-        }
-        return res.changes;
+      const run = cancelYieldRun(ctx.db, {
+        workspaceId: auth.workspaceId,
+        actor: { ...auth.user, roles: auth.roles },
+        runId: params.id,
       });
-      if (changed !== 1) {
-        const now = ctx.db
-          .select({ status: yieldRuns.status })
-          .from(yieldRuns)
-          .where(eq(yieldRuns.id, run.id))
-          .get();
-        throw conflict(`The run is already ${now?.status ?? run.status}.`, {
-          status: now?.status ?? run.status,
-        });
-      }
       ctx.jobs.cancel(run.id);
-      return yieldRunView(
-        ctx.db,
-        ctx.db.select().from(yieldRuns).where(eq(yieldRuns.id, run.id)).get() as YieldRunRow,
-      );
+      return yieldRunView(ctx.db, run);
     },
   );
 }

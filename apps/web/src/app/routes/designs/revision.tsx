@@ -138,9 +138,9 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
   const staleBase = staleBaseOf(create.error);
   const stale = staleBase
     ? {
-        baseNumber: staleBase.base?.number ?? null,
-        latestNumber: staleBase.latest.number,
-        latestHref: paths.revision(design.id, staleBase.latest.id),
+        baseNumber: staleBase.baseRevision?.number ?? null,
+        latestNumber: staleBase.latestRevision.number,
+        latestHref: paths.revision(design.id, staleBase.latestRevision.id),
       }
     : null;
 

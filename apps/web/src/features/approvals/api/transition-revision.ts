@@ -1,14 +1,13 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
-import { TransitionResponse, type TransitionAction, type TransitionResult } from "@stackproof/contracts";
+import {
+  TransitionResponse,
+  type TransitionAction,
+  type TransitionInput,
+  type TransitionResult,
+} from "@stackproof/contracts";
 import { api } from "../../../lib/api-client.ts";
 
-export type { TransitionAction, TransitionResult };
-
-export interface TransitionInput {
-  action: TransitionAction;
-  note?: string;
-  yieldRunId?: string;
-}
+export type { TransitionAction, TransitionInput, TransitionResult };
 
 export const transitionRevision = (revisionId: string, input: TransitionInput) =>
   api.post(`/revisions/${encodeURIComponent(revisionId)}/transitions`, input, { schema: TransitionResponse });

@@ -6,6 +6,7 @@ import {
   LotListResponse,
   LotPartSchema,
   LotSchema,
+  ProgramSchema,
   SpectraPreviewSchema,
   type CalibrationView,
   type Lot,
@@ -84,7 +85,7 @@ export function useFitPart(lotId: string, programId: string) {
 export function useAdoptErrorModel(programId: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (errorModel: ErrorModel) => api.patch(`/programs/${programId}`, { errorModel }),
+    mutationFn: (errorModel: ErrorModel) => api.patch(`/programs/${programId}`, { errorModel }, { schema: ProgramSchema }),
     onSuccess: () => qc.invalidateQueries({ queryKey: ["programs", programId] }),
   });
 }

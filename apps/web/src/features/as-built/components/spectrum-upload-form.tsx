@@ -2,7 +2,7 @@
 // the values look like percent or fractions) and the user confirms how to read it before anything is stored.
 import { useState } from "react";
 import type { FormEvent } from "react";
-import { ApiError } from "../../../lib/api-client.ts";
+import { csvProblemsOf } from "../../../lib/api-errors.ts";
 import { usePreviewSpectra, type SpectraPreview } from "../api/lots.ts";
 import { useUploadMeasurement, type MeasuredSpectrum } from "../api/measurements.ts";
 
@@ -11,16 +11,6 @@ const field = "mt-0.5 w-full rounded border border-ink-300 bg-white px-2 py-1 te
 /** The label the server would give: the file name without its extension. */
 function defaultLabel(fileName: string): string {
   return fileName.replace(/\.[^.]+$/, "") || fileName;
-}
-
-/** Row and column of each CSV problem the server reported (422 invalid_csv). */
-function csvProblems(error: Error | null): { row: number; column: string; message: string }[] {
-  if (!(error instanceof ApiError) || !Array.isArray(error.details)) return [];
-  return error.details.flatMap((d: unknown) => {
-    if (!d || typeof d !== "object") return [];
-    const r = d as { row?: unknown; column?: unknown; message?: unknown };
-    return typeof r.row === "number" && typeof r.message === "string" ? [{ row: r.row, column: typeof r.column === "string" ? r.column : "-", message: r.message }] : [];
-  });
 }
 
 export function SpectrumUploadForm({ revisionId, onUploaded }: { revisionId: string; onUploaded: (m: MeasuredSpectrum) => void }) {
@@ -73,7 +63,7 @@ export function SpectrumUploadForm({ revisionId, onUploaded }: { revisionId: str
       },
     );
   };
-  const problems = [...csvProblems(preview.error), ...csvProblems(upload.error)];
+  const problems = [...csvProblemsOf(preview.error), ...csvProblemsOf(upload.error)];
   const error = preview.error ?? upload.error;
 
   return (

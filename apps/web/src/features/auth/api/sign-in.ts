@@ -1,12 +1,9 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client.ts";
-import { SessionInfo } from "@stackproof/contracts";
+import { SessionInfo, type SignInInput } from "@stackproof/contracts";
 import { sessionQueryKey } from "../../../lib/session.ts";
 
-export interface SignInInput {
-  email: string;
-  password: string;
-}
+export type { SignInInput };
 
 export const signIn = (input: SignInInput) => api.post("/auth/sign-in", input, { schema: SessionInfo });
 

@@ -10,13 +10,6 @@ export interface UploadMaterialInput {
   source?: string;
 }
 
-/** One problem the server found in an uploaded CSV (422 details). */
-export interface CsvProblem {
-  row?: number;
-  column?: string | number;
-  message: string;
-}
-
 export function uploadMaterial(input: UploadMaterialInput) {
   const form = new FormData();
   form.set("id", input.id);
@@ -25,18 +18,6 @@ export function uploadMaterial(input: UploadMaterialInput) {
   if (input.source) form.set("source", input.source);
   form.set("file", input.file);
   return api.post("/materials", form, { schema: MaterialOutSchema });
-}
-
-/** The row/column problems of a refused upload, if the server sent them. */
-export function csvProblems(details: unknown): CsvProblem[] {
-  if (!Array.isArray(details)) return [];
-  return details
-    .filter((d): d is Record<string, unknown> => typeof d === "object" && d !== null && "message" in d)
-    .map((d) => ({
-      row: typeof d.row === "number" ? d.row : undefined,
-      column: typeof d.column === "string" || typeof d.column === "number" ? d.column : undefined,
-      message: String(d.message),
-    }));
 }
 
 export function useUploadMaterial() {

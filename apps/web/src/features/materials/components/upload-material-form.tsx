@@ -2,8 +2,8 @@ import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { z } from "zod";
 import { Button, Notice, SelectField, TextField, errorMessage } from "../../../components/ui/index.ts";
-import { ApiError } from "../../../lib/api-client.ts";
-import { csvProblems, useUploadMaterial } from "../api/upload-material.ts";
+import { csvProblemsOf } from "../../../lib/api-errors.ts";
+import { useUploadMaterial } from "../api/upload-material.ts";
 import type { MaterialItem } from "../api/get-materials.ts";
 
 const MAX_BYTES = 1024 * 1024;
@@ -43,7 +43,7 @@ export function UploadMaterialForm({ onUploaded }: UploadMaterialFormProps) {
     defaultValues: { role: "layer", id: "", name: "", source: "" },
   });
 
-  const problems = upload.error instanceof ApiError ? csvProblems(upload.error.details) : [];
+  const problems = csvProblemsOf(upload.error);
 
   return (
     <form
@@ -97,8 +97,8 @@ export function UploadMaterialForm({ onUploaded }: UploadMaterialFormProps) {
               <tbody>
                 {problems.slice(0, 50).map((p, i) => (
                   <tr key={i} className="border-b border-verdict-fail/10">
-                    <td className="py-1 pr-3 font-mono">{p.row ?? "—"}</td>
-                    <td className="py-1 pr-3 font-mono">{p.column ?? "—"}</td>
+                    <td className="py-1 pr-3 font-mono">{p.row}</td>
+                    <td className="py-1 pr-3 font-mono">{p.column === "-" ? "—" : p.column}</td>
                     <td className="py-1">{p.message}</td>
                   </tr>
                 ))}

@@ -1,17 +1,22 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { CreateYieldRunResponse, YieldRunListResponse, YieldRunSchema, type YieldRun, type YieldRunStatus } from "@stackproof/contracts";
-import type { ErrorModel, YieldResult } from "@stackproof/optics";
+import {
+  CreateYieldRunResponse,
+  YieldRunListResponse,
+  YieldRunSchema,
+  type YieldRun,
+  type YieldRunInput,
+  type YieldRunStatus,
+} from "@stackproof/contracts";
+import type { YieldResult } from "@stackproof/optics";
 import { api } from "../../../lib/api-client.ts";
 
 export type { YieldRun, YieldRunStatus };
 
-export interface CreateYieldRunInput {
-  revisionId: string;
-  trials: number;
-  seed: string;
-  errorModel?: ErrorModel;
-  clientResult?: YieldResult;
-}
+/**
+ * The request body (contract YieldRunBody) and the revision it is for. The browser sends its whole YieldResult;
+ * the contract's ClientResultSchema names the fields the server compares and keeps the rest.
+ */
+export type CreateYieldRunInput = Omit<YieldRunInput, "clientResult"> & { revisionId: string; clientResult?: YieldResult };
 
 export const createYieldRun = ({ revisionId, ...body }: CreateYieldRunInput) =>
   api.post(`/revisions/${revisionId}/yield-runs`, body, { schema: CreateYieldRunResponse }).then((r) => r.run);

@@ -1,7 +1,9 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import type { Design, SpecMask } from "@stackproof/optics";
 import { api, ApiError } from "../../../lib/api-client.ts";
-import { RevisionSchema } from "@stackproof/contracts";
+import { RevisionSchema, StaleBaseDetails, type StaleBase } from "@stackproof/contracts";
+
+export type { StaleBase };
 
 export interface CreateRevisionInput {
   designId: string;
@@ -15,17 +17,11 @@ export interface CreateRevisionInput {
 export const createRevision = ({ designId, ...body }: CreateRevisionInput) =>
   api.post(`/designs/${designId}/revisions`, body, { schema: RevisionSchema });
 
-export interface StaleBase {
-  base: { id: string; number: number } | null;
-  latest: { id: string; number: number };
-}
-
 /** The two revisions of a 409 stale_base answer (someone saved first), or null for any other error. */
 export function staleBaseOf(error: unknown): StaleBase | null {
   if (!(error instanceof ApiError) || error.status !== 409 || error.code !== "stale_base") return null;
-  const d = error.details as
-    { baseRevision?: StaleBase["base"]; latestRevision?: StaleBase["latest"] } | undefined;
-  return d?.latestRevision ? { base: d.baseRevision ?? null, latest: d.latestRevision } : null;
+  const parsed = StaleBaseDetails.safeParse(error.details);
+  return parsed.success ? parsed.data : null;
 }
 
 export function useCreateRevision() {
