@@ -1,6 +1,6 @@
 // Attacks on the rules a revision is judged by, each of which passed the gate before program versions and spec
 // deviations existed: a loosened copy of the program's mask, a deviation accepted by its own author, lowering the
-// target and then signing off, and changing the program between sign-off and release. Also: the audit entry of a
+// target and then signing off (or creating the program with a low one), and changing the program between sign-off and release. Also: the audit entry of a
 // program change holds the old and new values, and every stored release renders as a page and as a PDF.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestServer, type TestServer } from "../../apps/api/test/support/context.ts";
@@ -216,6 +216,26 @@ describe("program versions", () => {
     // Another approver, who did not set the rules, may sign off; the decision records the version.
     const ok = await act(team.members.approver2.agent, revision.id, "approve").expect(200);
     expect(ok.body.decision).toMatchObject({ action: "approve", programVersion: 2 });
+  });
+
+  it("keeps an approver who created a program with a low target from signing off against it (creating sets every rule of version 1)", async () => {
+    const program = await newProgram(team, { targetYield: 0.05 }, team.members.approver);
+    const revision = await newDesign(team, program.id);
+    const designer = team.members.designer.agent;
+    await act(designer, revision.id, "submit").expect(200);
+    await evidenceRun(designer, revision.id);
+    const own = await gateOf(team.members.approver.agent, revision.id);
+    expect(own.evidence.figures?.pass).toBe(true);
+    expect(check(own, "independent_approver")).toMatchObject({
+      ok: false,
+      message: expect.stringMatching(/You set the .*target yield.* of program version 1/),
+    });
+    const refused = await act(team.members.approver.agent, revision.id, "approve").expect(422);
+    expect(refused.body.error.details.checks.map((c: { id: string }) => c.id)).toEqual([
+      "independent_approver",
+    ]);
+    // Someone who set none of the rules may sign off.
+    await act(team.members.approver2.agent, revision.id, "approve").expect(200);
   });
 
   it("sends an approved revision back to review when the program changes before release, and refuses the release", async () => {

@@ -46,7 +46,7 @@ export const ROUGH: ErrorModel = { thickness: { relativePct: 6, absoluteNm: 0.5,
 /** 3 % errors: against avgMask(1.32) the honest yield is about 92 %. */
 export const MEDIUM: ErrorModel = { thickness: { relativePct: 3, absoluteNm: 0.5, distribution: "normal" } };
 
-export async function newProgram(team: Team, body: Record<string, unknown>, by = team.members.approver) {
+export async function newProgram(team: Team, body: Record<string, unknown>, by = team.members.admin) {
   const res = await by.agent.post(`${API}/programs`).send({
     name: "Evidence program",
     customer: "Test bench",

@@ -79,8 +79,10 @@ describe("review journey", () => {
     const designer = await signIn("designer@halvorsen.example");
     const reviewer = await signIn("reviewer@halvorsen.example");
     const approver = await signIn("approver@halvorsen.example");
+    const admin = await signIn("admin@halvorsen.example");
 
-    // The program manager sets up a program: visible AR on a lens, average R ≤ 1 % over 450–650 nm.
+    // The quality lead (administrator) sets up a program: visible AR on a lens, average R ≤ 1 % over 450–650 nm.
+    // Whoever sets a program's rules may not sign off against them, so the program manager does not create it.
     const mask = {
       bands: [
         {
@@ -98,7 +100,7 @@ describe("review journey", () => {
       ],
     };
     const errorModel = { thickness: { relativePct: 1, absoluteNm: 0.3, distribution: "normal" } };
-    const program = await approver
+    const program = await admin
       .post(`${API}/programs`)
       .send({
         name: "Pipit lens — visible AR",

@@ -111,6 +111,8 @@ export async function seedDemo(
   const designer = p("designer");
   const reviewer = p("reviewer");
   const approver = p("approver");
+  // The administrator (quality lead) sets the programs' rules, so the program manager may sign off against them.
+  const admin = p("admin");
   const specs = new Map(demoPrograms().map((d) => [d.key, d]));
   const spec = (key: string): DemoProgram => {
     const s = specs.get(key);
@@ -162,7 +164,7 @@ export async function seedDemo(
     for (const d of specs.values()) {
       const program = storeProgram(tx, {
         workspaceId,
-        createdBy: approver.id,
+        createdBy: admin.id,
         at: at(day),
         program: {
           name: d.name,

@@ -105,7 +105,10 @@ export function storeProgram(
   return db.select().from(programs).where(eq(programs.id, id)).get() as ProgramRow;
 }
 
-function createProgramIn(db: DbOrTx, input: { workspaceId: string; actor: Actor; program: ProgramInput }): string {
+function createProgramIn(
+  db: DbOrTx,
+  input: { workspaceId: string; actor: Actor; program: ProgramInput },
+): string {
   const p = input.program;
   const { id } = storeProgram(db, { workspaceId: input.workspaceId, createdBy: input.actor.id, program: p });
   recordAudit(db, {
@@ -311,7 +314,10 @@ export function ruleSettersFor(
 
 function ruleSettersOf(program: ProgramRow, versions: readonly ProgramVersionRow[]) {
   const setters = new Map<string, EvidenceRuleField[]>();
-  const lastSetBy = new Map<EvidenceRuleField, string | null>();
+  // Creating a program sets every rule of version 1: its creator is their setter until someone changes them.
+  const lastSetBy = new Map<EvidenceRuleField, string | null>(
+    EVIDENCE_RULE_FIELDS.map((f) => [f, program.createdBy ?? null]),
+  );
   for (const v of versions) {
     if (v.version > program.version) break;
     for (const f of Object.keys(v.changes) as EvidenceRuleField[]) lastSetBy.set(f, v.changedBy);

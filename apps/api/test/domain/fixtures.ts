@@ -141,7 +141,7 @@ export function programBody(overrides: Record<string, unknown> = {}) {
 }
 
 export async function createProgram(team: Team, overrides: Record<string, unknown> = {}) {
-  const res = await team.members.approver.agent.post(`${API}/programs`).send(programBody(overrides));
+  const res = await team.members.admin.agent.post(`${API}/programs`).send(programBody(overrides));
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return res.body as { id: string; name: string; targetYield: number };
 }
@@ -182,7 +182,11 @@ export async function startRun(agent: MemberAgent, revisionId: string, body: Rec
 }
 
 /** Starts (or finds) the revision's evidence run: server-assigned seed, the program's minimum trials. */
-export async function startEvidenceRun(agent: MemberAgent, revisionId: string, body: Record<string, unknown> = {}) {
+export async function startEvidenceRun(
+  agent: MemberAgent,
+  revisionId: string,
+  body: Record<string, unknown> = {},
+) {
   const res = await agent.post(`${API}/revisions/${revisionId}/evidence-run`).send(body);
   expect(res.status, JSON.stringify(res.body)).toBe(202);
   return res.body.run as { id: string; status: string; seed: string; trials: number; kind: string };
