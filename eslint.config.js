@@ -9,7 +9,15 @@ import routesCallDomain from "./eslint-rules/routes-call-domain.js";
 const house = { rules: { ...oneWay.rules, ...routesCallDomain.rules } };
 
 export default tseslint.config(
-  { ignores: ["**/dist/**", "**/node_modules/**", "**/.turbo/**", "apps/api/drizzle/**", "**/test-results/**"] },
+  {
+    ignores: [
+      "**/dist/**",
+      "**/node_modules/**",
+      "**/.turbo/**",
+      "apps/api/drizzle/**",
+      "**/test-results/**",
+    ],
+  },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

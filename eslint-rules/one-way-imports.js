@@ -19,7 +19,8 @@ const API_SRC = path.join(ROOT, "apps/api/src");
 const api = (p) => path.join(API_SRC, p);
 
 const inside = (dir, file) => file === dir || file.startsWith(dir + path.sep);
-const featureOf = (file) => (inside(FEATURES, file) ? path.relative(FEATURES, file).split(path.sep)[0] : null);
+const featureOf = (file) =>
+  inside(FEATURES, file) ? path.relative(FEATURES, file).split(path.sep)[0] : null;
 
 /** Why importing `specifier` from `file` breaks the one-way rule, or null when it does not. */
 export function violation(file, specifier) {
@@ -56,7 +57,14 @@ function apiViolation(file, target) {
 
 /** @type {import("eslint").Rule.RuleModule} */
 const rule = {
-  meta: { type: "problem", docs: { description: "Imports go one way: features ↛ features, shared ↛ features, packages ↛ apps, api domain ↛ routes" }, schema: [] },
+  meta: {
+    type: "problem",
+    docs: {
+      description:
+        "Imports go one way: features ↛ features, shared ↛ features, packages ↛ apps, api domain ↛ routes",
+    },
+    schema: [],
+  },
   create(context) {
     const file = path.resolve(context.filename);
     const check = (node) => {

@@ -23,7 +23,11 @@ export const WRITE_METHODS = new Set([
 export const WRITE_FUNCTIONS = new Set(["recordAudit"]);
 
 const keyName = (key, computed) =>
-  !computed && key.type === "Identifier" ? key.name : key.type === "Literal" && typeof key.value === "string" ? key.value : null;
+  !computed && key.type === "Identifier"
+    ? key.name
+    : key.type === "Literal" && typeof key.value === "string"
+      ? key.value
+      : null;
 
 /** The write an AST node makes or reaches (e.g. ".insert"), or null; `allowed` names writes let through. */
 export function writeOf(node, allowed = new Set()) {
@@ -32,13 +36,19 @@ export function writeOf(node, allowed = new Set()) {
     if (!name || !WRITE_METHODS.has(name) || allowed.has(name)) return null;
     // node:crypto's createHash(...).update(...) feeds a hash, it writes nothing.
     const obj = node.object;
-    if (obj.type === "CallExpression" && obj.callee.type === "Identifier" && ["createHash", "createHmac"].includes(obj.callee.name))
+    if (
+      obj.type === "CallExpression" &&
+      obj.callee.type === "Identifier" &&
+      ["createHash", "createHmac"].includes(obj.callee.name)
+    )
       return null;
     // Called (`db.insert(...)`) or handed on (`db.insert.bind(db)`); a data field named `run` (`out.run.id`) is not.
     const parent = node.parent;
     const called = parent?.type === "CallExpression" && parent.callee === node;
     const handedOn =
-      parent?.type === "MemberExpression" && parent.object === node && ["bind", "call", "apply"].includes(keyName(parent.property, parent.computed));
+      parent?.type === "MemberExpression" &&
+      parent.object === node &&
+      ["bind", "call", "apply"].includes(keyName(parent.property, parent.computed));
     return called || handedOn ? `.${name}` : null;
   }
   if (node.type === "Property" && node.parent?.type === "ObjectPattern") {
@@ -46,7 +56,11 @@ export function writeOf(node, allowed = new Set()) {
     const name = keyName(node.key, node.computed);
     return name && name !== "run" && WRITE_METHODS.has(name) && !allowed.has(name) ? `{ ${name} }` : null;
   }
-  if (node.type === "CallExpression" && node.callee.type === "Identifier" && WRITE_FUNCTIONS.has(node.callee.name))
+  if (
+    node.type === "CallExpression" &&
+    node.callee.type === "Identifier" &&
+    WRITE_FUNCTIONS.has(node.callee.name)
+  )
     return `${node.callee.name}()`;
   return null;
 }
@@ -55,7 +69,9 @@ export function writeOf(node, allowed = new Set()) {
 const rule = {
   meta: {
     type: "problem",
-    docs: { description: "Routes do not write the database: they call a domain function (apps/api/src/domain)" },
+    docs: {
+      description: "Routes do not write the database: they call a domain function (apps/api/src/domain)",
+    },
     schema: [
       {
         type: "object",

@@ -45,7 +45,13 @@ async function waitForRun(agent: ReturnType<typeof request.agent>, id: string) {
 
 beforeAll(async () => {
   dir = fs.mkdtempSync(path.join(os.tmpdir(), "stackproof-journey-"));
-  const env = loadEnv({ NODE_ENV: "test", DATA_DIR: dir, DEMO_DATA: "true", YIELD_WORKERS: "1", PUBLIC_URL: ORIGIN });
+  const env = loadEnv({
+    NODE_ENV: "test",
+    DATA_DIR: dir,
+    DEMO_DATA: "true",
+    YIELD_WORKERS: "1",
+    PUBLIC_URL: ORIGIN,
+  });
   ctx = await createContext(env);
   // As the entry point (apps/api/src/index.ts) does.
   demo = await loadDemoData(env, ctx.db);
@@ -220,7 +226,11 @@ describe("review journey", () => {
       status: "released",
       revision: { number: 2, hash: r2.body.hash },
       yieldRun: { id: run.id, verified: true, clientVerified: true, trials: 400, seed: plan.seed },
-      evidence: { kind: "evidence", programVersion: 1, figures: { pass: true, trials: 400, confidence: 0.95 } },
+      evidence: {
+        kind: "evidence",
+        programVersion: 1,
+        figures: { pass: true, trials: 400, confidence: 0.95 },
+      },
       threads: { total: 1, open: 0, resolved: 1 },
       caution: null,
     });

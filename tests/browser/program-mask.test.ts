@@ -1,7 +1,14 @@
 // A program manager writes customer conditions into a new program's mask (an angle range for s and p each, a cone
 // about a chief ray, a reflected-colour box); a designer's preview of a new design shows the colour verdict.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO, openBrowser, signInAs, startProduct, type BrowserSession, type Product } from "./support/harness.ts";
+import {
+  DEMO,
+  openBrowser,
+  signInAs,
+  startProduct,
+  type BrowserSession,
+  type Product,
+} from "./support/harness.ts";
 
 let product: Product;
 let browser: BrowserSession;
@@ -80,8 +87,12 @@ describe("program mask with conditions and colour", () => {
     await d.getByRole("form", { name: "New design" }).waitFor();
     const chip = d.locator('[data-colour-requirement="colour-1"]');
     await chip.waitFor();
-    await expect.poll(() => chip.innerText()).toMatch(/(pass|fail)[\s\S]*Neutral reflection[\s\S]*L\* [\d.]+, a\* -?[\d.]+, b\* -?[\d.]+/);
-    expect(await chip.getByRole("img", { name: /Swatch of Neutral reflection: #[0-9a-f]{6}/ }).count()).toBe(1);
+    await expect
+      .poll(() => chip.innerText())
+      .toMatch(/(pass|fail)[\s\S]*Neutral reflection[\s\S]*L\* [\d.]+, a\* -?[\d.]+, b\* -?[\d.]+/);
+    expect(await chip.getByRole("img", { name: /Swatch of Neutral reflection: #[0-9a-f]{6}/ }).count()).toBe(
+      1,
+    );
     expect(await chip.innerText()).toContain("reflected, D65, CIE 1931 2°, 0°, unpolarized");
     await designer.screenshot("program-mask-02-preview");
     expect(designer.consoleErrors).toEqual([]);

@@ -4,7 +4,14 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { computeSpectrum } from "@stackproof/optics";
 import { demoPrograms } from "../../apps/api/src/demo/designs.ts";
-import { DEMO, openBrowser, signInAs, startProduct, type BrowserSession, type Product } from "./support/harness.ts";
+import {
+  DEMO,
+  openBrowser,
+  signInAs,
+  startProduct,
+  type BrowserSession,
+  type Product,
+} from "./support/harness.ts";
 
 let product: Product;
 let browser: BrowserSession;
@@ -39,7 +46,13 @@ const lotCsv = (angleDeg: number) => {
   const thick = T(1.015, angleDeg);
   return (
     "Wavelength (nm);K-01;K-02;K-03\n" +
-    wl.map((w, i) => [w, good[i]!, thick[i]!, good[i]!].map((v) => String(typeof v === "number" && v < 2 ? v.toFixed(6) : v).replace(".", ",")).join(";")).join("\n")
+    wl
+      .map((w, i) =>
+        [w, good[i]!, thick[i]!, good[i]!]
+          .map((v) => String(typeof v === "number" && v < 2 ? v.toFixed(6) : v).replace(".", ","))
+          .join(";"),
+      )
+      .join("\n")
   );
 };
 
@@ -52,7 +65,9 @@ describe("as built (designer)", () => {
     await page.getByRole("tab", { name: "As built" }).click();
     const csv = lotCsv(0);
     const form = page.getByRole("form", { name: "Upload a lot" });
-    await form.getByLabel(/Lot file/).setInputFiles({ name: "run-118.csv", mimeType: "text/csv", buffer: Buffer.from(csv) });
+    await form
+      .getByLabel(/Lot file/)
+      .setInputFiles({ name: "run-118.csv", mimeType: "text/csv", buffer: Buffer.from(csv) });
     await form.getByText("How the file was read — confirm").waitFor();
     await expect(form.getByText(/Values look like fractions/).isVisible()).resolves.toBe(true);
     expect(await form.getByRole("radio", { name: "fractions" }).isChecked()).toBe(true);
@@ -62,7 +77,9 @@ describe("as built (designer)", () => {
     await page.getByRole("table", { name: "Lots" }).getByRole("button", { name: "R-118" }).waitFor();
     // Measured at 0° only, K-02 already fails its passband, but K-01 and K-03 are incomplete (the 10° blocking
     // bands are not measured) and do not count.
-    await expect(page.getByRole("table", { name: "Lots" }).innerText()).resolves.toMatch(/0\/1 \(2 incomplete\)/);
+    await expect(page.getByRole("table", { name: "Lots" }).innerText()).resolves.toMatch(
+      /0\/1 \(2 incomplete\)/,
+    );
     // The same parts measured at 10°, added to the lot.
     const added = await page.evaluate(async (text) => {
       const get = async (p: string) => (await fetch(`/api/v1${p}`, { credentials: "include" })).json();
@@ -73,8 +90,19 @@ describe("as built (designer)", () => {
       const lot = lots.items.find((l: { runId: string }) => l.runId === "R-118");
       const body = new FormData();
       body.set("file", new Blob([text], { type: "text/csv" }), "run-118-10deg.csv");
-      for (const [k, v] of Object.entries({ scale: "fraction", quantity: "T", angleDeg: "10", polarization: "u", uncertaintyPct: "0.1" })) body.set(k, v);
-      const res = await fetch(`/api/v1/lots/${lot.id}/spectra`, { method: "POST", credentials: "include", body });
+      for (const [k, v] of Object.entries({
+        scale: "fraction",
+        quantity: "T",
+        angleDeg: "10",
+        polarization: "u",
+        uncertaintyPct: "0.1",
+      }))
+        body.set(k, v);
+      const res = await fetch(`/api/v1/lots/${lot.id}/spectra`, {
+        method: "POST",
+        credentials: "include",
+        body,
+      });
       return res.status;
     }, lotCsv(10));
     expect(added).toBe(200);
@@ -111,7 +139,9 @@ describe("as built (designer)", () => {
     const thick = T(1.015, 0, scan);
     const csv = "wavelength_nm,T\n" + scan.map((w, i) => `${w},${(thick[i]! * 100).toFixed(4)}`).join("\n");
     const form = page.getByRole("form", { name: "Upload a measured spectrum" });
-    await form.getByLabel(/CSV file/).setInputFiles({ name: "k-02-T.csv", mimeType: "text/csv", buffer: Buffer.from(csv) });
+    await form
+      .getByLabel(/CSV file/)
+      .setInputFiles({ name: "k-02-T.csv", mimeType: "text/csv", buffer: Buffer.from(csv) });
     // the server's reading of the file is shown and its percent detection confirmed before anything is stored
     await form.getByText("How the file was read — confirm").waitFor();
     expect(await form.getByRole("radio", { name: "percent" }).isChecked()).toBe(true);
@@ -144,9 +174,14 @@ describe("as built (designer)", () => {
 
   it("shows predicted against actual yield on the program page", async () => {
     const { page } = browser;
-    await page.getByRole("link", { name: /Kestrel range sensor/ }).first().click();
+    await page
+      .getByRole("link", { name: /Kestrel range sensor/ })
+      .first()
+      .click();
     await page.getByTestId("yield-history").waitFor();
-    await expect(page.getByTestId("calibration").innerText()).resolves.toMatch(/Calibrated from 1 fitted parts of 1 runs/);
+    await expect(page.getByTestId("calibration").innerText()).resolves.toMatch(
+      /Calibrated from 1 fitted parts of 1 runs/,
+    );
     await browser.screenshot("asbuilt-4-program");
     expect(browser.consoleErrors).toEqual([]);
   });

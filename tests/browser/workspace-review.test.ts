@@ -1,7 +1,14 @@
 // The reviewer's path: start threads from the chart (dragged wavelength range, with an @mention) and from a layer
 // row, see their markers, resolve one — against the built product.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO, openBrowser, signInAs, startProduct, type BrowserSession, type Product } from "./support/harness.ts";
+import {
+  DEMO,
+  openBrowser,
+  signInAs,
+  startProduct,
+  type BrowserSession,
+  type Product,
+} from "./support/harness.ts";
 
 let product: Product;
 let browser: BrowserSession;
@@ -62,7 +69,9 @@ describe("review threads (reviewer)", () => {
     const form = page.getByRole("form", { name: "Start a review thread" });
     await expect.poll(() => form.getByLabel("Pinned to").inputValue()).toBe("layer");
     await form.getByLabel("Severity").selectOption("advisory");
-    await form.getByRole("combobox", { name: /Comment/ }).fill("This SiO2 layer carries most of the edge sensitivity.");
+    await form
+      .getByRole("combobox", { name: /Comment/ })
+      .fill("This SiO2 layer carries most of the edge sensitivity.");
     await form.getByRole("button", { name: "Start thread" }).click();
     await page.locator("[data-thread]").filter({ hasText: "Layer 3" }).waitFor();
     await page.locator('[data-layer-row="2"] [aria-label="open review thread"]').waitFor();
@@ -76,9 +85,13 @@ describe("review threads (reviewer)", () => {
     await expect.poll(() => form.getByLabel("Pinned to").inputValue()).toBe("band");
     await expect.poll(() => form.getByLabel(/^Band/).inputValue()).toBe("reflect");
     await form.getByLabel("Severity").selectOption("advisory");
-    await form.getByRole("combobox", { name: /Comment/ }).fill("Average passes, but the 485 nm end sits close to the edge at 45°.");
+    await form
+      .getByRole("combobox", { name: /Comment/ })
+      .fill("Average passes, but the 485 nm end sits close to the edge at 45°.");
     await form.getByRole("button", { name: "Start thread" }).click();
-    const card = page.locator("[data-thread]").filter({ hasText: "Band Excitation 440–485 nm: R avg ≥ 95 % at 45°" });
+    const card = page
+      .locator("[data-thread]")
+      .filter({ hasText: "Band Excitation 440–485 nm: R avg ≥ 95 % at 45°" });
     await card.waitFor();
     expect(await card.locator("[data-anchor-passes]").getAttribute("data-anchor-passes")).toBe("true");
   });

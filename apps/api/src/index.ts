@@ -4,7 +4,13 @@ import net from "node:net";
 import { createApp } from "./app.ts";
 import { createContext } from "./context.ts";
 import { loadEnv } from "./env.ts";
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, DEMO_WORKSPACE, isDemoWorkspacePresent, loadDemoData } from "./demo/index.ts";
+import {
+  DEMO_ACCOUNTS,
+  DEMO_PASSWORD,
+  DEMO_WORKSPACE,
+  isDemoWorkspacePresent,
+  loadDemoData,
+} from "./demo/index.ts";
 
 const env = loadEnv();
 const ctx = await createContext(env);

@@ -19,7 +19,11 @@ export const RolesInput = z
   .max(ROLES.length)
   .refine((roles) => new Set(roles).size === roles.length, "Each role may appear once.");
 
-export const EmailInput = z.string().trim().toLowerCase().pipe(z.email("Enter a valid e-mail address.").max(254));
+export const EmailInput = z
+  .string()
+  .trim()
+  .toLowerCase()
+  .pipe(z.email("Enter a valid e-mail address.").max(254));
 
 export const NewPassword = z
   .string()
@@ -37,7 +41,11 @@ export const WorkspaceSchema = z.object({
   /** The fictional demo workspace (its accounts have a published password): the web app shows a notice. */
   demo: z.boolean(),
 });
-export const SessionInfo = z.object({ user: UserSchema, workspace: WorkspaceSchema, roles: z.array(RoleSchema) });
+export const SessionInfo = z.object({
+  user: UserSchema,
+  workspace: WorkspaceSchema,
+  roles: z.array(RoleSchema),
+});
 export type SessionInfo = z.infer<typeof SessionInfo>;
 
 export const UserIdParams = z.object({ userId: z.string().min(1).max(100) });
@@ -46,7 +54,10 @@ export type SessionUser = z.infer<typeof UserSchema>;
 // ---- Request bodies, params and queries of the access routes ----
 
 /** POST /auth/sign-in. */
-export const SignInBody = z.object({ email: EmailInput, password: z.string().min(1, "Enter your password.").max(1000) });
+export const SignInBody = z.object({
+  email: EmailInput,
+  password: z.string().min(1, "Enter your password.").max(1000),
+});
 export type SignInInput = z.input<typeof SignInBody>;
 /** POST /auth/password-reset. */
 export const PasswordResetBody = z.object({ email: EmailInput });
@@ -116,8 +127,17 @@ export const AuditItem = z.object({
 export type AuditEntry = z.infer<typeof AuditItem>;
 export const AuditListResponse = pageSchema(AuditItem);
 
-export const OutboxItem = z.object({ id: z.string(), to: z.string(), subject: z.string(), receivedAt: z.string() });
+export const OutboxItem = z.object({
+  id: z.string(),
+  to: z.string(),
+  subject: z.string(),
+  receivedAt: z.string(),
+});
 export type OutboxItem = z.infer<typeof OutboxItem>;
-export const OutboxDetail = OutboxItem.extend({ from: z.string(), text: z.string(), html: z.string().nullable() });
+export const OutboxDetail = OutboxItem.extend({
+  from: z.string(),
+  text: z.string(),
+  html: z.string().nullable(),
+});
 export type OutboxMessage = z.infer<typeof OutboxDetail>;
 export const OutboxListResponse = pageSchema(OutboxItem);

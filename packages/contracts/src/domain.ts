@@ -432,7 +432,10 @@ export type ProgramBody = z.input<typeof ProgramCreateBody>;
 export const ProgramDesignsResponse = itemsSchema(DesignSchemaOut);
 
 /** POST /programs/:id/designs: the design (also spread at the top level) and its revision 1. */
-export const CreateDesignResponse = DesignSchemaOut.extend({ design: DesignSchemaOut, revision: RevisionSchema });
+export const CreateDesignResponse = DesignSchemaOut.extend({
+  design: DesignSchemaOut,
+  revision: RevisionSchema,
+});
 
 const RevisionRef = z.object({ id: z.string(), number: z.number(), hash: z.string() });
 const LayerJson = z.custom<Layer>((v) => typeof v === "object" && v !== null);
@@ -442,7 +445,13 @@ export const RevisionDiffSchema = z.object({
   added: z.array(z.object({ index: z.number(), layer: LayerJson })),
   removed: z.array(z.object({ index: z.number(), layer: LayerJson })),
   changed: z.array(
-    z.object({ index: z.number(), before: LayerJson, after: LayerJson, deltaNm: z.number(), materialChanged: z.boolean() }),
+    z.object({
+      index: z.number(),
+      before: LayerJson,
+      after: LayerJson,
+      deltaNm: z.number(),
+      materialChanged: z.boolean(),
+    }),
   ),
   unchanged: z.number(),
   other: z.array(z.string()),
@@ -666,7 +675,10 @@ export const CsvProblemsDetails = z.array(CsvProblemSchema);
 
 const RevisionNumberRef = z.object({ id: z.string(), number: z.number() });
 /** 409 stale_base: the revision a save started from (null: none) and the design's latest revision. */
-export const StaleBaseDetails = z.object({ baseRevision: RevisionNumberRef.nullable(), latestRevision: RevisionNumberRef });
+export const StaleBaseDetails = z.object({
+  baseRevision: RevisionNumberRef.nullable(),
+  latestRevision: RevisionNumberRef,
+});
 export type StaleBase = z.infer<typeof StaleBaseDetails>;
 
 // ---- Request bodies, params and queries of the domain routes (JSON; multipart upload fields stay with their routes)
@@ -697,9 +709,15 @@ export const DeviationRequestBody = z.object({
   reason: z.string().trim().min(10, { message: "write the reason (10 characters or more)" }).max(5000),
 });
 /** /revisions/:id/deviations/:deviationId/decision. */
-export const DeviationParams = z.object({ id: z.string().min(1).max(100), deviationId: z.string().min(1).max(100) });
+export const DeviationParams = z.object({
+  id: z.string().min(1).max(100),
+  deviationId: z.string().min(1).max(100),
+});
 /** POST /revisions/:id/deviations/:deviationId/decision. */
-export const DeviationDecisionBody = z.object({ accept: z.boolean(), note: z.string().trim().max(5000).default("") });
+export const DeviationDecisionBody = z.object({
+  accept: z.boolean(),
+  note: z.string().trim().max(5000).default(""),
+});
 export type DeviationDecisionInput = z.input<typeof DeviationDecisionBody>;
 
 /** GET /revisions/:id/diff?against=: the revision compared with (before). */
@@ -724,7 +742,12 @@ export const ClientResultSchema = z
 export type ClientResult = z.infer<typeof ClientResultSchema>;
 /** POST /revisions/:id/yield-runs: without seed, trials and error model (or with the evidence run's) the evidence run. */
 export const YieldRunBody = z.object({
-  trials: z.number().int().min(1).max(Math.min(MAX_TRIALS, MAX_TRIALS_PER_RUN), trialsLimitMessage).optional(),
+  trials: z
+    .number()
+    .int()
+    .min(1)
+    .max(Math.min(MAX_TRIALS, MAX_TRIALS_PER_RUN), trialsLimitMessage)
+    .optional(),
   seed: z.string().min(1).max(200).optional(),
   errorModel: ErrorModelSchema.optional(),
   clientResult: ClientResultSchema.optional(),

@@ -1,6 +1,13 @@
 // Schemas for the optics engine's JSON inside responses and pages.
 import { z } from "zod";
-import type { BandOutcome, Design, ErrorModel, MaterialModel, SpecMask, YieldResult } from "@stackproof/optics";
+import type {
+  BandOutcome,
+  Design,
+  ErrorModel,
+  MaterialModel,
+  SpecMask,
+  YieldResult,
+} from "@stackproof/optics";
 
 /**
  * A JSON value whose shape the optics package owns: the API validated it with the optics schema on the way in

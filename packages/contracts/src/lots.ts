@@ -59,7 +59,13 @@ export const CalibrationResponse = z.object({
   current: obj<ErrorModel>(),
   calibration: obj<Calibration>().nullable(),
   history: z.array(
-    z.object({ lotId: z.string(), runId: z.string(), runDate: z.string(), revisionId: z.string(), summary: LotSummarySchema }),
+    z.object({
+      lotId: z.string(),
+      runId: z.string(),
+      runDate: z.string(),
+      revisionId: z.string(),
+      summary: LotSummarySchema,
+    }),
   ),
   adoptWith: z.string(),
 });

@@ -8,9 +8,27 @@ import type { Design } from "../src/core/index.ts";
 import { processErrorStats } from "../src/studies/process/index.ts";
 
 const materials = [
-  { id: "glass152", name: "glass", model: { kind: "constant" as const, n: 1.52, k: 0 }, role: "substrate" as const, source: "test value" },
-  { id: "H230", name: "H", model: { kind: "constant" as const, n: 2.3, k: 0 }, role: "layer" as const, source: "test value" },
-  { id: "L138", name: "L", model: { kind: "constant" as const, n: 1.38, k: 0 }, role: "layer" as const, source: "test value" },
+  {
+    id: "glass152",
+    name: "glass",
+    model: { kind: "constant" as const, n: 1.52, k: 0 },
+    role: "substrate" as const,
+    source: "test value",
+  },
+  {
+    id: "H230",
+    name: "H",
+    model: { kind: "constant" as const, n: 2.3, k: 0 },
+    role: "layer" as const,
+    source: "test value",
+  },
+  {
+    id: "L138",
+    name: "L",
+    model: { kind: "constant" as const, n: 1.38, k: 0 },
+    role: "layer" as const,
+    source: "test value",
+  },
 ];
 
 export interface LevelSurvey {
@@ -33,7 +51,10 @@ export function levelSurvey(designs = 200, trials = 1000, seed = 11): LevelSurve
       referenceWavelength: 550,
       incident: "air",
       exit: "air",
-      layers: qwot.map((q, i) => ({ material: i % 2 ? "L138" : "H230", thickness: (q * 550) / (4 * (i % 2 ? 1.38 : 2.3)) })),
+      layers: qwot.map((q, i) => ({
+        material: i % 2 ? "L138" : "H230",
+        thickness: (q * 550) / (4 * (i % 2 ? 1.38 : 2.3)),
+      })),
       substrate: { material: "glass152", thicknessMm: 1, backside: false },
       materials,
     };

@@ -6,11 +6,14 @@ import type { FitRequest, FitReply } from "./index.ts";
 parentPort?.once("message", (req: FitRequest) => {
   let reply: FitReply;
   try {
-    if (req.kind === "part") reply = { ok: true, result: fitBuiltPart(req.design, req.measurements, req.options) };
+    if (req.kind === "part")
+      reply = { ok: true, result: fitBuiltPart(req.design, req.measurements, req.options) };
     else if (req.kind === "film") reply = { ok: true, result: fitWitnessFilm(req.measurements, req.options) };
     else {
       const calibration = calibrateErrorModel(req.parts);
-      const indexDriftPct = Object.fromEntries(Object.entries(calibration.indexDrift).map(([m, e]) => [m, e.sigmaPct]));
+      const indexDriftPct = Object.fromEntries(
+        Object.entries(calibration.indexDrift).map(([m, e]) => [m, e.sigmaPct]),
+      );
       reply = {
         ok: true,
         result: {
@@ -22,7 +25,11 @@ parentPort?.once("message", (req: FitRequest) => {
       };
     }
   } catch (err) {
-    reply = { ok: false, range: err instanceof RangeError, message: err instanceof Error ? err.message : String(err) };
+    reply = {
+      ok: false,
+      range: err instanceof RangeError,
+      message: err instanceof Error ? err.message : String(err),
+    };
   }
   parentPort?.postMessage(reply);
 });

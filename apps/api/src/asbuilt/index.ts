@@ -24,7 +24,12 @@ export interface CalibrationRequest {
 }
 
 export type FitRequest =
-  | { kind: "part"; design: Design; measurements: MeasuredSpectrum[]; options: Omit<BuiltFitOptions, "onProgress" | "shouldStop"> }
+  | {
+      kind: "part";
+      design: Design;
+      measurements: MeasuredSpectrum[];
+      options: Omit<BuiltFitOptions, "onProgress" | "shouldStop">;
+    }
   | { kind: "film"; measurements: MeasuredSpectrum[]; options: FilmFitOptions }
   | CalibrationRequest;
 
@@ -57,14 +62,26 @@ async function run(req: FitRequest): Promise<BuiltFitResult | FilmFitResult | Ca
     const entry = here.endsWith(".ts") ? new URL("./fit-boot.mjs", here) : new URL("./fit-worker.js", here);
     const worker = new Worker(entry);
     const reply = await new Promise<FitReply>((resolve) => {
-      const timer = setTimeout(() => resolve({ ok: false, range: false, message: `the fit did not finish within ${FIT_TIMEOUT_MS / 1000} s` }), FIT_TIMEOUT_MS);
+      const timer = setTimeout(
+        () =>
+          resolve({
+            ok: false,
+            range: false,
+            message: `the fit did not finish within ${FIT_TIMEOUT_MS / 1000} s`,
+          }),
+        FIT_TIMEOUT_MS,
+      );
       const finish = (r: FitReply) => {
         clearTimeout(timer);
         resolve(r);
       };
       worker.once("message", finish);
-      worker.once("error", (err) => finish({ ok: false, range: false, message: `fit thread failed: ${err.message}` }));
-      worker.once("exit", (code) => finish({ ok: false, range: false, message: `fit thread stopped (exit code ${code})` }));
+      worker.once("error", (err) =>
+        finish({ ok: false, range: false, message: `fit thread failed: ${err.message}` }),
+      );
+      worker.once("exit", (code) =>
+        finish({ ok: false, range: false, message: `fit thread stopped (exit code ${code})` }),
+      );
       worker.postMessage(req);
     });
     await worker.terminate();
@@ -77,8 +94,11 @@ async function run(req: FitRequest): Promise<BuiltFitResult | FilmFitResult | Ca
 }
 
 /** {@link fitBuiltPart} in a worker thread. */
-export const fitPartOffThread = (design: Design, measurements: MeasuredSpectrum[], options: Omit<BuiltFitOptions, "onProgress" | "shouldStop">) =>
-  run({ kind: "part", design, measurements, options }) as Promise<BuiltFitResult>;
+export const fitPartOffThread = (
+  design: Design,
+  measurements: MeasuredSpectrum[],
+  options: Omit<BuiltFitOptions, "onProgress" | "shouldStop">,
+) => run({ kind: "part", design, measurements, options }) as Promise<BuiltFitResult>;
 
 /** {@link fitWitnessFilm} in a worker thread. */
 export const fitFilmOffThread = (measurements: MeasuredSpectrum[], options: FilmFitOptions) =>

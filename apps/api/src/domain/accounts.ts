@@ -6,7 +6,13 @@ import type { Db } from "../db/client.ts";
 import type { Env } from "../env.ts";
 import { memberships, passwordResets, sessions, users, workspaces, type Role } from "../db/schema.ts";
 import { luciaFor } from "../auth/lucia.ts";
-import { hashPassword, normalizeEmail, passwordProblem, verifyAgainstDummy, verifyPassword } from "../auth/password.ts";
+import {
+  hashPassword,
+  normalizeEmail,
+  passwordProblem,
+  verifyAgainstDummy,
+  verifyPassword,
+} from "../auth/password.ts";
 import { hashToken, newId, newToken } from "../auth/tokens.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError } from "../lib/errors.ts";
@@ -24,7 +30,13 @@ export function createAccount(
 ): string {
   const id = newId();
   db.insert(users)
-    .values({ id, email: input.email, name: input.name, passwordHash: input.passwordHash, createdAt: input.at ?? new Date() })
+    .values({
+      id,
+      email: input.email,
+      name: input.name,
+      passwordHash: input.passwordHash,
+      createdAt: input.at ?? new Date(),
+    })
     .run();
   return id;
 }
@@ -50,7 +62,11 @@ export async function checkCredentials(db: Db, email: string, password: string):
   const user = db.select().from(users).where(eq(users.email, email)).get();
   const ok = user ? await verifyPassword(user.passwordHash, password) : await verifyAgainstDummy(password);
   if (!user || !ok) {
-    throw new HttpError(401, "invalid_credentials", "That e-mail address and password do not match an account.");
+    throw new HttpError(
+      401,
+      "invalid_credentials",
+      "That e-mail address and password do not match an account.",
+    );
   }
   const membership = db
     .select({ roles: memberships.roles, id: workspaces.id, name: workspaces.name })
@@ -60,7 +76,11 @@ export async function checkCredentials(db: Db, email: string, password: string):
     .orderBy(asc(memberships.createdAt))
     .get();
   if (!membership) {
-    throw new HttpError(403, "no_membership", "This account is not a member of any workspace. Ask an admin to invite you.");
+    throw new HttpError(
+      403,
+      "no_membership",
+      "This account is not a member of any workspace. Ask an admin to invite you.",
+    );
   }
   return {
     user: { id: user.id, email: user.email, name: user.name },
@@ -111,14 +131,28 @@ export async function deleteExpiredSessions(db: Db, env: Env): Promise<void> {
  * `mayMail(userId)` allows another mail to it. Does nothing otherwise: the caller answers the same either way.
  * The mail is not awaited, so the answer takes no longer when the account exists.
  */
-export function requestPasswordReset(deps: MailDeps, email: string, mayMail: (userId: string) => boolean): void {
-  const user = deps.db.select().from(users).where(eq(users.email, normalizeEmail(email))).get();
+export function requestPasswordReset(
+  deps: MailDeps,
+  email: string,
+  mayMail: (userId: string) => boolean,
+): void {
+  const user = deps.db
+    .select()
+    .from(users)
+    .where(eq(users.email, normalizeEmail(email)))
+    .get();
   if (!user || !mayMail(user.id)) return;
   const { token, hash } = newToken();
   const now = new Date();
   deps.db
     .insert(passwordResets)
-    .values({ id: newId(), userId: user.id, tokenHash: hash, createdAt: now, expiresAt: new Date(now.getTime() + RESET_LIFETIME_MS) })
+    .values({
+      id: newId(),
+      userId: user.id,
+      tokenHash: hash,
+      createdAt: now,
+      expiresAt: new Date(now.getTime() + RESET_LIFETIME_MS),
+    })
     .run();
   void deps.mail.send({
     to: user.email,
@@ -132,14 +166,25 @@ export function requestPasswordReset(deps: MailDeps, email: string, mayMail: (us
  * session of the account ends.
  */
 export async function resetPassword(db: Db, token: string, password: string): Promise<void> {
-  const invalid = () => new HttpError(400, "invalid_token", "This reset link is not valid any more. Ask for a new one.");
+  const invalid = () =>
+    new HttpError(400, "invalid_token", "This reset link is not valid any more. Ask for a new one.");
   const found = db
     .select()
     .from(passwordResets)
-    .where(and(eq(passwordResets.tokenHash, hashToken(token)), isNull(passwordResets.usedAt), gt(passwordResets.expiresAt, new Date())))
+    .where(
+      and(
+        eq(passwordResets.tokenHash, hashToken(token)),
+        isNull(passwordResets.usedAt),
+        gt(passwordResets.expiresAt, new Date()),
+      ),
+    )
     .get();
   if (!found) throw invalid();
-  const owner = db.select({ email: users.email, name: users.name }).from(users).where(eq(users.id, found.userId)).get();
+  const owner = db
+    .select({ email: users.email, name: users.name })
+    .from(users)
+    .where(eq(users.id, found.userId))
+    .get();
   const problem = passwordProblem(password, owner ? [owner.email, owner.name] : []);
   if (problem) throw weakPassword(problem);
   const passwordHash = await hashPassword(password);
@@ -148,7 +193,13 @@ export async function resetPassword(db: Db, token: string, password: string): Pr
     const claimed = tx
       .update(passwordResets)
       .set({ usedAt: now })
-      .where(and(eq(passwordResets.id, found.id), isNull(passwordResets.usedAt), gt(passwordResets.expiresAt, now)))
+      .where(
+        and(
+          eq(passwordResets.id, found.id),
+          isNull(passwordResets.usedAt),
+          gt(passwordResets.expiresAt, now),
+        ),
+      )
       .run();
     if (claimed.changes !== 1) throw invalid();
     // Other outstanding links of the account stop working too.
@@ -159,7 +210,11 @@ export async function resetPassword(db: Db, token: string, password: string): Pr
     tx.update(users).set({ passwordHash }).where(eq(users.id, found.userId)).run();
     tx.delete(sessions).where(eq(sessions.userId, found.userId)).run();
     const user = tx.select({ name: users.name }).from(users).where(eq(users.id, found.userId)).get();
-    const spaces = tx.select({ workspaceId: memberships.workspaceId }).from(memberships).where(eq(memberships.userId, found.userId)).all();
+    const spaces = tx
+      .select({ workspaceId: memberships.workspaceId })
+      .from(memberships)
+      .where(eq(memberships.userId, found.userId))
+      .all();
     for (const { workspaceId } of spaces) {
       recordAudit(tx, {
         workspaceId,

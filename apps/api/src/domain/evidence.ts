@@ -24,7 +24,14 @@ import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError, conflict, forbidden } from "../lib/errors.ts";
 import { ClientResultSchema, verifyClientResult } from "../yield/verify.ts";
 import { canonicalJson, newId } from "./canonical.ts";
-import { loadRevision, maskOf, stackOf, type ProgramRow, type RevisionContext, type YieldRunRow } from "./load.ts";
+import {
+  loadRevision,
+  maskOf,
+  stackOf,
+  type ProgramRow,
+  type RevisionContext,
+  type YieldRunRow,
+} from "./load.ts";
 
 export const SEED_RULE =
   'seed = "ev-" + first 16 hex digits of the revision content hash + "-m" + first 8 hex digits of the sha-256 of the error model (canonical JSON); trials = the program\'s minimum evidence trials';

@@ -20,7 +20,11 @@ export const pendingInvitation = (now: Date) =>
   and(isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, now));
 
 const invalidInvitation = () =>
-  new HttpError(404, "invalid_invitation", "This invitation link is not valid any more. Ask an admin for a new one.");
+  new HttpError(
+    404,
+    "invalid_invitation",
+    "This invitation link is not valid any more. Ask an admin for a new one.",
+  );
 
 /**
  * Invites `email` with `roles` (a pending invitation of the same address is revoked) and mails the link once the
@@ -39,7 +43,10 @@ export async function createInvitation(
     const existing = tx
       .select({ userId: users.id })
       .from(users)
-      .innerJoin(memberships, and(eq(memberships.userId, users.id), eq(memberships.workspaceId, workspace.id)))
+      .innerJoin(
+        memberships,
+        and(eq(memberships.userId, users.id), eq(memberships.workspaceId, workspace.id)),
+      )
       .where(eq(users.email, email))
       .get();
     if (existing) {
@@ -47,7 +54,9 @@ export async function createInvitation(
     }
     tx.update(invitations)
       .set({ revokedAt: now })
-      .where(and(eq(invitations.workspaceId, workspace.id), eq(invitations.email, email), pendingInvitation(now)))
+      .where(
+        and(eq(invitations.workspaceId, workspace.id), eq(invitations.email, email), pendingInvitation(now)),
+      )
       .run();
     tx.insert(invitations)
       .values({
@@ -100,7 +109,9 @@ export function revokeInvitation(db: Db, input: { workspaceId: string; actor: Ac
     const inv = tx
       .select()
       .from(invitations)
-      .where(and(eq(invitations.id, input.id), eq(invitations.workspaceId, workspaceId), pendingInvitation(now)))
+      .where(
+        and(eq(invitations.id, input.id), eq(invitations.workspaceId, workspaceId), pendingInvitation(now)),
+      )
       .get();
     if (!inv) throw notFound("Pending invitation");
     tx.update(invitations).set({ revokedAt: now }).where(eq(invitations.id, inv.id)).run();
@@ -163,7 +174,10 @@ export async function acceptInvitation(
     }
   } else {
     const name = input.name;
-    if (!name) throw new HttpError(400, "validation_failed", "body.name: Enter your name.", [{ path: "name", message: "Enter your name." }]);
+    if (!name)
+      throw new HttpError(400, "validation_failed", "body.name: Enter your name.", [
+        { path: "name", message: "Enter your name." },
+      ]);
     const problem = passwordProblem(input.password, [inv.email, name]);
     if (problem) throw weakPassword(problem);
     passwordHash = await hashPassword(input.password);
@@ -171,13 +185,21 @@ export async function acceptInvitation(
   const result = db.transaction((tx) => {
     const now = new Date();
     // Another accept of the same link may have finished while the password was being hashed.
-    const still = tx.select({ id: invitations.id }).from(invitations).where(and(eq(invitations.id, inv.id), pendingInvitation(now))).get();
+    const still = tx
+      .select({ id: invitations.id })
+      .from(invitations)
+      .where(and(eq(invitations.id, inv.id), pendingInvitation(now)))
+      .get();
     if (!still) throw invalidInvitation();
     let userId = account?.id;
     if (!userId) {
       const taken = tx.select({ id: users.id }).from(users).where(eq(users.email, inv.email)).get();
       if (taken) throw conflict("An account for this address was just created; sign in instead.");
-      userId = createAccount(tx, { email: inv.email, name: input.name ?? inv.email, passwordHash: passwordHash ?? "" });
+      userId = createAccount(tx, {
+        email: inv.email,
+        name: input.name ?? inv.email,
+        passwordHash: passwordHash ?? "",
+      });
     }
     const claimed = tx
       .update(invitations)
@@ -212,5 +234,9 @@ export async function acceptInvitation(
     });
     return { user, roles };
   });
-  return { user: result.user, workspace: { id: inv.workspaceId, name: found.workspaceName }, roles: result.roles };
+  return {
+    user: result.user,
+    workspace: { id: inv.workspaceId, name: found.workspaceName },
+    roles: result.roles,
+  };
 }

@@ -30,7 +30,6 @@ import type { Actor } from "./deps.ts";
 export type LotRow = typeof measuredLots.$inferSelect;
 export type PartRow = typeof measuredParts.$inferSelect;
 
-
 /** Run a pure optics call; its RangeError becomes a 400 naming the value. */
 function physics<T>(fn: () => T): T {
   try {
@@ -54,7 +53,14 @@ export interface LotMeta {
 }
 
 /** Create a lot with its parts; 409 when a part label repeats. Returns the lot id. */
-export function createLot(db: Db, workspaceId: string, actor: Actor, rc: RevisionContext, meta: LotMeta, parts: MeasuredPart[]): string {
+export function createLot(
+  db: Db,
+  workspaceId: string,
+  actor: Actor,
+  rc: RevisionContext,
+  meta: LotMeta,
+  parts: MeasuredPart[],
+): string {
   const labels = new Set<string>();
   for (const p of parts) {
     if (labels.has(p.id)) throw conflict(`The part "${p.id}" appears twice in the upload.`);
@@ -110,7 +116,14 @@ export function createLot(db: Db, workspaceId: string, actor: Actor, rc: Revisio
  * Add spectra to a lot (another file: R after T, another angle, more parts). Columns named like an existing
  * part add a measurement to it; new names add parts. Verdicts of the touched parts are recomputed.
  */
-export function addSpectra(db: Db, workspaceId: string, actor: Actor, rc: RevisionContext, lot: LotRow, incoming: MeasuredPart[]): void {
+export function addSpectra(
+  db: Db,
+  workspaceId: string,
+  actor: Actor,
+  rc: RevisionContext,
+  lot: LotRow,
+  incoming: MeasuredPart[],
+): void {
   const existing = db.select().from(measuredParts).where(eq(measuredParts.lotId, lot.id)).all();
   const byLabel = new Map(existing.map((p) => [p.label, p]));
   const seen = new Set<string>();
@@ -118,7 +131,10 @@ export function addSpectra(db: Db, workspaceId: string, actor: Actor, rc: Revisi
     if (seen.has(p.id)) throw conflict(`The part "${p.id}" appears twice in the upload.`);
     seen.add(p.id);
     const old = byLabel.get(p.id);
-    return { id: p.id, measurements: [...((old?.measurements as MeasuredSpectrum[] | undefined) ?? []), ...p.measurements] };
+    return {
+      id: p.id,
+      measurements: [...((old?.measurements as MeasuredSpectrum[] | undefined) ?? []), ...p.measurements],
+    };
   });
   const vs = verdicts(maskOf(rc.revision, rc.program), merged, lot.guardK);
   db.transaction((tx) => {
@@ -126,12 +142,26 @@ export function addSpectra(db: Db, workspaceId: string, actor: Actor, rc: Revisi
       const old = byLabel.get(p.id);
       if (old)
         tx.update(measuredParts)
-          .set({ measurements: p.measurements, status: vs[i]!.status, verdict: vs[i], fit: null, fittedAt: null })
+          .set({
+            measurements: p.measurements,
+            status: vs[i]!.status,
+            verdict: vs[i],
+            fit: null,
+            fittedAt: null,
+          })
           .where(eq(measuredParts.id, old.id))
           .run();
       else
         tx.insert(measuredParts)
-          .values({ id: newId(), lotId: lot.id, label: p.id, measurements: p.measurements, status: vs[i]!.status, verdict: vs[i], createdAt: new Date() })
+          .values({
+            id: newId(),
+            lotId: lot.id,
+            label: p.id,
+            measurements: p.measurements,
+            status: vs[i]!.status,
+            verdict: vs[i],
+            createdAt: new Date(),
+          })
           .run();
     });
     recordAudit(tx, {
@@ -147,10 +177,20 @@ export function addSpectra(db: Db, workspaceId: string, actor: Actor, rc: Revisi
 }
 
 /** Store an as-built fit of a part (the fitted spectra are kept: the page draws them). */
-export function storePartFit(db: Db, workspaceId: string, actor: Actor, lot: LotRow, part: PartRow, fit: BuiltFitResult): void {
+export function storePartFit(
+  db: Db,
+  workspaceId: string,
+  actor: Actor,
+  lot: LotRow,
+  part: PartRow,
+  fit: BuiltFitResult,
+): void {
   const { design: _design, ...stored } = fit;
   db.transaction((tx) => {
-    tx.update(measuredParts).set({ fit: stored, fittedAt: new Date() }).where(eq(measuredParts.id, part.id)).run();
+    tx.update(measuredParts)
+      .set({ fit: stored, fittedAt: new Date() })
+      .where(eq(measuredParts.id, part.id))
+      .run();
     recordAudit(tx, {
       workspaceId,
       actorId: actor.id,
@@ -163,8 +203,15 @@ export function storePartFit(db: Db, workspaceId: string, actor: Actor, lot: Lot
 }
 
 /** The predicted yield of a revision: its release record's run, else its latest finished server run. */
-export function predictedYield(db: DbOrTx, revisionId: string): { yield: number; low: number; high: number; yieldRunId: string } | null {
-  const rel = db.select({ runId: releases.yieldRunId }).from(releases).where(eq(releases.revisionId, revisionId)).get();
+export function predictedYield(
+  db: DbOrTx,
+  revisionId: string,
+): { yield: number; low: number; high: number; yieldRunId: string } | null {
+  const rel = db
+    .select({ runId: releases.yieldRunId })
+    .from(releases)
+    .where(eq(releases.revisionId, revisionId))
+    .get();
   const run = rel
     ? db.select().from(yieldRuns).where(eq(yieldRuns.id, rel.runId)).get()
     : db
@@ -199,7 +246,12 @@ export function calibrationInput(db: DbOrTx, programId: string): CalibrationPart
   const parts = db
     .select()
     .from(measuredParts)
-    .where(inArray(measuredParts.lotId, lots.map((l) => l.id)))
+    .where(
+      inArray(
+        measuredParts.lotId,
+        lots.map((l) => l.id),
+      ),
+    )
     .all()
     .filter((p) => p.fit);
   const lotOf = new Map(lots.map((l) => [l.id, l]));
@@ -209,26 +261,38 @@ export function calibrationInput(db: DbOrTx, programId: string): CalibrationPart
     const chosen = fit.models[fit.chosen]!;
     const index: Record<string, { valuePct: number; sePct: number }> = {};
     for (const q of chosen.parameters)
-      if (q.kind === "index" && q.determinable && q.material) index[q.material] = { valuePct: q.value * 100, sePct: q.se * 100 };
+      if (q.kind === "index" && q.determinable && q.material)
+        index[q.material] = { valuePct: q.value * 100, sePct: q.se * 100 };
     return {
       runId: lot.runId,
       date: lot.runDate,
       designKey: lot.revisionId,
       layers: fit.layers
         .filter((l) => l.determinable && l.errorPct !== null && l.sePct !== null)
-        .map((l) => ({ material: l.material, errorPct: l.errorPct!, sePct: l.sePct!, index: l.index, nominalNm: l.nominalNm })),
+        .map((l) => ({
+          material: l.material,
+          errorPct: l.errorPct!,
+          sePct: l.sePct!,
+          index: l.index,
+          nominalNm: l.nominalNm,
+        })),
       ...(Object.keys(index).length > 0 ? { index } : {}),
     };
   });
 }
 
 /** What the calibration worker needs: the fitted parts, the program's error model and the designs they were built to. */
-export function calibrationRequest(db: DbOrTx, programId: string, errorModel: ErrorModel): CalibrationRequest | null {
+export function calibrationRequest(
+  db: DbOrTx,
+  programId: string,
+  errorModel: ErrorModel,
+): CalibrationRequest | null {
   const parts = calibrationInput(db, programId);
   if (parts.length === 0) return null;
   const ids = [...new Set(parts.map((p) => p.designKey!))];
   const designs: Record<string, Design> = {};
-  for (const r of db.select().from(revisions).where(inArray(revisions.id, ids)).all()) designs[r.id] = stackOf(r);
+  for (const r of db.select().from(revisions).where(inArray(revisions.id, ids)).all())
+    designs[r.id] = stackOf(r);
   return { kind: "calibration", parts, errorModel, designs };
 }
 
@@ -243,7 +307,15 @@ export async function programCalibration(db: DbOrTx, programId: string, errorMod
 }
 
 /** Store a fitted witness film as a workspace material; 409 when the id is taken. */
-export function storeFilmMaterial(db: Db, workspaceId: string, actor: Actor, id: string, name: string, fit: FilmFitResult, fileName: string): string {
+export function storeFilmMaterial(
+  db: Db,
+  workspaceId: string,
+  actor: Actor,
+  id: string,
+  name: string,
+  fit: FilmFitResult,
+  fileName: string,
+): string {
   if (isBuiltIn(id)) throw conflict(`"${id}" is a built-in material id; choose another id.`);
   const m = fit.model;
   const source =
@@ -258,9 +330,21 @@ export function storeFilmMaterial(db: Db, workspaceId: string, actor: Actor, id:
       .from(materials)
       .where(and(eq(materials.workspaceId, workspaceId), eq(materials.materialId, id)))
       .get();
-    if (taken) throw conflict(`The workspace already has a material "${id}"; materials are not replaced, choose another id.`);
+    if (taken)
+      throw conflict(
+        `The workspace already has a material "${id}"; materials are not replaced, choose another id.`,
+      );
     tx.insert(materials)
-      .values({ id: rowId, workspaceId, materialId: id, name, role: "layer", source, model: material.model, createdBy: actor.id })
+      .values({
+        id: rowId,
+        workspaceId,
+        materialId: id,
+        name,
+        role: "layer",
+        source,
+        model: material.model,
+        createdBy: actor.id,
+      })
       .run();
     recordAudit(tx, {
       workspaceId,

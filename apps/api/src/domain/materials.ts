@@ -104,7 +104,9 @@ export function createMaterial(db: Db, input: { workspaceId: string; actor: Acto
       .where(and(eq(materials.workspaceId, workspaceId), eq(materials.materialId, material.id)))
       .get();
     if (taken)
-      throw conflict(`The workspace already has a material "${material.id}"; materials are not replaced, choose another id.`);
+      throw conflict(
+        `The workspace already has a material "${material.id}"; materials are not replaced, choose another id.`,
+      );
     tx.insert(materials)
       .values({
         id,

@@ -10,7 +10,12 @@ function adminCount(tx: DbOrTx, workspaceId: string): number {
   const row = tx
     .select({ n: sql<number>`count(*)` })
     .from(memberships)
-    .where(and(eq(memberships.workspaceId, workspaceId), sql`exists (select 1 from json_each(${memberships.roles}) where value = 'admin')`))
+    .where(
+      and(
+        eq(memberships.workspaceId, workspaceId),
+        sql`exists (select 1 from json_each(${memberships.roles}) where value = 'admin')`,
+      ),
+    )
     .get();
   return row?.n ?? 0;
 }
@@ -87,8 +92,16 @@ export function removeMember(db: Db, input: MemberChange): void {
 }
 
 /** Makes an account a member of a workspace with `roles`, as of `at` (no audit entry: the caller's action has one). */
-export function addMember(db: DbOrTx, input: { workspaceId: string; userId: string; roles: Role[]; at?: Date }): void {
+export function addMember(
+  db: DbOrTx,
+  input: { workspaceId: string; userId: string; roles: Role[]; at?: Date },
+): void {
   db.insert(memberships)
-    .values({ workspaceId: input.workspaceId, userId: input.userId, roles: input.roles, createdAt: input.at ?? new Date() })
+    .values({
+      workspaceId: input.workspaceId,
+      userId: input.userId,
+      roles: input.roles,
+      createdAt: input.at ?? new Date(),
+    })
     .run();
 }

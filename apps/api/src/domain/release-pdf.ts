@@ -314,25 +314,27 @@ function write(doc: Doc, r: ReleaseRecord) {
       "Nominal",
       "Failures in evidence run",
     ],
-    r.bands.map((b) => [
-      b.label ? `${b.label} (${b.id})` : b.id,
-      `${b.start}-${b.stop}`,
-      `${b.quantity}, ${b.angleDeg} deg, ${b.polarization}`,
-      `${REQUIREMENT_LABEL[b.requirement] ?? b.requirement} ${b.value ?? "-"}${unitOf(b.quantity)}${b.tolerance ? ` (tol. ${b.tolerance})` : ""}`,
-      b.nominalMargin !== null ? `${b.nominalMargin.toFixed(3)}${unitOf(b.quantity)}` : "-",
-      b.nominalPass === null ? "-" : b.nominalPass ? "pass" : "FAIL",
-      b.failures === null ? "" : String(b.failures),
-    ]).concat(
-      r.colour.map((c) => [
-        c.label ? `${c.label} (${c.id})` : c.id,
-        "380-780",
-        `colour${c.found ? `: ${c.found}` : ""}`,
-        c.wording,
-        c.nominalMargin !== null ? c.nominalMargin.toFixed(4) : "-",
-        c.nominalPass === null ? "-" : c.nominalPass ? "pass" : "FAIL",
-        c.failures === null ? "" : String(c.failures),
-      ]),
-    ),
+    r.bands
+      .map((b) => [
+        b.label ? `${b.label} (${b.id})` : b.id,
+        `${b.start}-${b.stop}`,
+        `${b.quantity}, ${b.angleDeg} deg, ${b.polarization}`,
+        `${REQUIREMENT_LABEL[b.requirement] ?? b.requirement} ${b.value ?? "-"}${unitOf(b.quantity)}${b.tolerance ? ` (tol. ${b.tolerance})` : ""}`,
+        b.nominalMargin !== null ? `${b.nominalMargin.toFixed(3)}${unitOf(b.quantity)}` : "-",
+        b.nominalPass === null ? "-" : b.nominalPass ? "pass" : "FAIL",
+        b.failures === null ? "" : String(b.failures),
+      ])
+      .concat(
+        r.colour.map((c) => [
+          c.label ? `${c.label} (${c.id})` : c.id,
+          "380-780",
+          `colour${c.found ? `: ${c.found}` : ""}`,
+          c.wording,
+          c.nominalMargin !== null ? c.nominalMargin.toFixed(4) : "-",
+          c.nominalPass === null ? "-" : c.nominalPass ? "pass" : "FAIL",
+          c.failures === null ? "" : String(c.failures),
+        ]),
+      ),
   );
 
   heading(doc, "Spec deviations");

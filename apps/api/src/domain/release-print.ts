@@ -140,29 +140,35 @@ ${r.plots.length > 0 ? r.plots.map(plotSvg).join("\n") : "<p>No spectrum is stor
 <h2>Specification, margins and nominal result</h2>
 <table><thead><tr><th>Band</th><th>Range (nm)</th><th>Quantity</th><th>Requirement</th><th class="num">Nominal margin</th><th>Nominal</th><th class="num">Failures in evidence run</th></tr></thead><tbody>
 ${rows(
-  r.bands.map((b) => [
-    esc(b.label ? `${b.label} (${b.id})` : b.id),
-    `${b.start}–${b.stop}`,
-    `${esc(b.quantity)}, ${b.angleDeg}°, ${esc(b.polarization)}`,
-    `${esc(REQUIREMENT_LABEL[b.requirement] ?? b.requirement)} ${esc(b.value ?? "—")}${unitOf(b.quantity)}${b.tolerance ? ` (tol. ${b.tolerance})` : ""}`,
-    b.nominalMargin !== null ? `${b.nominalMargin.toFixed(3)}${unitOf(b.quantity)}` : "—",
-    b.nominalPass === null
-      ? "—"
-      : b.nominalPass
-        ? `<span class="pass">pass</span>`
-        : `<span class="fail">fail</span>`,
-    b.failures === null ? "" : String(b.failures),
-  ]).concat(
-    r.colour.map((c) => [
-      esc(c.label ? `${c.label} (${c.id})` : c.id),
-      "380–780",
-      `colour${c.found ? `: ${esc(c.found)}` : ""}`,
-      esc(c.wording),
-      c.nominalMargin !== null ? c.nominalMargin.toFixed(4) : "—",
-      c.nominalPass === null ? "—" : c.nominalPass ? `<span class="pass">pass</span>` : `<span class="fail">fail</span>`,
-      c.failures === null ? "" : String(c.failures),
-    ]),
-  ),
+  r.bands
+    .map((b) => [
+      esc(b.label ? `${b.label} (${b.id})` : b.id),
+      `${b.start}–${b.stop}`,
+      `${esc(b.quantity)}, ${b.angleDeg}°, ${esc(b.polarization)}`,
+      `${esc(REQUIREMENT_LABEL[b.requirement] ?? b.requirement)} ${esc(b.value ?? "—")}${unitOf(b.quantity)}${b.tolerance ? ` (tol. ${b.tolerance})` : ""}`,
+      b.nominalMargin !== null ? `${b.nominalMargin.toFixed(3)}${unitOf(b.quantity)}` : "—",
+      b.nominalPass === null
+        ? "—"
+        : b.nominalPass
+          ? `<span class="pass">pass</span>`
+          : `<span class="fail">fail</span>`,
+      b.failures === null ? "" : String(b.failures),
+    ])
+    .concat(
+      r.colour.map((c) => [
+        esc(c.label ? `${c.label} (${c.id})` : c.id),
+        "380–780",
+        `colour${c.found ? `: ${esc(c.found)}` : ""}`,
+        esc(c.wording),
+        c.nominalMargin !== null ? c.nominalMargin.toFixed(4) : "—",
+        c.nominalPass === null
+          ? "—"
+          : c.nominalPass
+            ? `<span class="pass">pass</span>`
+            : `<span class="fail">fail</span>`,
+        c.failures === null ? "" : String(c.failures),
+      ]),
+    ),
 )}
 </tbody></table>
 <h2>Spec deviations</h2>

@@ -205,7 +205,9 @@ export function readReleaseRecord(snapshot: ReleaseSnapshot | unknown, status: s
       id,
       label: str(c.label),
       wording,
-      found: o?.colour ? `L* ${f2(found.L)}, a* ${f2(found.a)}, b* ${f2(found.b)}; x ${num(found.x)?.toFixed(4) ?? "—"}, y ${num(found.y)?.toFixed(4) ?? "—"}` : "",
+      found: o?.colour
+        ? `L* ${f2(found.L)}, a* ${f2(found.a)}, b* ${f2(found.b)}; x ${num(found.x)?.toFixed(4) ?? "—"}, y ${num(found.y)?.toFixed(4) ?? "—"}`
+        : "",
       nominalMargin: o ? num(o.margin) : null,
       nominalPass: o ? (typeof o.pass === "boolean" ? o.pass : null) : null,
       failures: run ? (failures.get(id) ?? 0) : null,

@@ -105,7 +105,13 @@ export function createRevision(tx: DbOrTx, input: NewRevision): RevisionRow {
       notComputable(err);
     }
   }
-  return storeRevision(tx, { design: input.design, stack, specMask: storedMask, note: input.note, authorId: input.authorId });
+  return storeRevision(tx, {
+    design: input.design,
+    stack,
+    specMask: storedMask,
+    note: input.note,
+    authorId: input.authorId,
+  });
 }
 
 /**
@@ -115,7 +121,14 @@ export function createRevision(tx: DbOrTx, input: NewRevision): RevisionRow {
  */
 export function storeRevision(
   tx: DbOrTx,
-  input: { design: Pick<DesignRow, "id">; stack: Design; specMask: SpecMask; note: string; authorId: string; at?: Date },
+  input: {
+    design: Pick<DesignRow, "id">;
+    stack: Design;
+    specMask: SpecMask;
+    note: string;
+    authorId: string;
+    at?: Date;
+  },
 ): RevisionRow {
   const last = tx
     .select({ n: max(revisions.number) })

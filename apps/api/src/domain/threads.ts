@@ -2,12 +2,29 @@
 import { and, asc, desc, eq, inArray, lte } from "drizzle-orm";
 import { evaluateSpec, type SpecMask, type SpecResult } from "@stackproof/optics";
 import type { Db } from "../db/client.ts";
-import { comments, memberships, revisions, threads, users, type Role, type ThreadAnchor } from "../db/schema.ts";
+import {
+  comments,
+  memberships,
+  revisions,
+  threads,
+  users,
+  type Role,
+  type ThreadAnchor,
+} from "../db/schema.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError, conflict, forbidden } from "../lib/errors.ts";
 import { newId } from "./canonical.ts";
 import type { Actor, MailDeps } from "./deps.ts";
-import { loadRevision, loadThread, maskOf, person, stackOf, userNames, type RevisionContext, type ThreadRow } from "./load.ts";
+import {
+  loadRevision,
+  loadThread,
+  maskOf,
+  person,
+  stackOf,
+  userNames,
+  type RevisionContext,
+  type ThreadRow,
+} from "./load.ts";
 import { mailMention } from "./notify.ts";
 
 /**
@@ -264,8 +281,15 @@ export function openThread(
   const { workspaceId, actor, rc, anchor } = input;
   const mask = maskOf(rc.revision, rc.program);
   // a band or a colour requirement (they share ids)
-  if (anchor.kind === "band" && ![...mask.bands, ...(mask.colour ?? [])].some((b) => b.id === anchor.bandId)) {
-    throw new HttpError(422, "unknown_anchor", `Revision ${rc.revision.number} has no spec band "${anchor.bandId}".`);
+  if (
+    anchor.kind === "band" &&
+    ![...mask.bands, ...(mask.colour ?? [])].some((b) => b.id === anchor.bandId)
+  ) {
+    throw new HttpError(
+      422,
+      "unknown_anchor",
+      `Revision ${rc.revision.number} has no spec band "${anchor.bandId}".`,
+    );
   }
   if (anchor.kind === "layer" && anchor.index >= stackOf(rc.revision).layers.length) {
     throw new HttpError(
@@ -300,7 +324,8 @@ export function commentOnThread(
   input: { workspaceId: string; actor: Actor & { roles: readonly Role[] }; threadId: string; body: string },
 ): { thread: ThreadRow | undefined; rc: RevisionContext } {
   const { workspaceId, actor } = input;
-  if (!actor.roles.some((r) => r !== "admin")) throw forbidden("Commenting needs a designer, reviewer or approver role.");
+  if (!actor.roles.some((r) => r !== "admin"))
+    throw forbidden("Commenting needs a designer, reviewer or approver role.");
   const { thread } = loadThread(deps.db, workspaceId, input.threadId);
   const rc = loadRevision(deps.db, workspaceId, thread.revisionId);
   const mentioned = deps.db.transaction((tx) => {
@@ -336,7 +361,11 @@ export function setThreadStatus(
 ): { thread: ThreadRow | undefined; rc: RevisionContext } {
   const { workspaceId, actor, action } = input;
   const { thread } = loadThread(deps.db, workspaceId, input.threadId);
-  if (thread.authorId !== actor.id && !actor.roles.includes("reviewer") && !actor.roles.includes("approver")) {
+  if (
+    thread.authorId !== actor.id &&
+    !actor.roles.includes("reviewer") &&
+    !actor.roles.includes("approver")
+  ) {
     throw forbidden(`Only a reviewer, an approver or the thread's author may ${action} it.`);
   }
   const rc = loadRevision(deps.db, workspaceId, thread.revisionId);

@@ -1,14 +1,28 @@
 // Yield runs as the API shows them, what-if studies, and cancelling a run. The evidence run (the one the gate
 // counts) is domain/evidence.ts's requestEvidenceRun; the job service (src/yield) computes and stores results.
 import { and, eq, inArray } from "drizzle-orm";
-import { ENGINE_VERSION, parseYieldStudy, type ErrorModel, type YieldResult, type YieldStudy } from "@stackproof/optics";
+import {
+  ENGINE_VERSION,
+  parseYieldStudy,
+  type ErrorModel,
+  type YieldResult,
+  type YieldStudy,
+} from "@stackproof/optics";
 import type { Db } from "../db/client.ts";
 import { yieldRuns, type Role } from "../db/schema.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError, conflict, forbidden } from "../lib/errors.ts";
 import { newId } from "./canonical.ts";
 import type { Actor } from "./deps.ts";
-import { loadYieldRun, maskOf, person, stackOf, userNames, type RevisionContext, type YieldRunRow } from "./load.ts";
+import {
+  loadYieldRun,
+  maskOf,
+  person,
+  stackOf,
+  userNames,
+  type RevisionContext,
+  type YieldRunRow,
+} from "./load.ts";
 import { ClientResultSchema, verifyClientResult } from "../yield/verify.ts";
 
 /** A run as the API shows it; `names` (requester id → person) saves the lookup when listing many runs. */
@@ -58,7 +72,13 @@ export function startWhatIfRun(
 ): YieldRunRow {
   const { workspaceId, actor, rc, trials, seed, errorModel } = input;
   try {
-    parseYieldStudy({ design: stackOf(rc.revision), mask: maskOf(rc.revision, rc.program), errorModel, trials, seed });
+    parseYieldStudy({
+      design: stackOf(rc.revision),
+      mask: maskOf(rc.revision, rc.program),
+      errorModel,
+      trials,
+      seed,
+    });
   } catch (err) {
     if (err instanceof RangeError) throw new HttpError(400, "invalid_study", err.message);
     throw err;

@@ -16,7 +16,11 @@ import type { PageQuery as ContractPageQuery, Page } from "@stackproof/contracts
 import { HttpError } from "./errors.ts";
 
 /** Query schema for a paginated list (the contracts' PageQuery; extend it there with `.extend({...})` for filters). */
-export { PageQuery as pageQuery, DEFAULT_PAGE_LIMIT as DEFAULT_LIMIT, MAX_PAGE_LIMIT as MAX_LIMIT } from "@stackproof/contracts";
+export {
+  PageQuery as pageQuery,
+  DEFAULT_PAGE_LIMIT as DEFAULT_LIMIT,
+  MAX_PAGE_LIMIT as MAX_LIMIT,
+} from "@stackproof/contracts";
 export type PageQuery = z.infer<typeof ContractPageQuery>;
 
 /** Response schema `{ items: T[], nextCursor: string | null }` and its type live with the contracts. */
@@ -43,7 +47,11 @@ export function decodeCursor(cursor: string, arity: number): (string | number)[]
     parsed.length !== arity ||
     !parsed.every((v) => typeof v === "string" || (typeof v === "number" && Number.isFinite(v)))
   ) {
-    throw new HttpError(400, "invalid_cursor", "The list cursor is not valid; start again from the first page.");
+    throw new HttpError(
+      400,
+      "invalid_cursor",
+      "The list cursor is not valid; start again from the first page.",
+    );
   }
   return parsed as (string | number)[];
 }

@@ -507,7 +507,7 @@ export function parseSingleSpectrum(
     throw new HttpError(
       400,
       "validation_failed",
-      "body.scale: every value lies between 0 and 1, so the file may hold fractions or the percentages of a dark part; confirm with scale=\"fraction\" or scale=\"percent\"",
+      'body.scale: every value lies between 0 and 1, so the file may hold fractions or the percentages of a dark part; confirm with scale="fraction" or scale="percent"',
       [{ path: "scale", message: 'required for this file: "percent" or "fraction"' }],
     );
   }

@@ -7,12 +7,7 @@
 // time (the fair scheduler), so a large run holds a small one back by at most one chunk per slot; cancellation
 // takes effect when the chunks in flight (about 50 ms of work each) are back.
 import { and, asc, count, eq, inArray } from "drizzle-orm";
-import {
-  ENGINE_VERSION,
-  type YieldChunk,
-  type YieldResult,
-  type YieldStudy,
-} from "@stackproof/optics";
+import { ENGINE_VERSION, type YieldChunk, type YieldResult, type YieldStudy } from "@stackproof/optics";
 import type { Env } from "../env.ts";
 import type { Db } from "../db/client.ts";
 import type { MailService } from "../mail/index.ts";

@@ -64,14 +64,26 @@ describe("responses match their contracts", () => {
     check(await approver.get(`${API}/auth/me`).expect(200), C.SessionInfo, "GET /auth/me");
     expectContract(C.HealthSchema, (await approver.get("/api/health").expect(200)).body, "GET /api/health");
 
-    const overview = check(await approver.get(`${API}/overview`).expect(200), C.OverviewResponse, "GET /overview");
+    const overview = check(
+      await approver.get(`${API}/overview`).expect(200),
+      C.OverviewResponse,
+      "GET /overview",
+    );
     expect(overview.items.length).toBeGreaterThan(0);
     expect(overview.items.some((r) => r.latestVerifiedYield !== null)).toBe(true);
     check(await approver.get(`${API}/queue`).expect(200), C.QueueResponse, "GET /queue");
 
-    const programs = check(await approver.get(`${API}/programs`).expect(200), C.ProgramListResponse, "GET /programs");
+    const programs = check(
+      await approver.get(`${API}/programs`).expect(200),
+      C.ProgramListResponse,
+      "GET /programs",
+    );
     const program = programs.items[0]!;
-    check(await approver.get(`${API}/programs/${program.id}`).expect(200), C.ProgramDetailSchema, "GET /programs/:id");
+    check(
+      await approver.get(`${API}/programs/${program.id}`).expect(200),
+      C.ProgramDetailSchema,
+      "GET /programs/:id",
+    );
     const designs = check(
       await approver.get(`${API}/programs/${program.id}/designs`).expect(200),
       C.ProgramDesignsResponse,
@@ -80,19 +92,39 @@ describe("responses match their contracts", () => {
 
     // every design, every revision: revision, threads, yield runs, gate, decisions, measurements
     for (const row of overview.items) {
-      const design = check(await approver.get(`${API}/designs/${row.design.id}`).expect(200), C.DesignSchemaOut, "GET /designs/:id");
+      const design = check(
+        await approver.get(`${API}/designs/${row.design.id}`).expect(200),
+        C.DesignSchemaOut,
+        "GET /designs/:id",
+      );
       for (const rev of design.revisions) {
-        check(await approver.get(`${API}/revisions/${rev.id}`).expect(200), C.RevisionSchema, "GET /revisions/:id");
-        check(await approver.get(`${API}/revisions/${rev.id}/threads`).expect(200), C.ThreadListResponse, "GET /revisions/:id/threads");
+        check(
+          await approver.get(`${API}/revisions/${rev.id}`).expect(200),
+          C.RevisionSchema,
+          "GET /revisions/:id",
+        );
+        check(
+          await approver.get(`${API}/revisions/${rev.id}/threads`).expect(200),
+          C.ThreadListResponse,
+          "GET /revisions/:id/threads",
+        );
         const runs = check(
           await approver.get(`${API}/revisions/${rev.id}/yield-runs`).expect(200),
           C.YieldRunListResponse,
           "GET /revisions/:id/yield-runs",
         );
         for (const run of runs.items) {
-          check(await approver.get(`${API}/yield-runs/${run.id}`).expect(200), C.YieldRunSchema, "GET /yield-runs/:id");
+          check(
+            await approver.get(`${API}/yield-runs/${run.id}`).expect(200),
+            C.YieldRunSchema,
+            "GET /yield-runs/:id",
+          );
         }
-        check(await approver.get(`${API}/revisions/${rev.id}/gate`).expect(200), C.GateSchema, "GET /revisions/:id/gate");
+        check(
+          await approver.get(`${API}/revisions/${rev.id}/gate`).expect(200),
+          C.GateSchema,
+          "GET /revisions/:id/gate",
+        );
         check(
           await approver.get(`${API}/revisions/${rev.id}/decisions`).expect(200),
           C.DecisionListResponse,
@@ -115,10 +147,18 @@ describe("responses match their contracts", () => {
     }
     expect(designs.items.length).toBeGreaterThan(0);
 
-    const releases = check(await approver.get(`${API}/releases`).expect(200), C.ReleaseListResponse, "GET /releases");
+    const releases = check(
+      await approver.get(`${API}/releases`).expect(200),
+      C.ReleaseListResponse,
+      "GET /releases",
+    );
     expect(releases.items.length).toBeGreaterThan(0);
     for (const r of releases.items) {
-      const record = check(await approver.get(`${API}/releases/${r.id}`).expect(200), C.ReleaseRecordSchema, "GET /releases/:id");
+      const record = check(
+        await approver.get(`${API}/releases/${r.id}`).expect(200),
+        C.ReleaseRecordSchema,
+        "GET /releases/:id",
+      );
       expect(record.yieldRun).not.toBeNull();
     }
 
@@ -134,17 +174,26 @@ describe("responses match their contracts", () => {
 
   it("write routes: a program, a design and its revisions, review, a yield run, an invitation", async () => {
     const program = check(
-      await approver.post(`${API}/programs`).send(programBody({ specMask: AR_MASK, errorModel: ERROR_MODEL })).expect(201),
+      await approver
+        .post(`${API}/programs`)
+        .send(programBody({ specMask: AR_MASK, errorModel: ERROR_MODEL }))
+        .expect(201),
       C.ProgramSchema,
       "POST /programs",
     );
     check(
-      await approver.patch(`${API}/programs/${program.id}`).send({ description: "contract walk" }).expect(200),
+      await approver
+        .patch(`${API}/programs/${program.id}`)
+        .send({ description: "contract walk" })
+        .expect(200),
       C.ProgramSchema,
       "PATCH /programs/:id",
     );
     const created = check(
-      await designer.post(`${API}/programs/${program.id}/designs`).send({ name: "Contract AR", stack: singleLayerAr() }).expect(201),
+      await designer
+        .post(`${API}/programs/${program.id}/designs`)
+        .send({ name: "Contract AR", stack: singleLayerAr() })
+        .expect(201),
       C.CreateDesignResponse,
       "POST /programs/:id/designs",
     );
@@ -180,10 +229,17 @@ describe("responses match their contracts", () => {
       C.ThreadSchema,
       "POST /threads/:id/comments",
     );
-    check(await reviewer.post(`${API}/threads/${thread.id}/resolve`).send({}).expect(200), C.ThreadSchema, "POST /threads/:id/resolve");
+    check(
+      await reviewer.post(`${API}/threads/${thread.id}/resolve`).send({}).expect(200),
+      C.ThreadSchema,
+      "POST /threads/:id/resolve",
+    );
 
     const { run } = check(
-      await designer.post(`${API}/revisions/${rev2.id}/yield-runs`).send({ trials: 40, seed: "contract" }).expect(202),
+      await designer
+        .post(`${API}/revisions/${rev2.id}/yield-runs`)
+        .send({ trials: 40, seed: "contract" })
+        .expect(202),
       C.CreateYieldRunResponse,
       "POST /revisions/:id/yield-runs",
     );
@@ -191,7 +247,11 @@ describe("responses match their contracts", () => {
     let done = run;
     for (let i = 0; i < 200 && !["done", "failed", "cancelled"].includes(done.status); i++) {
       await new Promise((r) => setTimeout(r, 50));
-      done = check(await designer.get(`${API}/yield-runs/${run.id}`).expect(200), C.YieldRunSchema, "GET /yield-runs/:id");
+      done = check(
+        await designer.get(`${API}/yield-runs/${run.id}`).expect(200),
+        C.YieldRunSchema,
+        "GET /yield-runs/:id",
+      );
     }
     expect(done.status).toBe("done");
     expect(done.result?.trials).toBe(40);
@@ -203,15 +263,25 @@ describe("responses match their contracts", () => {
     );
 
     const invitation = check(
-      await admin.post(`${API}/invitations`).send({ email: "new.person@halvorsen.example", roles: ["reviewer"] }).expect(201),
+      await admin
+        .post(`${API}/invitations`)
+        .send({ email: "new.person@halvorsen.example", roles: ["reviewer"] })
+        .expect(201),
       C.InvitationSchema,
       "POST /invitations",
     );
     expect(invitation.roles).toEqual(["reviewer"]);
-    const members = check(await admin.get(`${API}/members`).expect(200), C.MemberListResponse, "GET /members");
+    const members = check(
+      await admin.get(`${API}/members`).expect(200),
+      C.MemberListResponse,
+      "GET /members",
+    );
     const reviewerMember = members.items.find((m) => m.user.email === "reviewer@halvorsen.example")!;
     check(
-      await admin.patch(`${API}/members/${reviewerMember.user.id}`).send({ roles: ["reviewer", "designer"] }).expect(200),
+      await admin
+        .patch(`${API}/members/${reviewerMember.user.id}`)
+        .send({ roles: ["reviewer", "designer"] })
+        .expect(200),
       C.MemberUpdateResponse,
       "PATCH /members/:userId",
     );
@@ -219,11 +289,18 @@ describe("responses match their contracts", () => {
 
   it("the other routes: versions, evidence, deviations, reopen, cancel, uploads, invitation links, sign-in, error details", async () => {
     const program = check(
-      await approver.post(`${API}/programs`).send(programBody({ specMask: AR_MASK, errorModel: ERROR_MODEL })).expect(201),
+      await approver
+        .post(`${API}/programs`)
+        .send(programBody({ specMask: AR_MASK, errorModel: ERROR_MODEL }))
+        .expect(201),
       C.ProgramSchema,
       "POST /programs",
     );
-    check(await approver.get(`${API}/programs/${program.id}/versions`).expect(200), C.ProgramVersionsResponse, "GET /programs/:id/versions");
+    check(
+      await approver.get(`${API}/programs/${program.id}/versions`).expect(200),
+      C.ProgramVersionsResponse,
+      "GET /programs/:id/versions",
+    );
     // A revision whose mask loosens the program's average limit from 2 % to 2.5 %: it needs a deviation.
     const loosened = { bands: AR_MASK.bands.map((b) => (b.id === "avg" ? { ...b, value: 2.5 } : b)) };
     const created = check(
@@ -235,19 +312,29 @@ describe("responses match their contracts", () => {
       "POST /programs/:id/designs",
     );
     const revisionId = created.revision.id;
-    check(await designer.get(`${API}/revisions/${revisionId}/evidence`).expect(200), C.EvidenceResponse, "GET /revisions/:id/evidence");
+    check(
+      await designer.get(`${API}/revisions/${revisionId}/evidence`).expect(200),
+      C.EvidenceResponse,
+      "GET /revisions/:id/evidence",
+    );
     check(
       await designer.post(`${API}/revisions/${revisionId}/evidence-run`).send({}).expect(202),
       C.CreateYieldRunResponse,
       "POST /revisions/:id/evidence-run",
     );
     const asked = check(
-      await designer.post(`${API}/revisions/${revisionId}/deviations`).send({ reason: "The customer accepts 2.5 % average." }).expect(201),
+      await designer
+        .post(`${API}/revisions/${revisionId}/deviations`)
+        .send({ reason: "The customer accepts 2.5 % average." })
+        .expect(201),
       C.DeviationSchema,
       "POST /revisions/:id/deviations",
     );
     check(
-      await approver.post(`${API}/revisions/${revisionId}/deviations/${asked.id}/decision`).send({ accept: true }).expect(200),
+      await approver
+        .post(`${API}/revisions/${revisionId}/deviations/${asked.id}/decision`)
+        .send({ accept: true })
+        .expect(200),
       C.DeviationSchema,
       "POST /revisions/:id/deviations/:deviationId/decision",
     );
@@ -267,15 +354,26 @@ describe("responses match their contracts", () => {
       "POST /revisions/:id/threads",
     );
     await reviewer.post(`${API}/threads/${thread.id}/resolve`).send({}).expect(200);
-    check(await reviewer.post(`${API}/threads/${thread.id}/reopen`).send({}).expect(200), C.ThreadSchema, "POST /threads/:id/reopen");
+    check(
+      await reviewer.post(`${API}/threads/${thread.id}/reopen`).send({}).expect(200),
+      C.ThreadSchema,
+      "POST /threads/:id/reopen",
+    );
 
     // A run large enough to be still queued or running when the cancel arrives.
     const { run } = check(
-      await designer.post(`${API}/revisions/${revisionId}/yield-runs`).send({ trials: 150000, seed: "to-cancel" }).expect(202),
+      await designer
+        .post(`${API}/revisions/${revisionId}/yield-runs`)
+        .send({ trials: 150000, seed: "to-cancel" })
+        .expect(202),
       C.CreateYieldRunResponse,
       "POST /revisions/:id/yield-runs",
     );
-    const cancelled = check(await designer.post(`${API}/yield-runs/${run.id}/cancel`).expect(200), C.YieldRunSchema, "POST /yield-runs/:id/cancel");
+    const cancelled = check(
+      await designer.post(`${API}/yield-runs/${run.id}/cancel`).expect(200),
+      C.YieldRunSchema,
+      "POST /yield-runs/:id/cancel",
+    );
     expect(cancelled.status).toBe("cancelled");
 
     check(
@@ -305,7 +403,11 @@ describe("responses match their contracts", () => {
       .attach("file", Buffer.from("wavelength_nm,n,k\n400,abc,0\n800,1.45,0\n"), "bad.csv")
       .expect(422);
     expect(badCsv.body.error.code).toBe("invalid_csv");
-    const problems = expectContract(C.CsvProblemsDetails, badCsv.body.error.details, "422 invalid_csv details");
+    const problems = expectContract(
+      C.CsvProblemsDetails,
+      badCsv.body.error.details,
+      "422 invalid_csv details",
+    );
     expect(problems[0]).toMatchObject({ row: 2, column: "n" });
     const thicker = singleLayerAr();
     thicker.layers[0]!.thickness += 1;
@@ -322,17 +424,28 @@ describe("responses match their contracts", () => {
     expect(details.baseRevision?.id).toBe(revisionId);
 
     // An invitation link: looked up and accepted by a new person (who is then signed in), then a plain sign-in.
-    await admin.post(`${API}/invitations`).send({ email: "linked.person@halvorsen.example", roles: ["designer"] }).expect(201);
+    await admin
+      .post(`${API}/invitations`)
+      .send({ email: "linked.person@halvorsen.example", roles: ["designer"] })
+      .expect(201);
     const token = tokenIn(await lastMailTo(server, "linked.person@halvorsen.example"), "/accept-invitation");
-    check(await request(server.app).get(`${API}/invitations/lookup/${token}`).expect(200), C.InvitationLookupSchema, "GET /invitations/lookup/:token");
+    check(
+      await request(server.app).get(`${API}/invitations/lookup/${token}`).expect(200),
+      C.InvitationLookupSchema,
+      "GET /invitations/lookup/:token",
+    );
     const password = "amber-lattice-quarry-91";
     check(
-      await withOrigin(request(server.app).post(`${API}/invitations/accept`)).send({ token, name: "Linnea Holt", password }).expect(200),
+      await withOrigin(request(server.app).post(`${API}/invitations/accept`))
+        .send({ token, name: "Linnea Holt", password })
+        .expect(200),
       C.SessionInfo,
       "POST /invitations/accept",
     );
     check(
-      await withOrigin(request(server.app).post(`${API}/auth/sign-in`)).send({ email: "linked.person@halvorsen.example", password }).expect(200),
+      await withOrigin(request(server.app).post(`${API}/auth/sign-in`))
+        .send({ email: "linked.person@halvorsen.example", password })
+        .expect(200),
       C.SessionInfo,
       "POST /auth/sign-in",
     );
@@ -352,10 +465,15 @@ describe("responses match their contracts", () => {
 
   it("every route that answers JSON declares its response with a schema exported by the contracts package", () => {
     const exported = new Set<unknown>(Object.values(C));
-    const inline = [...routeRegistry.entries()].filter(([, r]) => r.response && !exported.has(r.response)).map(([key]) => key);
+    const inline = [...routeRegistry.entries()]
+      .filter(([, r]) => r.response && !exported.has(r.response))
+      .map(([key]) => key);
     expect(inline).toEqual([]);
     // Routes without a response schema answer 202/204 with no body, or a file (HTML, PDF).
-    const without = [...routeRegistry.entries()].filter(([, r]) => !r.response).map(([key]) => key).sort();
+    const without = [...routeRegistry.entries()]
+      .filter(([, r]) => !r.response)
+      .map(([key]) => key)
+      .sort();
     expect(without).toEqual([
       "DELETE /invitations/:id",
       "DELETE /members/:userId",

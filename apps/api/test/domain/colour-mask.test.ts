@@ -32,7 +32,12 @@ afterAll(async () => {
 
 // A quarter-wave MgF2 AR reflects a purple residual: a* > 0, b* < 0 (common practice, no source; the optics
 // tests check it). The box below contains it; TIGHT excludes it.
-const TINT = { id: "tint", label: "Reflected tint", quantity: "R", limit: { type: "box-ab", a: [0, 40], b: [-40, 0] } } as const;
+const TINT = {
+  id: "tint",
+  label: "Reflected tint",
+  quantity: "R",
+  limit: { type: "box-ab", a: [0, 40], b: [-40, 0] },
+} as const;
 const TIGHT = { ...TINT, limit: { type: "box-ab", a: [-1, 1], b: [-1, 1] } } as const;
 const COLOUR_MASK = { ...AR_MASK, colour: [TINT] };
 
@@ -40,28 +45,44 @@ describe("colour requirements in stored masks", () => {
   it("a program mask with a colour requirement: stored with its defaults, judged with the bands, hashed", async () => {
     const program = await createProgram(team, { specMask: COLOUR_MASK });
     const read = await team.members.reviewer.agent.get(`${API}/programs/${program.id}`).expect(200);
-    expect(read.body.specMask.colour).toEqual([{ ...TINT, illuminant: "D65", observer: "2", angleDeg: 0, polarization: "u" }]);
+    expect(read.body.specMask.colour).toEqual([
+      { ...TINT, illuminant: "D65", observer: "2", angleDeg: 0, polarization: "u" },
+    ]);
     const { revision } = await createDesign(team, program.id);
     const full = await team.members.reviewer.agent.get(`${API}/revisions/${revision.id}`).expect(200);
     expect(full.body.nominal.bands.map((b: { id: string }) => b.id)).toEqual(["avg", "peak", "tint"]);
     const tint = full.body.nominal.bands[2];
     expect(tint.pass).toBe(true);
-    expect(tint.colour).toMatchObject({ quantity: "R", illuminant: "D65", observer: "2", limiting: expect.any(String) });
+    expect(tint.colour).toMatchObject({
+      quantity: "R",
+      illuminant: "D65",
+      observer: "2",
+      limiting: expect.any(String),
+    });
     expect(tint.colour.swatch).toMatch(/^#[0-9a-f]{6}$/);
     // the verdict is the optics package's own, computed on the server's pool
     const local = evaluateSpec(full.body.stack, full.body.specMask as SpecMask).bands[2]!;
     expect(tint.margin).toBeCloseTo(local.margin, 12);
     expect(tint.colour.a).toBeCloseTo(local.colour!.a, 12);
     // content hash of the canonical {stack, mask as stored}: the colour requirement with its defaults filled in
-    const stored = { ...AR_MASK, colour: [{ ...TINT, illuminant: "D65", observer: "2", angleDeg: 0, polarization: "u" }] };
-    expect(full.body.hash).toBe(createHash("sha256").update(canonicalJson({ stack: full.body.stack, specMask: stored })).digest("hex"));
+    const stored = {
+      ...AR_MASK,
+      colour: [{ ...TINT, illuminant: "D65", observer: "2", angleDeg: 0, polarization: "u" }],
+    };
+    expect(full.body.hash).toBe(
+      createHash("sha256")
+        .update(canonicalJson({ stack: full.body.stack, specMask: stored }))
+        .digest("hex"),
+    );
   });
 
   it("a failing colour fails the nominal verdict although every band passes", async () => {
     const program = await createProgram(team, { specMask: { ...AR_MASK, colour: [TIGHT] } });
     const { revision } = await createDesign(team, program.id);
     const full = await team.members.reviewer.agent.get(`${API}/revisions/${revision.id}`).expect(200);
-    expect(full.body.nominal.bands.filter((b: { pass: boolean }) => b.pass).map((b: { id: string }) => b.id)).toEqual(["avg", "peak"]);
+    expect(
+      full.body.nominal.bands.filter((b: { pass: boolean }) => b.pass).map((b: { id: string }) => b.id),
+    ).toEqual(["avg", "peak"]);
     expect(full.body.nominal.pass).toBe(false);
     expect(full.body.nominal.bands[2].reason).toMatch(/outside the box/);
   });
@@ -77,12 +98,18 @@ describe("colour requirements in stored masks", () => {
     const deviation = async (id: string) =>
       (await team.members.reviewer.agent.get(`${API}/revisions/${id}/deviations`).expect(200)).body;
     expect((await deviation(revision.id)).required).toBe(false);
-    const changed = await save({ ...AR_MASK, colour: [{ ...TINT, limit: { type: "box-ab", a: [0, 30], b: [-40, 0] } }] }, revision.id);
+    const changed = await save(
+      { ...AR_MASK, colour: [{ ...TINT, limit: { type: "box-ab", a: [0, 30], b: [-40, 0] } }] },
+      revision.id,
+    );
     expect(changed.body.hash).not.toBe(revision.hash);
     expect((await deviation(changed.body.id)).bands).toEqual([{ id: "tint", change: "changed" }]);
     const removed = await save(AR_MASK, changed.body.id);
     expect((await deviation(removed.body.id)).bands).toEqual([{ id: "tint", change: "removed" }]);
-    const added = await save({ ...COLOUR_MASK, colour: [TINT, { ...TINT, id: "tint-t", quantity: "T" }] }, removed.body.id);
+    const added = await save(
+      { ...COLOUR_MASK, colour: [TINT, { ...TINT, id: "tint-t", quantity: "T" }] },
+      removed.body.id,
+    );
     expect((await deviation(added.body.id)).bands).toEqual([{ id: "tint-t", change: "added" }]);
     // the same colour requirement written without its defaults is the same mask: no deviation, same hash
     const same = await save(COLOUR_MASK, added.body.id);
@@ -95,7 +122,11 @@ describe("colour requirements in stored masks", () => {
     const { revision } = await createDesign(team, program.id);
     const opened = await team.members.reviewer.agent
       .post(`${API}/revisions/${revision.id}/threads`)
-      .send({ anchor: { kind: "band", bandId: "tint" }, severity: "advisory", body: "The reflected tint leaves the box." })
+      .send({
+        anchor: { kind: "band", bandId: "tint" },
+        severity: "advisory",
+        body: "The reflected tint leaves the box.",
+      })
       .expect(201);
     expect(opened.body.anchorPasses).toBe(false);
     await team.members.reviewer.agent
@@ -107,7 +138,14 @@ describe("colour requirements in stored masks", () => {
   it("refuses a bad colour requirement with 400 naming the field, and counts colour toward MAX_SPEC_BANDS", async () => {
     const bad = await team.members.approver.agent
       .post(`${API}/programs`)
-      .send(programBody({ specMask: { ...AR_MASK, colour: [{ ...TINT, limit: { type: "box-xy", x: [0.4, 0.3], y: [0, 1] } }] } }))
+      .send(
+        programBody({
+          specMask: {
+            ...AR_MASK,
+            colour: [{ ...TINT, limit: { type: "box-xy", x: [0.4, 0.3], y: [0, 1] } }],
+          },
+        }),
+      )
       .expect(400);
     expect(JSON.stringify(bad.body.error)).toMatch(/colour\.0\.limit\.x/);
     const dup = await team.members.approver.agent
@@ -115,7 +153,10 @@ describe("colour requirements in stored masks", () => {
       .send(programBody({ specMask: { ...AR_MASK, colour: [{ ...TINT, id: "avg" }] } }))
       .expect(400);
     expect(JSON.stringify(dup.body.error)).toMatch(/duplicate id/);
-    const bands = Array.from({ length: MAX_SPEC_BANDS - 1 }, (_, i) => ({ ...AR_MASK.bands[0]!, id: `b${i}` }));
+    const bands = Array.from({ length: MAX_SPEC_BANDS - 1 }, (_, i) => ({
+      ...AR_MASK.bands[0]!,
+      id: `b${i}`,
+    }));
     const many = await team.members.approver.agent
       .post(`${API}/programs`)
       .send(programBody({ specMask: { bands, colour: [TINT, { ...TINT, id: "tint-2" }] } }))
@@ -123,7 +164,10 @@ describe("colour requirements in stored masks", () => {
     expect(many.body.error.message).toContain("MAX_SPEC_BANDS");
     expect(many.body.error.message).toContain("2 colour requirements");
     // a mask of colour requirements alone is a mask
-    await team.members.approver.agent.post(`${API}/programs`).send(programBody({ specMask: { bands: [], colour: [TINT] } })).expect(201);
+    await team.members.approver.agent
+      .post(`${API}/programs`)
+      .send(programBody({ specMask: { bands: [], colour: [TINT] } }))
+      .expect(201);
   });
 
   it("a yield run counts failures of the colour requirement by its id", async () => {
@@ -157,7 +201,11 @@ describe("release record wording of colour requirements", () => {
     const record = await team.members.reviewer.agent.get(`${API}/releases/${id}`).expect(200);
     expect(record.body.revision.specMask.colour[0].id).toBe("tint");
     expect(record.body.nominal.bands.map((b: { id: string }) => b.id)).toEqual(["avg", "peak", "tint"]);
-    expect(record.body.yieldRun.bandFailures.map((b: { id: string }) => b.id)).toEqual(["avg", "peak", "tint"]);
+    expect(record.body.yieldRun.bandFailures.map((b: { id: string }) => b.id)).toEqual([
+      "avg",
+      "peak",
+      "tint",
+    ]);
     const print = await team.members.reviewer.agent.get(`${API}/releases/${id}/print`).expect(200);
     expect(print.text).toContain("Reflected tint (tint)");
     expect(print.text).toContain(wording);

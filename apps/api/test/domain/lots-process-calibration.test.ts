@@ -52,7 +52,10 @@ describe("process-model calibration", () => {
         .attach("file", Buffer.from(csv), `run-${k + 1}.csv`)
         .expect(201);
       const partId = lot.body.parts[0].id;
-      const fit = await team.members.designer.agent.post(`${API}/parts/${partId}/fit`).send({ fitIndexScale: false }).expect(200);
+      const fit = await team.members.designer.agent
+        .post(`${API}/parts/${partId}/fit`)
+        .send({ fitIndexScale: false })
+        .expect(200);
       expect(fit.body.fit.layers[0]).toMatchObject({ material: "MgF2", determinable: true });
       expect(fit.body.fit.layers[0].errorPct).toBeCloseTo((f - 1) * 100, 1);
     }
@@ -61,23 +64,49 @@ describe("process-model calibration", () => {
     expect(process.runs).toBe(4);
     const tooling = process.parameters.find((p: { parameter: string }) => p.parameter === "toolingPct");
     // sample σ of the four run errors is 1.19 %; chi-square interval with ν = 3 (NIST/SEMATECH 1.3.5.8)
-    expect(tooling).toMatchObject({ material: "MgF2", method: "crystal", interval: "chi-square", dof: 3, current: 0, consistent: false });
+    expect(tooling).toMatchObject({
+      material: "MgF2",
+      method: "crystal",
+      interval: "chi-square",
+      dof: 3,
+      current: 0,
+      consistent: false,
+    });
     expect(tooling.value).toBeGreaterThan(1.0);
     expect(tooling.value).toBeLessThan(1.4);
     expect(tooling.low).toBeLessThan(tooling.value);
     expect(tooling.high).toBeGreaterThan(2 * tooling.value);
     // one layer per run: the per-layer noise cannot be told apart from the tooling, and the view says so
-    expect(process.notes.join(" ")).toMatch(/too few determinable layers per run to estimate the crystal noise; the program's 0.2 % is kept/);
+    expect(process.notes.join(" ")).toMatch(
+      /too few determinable layers per run to estimate the crystal noise; the program's 0.2 % is kept/,
+    );
     const proposed = process.proposed as ErrorModel;
-    expect(proposed.process!.control).toEqual({ MgF2: { method: "crystal", toolingPct: Math.round(tooling.value * 1000) / 1000, noisePct: 0.2, terminationNm: 0.1 } });
+    expect(proposed.process!.control).toEqual({
+      MgF2: {
+        method: "crystal",
+        toolingPct: Math.round(tooling.value * 1000) / 1000,
+        noisePct: 0.2,
+        terminationNm: 0.1,
+      },
+    });
     expect(cal.body.adoptWith).toMatch(/calibration\.process\.proposed/);
 
     // adoption is the program update of the approver (a designer may not); the process structure is kept
-    await team.members.designer.agent.patch(`${API}/programs/${programId}`).send({ errorModel: proposed }).expect(403);
-    await team.members.approver.agent.patch(`${API}/programs/${programId}`).send({ errorModel: proposed }).expect(200);
+    await team.members.designer.agent
+      .patch(`${API}/programs/${programId}`)
+      .send({ errorModel: proposed })
+      .expect(403);
+    await team.members.approver.agent
+      .patch(`${API}/programs/${programId}`)
+      .send({ errorModel: proposed })
+      .expect(200);
     const program = await team.members.reviewer.agent.get(`${API}/programs/${programId}`).expect(200);
-    expect(program.body.errorModel.process.control.MgF2).toEqual((proposed.process!.control as Record<string, unknown>).MgF2);
-    const after = await team.members.reviewer.agent.get(`${API}/programs/${programId}/calibration`).expect(200);
+    expect(program.body.errorModel.process.control.MgF2).toEqual(
+      (proposed.process!.control as Record<string, unknown>).MgF2,
+    );
+    const after = await team.members.reviewer.agent
+      .get(`${API}/programs/${programId}/calibration`)
+      .expect(200);
     expect(after.body.current.process.control.MgF2.toolingPct).toBeCloseTo(tooling.value, 2);
   }, 120000);
 

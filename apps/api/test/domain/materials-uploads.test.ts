@@ -222,7 +222,9 @@ describe("measured spectra", () => {
     const both = await post("wavelength_nm,R,T\n500,1,99\n600,1,99\n").expect(422);
     expect(both.body.error.details[0].message).toContain("expected one spectrum column");
     const cell = await post("wavelength_nm,T\n500,98\n550,n/a\n600,97\n").expect(422);
-    expect(cell.body.error.details).toEqual([{ row: 3, column: "T", message: 'expected a number, got "n/a"' }]);
+    expect(cell.body.error.details).toEqual([
+      { row: 3, column: "T", message: 'expected a number, got "n/a"' },
+    ]);
     await post(Buffer.from([0xff, 0xfe, 0x00, 0x41])).expect(415);
     await post(Buffer.alloc(2 * 1024 * 1024, "9")).expect(413);
     expect(count("measurements")).toBe(before);

@@ -1,4 +1,10 @@
-import { bandConditionsText, colourConditionsText, describeColourIso, type SpecBand, type SpecMask } from "@stackproof/optics";
+import {
+  bandConditionsText,
+  colourConditionsText,
+  describeColourIso,
+  type SpecBand,
+  type SpecMask,
+} from "@stackproof/optics";
 import { cx } from "./ui/cx.ts";
 
 const requirementText: Record<SpecBand["requirement"], string> = {
@@ -38,14 +44,16 @@ export function SpecMaskTable({
 }: SpecMaskTableProps) {
   const bands = mask?.bands ?? [];
   const colour = mask?.colour ?? [];
-  if (bands.length === 0 && colour.length === 0) return <p className="text-sm text-ink-500">The spec mask has no bands.</p>;
+  if (bands.length === 0 && colour.length === 0)
+    return <p className="text-sm text-ink-500">The spec mask has no bands.</p>;
   const colourList =
     colour.length > 0 ? (
       <ul className="mt-3 flex flex-col gap-1 text-sm" aria-label={`${caption}: colour requirements`}>
         {colour.map((c) => (
           <li key={c.id} title={colourConditionsText(c)}>
             <span className="font-medium">{c.label ?? c.id}</span>
-            {c.label && <span className="ml-1.5 font-mono text-xs text-ink-500">{c.id}</span>}: {describeColourIso(c)}
+            {c.label && <span className="ml-1.5 font-mono text-xs text-ink-500">{c.id}</span>}:{" "}
+            {describeColourIso(c)}
           </li>
         ))}
       </ul>
@@ -88,9 +96,7 @@ export function SpecMaskTable({
                 {b.step ? <span className="text-ink-500"> / {b.step}</span> : null}
               </td>
               <td className="py-2 pr-3 font-mono">{b.quantity}</td>
-              <td className="py-2 pr-3 font-mono whitespace-nowrap">
-                {bandConditionsText(b)}
-              </td>
+              <td className="py-2 pr-3 font-mono whitespace-nowrap">{bandConditionsText(b)}</td>
               <td className="py-2">{describeRequirement(b)}</td>
             </tr>
           ))}

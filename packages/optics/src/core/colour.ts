@@ -397,7 +397,9 @@ export function judgeColour(limit: ColourRequirement["limit"], colour: ColourCoo
       : [
           ["a", colour.a, limit.a],
           ["b", colour.b, limit.b],
-          ...(limit.L ? ([["L", colour.L, limit.L]] as [ColourLimiting, number, readonly [number, number]][]) : []),
+          ...(limit.L
+            ? ([["L", colour.L, limit.L]] as [ColourLimiting, number, readonly [number, number]][])
+            : []),
         ];
   let best: ColourJudgement = { margin: Infinity, limiting: axes[0]![0], value: axes[0]![1] };
   for (const [name, v, range] of axes) {

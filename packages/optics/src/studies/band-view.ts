@@ -8,7 +8,14 @@ import type { Design } from "../core/index.ts";
 import { coneHalfAngleDeg } from "../core/spectrum.ts";
 import { bandConditionsText } from "./spec-conditions.ts";
 import { bandLimit, createSpecEvaluator, parseSpecMask, SpecColourSchema } from "./spec.ts";
-import type { BandOutcome, SpecBand, SpecBandInput, SpecColourInput, SpecMaskInput, WorstPoint } from "./spec.ts";
+import type {
+  BandOutcome,
+  SpecBand,
+  SpecBandInput,
+  SpecColourInput,
+  SpecMaskInput,
+  WorstPoint,
+} from "./spec.ts";
 import { parseWith } from "./validate.ts";
 
 /** Largest display grid of {@link bandView}. */
@@ -63,13 +70,20 @@ const polName = { s: "s", p: "p", u: "unpolarized" } as const;
  * agree with the verdict wherever the grids meet.
  * @throws RangeError for an unknown band id or a bad grid
  */
-export function bandView(design: Design, maskInput: SpecMaskInput, bandId: string, options: BandViewOptions = {}): BandView {
+export function bandView(
+  design: Design,
+  maskInput: SpecMaskInput,
+  bandId: string,
+  options: BandViewOptions = {},
+): BandView {
   const mask = parseSpecMask(maskInput);
   const b = mask.bands.findIndex((x) => x.id === bandId);
   const band = mask.bands[b];
   if (!band) {
     if ((mask.colour ?? []).some((c) => c.id === bandId))
-      throw new RangeError(`bandId: ${JSON.stringify(bandId)} is a colour requirement, which has no curve (its outcome carries the colour)`);
+      throw new RangeError(
+        `bandId: ${JSON.stringify(bandId)} is a colour requirement, which has no curve (its outcome carries the colour)`,
+      );
     throw new RangeError(`bandId: no band ${JSON.stringify(bandId)} in the mask`);
   }
   // the verdict: the whole mask, as evaluateSpec does
@@ -83,21 +97,32 @@ export function bandView(design: Design, maskInput: SpecMaskInput, bandId: strin
   // display grid
   const start = options.start ?? band.start;
   const stop = options.stop ?? band.stop;
-  const points = options.points ?? (options.start === undefined && options.stop === undefined ? plan.wavelengths.length : 401);
-  if (!(start > 0 && stop >= start && Number.isFinite(stop))) throw new RangeError(`start, stop: expected 0 < start ≤ stop nm, got ${start}, ${stop}`);
+  const points =
+    options.points ??
+    (options.start === undefined && options.stop === undefined ? plan.wavelengths.length : 401);
+  if (!(start > 0 && stop >= start && Number.isFinite(stop)))
+    throw new RangeError(`start, stop: expected 0 < start ≤ stop nm, got ${start}, ${stop}`);
   if (!(Number.isInteger(points) && points >= 1 && points <= MAX_VIEW_POINTS)) {
     throw new RangeError(`points: expected an integer 1–${MAX_VIEW_POINTS}, got ${points}`);
   }
   const wavelengths =
     options.start === undefined && options.stop === undefined && options.points === undefined
       ? [...plan.wavelengths]
-      : Array.from({ length: points }, (_, i) => (points === 1 ? start : start + ((stop - start) * i) / (points - 1)));
+      : Array.from({ length: points }, (_, i) =>
+          points === 1 ? start : start + ((stop - start) * i) / (points - 1),
+        );
   const pols: ("s" | "p" | "u")[] = band.polarization === "sp" ? ["s", "p"] : [band.polarization];
-  const envelope = band.angleRange !== undefined && band.angleAverage !== true && band.angleRange.toDeg > band.angleRange.fromDeg;
+  const envelope =
+    band.angleRange !== undefined &&
+    band.angleAverage !== true &&
+    band.angleRange.toDeg > band.angleRange.fromDeg;
   const sides: ("min" | "max")[] = envelope ? ["min", "max"] : ["min"];
   const where = bandConditionsText({ ...band, polarization: "u" }).replace(/, unpolarized$/, "");
   const curves: BandCurve[] = [];
-  const step = wavelengths.length > 1 ? (wavelengths[wavelengths.length - 1]! - wavelengths[0]!) / (wavelengths.length - 1) : undefined;
+  const step =
+    wavelengths.length > 1
+      ? (wavelengths[wavelengths.length - 1]! - wavelengths[0]!) / (wavelengths.length - 1)
+      : undefined;
   for (const pol of pols) {
     for (const side of sides) {
       const copy: SpecBand = {
@@ -117,7 +142,11 @@ export function bandView(design: Design, maskInput: SpecMaskInput, bandId: strin
       const label = envelope
         ? `${side === "min" ? "lowest" : "highest"} over ${where}, ${polName[pol]}`
         : `${where}, ${polName[pol]}`;
-      const curve: BandCurve = { label, polarization: pol, values: Array.from(out).slice(0, wavelengths.length) };
+      const curve: BandCurve = {
+        label,
+        polarization: pol,
+        values: Array.from(out).slice(0, wavelengths.length),
+      };
       if (envelope) curve.side = side === "min" ? "lowest" : "highest";
       curves.push(curve);
     }
@@ -150,10 +179,21 @@ export interface AngleScan {
  * Reflectance and transmittance against angle at one wavelength (nm), angles in degrees in the incident
  * medium from `fromDeg` to `toDeg` (< 90) in `points` steps.
  */
-export function angleScan(design: Design, wavelength: number, fromDeg = 0, toDeg = 80, points = 161): AngleScan {
-  if (!(Number.isInteger(points) && points >= 2 && points <= 2001)) throw new RangeError(`points: expected an integer 2–2001, got ${points}`);
-  if (!(fromDeg >= 0 && toDeg > fromDeg && toDeg < 90)) throw new RangeError(`angles: expected 0 ≤ from < to < 90 degrees, got ${fromDeg}–${toDeg}`);
-  const anglesDeg = Array.from({ length: points }, (_, i) => fromDeg + ((toDeg - fromDeg) * i) / (points - 1));
+export function angleScan(
+  design: Design,
+  wavelength: number,
+  fromDeg = 0,
+  toDeg = 80,
+  points = 161,
+): AngleScan {
+  if (!(Number.isInteger(points) && points >= 2 && points <= 2001))
+    throw new RangeError(`points: expected an integer 2–2001, got ${points}`);
+  if (!(fromDeg >= 0 && toDeg > fromDeg && toDeg < 90))
+    throw new RangeError(`angles: expected 0 ≤ from < to < 90 degrees, got ${fromDeg}–${toDeg}`);
+  const anglesDeg = Array.from(
+    { length: points },
+    (_, i) => fromDeg + ((toDeg - fromDeg) * i) / (points - 1),
+  );
   const r = computeSpectrumAtAngles(design, wavelength, anglesDeg);
   const u = {
     R: r.s.R.map((v, i) => 0.5 * (v + r.p.R[i]!)),
@@ -174,7 +214,11 @@ function csvCell(text: string): string {
  * up to 10 significant digits (non-finite values as empty cells).
  * @param columns name → values (same length as `wavelengths`)
  */
-export function spectrumToCsv(wavelengths: ArrayLike<number>, columns: Record<string, ArrayLike<number>>, xName = "wavelength_nm"): string {
+export function spectrumToCsv(
+  wavelengths: ArrayLike<number>,
+  columns: Record<string, ArrayLike<number>>,
+  xName = "wavelength_nm",
+): string {
   const names = Object.keys(columns);
   for (const n of names) {
     if (columns[n]!.length !== wavelengths.length) {
@@ -190,7 +234,12 @@ export function spectrumToCsv(wavelengths: ArrayLike<number>, columns: Record<st
 }
 
 const quantitySymbol = { R: "R", T: "T", A: "A", OD: "OD" } as const;
-const quantityWords = { R: "reflectance", T: "transmittance", A: "absorptance", OD: "optical density" } as const;
+const quantityWords = {
+  R: "reflectance",
+  T: "transmittance",
+  A: "absorptance",
+  OD: "optical density",
+} as const;
 const f = (x: number): string => String(Math.round(x * 1000) / 1000);
 
 /**
@@ -206,11 +255,15 @@ export function describeBandIso(bandInput: SpecBandInput): string {
   const sym = band.requirement === "avgMin" || band.requirement === "avgMax" ? `${q}ave` : q;
   const every = band.requirement === "min" || band.requirement === "max" ? " at every wavelength" : "";
   const tol = band.tolerance ? ` (tolerance ${f(band.tolerance)}${unit})` : "";
-  const range = band.start === band.stop ? `at ${f(band.start)} nm` : `over ${f(band.start)}–${f(band.stop)} nm`;
+  const range =
+    band.start === band.stop ? `at ${f(band.start)} nm` : `over ${f(band.start)}–${f(band.stop)} nm`;
   let angle: string;
   if (band.cone) {
     const half = coneHalfAngleDeg(band.cone);
-    angle = "fNumber" in band.cone ? `cone f/${f(band.cone.fNumber)} (half-angle ${f(half)}°) about ${f(band.angleDeg)}°` : `cone of half-angle ${f(half)}° about ${f(band.angleDeg)}°`;
+    angle =
+      "fNumber" in band.cone
+        ? `cone f/${f(band.cone.fNumber)} (half-angle ${f(half)}°) about ${f(band.angleDeg)}°`
+        : `cone of half-angle ${f(half)}° about ${f(band.angleDeg)}°`;
   } else if (band.angleRange && band.angleRange.toDeg > band.angleRange.fromDeg) {
     const r = band.angleRange;
     angle = band.angleAverage
@@ -219,12 +272,17 @@ export function describeBandIso(bandInput: SpecBandInput): string {
   } else {
     angle = `angle of incidence ${f(band.angleRange ? band.angleRange.fromDeg : band.angleDeg)}°`;
   }
-  const pol = { s: "s-polarized", p: "p-polarized", u: "unpolarized", sp: "s and p polarization each" }[band.polarization];
+  const pol = { s: "s-polarized", p: "p-polarized", u: "unpolarized", sp: "s and p polarization each" }[
+    band.polarization
+  ];
   const name = quantityWords[band.quantity];
   return `${name[0]!.toUpperCase()}${name.slice(1)}: ${sym} ${rel} ${f(band.value)}${unit}${tol}${every} ${range}; ${angle}; ${pol}`;
 }
 
-const observerIso = { "2": "CIE 1931 standard colorimetric observer (2°)", "10": "CIE 1964 standard colorimetric observer (10°)" } as const;
+const observerIso = {
+  "2": "CIE 1931 standard colorimetric observer (2°)",
+  "10": "CIE 1964 standard colorimetric observer (10°)",
+} as const;
 const c4 = (x: number): string => String(Math.round(x * 10000) / 10000);
 const neg = (t: string): string => t.replace(/^-/, "−");
 

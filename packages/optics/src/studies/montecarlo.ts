@@ -6,7 +6,14 @@ import { ErrorModelSchema, scaleErrorModel } from "./error-model.ts";
 import { createStudySampler } from "./process/sampler.ts";
 import type { ErrorModel } from "./error-model.ts";
 import { TrialRandom } from "./random.ts";
-import { createSpecEvaluator, meritOf, parseSpecMask, PROTECTIVE_CAUTION, quantityValue, SpecMaskSchema } from "./spec.ts";
+import {
+  createSpecEvaluator,
+  meritOf,
+  parseSpecMask,
+  PROTECTIVE_CAUTION,
+  quantityValue,
+  SpecMaskSchema,
+} from "./spec.ts";
 import type { BandPolarization, GroupPlan, SpecEvaluator, SpecQuantity } from "./spec.ts";
 import { parseWith } from "./validate.ts";
 import { wilsonInterval } from "./wilson.ts";
@@ -544,7 +551,10 @@ export function largestScaleForYield(
  * order as {@link YieldResult.envelopes}: what a report draws inside the 5–95 % envelope of the trials. Values in
  * band units (percent, or OD); computed by the same evaluator as the trials.
  */
-export function nominalEnvelopeValues(design: Design, maskInput: unknown): { quantity: SpecQuantity; wavelengths: number[]; values: number[] }[] {
+export function nominalEnvelopeValues(
+  design: Design,
+  maskInput: unknown,
+): { quantity: SpecQuantity; wavelengths: number[]; values: number[] }[] {
   const evaluator = createSpecEvaluator(design, parseSpecMask(maskInput));
   evaluator.evaluate(evaluator.nominalThicknesses);
   return planEnvelopes(evaluator).map((env) => {
@@ -552,7 +562,9 @@ export function nominalEnvelopeValues(design: Design, maskInput: unknown): { qua
     return {
       quantity: env.quantity,
       wavelengths: env.wavelengths,
-      values: Array.from(env.indices, (i) => quantityValue(env.quantity, g.R[i] as number, g.T[i] as number, g.A[i] as number)),
+      values: Array.from(env.indices, (i) =>
+        quantityValue(env.quantity, g.R[i] as number, g.T[i] as number, g.A[i] as number),
+      ),
     };
   });
 }

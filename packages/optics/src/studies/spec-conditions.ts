@@ -25,7 +25,10 @@ import type { BandPolarization, GroupPlan, Polarization, SpecBand } from "./spec
 export const POL_CODES: readonly Polarization[] = ["s", "p", "u"];
 
 /** Sampled angles of a band's angle range (degrees): evenly spaced, both ends included, step ≤ stepDeg. */
-export function bandAngles(range: { fromDeg: number; toDeg: number; stepDeg?: number | undefined }, defaultStep = 1): Float64Array {
+export function bandAngles(
+  range: { fromDeg: number; toDeg: number; stepDeg?: number | undefined },
+  defaultStep = 1,
+): Float64Array {
   const { fromDeg, toDeg } = range;
   if (toDeg === fromDeg) return Float64Array.of(fromDeg);
   const step = range.stepDeg ?? defaultStep;
@@ -74,7 +77,10 @@ export function bandConditionsText(band: SpecBand): string {
           : `${fmt(r.fromDeg)}–${fmt(r.toDeg)}°`;
   } else if (band.cone) {
     const half = coneHalfAngleDeg(band.cone);
-    const f = "fNumber" in band.cone ? `f/${fmt(band.cone.fNumber)} cone (${fmt(half)}° half-angle)` : `${fmt(half)}° half-angle cone`;
+    const f =
+      "fNumber" in band.cone
+        ? `f/${fmt(band.cone.fNumber)} cone (${fmt(half)}° half-angle)`
+        : `${fmt(half)}° half-angle cone`;
     where = `${f} about ${fmt(band.angleDeg)}°`;
   } else {
     where = `${fmt(band.angleDeg)}°`;
@@ -186,7 +192,14 @@ export class ComplexBand {
         });
         byRule.set(rule, kernels);
         const out = buffers(W);
-        averageRule(this.responses(rule, kernels.map((k) => k.b)), W, out);
+        averageRule(
+          this.responses(
+            rule,
+            kernels.map((k) => k.b),
+          ),
+          W,
+          out,
+        );
         const v = new Float64Array(4 * W);
         v.set(out.sR, 0);
         v.set(out.sT, W);

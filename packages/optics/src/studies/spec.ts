@@ -9,8 +9,21 @@ import {
   coneHalfAngleDeg,
   judgeColour,
 } from "../core/index.ts";
-import type { ColourCoordinates, ColourJudgement, ColourLimiting, Design, Illuminant, Observer } from "../core/index.ts";
-import { ComplexBand, POL_CODES, bandConditionsText, conditionsText, isComplexBand } from "./spec-conditions.ts";
+import type {
+  ColourCoordinates,
+  ColourJudgement,
+  ColourLimiting,
+  Design,
+  Illuminant,
+  Observer,
+} from "../core/index.ts";
+import {
+  ComplexBand,
+  POL_CODES,
+  bandConditionsText,
+  conditionsText,
+  isComplexBand,
+} from "./spec-conditions.ts";
 export { bandAngles, bandConditionsText, colourConditionsText, isComplexBand } from "./spec-conditions.ts";
 import { parseWith } from "./validate.ts";
 
@@ -106,16 +119,34 @@ export const SpecBandSchema = z
       });
     }
     if (band.angleRange && band.cone) {
-      ctx.addIssue({ code: "custom", path: ["cone"], input: band.cone, message: "a band has either an angle range or a cone, not both" });
+      ctx.addIssue({
+        code: "custom",
+        path: ["cone"],
+        input: band.cone,
+        message: "a band has either an angle range or a cone, not both",
+      });
     }
     if (band.angleAverage && !band.angleRange) {
-      ctx.addIssue({ code: "custom", path: ["angleAverage"], input: band.angleAverage, message: "angleAverage needs an angleRange" });
+      ctx.addIssue({
+        code: "custom",
+        path: ["angleAverage"],
+        input: band.angleAverage,
+        message: "angleAverage needs an angleRange",
+      });
     }
     const r = band.angleRange;
     if (r) {
       if (r.toDeg < r.fromDeg) {
-        ctx.addIssue({ code: "custom", path: ["angleRange", "toDeg"], input: r.toDeg, message: `toDeg must be ≥ fromDeg (${r.fromDeg}°)` });
-      } else if ((r.toDeg - r.fromDeg) / (r.stepDeg ?? DEFAULT_ANGLE_STEP_DEG) + 1 > MAX_ANGLE_SAMPLES + 1e-9) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["angleRange", "toDeg"],
+          input: r.toDeg,
+          message: `toDeg must be ≥ fromDeg (${r.fromDeg}°)`,
+        });
+      } else if (
+        (r.toDeg - r.fromDeg) / (r.stepDeg ?? DEFAULT_ANGLE_STEP_DEG) + 1 >
+        MAX_ANGLE_SAMPLES + 1e-9
+      ) {
         ctx.addIssue({
           code: "custom",
           path: ["angleRange", "stepDeg"],
@@ -147,7 +178,9 @@ export type SpecBand = z.output<typeof SpecBandSchema>;
  * `id` is shared with the bands' ids: no band and no colour requirement may have the same one. A `kind`
  * tag is dropped (the list says what the entries are), so a stored mask has one canonical form.
  */
-export const SpecColourSchema = ColourRequirementSchema.omit({ kind: true }).extend({ id: z.string().min(1) });
+export const SpecColourSchema = ColourRequirementSchema.omit({ kind: true }).extend({
+  id: z.string().min(1),
+});
 export type SpecColour = z.output<typeof SpecColourSchema>;
 /** A colour requirement as written (illuminant D65, observer 2°, 0°, unpolarized when left out). */
 export type SpecColourInput = z.input<typeof SpecColourSchema>;
@@ -331,7 +364,9 @@ export function quantityValue(quantity: SpecQuantity, R: number, T: number, A: n
       return A * 100;
     case "OD":
       // a NaN T must stay NaN (it would otherwise become the floor, OD 30, and pass a blocking band)
-      return Number.isNaN(T) ? Number.NaN : -Math.log10(T > OD_TRANSMITTANCE_FLOOR ? T : OD_TRANSMITTANCE_FLOOR);
+      return Number.isNaN(T)
+        ? Number.NaN
+        : -Math.log10(T > OD_TRANSMITTANCE_FLOOR ? T : OD_TRANSMITTANCE_FLOOR);
   }
 }
 
@@ -537,7 +572,12 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
       const band = mask.bands[b];
       const samples = bandSamples[b];
       if (!band || !samples) continue;
-      bands[b] = plan(band, g, Int32Array.from(samples, (w) => position.get(wavelengthKey(w)) ?? 0), samples);
+      bands[b] = plan(
+        band,
+        g,
+        Int32Array.from(samples, (w) => position.get(wavelengthKey(w)) ?? 0),
+        samples,
+      );
     }
     const colourIndices = Int32Array.from(COLOUR_WAVELENGTHS, (w) => position.get(wavelengthKey(w)) ?? 0);
     for (const c of colourMembers) {
@@ -568,7 +608,12 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
     complexOf.set(b, g);
     complex.push(cb);
     groups.push(cb.group);
-    bands[b] = plan(band, g, Int32Array.from(samples, (_, i) => i), samples);
+    bands[b] = plan(
+      band,
+      g,
+      Int32Array.from(samples, (_, i) => i),
+      samples,
+    );
   });
 
   if (bands.length + colourPlans.length === 0) throw new RangeError("mask.bands: no bands to evaluate");
@@ -581,7 +626,11 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
   // summed with the CIE weights (colourFromSamples) and judged against the limit. A non-finite sample makes
   // the colour undefined: `nonFiniteAt` names the wavelength and the margin is NaN.
   const colourSamples = new Float64Array(COLOUR_WAVELENGTHS.length);
-  const colourState: { colour: ColourCoordinates | null; judged: ColourJudgement | null; nonFiniteAt: number } = {
+  const colourState: {
+    colour: ColourCoordinates | null;
+    judged: ColourJudgement | null;
+    nonFiniteAt: number;
+  } = {
     colour: null,
     judged: null,
     nonFiniteAt: Number.NaN,
@@ -600,7 +649,10 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
       }
       colourSamples[k] = v;
     }
-    const colour = colourFromSamples(colourSamples, { illuminant: cp.colour.illuminant, observer: cp.colour.observer });
+    const colour = colourFromSamples(colourSamples, {
+      illuminant: cp.colour.illuminant,
+      observer: cp.colour.observer,
+    });
     colourState.colour = colour;
     colourState.judged = judgeColour(cp.colour.limit, colour);
   };
@@ -608,18 +660,27 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
     judgeColourPlan(cp);
     return colourState.judged ? colourState.judged.margin : Number.NaN;
   };
-  const warnings = [...new Set([...evaluators.flatMap((e) => e.warnings), ...complex.flatMap((c) => c.warnings)])];
+  const warnings = [
+    ...new Set([...evaluators.flatMap((e) => e.warnings), ...complex.flatMap((c) => c.warnings)]),
+  ];
 
   /** refine: search the worst angle of angle ranges; verdictOnly: skip the search where a sample already fails. */
-  const computeWith = (thicknesses: Float64Array, indexScale: Float64Array | undefined, refine: boolean, verdictOnly: boolean): void => {
+  const computeWith = (
+    thicknesses: Float64Array,
+    indexScale: Float64Array | undefined,
+    refine: boolean,
+    verdictOnly: boolean,
+  ): void => {
     if (thicknesses.length !== layerCount) {
       throw new RangeError(`thicknesses: expected ${layerCount} layers, got ${thicknesses.length}`);
     }
     if (indexScale) {
-      if (indexScale.length !== layerCount) throw new RangeError(`indexScale: expected ${layerCount} factors, got ${indexScale.length}`);
+      if (indexScale.length !== layerCount)
+        throw new RangeError(`indexScale: expected ${layerCount} factors, got ${indexScale.length}`);
       for (let j = 0; j < layerCount; j++) {
         const f = indexScale[j] as number;
-        if (!(f > 0) || !Number.isFinite(f)) throw new RangeError(`indexScale[${j}]: expected a finite factor > 0, got ${String(f)}`);
+        if (!(f > 0) || !Number.isFinite(f))
+          throw new RangeError(`indexScale[${j}]: expected a finite factor > 0, got ${String(f)}`);
       }
     }
     for (let g = 0; g < simpleGroups; g++) {
@@ -633,7 +694,12 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
       const p = bands[b] as BandPlan;
       const req = p.band.requirement;
       // a limit lets the search stop early only when it cannot change the verdict
-      cb.compute(thicknesses, indexScale, refine, verdictOnly && (req === "min" || req === "max") ? p.limit : undefined);
+      cb.compute(
+        thicknesses,
+        indexScale,
+        refine,
+        verdictOnly && (req === "min" || req === "max") ? p.limit : undefined,
+      );
     }
   };
   const compute = (thicknesses: Float64Array, indexScale?: Float64Array): void =>
@@ -678,7 +744,9 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
   const worstPoint = (plan: BandPlan): WorstPoint => {
     const group = groups[plan.group] as GroupPlan;
     const i = plan.indices[scan.worstIndex] as number;
-    const pol = group.polAt ? (POL_CODES[group.polAt[i] as number] as Polarization) : (plan.band.polarization as Polarization);
+    const pol = group.polAt
+      ? (POL_CODES[group.polAt[i] as number] as Polarization)
+      : (plan.band.polarization as Polarization);
     return {
       wavelength: plan.wavelengths[scan.worstIndex] as number,
       value: scan.worstValue,
@@ -717,11 +785,22 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
       L: c ? c.L : nan,
       a: c ? c.a : nan,
       b: c ? c.b : nan,
-      limiting: j ? j.limiting : req.limit.type === "delta-e" ? "deltaE" : req.limit.type === "box-xy" ? "x" : "a",
+      limiting: j
+        ? j.limiting
+        : req.limit.type === "delta-e"
+          ? "deltaE"
+          : req.limit.type === "box-xy"
+            ? "x"
+            : "a",
       swatch: c ? colourSwatch(c, true).hex : "#000000",
     };
     if (j?.deltaE !== undefined) detail.deltaE = j.deltaE;
-    const worst: WorstPoint = { wavelength: nan, value: j ? j.value : nan, angleDeg: req.angleDeg, polarization: req.polarization };
+    const worst: WorstPoint = {
+      wavelength: nan,
+      value: j ? j.value : nan,
+      angleDeg: req.angleDeg,
+      polarization: req.polarization,
+    };
     if (!c || !j) {
       return {
         id: cp.id,
@@ -733,7 +812,14 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
         colour: detail,
       };
     }
-    const out: BandOutcome = { id: cp.id, pass: j.margin >= 0, worst, margin: j.margin, average: c.Y, colour: detail };
+    const out: BandOutcome = {
+      id: cp.id,
+      pass: j.margin >= 0,
+      worst,
+      margin: j.margin,
+      average: c.Y,
+      colour: detail,
+    };
     const reason = colourFailureReason(req.limit, c, j);
     if (reason) out.reason = reason;
     return out;
@@ -755,7 +841,10 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
         scanBand(plan);
         const worst = worstPoint(plan);
         if (scan.nonFinite >= 0) {
-          const where = worst.angleDeg !== 0 || isComplexBand(plan.band) ? ` (${worst.angleDeg}°, ${worst.polarization})` : "";
+          const where =
+            worst.angleDeg !== 0 || isComplexBand(plan.band)
+              ? ` (${worst.angleDeg}°, ${worst.polarization})`
+              : "";
           return {
             id: plan.id,
             pass: false,
@@ -831,8 +920,14 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
       const out: WorstPoint[] = [];
       for (let k = 0; k < plan.indices.length; k++) {
         const i = plan.indices[k] as number;
-        const v = quantityValue(plan.band.quantity, group.R[i] as number, group.T[i] as number, group.A[i] as number);
-        const bad = !Number.isFinite(v) || (req === "min" && v < plan.limit) || (req === "max" && v > plan.limit);
+        const v = quantityValue(
+          plan.band.quantity,
+          group.R[i] as number,
+          group.T[i] as number,
+          group.A[i] as number,
+        );
+        const bad =
+          !Number.isFinite(v) || (req === "min" && v < plan.limit) || (req === "max" && v > plan.limit);
         if (!bad) continue;
         out.push({
           wavelength: plan.wavelengths[k] as number,
@@ -849,7 +944,8 @@ export function createSpecEvaluator(design: Design, maskInput: SpecMaskInput): S
     },
     bandValues(b, out) {
       const plan = bands[b];
-      if (!plan) throw new RangeError(`band index ${b} out of range (colour requirements have no band values)`);
+      if (!plan)
+        throw new RangeError(`band index ${b} out of range (colour requirements have no band values)`);
       const group = groups[plan.group] as GroupPlan;
       const idx = plan.indices;
       for (let k = 0; k < idx.length; k++) {
@@ -964,7 +1060,12 @@ export function evaluateBandOnArrays(
   return {
     id: band.id,
     pass: margin >= 0,
-    worst: { wavelength: worstAt, value: worst, angleDeg: band.angleDeg, polarization: band.polarization === "sp" ? "s" : band.polarization },
+    worst: {
+      wavelength: worstAt,
+      value: worst,
+      angleDeg: band.angleDeg,
+      polarization: band.polarization === "sp" ? "s" : band.polarization,
+    },
     margin,
     average: mean,
   };

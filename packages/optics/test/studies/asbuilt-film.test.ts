@@ -60,7 +60,11 @@ describe("fitWitnessFilm", () => {
     const long = grid(1500, 2000, 0.5);
     const t = long.map((w) => plateT(w) / 100);
     let iMin = 1;
-    for (let i = 1; i < t.length - 1; i++) if (t[i]! < t[i - 1]! && t[i]! <= t[i + 1]!) { iMin = i; break; }
+    for (let i = 1; i < t.length - 1; i++)
+      if (t[i]! < t[i - 1]! && t[i]! <= t[i + 1]!) {
+        iMin = i;
+        break;
+      }
     const Tm = t[iMin]!;
     const N = (2 * s) / Tm - (s * s + 1) / 2;
     const nEnv = Math.sqrt(N + Math.sqrt(N * N - s * s));
@@ -132,8 +136,10 @@ describe("fitWitnessFilm on Swanepoel's worked example", () => {
 
   it("Swanepoel's closed-form transmission agrees with the characteristic-matrix reference (weak absorption, k² ≪ n²)", () => {
     // the closed form drops terms of order k² and k/n at the interfaces: 2.7e-4 at 650 nm (k = 1.8e-3), 1e-5 at 800 nm
-    for (const w of [650, 700, 800, 1000, 1500, 2000]) expect(Math.abs(swanepoelT(w) - referenceT(w))).toBeLessThan(5e-4);
-    for (const w of [800, 1000, 1500, 2000]) expect(Math.abs(swanepoelT(w) - referenceT(w))).toBeLessThan(3e-5);
+    for (const w of [650, 700, 800, 1000, 1500, 2000])
+      expect(Math.abs(swanepoelT(w) - referenceT(w))).toBeLessThan(5e-4);
+    for (const w of [800, 1000, 1500, 2000])
+      expect(Math.abs(swanepoelT(w) - referenceT(w))).toBeLessThan(3e-5);
     // transparent film at a half-wave order (x = 1, cos φ = 1) is absent: T is the bare plate's 2s/(s² + 1)
     for (const n of [1.8, 2.6, 3.3]) expect(swanepoel(n, 1, 1)).toBeCloseTo((2 * s) / (s * s + 1), 12);
   });
@@ -149,7 +155,8 @@ describe("fitWitnessFilm on Swanepoel's worked example", () => {
       { substrate: glass, substrateThicknessMm: 1, thicknessRangeNm: [300, 2000], indexRange: [1.5, 4] },
     );
     expect(Math.abs(fit.thicknessNm - d) / d).toBeLessThan(0.01);
-    for (const w of [700, 900, 1200, 1600, 2000]) expect(Math.abs(cauchyUrbach(fit.model, w).n / nOf(w) - 1)).toBeLessThan(0.01);
+    for (const w of [700, 900, 1200, 1600, 2000])
+      expect(Math.abs(cauchyUrbach(fit.model, w).n / nOf(w) - 1)).toBeLessThan(0.01);
     // n(λ) = 2.6 + 3·10⁵/λ² is a Cauchy law: A = 2.6, B = 0.3 µm²
     expect(fit.model.A).toBeGreaterThan(2.6 * 0.99);
     expect(fit.model.A).toBeLessThan(2.6 * 1.01);

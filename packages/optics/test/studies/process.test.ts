@@ -205,7 +205,6 @@ describe("process model: optical monitoring", () => {
     expect(sInd).toBeGreaterThan(1); // 1 nm per layer moves the peak by nanometres
     expect(sMon).toBeLessThanOrEqual(sInd / 5);
   }, 60000);
-
 });
 
 // Level monitoring on the part (Macleod, Thin-Film Optical Filters, monitoring chapter): every level cut stops
@@ -217,7 +216,12 @@ describe("process model: optical monitoring", () => {
 // so the sign of the correlation of consecutive errors depends on the slopes of the signals at the cuts: it is
 // a property of the design and the monitoring wavelength, not of level monitoring as such.
 describe("process model: level monitoring on the part carries errors from layer to layer", () => {
-  const levelModel = (design: Design, wavelength: number, on: "part" | "witness", noisePct: number): ErrorModel => ({
+  const levelModel = (
+    design: Design,
+    wavelength: number,
+    on: "part" | "witness",
+    noisePct: number,
+  ): ErrorModel => ({
     thickness: noErrors,
     process: {
       version: 1,
@@ -316,7 +320,9 @@ describe("process model: level monitoring on the part carries errors from layer 
 
   it("what accumulates: on the part a large and growing share of each layer's error is carried from the layers below it (R² of a regression on their errors), on a fresh witness chip per layer none is", () => {
     const relErrors = (model: ErrorModel) =>
-      builds(design8, model, 2000, "lv").map((th) => Array.from(th, (d, j) => d / design8.layers[j]!.thickness - 1));
+      builds(design8, model, 2000, "lv").map((th) =>
+        Array.from(th, (d, j) => d / design8.layers[j]!.thickness - 1),
+      );
     const part = relErrors(levelModel(design8, 550, "part", 0.5));
     const chips = relErrors(levelModel(design8, 550, "witness", 0.5));
     const onPart = design8.layers.map((_, j) => (j === 0 ? 0 : carriedShare(part, j)));
@@ -336,10 +342,17 @@ describe("process model: level monitoring on the part carries errors from layer 
         { ...design8, layers: design8.layers.slice(0, j + 1).map((l, k) => ({ ...l, thickness: th[k]! })) },
         { wavelengths: [550], angleDeg: 0 },
       ).u.T[0]!;
-    const nominalT = design8.layers.map((l, j) => partial(design8.layers.map((x) => x.thickness), j));
+    const nominalT = design8.layers.map((l, j) =>
+      partial(
+        design8.layers.map((x) => x.thickness),
+        j,
+      ),
+    );
     const sample = builds(design8, levelModel(design8, 550, "part", 0.5), 300, "lv");
     design8.layers.forEach((_, j) => {
-      const sd = Math.sqrt(sample.reduce((s, th) => s + (partial(th, j) - nominalT[j]!) ** 2, 0) / sample.length);
+      const sd = Math.sqrt(
+        sample.reduce((s, th) => s + (partial(th, j) - nominalT[j]!) ** 2, 0) / sample.length,
+      );
       expect(sd).toBeLessThan(1.25 * 0.005 * nominalT[j]!);
     });
   });

@@ -13,7 +13,13 @@ import {
   runYieldChunk,
   specSensitivity,
 } from "../../src/studies/index.ts";
-import type { SpecBand, SpecColourInput, SpecMaskInput, YieldChunk, YieldStudy } from "../../src/studies/index.ts";
+import type {
+  SpecBand,
+  SpecColourInput,
+  SpecMaskInput,
+  YieldChunk,
+  YieldStudy,
+} from "../../src/studies/index.ts";
 import { partVerdict, type MeasuredPart } from "../../src/studies/asbuilt/index.ts";
 import { TEST_MATERIALS, htwAr4, qwotDesign } from "./fixtures.ts";
 
@@ -48,27 +54,37 @@ describe("colour requirement on bare glass (reflected colour = the illuminant's 
     ["D65", "2"],
     ["D65", "10"],
     ["A", "2"],
-  ] as const)("illuminant %s, %s° observer: (x, y) of the white point, Y = 4.26 %%", (illuminant, observer) => {
-    const [x0, y0] = WHITE[`${illuminant}/${observer}` as keyof typeof WHITE];
-    const box = { type: "box-xy" as const, x: [x0 - 0.001, x0 + 0.001] as [number, number], y: [y0 - 0.001, y0 + 0.001] as [number, number] };
-    const { result, outcome } = only(glass, mask(colour({ illuminant, observer, limit: box })));
-    expect(outcome.colour!.x).toBeCloseTo(x0, 4);
-    expect(outcome.colour!.y).toBeCloseTo(y0, 4);
-    // Y of a flat reflector is its reflectance in percent (perfect reflector Y = 100)
-    expect(outcome.colour!.Y).toBeCloseTo(100 * R_GLASS, 9);
-    expect(outcome.average).toBeCloseTo(100 * R_GLASS, 9);
-    expect(outcome.colour!.L).toBeCloseTo(L_GLASS, 9);
-    expect(Math.abs(outcome.colour!.a) + Math.abs(outcome.colour!.b)).toBeLessThan(1e-9);
-    // a box that contains it passes, with the distance to the nearest edge as margin
-    expect(outcome.pass).toBe(true);
-    expect(result.pass).toBe(true);
-    expect(outcome.margin).toBeGreaterThan(0.0009 - 5e-5);
-    expect(outcome.margin).toBeLessThanOrEqual(0.001);
-    expect(result.merit).toBe(0);
-  });
+  ] as const)(
+    "illuminant %s, %s° observer: (x, y) of the white point, Y = 4.26 %%",
+    (illuminant, observer) => {
+      const [x0, y0] = WHITE[`${illuminant}/${observer}` as keyof typeof WHITE];
+      const box = {
+        type: "box-xy" as const,
+        x: [x0 - 0.001, x0 + 0.001] as [number, number],
+        y: [y0 - 0.001, y0 + 0.001] as [number, number],
+      };
+      const { result, outcome } = only(glass, mask(colour({ illuminant, observer, limit: box })));
+      expect(outcome.colour!.x).toBeCloseTo(x0, 4);
+      expect(outcome.colour!.y).toBeCloseTo(y0, 4);
+      // Y of a flat reflector is its reflectance in percent (perfect reflector Y = 100)
+      expect(outcome.colour!.Y).toBeCloseTo(100 * R_GLASS, 9);
+      expect(outcome.average).toBeCloseTo(100 * R_GLASS, 9);
+      expect(outcome.colour!.L).toBeCloseTo(L_GLASS, 9);
+      expect(Math.abs(outcome.colour!.a) + Math.abs(outcome.colour!.b)).toBeLessThan(1e-9);
+      // a box that contains it passes, with the distance to the nearest edge as margin
+      expect(outcome.pass).toBe(true);
+      expect(result.pass).toBe(true);
+      expect(outcome.margin).toBeGreaterThan(0.0009 - 5e-5);
+      expect(outcome.margin).toBeLessThanOrEqual(0.001);
+      expect(result.merit).toBe(0);
+    },
+  );
 
   it("a box that excludes it fails: margin = distance past the edge, the deciding coordinate named", () => {
-    const { result, outcome } = only(glass, mask(colour({ limit: { type: "box-xy", x: [0.32, 0.34], y: [0.3, 0.35] } })));
+    const { result, outcome } = only(
+      glass,
+      mask(colour({ limit: { type: "box-xy", x: [0.32, 0.34], y: [0.3, 0.35] } })),
+    );
     expect(result.pass).toBe(false);
     expect(outcome.pass).toBe(false);
     expect(outcome.margin).toBeCloseTo(outcome.colour!.x - 0.32, 12);
@@ -83,7 +99,10 @@ describe("colour requirement on bare glass (reflected colour = the illuminant's 
 
   it("a*/b* box with an L* range: inside passes; an L* range above the glass's L* fails on L*", () => {
     const ab = { a: [-0.5, 0.5] as [number, number], b: [-0.5, 0.5] as [number, number] };
-    const inside = only(glass, mask(colour({ limit: { type: "box-ab", ...ab, L: [L_GLASS - 1, L_GLASS + 1] } }))).outcome;
+    const inside = only(
+      glass,
+      mask(colour({ limit: { type: "box-ab", ...ab, L: [L_GLASS - 1, L_GLASS + 1] } })),
+    ).outcome;
     expect(inside.pass).toBe(true);
     expect(inside.margin).toBeCloseTo(0.5, 9);
     const dark = only(glass, mask(colour({ limit: { type: "box-ab", ...ab, L: [30, 40] } }))).outcome;
@@ -99,7 +118,14 @@ describe("colour requirement on bare glass (reflected colour = the illuminant's 
     const rs = (ci - n * ct) / (ci + n * ct);
     const { outcome } = only(
       glass,
-      mask(colour({ quantity: "T", angleDeg: 45, polarization: "s", limit: { type: "box-xy", x: [0.3, 0.32], y: [0.32, 0.34] } })),
+      mask(
+        colour({
+          quantity: "T",
+          angleDeg: 45,
+          polarization: "s",
+          limit: { type: "box-xy", x: [0.3, 0.32], y: [0.32, 0.34] },
+        }),
+      ),
     );
     expect(outcome.colour!.Y).toBeCloseTo(100 * (1 - rs * rs), 9);
     expect(outcome.colour!.x).toBeCloseTo(0.3127, 4);
@@ -119,16 +145,35 @@ const SHARMA: [number, [number, number, number], [number, number, number], numbe
 ];
 
 describe("ΔE*ab limits (CIEDE2000 against Sharma, Wu & Dalal 2005, Table 1; CIE76)", () => {
-  const at = ([L, a, b]: [number, number, number]) => ({ X: 0, Y: 0, Z: 0, x: 0, y: 0, L, a, b, illuminant: "D65" as const, observer: "2" as const });
-
-  it.each(SHARMA)("pair %i: the mask's judgement gives the published ΔE00 and flips at it", (_, target, sample, published) => {
-    const limit = (max: number) => ({ type: "delta-e" as const, formula: "CIEDE2000" as const, target: { L: target[0], a: target[1], b: target[2] }, max });
-    const j = judgeColour(limit(published + 0.0005), at(sample));
-    expect(j.deltaE).toBeCloseTo(published, 4);
-    expect(j.limiting).toBe("deltaE");
-    expect(j.margin).toBeGreaterThan(0);
-    expect(judgeColour(limit(published - 0.0005), at(sample)).margin).toBeLessThan(0);
+  const at = ([L, a, b]: [number, number, number]) => ({
+    X: 0,
+    Y: 0,
+    Z: 0,
+    x: 0,
+    y: 0,
+    L,
+    a,
+    b,
+    illuminant: "D65" as const,
+    observer: "2" as const,
   });
+
+  it.each(SHARMA)(
+    "pair %i: the mask's judgement gives the published ΔE00 and flips at it",
+    (_, target, sample, published) => {
+      const limit = (max: number) => ({
+        type: "delta-e" as const,
+        formula: "CIEDE2000" as const,
+        target: { L: target[0], a: target[1], b: target[2] },
+        max,
+      });
+      const j = judgeColour(limit(published + 0.0005), at(sample));
+      expect(j.deltaE).toBeCloseTo(published, 4);
+      expect(j.limiting).toBe("deltaE");
+      expect(j.margin).toBeGreaterThan(0);
+      expect(judgeColour(limit(published - 0.0005), at(sample)).margin).toBeLessThan(0);
+    },
+  );
 
   // A dispersion-free substrate reflecting Y/Yn = ((50 + 16)/116)³ at every wavelength has L*a*b* = (50, 0, 0)
   // exactly (CIE 15:2004, 8.2.1): Sharma's pair 7 through the whole mask path, design to verdict.
@@ -137,12 +182,26 @@ describe("ΔE*ab limits (CIEDE2000 against Sharma, Wu & Dalal 2005, Table 1; CIE
   const grey: Design = {
     ...qwotDesign([]),
     substrate: { material: "grey", thicknessMm: 1, backside: false },
-    materials: [...TEST_MATERIALS, { id: "grey", name: "grey", model: { kind: "constant", n: nGrey, k: 0 }, role: "substrate", source: "test value" }],
+    materials: [
+      ...TEST_MATERIALS,
+      {
+        id: "grey",
+        name: "grey",
+        model: { kind: "constant", n: nGrey, k: 0 },
+        role: "substrate",
+        source: "test value",
+      },
+    ],
   };
 
   it("pair 7 through evaluateSpec: a neutral L* = 50 reflector against target (50, −1, 2), ΔE00 = 2.3669", () => {
     const dE = (max: number) =>
-      only(grey, mask(colour({ limit: { type: "delta-e", formula: "CIEDE2000", target: { L: 50, a: -1, b: 2 }, max } }))).outcome;
+      only(
+        grey,
+        mask(
+          colour({ limit: { type: "delta-e", formula: "CIEDE2000", target: { L: 50, a: -1, b: 2 }, max } }),
+        ),
+      ).outcome;
     const pass = dE(2.3674);
     expect(pass.colour!.L).toBeCloseTo(50, 9);
     expect(pass.colour!.deltaE).toBeCloseTo(2.3669, 4);
@@ -153,14 +212,27 @@ describe("ΔE*ab limits (CIEDE2000 against Sharma, Wu & Dalal 2005, Table 1; CIE
   });
 
   it("CIE76 is the Euclidean distance (CIE 15:2004, 8.2.4): (50, 0, 0) to (50, 3, 4) is 5", () => {
-    const o = only(grey, mask(colour({ limit: { type: "delta-e", formula: "CIE76", target: { L: 50, a: 3, b: 4 }, max: 5.5 } }))).outcome;
+    const o = only(
+      grey,
+      mask(colour({ limit: { type: "delta-e", formula: "CIE76", target: { L: 50, a: 3, b: 4 }, max: 5.5 } })),
+    ).outcome;
     expect(o.colour!.deltaE).toBeCloseTo(5, 9);
     expect(o.margin).toBeCloseTo(0.5, 9);
   });
 });
 
 describe("colour requirements share the bands' evaluation", () => {
-  const band: SpecBand = { id: "ar", start: 500, stop: 600, step: 10, quantity: "R", polarization: "u", angleDeg: 0, requirement: "max", value: 5 };
+  const band: SpecBand = {
+    id: "ar",
+    start: 500,
+    stop: 600,
+    step: 10,
+    quantity: "R",
+    polarization: "u",
+    angleDeg: 0,
+    requirement: "max",
+    value: 5,
+  };
   const c = colour({ id: "neutral", limit: { type: "box-ab", a: [-1, 1], b: [-1, 1] } });
 
   it("outcomes come bands first, then colour; a band's verdict is the same with or without colour beside it", () => {
@@ -182,7 +254,10 @@ describe("colour requirements share the bands' evaluation", () => {
   });
 
   it("a failing colour fails the design even when every band passes; sensitivity reports it", () => {
-    const bad = { ...c, limit: { type: "box-ab" as const, a: [2, 4] as [number, number], b: [-1, 1] as [number, number] } };
+    const bad = {
+      ...c,
+      limit: { type: "box-ab" as const, a: [2, 4] as [number, number], b: [-1, 1] as [number, number] },
+    };
     const r = evaluateSpec(glass, { bands: [band], colour: [bad] });
     expect(r.bands[0]!.pass).toBe(true);
     expect(r.pass).toBe(false);
@@ -198,11 +273,17 @@ describe("colour requirements share the bands' evaluation", () => {
   it("a non-finite spectrum never passes: the reason names the wavelength", () => {
     const d = qwotDesign([["H230", 1]]);
     d.layers = [{ material: "H230", thickness: 1e308 }];
-    const { result, outcome } = only(d, mask(colour({ limit: { type: "box-ab", a: [-100, 100], b: [-100, 100] } })));
+    const { result, outcome } = only(
+      d,
+      mask(colour({ limit: { type: "box-ab", a: [-100, 100], b: [-100, 100] } })),
+    );
     expect(result.pass).toBe(false);
     expect(outcome.margin).toBeNaN();
     expect(outcome.reason).toMatch(/not finite at \d+ nm \(0°, u\)/);
-    const ev = createSpecEvaluator(d, mask(colour({ limit: { type: "box-ab", a: [-100, 100], b: [-100, 100] } })));
+    const ev = createSpecEvaluator(
+      d,
+      mask(colour({ limit: { type: "box-ab", a: [-100, 100], b: [-100, 100] } })),
+    );
     const res = new Float64Array(ev.residualCount);
     ev.residuals(ev.nominalThicknesses, res);
     expect(res[0]).toBeGreaterThan(0);
@@ -210,7 +291,16 @@ describe("colour requirements share the bands' evaluation", () => {
 });
 
 describe("mask validation with colour (RangeError naming the field and value)", () => {
-  const band: SpecBand = { id: "b", start: 500, stop: 600, quantity: "R", polarization: "u", angleDeg: 0, requirement: "max", value: 5 };
+  const band: SpecBand = {
+    id: "b",
+    start: 500,
+    stop: 600,
+    quantity: "R",
+    polarization: "u",
+    angleDeg: 0,
+    requirement: "max",
+    value: 5,
+  };
   const ok = colour({ limit: { type: "box-xy", x: [0.3, 0.32], y: [0.32, 0.34] } });
 
   it("old masks stay valid and unchanged: no colour key is added (stored form and hash unchanged)", () => {
@@ -230,14 +320,35 @@ describe("mask validation with colour (RangeError naming the field and value)", 
     [{ bands: [], colour: [] }, /mask\.bands: a mask needs at least one band or colour requirement/],
     [{ bands: [band], colour: [{ ...ok, id: "b" }] }, /mask\.colour\[0\]\.id: duplicate id.*got "b"/],
     [mask({ ...ok, quantity: "A" as "R" }), /mask\.colour\[0\]\.quantity: expected "R" or "T", got "A"/],
-    [mask({ ...ok, illuminant: "F2" as "A" }), /mask\.colour\[0\]\.illuminant: expected "D65" or "A", got "F2"/],
+    [
+      mask({ ...ok, illuminant: "F2" as "A" }),
+      /mask\.colour\[0\]\.illuminant: expected "D65" or "A", got "F2"/,
+    ],
     [mask({ ...ok, observer: "4" as "2" }), /mask\.colour\[0\]\.observer.*got "4"/],
     [mask({ ...ok, angleDeg: 95 }), /mask\.colour\[0\]\.angleDeg: expected an angle 0 ≤ θ < 90°, got 95/],
     [mask({ ...ok, polarization: "sp" as "s" }), /mask\.colour\[0\]\.polarization.*got "sp"/],
-    [mask({ ...ok, limit: { type: "box-xy", x: [0.4, 0.3], y: [0, 1] } }), /mask\.colour\[0\]\.limit\.x: expected \[min, max\] with min ≤ max/],
-    [mask({ ...ok, limit: { type: "box-ab", a: [0, Number.NaN], b: [0, 1] } }), /mask\.colour\[0\]\.limit\.a\[1\]/],
-    [mask({ ...ok, limit: { type: "delta-e", formula: "CIEDE2000", target: { L: 50, a: 0, b: 0 }, max: 0 } }), /mask\.colour\[0\]\.limit\.max: expected a ΔE limit > 0, got 0/],
-    [mask({ ...ok, limit: { type: "delta-e", formula: "CIE94" as "CIE76", target: { L: 50, a: 0, b: 0 }, max: 1 } }), /mask\.colour\[0\]\.limit\.formula.*got "CIE94"/],
+    [
+      mask({ ...ok, limit: { type: "box-xy", x: [0.4, 0.3], y: [0, 1] } }),
+      /mask\.colour\[0\]\.limit\.x: expected \[min, max\] with min ≤ max/,
+    ],
+    [
+      mask({ ...ok, limit: { type: "box-ab", a: [0, Number.NaN], b: [0, 1] } }),
+      /mask\.colour\[0\]\.limit\.a\[1\]/,
+    ],
+    [
+      mask({
+        ...ok,
+        limit: { type: "delta-e", formula: "CIEDE2000", target: { L: 50, a: 0, b: 0 }, max: 0 },
+      }),
+      /mask\.colour\[0\]\.limit\.max: expected a ΔE limit > 0, got 0/,
+    ],
+    [
+      mask({
+        ...ok,
+        limit: { type: "delta-e", formula: "CIE94" as "CIE76", target: { L: 50, a: 0, b: 0 }, max: 1 },
+      }),
+      /mask\.colour\[0\]\.limit\.formula.*got "CIE94"/,
+    ],
     [mask({ ...ok, id: "" }), /mask\.colour\[0\]\.id/],
   ] as [unknown, RegExp][])("refuses %j", (input, message) => {
     expect(() => parseSpecMask(input)).toThrow(RangeError);
@@ -250,18 +361,40 @@ describe("Monte Carlo yield with a colour box (visible AR)", () => {
   // (Y ≈ 0.09 %, a* ≈ 2.1, b* ≈ −1.2). A ±1.5 box around it that some builds leave: yield in (0, 1)
   // (0.6375 with this seed and 240 trials when written).
   const design = htwAr4();
-  const nominal = evaluateSpec(design, mask(colour({ limit: { type: "box-ab", a: [-100, 100], b: [-100, 100] } }))).bands[0]!.colour!;
+  const nominal = evaluateSpec(
+    design,
+    mask(colour({ limit: { type: "box-ab", a: [-100, 100], b: [-100, 100] } })),
+  ).bands[0]!.colour!;
   const study = (limit: SpecColourInput["limit"], trials = 240): YieldStudy => ({
     design,
     mask: {
-      bands: [{ id: "avg", start: 420, stop: 680, step: 10, quantity: "R", polarization: "u", angleDeg: 0, requirement: "avgMax", value: 2 }],
+      bands: [
+        {
+          id: "avg",
+          start: 420,
+          stop: 680,
+          step: 10,
+          quantity: "R",
+          polarization: "u",
+          angleDeg: 0,
+          requirement: "avgMax",
+          value: 2,
+        },
+      ],
       colour: [colour({ id: "hue", limit })],
     },
-    errorModel: { thickness: { relativePct: 2, absoluteNm: 0.3, distribution: "normal" }, systematicPct: 0.5 },
+    errorModel: {
+      thickness: { relativePct: 2, absoluteNm: 0.3, distribution: "normal" },
+      systematicPct: 0.5,
+    },
     trials,
     seed: "colour-yield-1",
   });
-  const box = { type: "box-ab" as const, a: [nominal.a - 1.5, nominal.a + 1.5] as [number, number], b: [nominal.b - 1.5, nominal.b + 1.5] as [number, number] };
+  const box = {
+    type: "box-ab" as const,
+    a: [nominal.a - 1.5, nominal.a + 1.5] as [number, number],
+    b: [nominal.b - 1.5, nominal.b + 1.5] as [number, number],
+  };
 
   it("yield is between 0 and 1, counts colour failures by id, and is identical for any chunking", () => {
     const s = study(box);
@@ -298,27 +431,60 @@ describe("Monte Carlo yield with a colour box (visible AR)", () => {
 
 describe("ISO 9211 style wording of a colour requirement", () => {
   it("names quantity, observer, illuminant, angle, polarization and the requirement", () => {
-    expect(describeColourIso(colour({ limit: { type: "delta-e", formula: "CIEDE2000", target: { L: 50, a: -1, b: 2 }, max: 2 } }))).toBe(
+    expect(
+      describeColourIso(
+        colour({ limit: { type: "delta-e", formula: "CIEDE2000", target: { L: 50, a: -1, b: 2 }, max: 2 } }),
+      ),
+    ).toBe(
       "Colour of reflected light: CIE 1931 standard colorimetric observer (2°), CIE illuminant D65; angle of incidence 0°; unpolarized; ΔE*ab (CIEDE2000) ≤ 2 from L* = 50, a* = −1, b* = 2",
     );
     expect(
-      describeColourIso(colour({ quantity: "T", illuminant: "A", observer: "10", angleDeg: 15, polarization: "s", limit: { type: "box-xy", x: [0.44, 0.455], y: [0.4, 0.415] } })),
+      describeColourIso(
+        colour({
+          quantity: "T",
+          illuminant: "A",
+          observer: "10",
+          angleDeg: 15,
+          polarization: "s",
+          limit: { type: "box-xy", x: [0.44, 0.455], y: [0.4, 0.415] },
+        }),
+      ),
     ).toBe(
       "Colour of transmitted light: CIE 1964 standard colorimetric observer (10°), CIE illuminant A; angle of incidence 15°; s-polarized; chromaticity 0.44 ≤ x ≤ 0.455 and 0.4 ≤ y ≤ 0.415",
     );
-    expect(describeColourIso(colour({ limit: { type: "box-ab", a: [-2, 2], b: [-6, -1], L: [20, 30] } }))).toMatch(
-      /CIELAB −2 ≤ a\* ≤ 2 and −6 ≤ b\* ≤ −1 and 20 ≤ L\* ≤ 30$/,
-    );
-    expect(() => describeColourIso(colour({ angleDeg: 90, limit: { type: "box-ab", a: [0, 1], b: [0, 1] } }))).toThrow(/colour\.angleDeg/);
+    expect(
+      describeColourIso(colour({ limit: { type: "box-ab", a: [-2, 2], b: [-6, -1], L: [20, 30] } })),
+    ).toMatch(/CIELAB −2 ≤ a\* ≤ 2 and −6 ≤ b\* ≤ −1 and 20 ≤ L\* ≤ 30$/);
+    expect(() =>
+      describeColourIso(colour({ angleDeg: 90, limit: { type: "box-ab", a: [0, 1], b: [0, 1] } })),
+    ).toThrow(/colour\.angleDeg/);
   });
 });
 
 describe("measured parts: colour requirements are judged, never skipped", () => {
-  const band: SpecBand = { id: "low", start: 450, stop: 650, quantity: "R", polarization: "u", angleDeg: 0, requirement: "max", value: 5 };
+  const band: SpecBand = {
+    id: "low",
+    start: 450,
+    stop: 650,
+    quantity: "R",
+    polarization: "u",
+    angleDeg: 0,
+    requirement: "max",
+    value: 5,
+  };
   // a flat measured reflectance of 4.26 % (bare glass, Hecht) over the given span, percent, u = 0.2 points
   const part = (from: number, to: number, pct = 100 * R_GLASS): MeasuredPart => ({
     id: "p",
-    measurements: [{ wavelengths: [from, to], values: [pct, pct], quantity: "R", angleDeg: 0, polarization: "u", uncertaintyPct: 0.2 }],
+    measurements: [
+      {
+        wavelengths: [from, to],
+        values: [pct, pct],
+        quantity: "R",
+        angleDeg: 0,
+        polarization: "u",
+        uncertaintyPct: 0.2,
+      },
+    ],
   });
   const xy = colour({ limit: { type: "box-xy", x: [0.3107, 0.3147], y: [0.327, 0.331] } });
 

@@ -38,16 +38,21 @@ export function auditRoutes(ctx: AppContext, router: Router): void {
         .orderBy(desc(auditLog.at), desc(auditLog.id))
         .limit(query.limit + 1)
         .all();
-      return toPage(rows, query.limit, (r) => [r.entry.at, r.entry.id], ({ entry, actorName }) => ({
-        id: entry.id,
-        at: entry.at.toISOString(),
-        actor: entry.actorId ? { id: entry.actorId, name: actorName ?? "Former member" } : null,
-        action: entry.action,
-        subjectType: entry.subjectType,
-        subjectId: entry.subjectId,
-        summary: entry.summary,
-        data: entry.data ?? null,
-      }));
+      return toPage(
+        rows,
+        query.limit,
+        (r) => [r.entry.at, r.entry.id],
+        ({ entry, actorName }) => ({
+          id: entry.id,
+          at: entry.at.toISOString(),
+          actor: entry.actorId ? { id: entry.actorId, name: actorName ?? "Former member" } : null,
+          action: entry.action,
+          subjectType: entry.subjectType,
+          subjectId: entry.subjectId,
+          summary: entry.summary,
+          data: entry.data ?? null,
+        }),
+      );
     },
   );
 }

@@ -83,7 +83,14 @@ export function authRoutes(ctx: AppContext, router: Router): void {
 
   route(
     router,
-    { method: "post", path: "/auth/sign-out", summary: "End the current session", tag: "access", access: "member", status: 204 },
+    {
+      method: "post",
+      path: "/auth/sign-out",
+      summary: "End the current session",
+      tag: "access",
+      access: "member",
+      status: 204,
+    },
     async ({ req, res }) => {
       res.append("Set-Cookie", await endSession(db, env, getAuth(req).sessionId));
       return undefined;
@@ -92,10 +99,21 @@ export function authRoutes(ctx: AppContext, router: Router): void {
 
   route(
     router,
-    { method: "get", path: "/auth/me", summary: "The signed-in member, workspace and roles", tag: "access", access: "member", response: SessionInfo },
+    {
+      method: "get",
+      path: "/auth/me",
+      summary: "The signed-in member, workspace and roles",
+      tag: "access",
+      access: "member",
+      response: SessionInfo,
+    },
     ({ req }) => {
       const auth = getAuth(req);
-      return sessionInfo(db, { user: auth.user, workspace: { id: auth.workspaceId, name: auth.workspaceName }, roles: auth.roles });
+      return sessionInfo(db, {
+        user: auth.user,
+        workspace: { id: auth.workspaceId, name: auth.workspaceName },
+        roles: auth.roles,
+      });
     },
   );
 

@@ -55,14 +55,19 @@ export function invitationRoutes(ctx: AppContext, router: Router): void {
         .orderBy(desc(invitations.createdAt), desc(invitations.id))
         .limit(query.limit + 1)
         .all();
-      return toPage(rows, query.limit, (r) => [r.inv.createdAt, r.inv.id], ({ inv, inviterName }) => ({
-        id: inv.id,
-        email: inv.email,
-        roles: inv.roles,
-        createdAt: inv.createdAt.toISOString(),
-        expiresAt: inv.expiresAt.toISOString(),
-        invitedBy: inv.invitedBy ? { id: inv.invitedBy, name: inviterName ?? "Former member" } : null,
-      }));
+      return toPage(
+        rows,
+        query.limit,
+        (r) => [r.inv.createdAt, r.inv.id],
+        ({ inv, inviterName }) => ({
+          id: inv.id,
+          email: inv.email,
+          roles: inv.roles,
+          createdAt: inv.createdAt.toISOString(),
+          expiresAt: inv.expiresAt.toISOString(),
+          invitedBy: inv.invitedBy ? { id: inv.invitedBy, name: inviterName ?? "Former member" } : null,
+        }),
+      );
     },
   );
 

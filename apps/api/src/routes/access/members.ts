@@ -7,7 +7,12 @@ import { getAuth } from "../../auth/guards.ts";
 import { changeMemberRoles, removeMember } from "../../domain/members.ts";
 import { keysetWhere, pageQuery, toPage } from "../../lib/pagination.ts";
 import { route } from "../../lib/route.ts";
-import { MemberListResponse, MemberRolesBody, MemberUpdateResponse, UserIdParams } from "@stackproof/contracts";
+import {
+  MemberListResponse,
+  MemberRolesBody,
+  MemberUpdateResponse,
+  UserIdParams,
+} from "@stackproof/contracts";
 
 export function memberRoutes(ctx: AppContext, router: Router): void {
   route(
@@ -24,18 +29,34 @@ export function memberRoutes(ctx: AppContext, router: Router): void {
     ({ req, query }) => {
       const { workspaceId } = getAuth(req);
       const rows = ctx.db
-        .select({ id: users.id, email: users.email, name: users.name, roles: memberships.roles, joinedAt: memberships.createdAt })
+        .select({
+          id: users.id,
+          email: users.email,
+          name: users.name,
+          roles: memberships.roles,
+          joinedAt: memberships.createdAt,
+        })
         .from(memberships)
         .innerJoin(users, eq(users.id, memberships.userId))
-        .where(and(eq(memberships.workspaceId, workspaceId), keysetWhere([users.name, users.id], query.cursor, "asc")))
+        .where(
+          and(
+            eq(memberships.workspaceId, workspaceId),
+            keysetWhere([users.name, users.id], query.cursor, "asc"),
+          ),
+        )
         .orderBy(asc(users.name), asc(users.id))
         .limit(query.limit + 1)
         .all();
-      return toPage(rows, query.limit, (r) => [r.name, r.id], (r) => ({
-        user: { id: r.id, email: r.email, name: r.name },
-        roles: r.roles,
-        joinedAt: r.joinedAt.toISOString(),
-      }));
+      return toPage(
+        rows,
+        query.limit,
+        (r) => [r.name, r.id],
+        (r) => ({
+          user: { id: r.id, email: r.email, name: r.name },
+          roles: r.roles,
+          joinedAt: r.joinedAt.toISOString(),
+        }),
+      );
     },
   );
 
@@ -50,7 +71,10 @@ export function memberRoutes(ctx: AppContext, router: Router): void {
       params: UserIdParams,
       body: MemberRolesBody,
       response: MemberUpdateResponse,
-      errors: { 404: "Not a member of this workspace", 409: "Would leave the workspace without an admin (last_admin)" },
+      errors: {
+        404: "Not a member of this workspace",
+        409: "Would leave the workspace without an admin (last_admin)",
+      },
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
@@ -73,7 +97,10 @@ export function memberRoutes(ctx: AppContext, router: Router): void {
       access: ["admin"],
       params: UserIdParams,
       status: 204,
-      errors: { 404: "Not a member of this workspace", 409: "Would leave the workspace without an admin (last_admin)" },
+      errors: {
+        404: "Not a member of this workspace",
+        409: "Would leave the workspace without an admin (last_admin)",
+      },
     },
     ({ req, params }) => {
       const auth = getAuth(req);

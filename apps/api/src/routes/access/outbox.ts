@@ -16,7 +16,11 @@ import { IdParams, OutboxDetail, OutboxListResponse } from "@stackproof/contract
 export function outboxRoutes(ctx: AppContext, router: Router): void {
   const outbox = () => {
     if (!ctx.mail.outbox) {
-      throw new HttpError(404, "outbox_disabled", "E-mail goes to a real SMTP server; there is no local outbox.");
+      throw new HttpError(
+        404,
+        "outbox_disabled",
+        "E-mail goes to a real SMTP server; there is no local outbox.",
+      );
     }
     return ctx.mail.outbox;
   };
@@ -29,7 +33,11 @@ export function outboxRoutes(ctx: AppContext, router: Router): void {
       .innerJoin(users, eq(users.id, memberships.userId))
       .where(eq(memberships.workspaceId, auth.workspaceId))
       .all();
-    return { workspaceId: auth.workspaceId, recipients: members.map((r) => r.email.toLowerCase()), self: auth.user.email };
+    return {
+      workspaceId: auth.workspaceId,
+      recipients: members.map((r) => r.email.toLowerCase()),
+      self: auth.user.email,
+    };
   }
 
   route(
@@ -37,7 +45,8 @@ export function outboxRoutes(ctx: AppContext, router: Router): void {
     {
       method: "get",
       path: "/outbox",
-      summary: "E-mails to people of this workspace captured by the local SMTP server, newest first (capture mode only)",
+      summary:
+        "E-mails to people of this workspace captured by the local SMTP server, newest first (capture mode only)",
       tag: "access",
       access: ["admin"],
       query: pageQuery,
@@ -58,7 +67,9 @@ export function outboxRoutes(ctx: AppContext, router: Router): void {
       access: ["admin"],
       params: IdParams,
       response: OutboxDetail,
-      errors: { 404: "Unknown message, mail to someone outside this workspace, or a real SMTP host is configured (outbox_disabled)" },
+      errors: {
+        404: "Unknown message, mail to someone outside this workspace, or a real SMTP host is configured (outbox_disabled)",
+      },
     },
     ({ req, params }) => {
       const message = outbox().get(viewerOf(getAuth(req)), params.id);

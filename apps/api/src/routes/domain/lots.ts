@@ -41,7 +41,13 @@ const TAG = "Measured lots";
 const SpectraFields = {
   file: fileField("Spectrophotometer CSV: a wavelength column and one column per part (at most 1 MB)"),
   // required, but checked after the lot or revision is found (another workspace gets 404 before any 400)
-  scale: z.enum(["percent", "fraction"]).optional().meta({ description: "Required: how the values are written; POST /lots/preview detects it for the user to confirm" }),
+  scale: z
+    .enum(["percent", "fraction"])
+    .optional()
+    .meta({
+      description:
+        "Required: how the values are written; POST /lots/preview detects it for the user to confirm",
+    }),
   quantity: z.enum(["R", "T"]).optional().meta({ description: "Required" }),
   angleDeg: z.coerce.number().min(0).lt(90).default(0),
   polarization: z.enum(["s", "p", "u"]).default("u"),
@@ -51,7 +57,11 @@ const SpectraFields = {
 const LotBody = z.object({
   ...SpectraFields,
   runId: z.string().trim().min(1).max(100).optional().meta({ description: "Required" }),
-  runDate: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: "use YYYY-MM-DD" }).optional().meta({ description: "Required" }),
+  runDate: z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}$/, { message: "use YYYY-MM-DD" })
+    .optional()
+    .meta({ description: "Required" }),
   chamber: z.string().trim().max(100).default(""),
   notes: z.string().trim().max(2000).default(""),
   guardK: z.coerce.number().min(0).max(5).default(2),
@@ -60,11 +70,20 @@ const LotBody = z.object({
 /** The required fields the schema leaves optional (so that scoping answers first). */
 function required<T>(value: T | undefined, name: string, expected: string): T {
   if (value === undefined)
-    throw new HttpError(400, "validation_failed", `body.${name}: required field is missing (expected ${expected})`, [{ path: name, message: `required: ${expected}` }]);
+    throw new HttpError(
+      400,
+      "validation_failed",
+      `body.${name}: required field is missing (expected ${expected})`,
+      [{ path: name, message: `required: ${expected}` }],
+    );
   return value;
 }
 
-function partsFrom(table: SpectraTable, body: z.output<z.ZodObject<typeof SpectraFields>>, fileName: string): MeasuredPart[] {
+function partsFrom(
+  table: SpectraTable,
+  body: z.output<z.ZodObject<typeof SpectraFields>>,
+  fileName: string,
+): MeasuredPart[] {
   const quantity = required(body.quantity, "quantity", '"R" or "T"');
   return table.columns.map((c) => ({
     id: c.name,
@@ -105,7 +124,12 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
     return lot;
   };
   const lotView = (lot: LotRow, withParts: boolean) => {
-    const parts = ctx.db.select().from(measuredParts).where(eq(measuredParts.lotId, lot.id)).orderBy(asc(measuredParts.label)).all();
+    const parts = ctx.db
+      .select()
+      .from(measuredParts)
+      .where(eq(measuredParts.lotId, lot.id))
+      .orderBy(asc(measuredParts.label))
+      .all();
     const rc = loadRevision(ctx.db, lot.workspaceId, lot.revisionId);
     return {
       id: lot.id,
@@ -127,14 +151,19 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
     {
       method: "post",
       path: "/lots/preview",
-      summary: "Read a spectrophotometer file without storing it: separator, decimal comma, detected percent/fraction, columns",
+      summary:
+        "Read a spectrophotometer file without storing it: separator, decimal comma, detected percent/fraction, columns",
       tag: TAG,
       access: ["designer", "admin"],
       multipart: true,
       before: [singleFile],
       body: z.object({ file: fileField("Spectrophotometer CSV (at most 1 MB)") }),
       response: SpectraPreviewSchema,
-      errors: { 413: "File over 1 MB", 415: "Binary (non-text) file", 422: "Bad file (details: row, column, message)" },
+      errors: {
+        413: "File over 1 MB",
+        415: "Binary (non-text) file",
+        422: "Bad file (details: row, column, message)",
+      },
     },
     ({ req }) => {
       const file = uploadedText(req);
@@ -157,7 +186,8 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
     {
       method: "post",
       path: "/revisions/:id/lots",
-      summary: "Upload a lot of measured parts of a coating run (one CSV, one column per part); verdicts against the revision's mask",
+      summary:
+        "Upload a lot of measured parts of a coating run (one CSV, one column per part); verdicts against the revision's mask",
       tag: TAG,
       access: ["designer", "admin"],
       params: IdParams,
@@ -209,7 +239,12 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       before: [singleFile],
       body: z.object(SpectraFields),
       response: LotSchema,
-      errors: { 400: "Bad field or spectrum", 404: "No such lot", 409: "A part appears twice", 422: "Bad file" },
+      errors: {
+        400: "Bad field or spectrum",
+        404: "No such lot",
+        409: "A part appears twice",
+        422: "Bad file",
+      },
     },
     ({ req, params, body }) => {
       const auth = getAuth(req);
@@ -269,7 +304,8 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
     {
       method: "post",
       path: "/parts/:id/fit",
-      summary: "As-built fit of a measured part (nested tooling / index / per-layer models, the program's error model as prior)",
+      summary:
+        "As-built fit of a measured part (nested tooling / index / per-layer models, the program's error model as prior)",
       tag: TAG,
       access: ["designer", "admin"],
       params: IdParams,
@@ -305,7 +341,8 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
     {
       method: "get",
       path: "/programs/:id/calibration",
-      summary: "Error model (and the program's process model) estimated from the program's fitted parts, with intervals, as proposed new error models; yield history",
+      summary:
+        "Error model (and the program's process model) estimated from the program's fitted parts, with intervals, as proposed new error models; yield history",
       tag: TAG,
       access: "member",
       params: IdParams,
@@ -316,10 +353,21 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       const auth = getAuth(req);
       const program = loadProgram(ctx.db, auth.workspaceId, params.id);
       const current = parseErrorModel(program.errorModel);
-      const lots = ctx.db.select().from(measuredLots).where(eq(measuredLots.programId, program.id)).orderBy(asc(measuredLots.runDate)).all();
+      const lots = ctx.db
+        .select()
+        .from(measuredLots)
+        .where(eq(measuredLots.programId, program.id))
+        .orderBy(asc(measuredLots.runDate))
+        .all();
       const history = lots.map((l) => {
         const v = lotView(l, false);
-        return { lotId: l.id, runId: l.runId, runDate: l.runDate, revisionId: l.revisionId, summary: v.summary };
+        return {
+          lotId: l.id,
+          runId: l.runId,
+          runDate: l.runDate,
+          revisionId: l.revisionId,
+          summary: v.summary,
+        };
       });
       return {
         current,
@@ -335,7 +383,8 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
     {
       method: "post",
       path: "/materials/witness-fit",
-      summary: "Fit thickness and Cauchy + Urbach n, k of a witness film to its T (and R) and store it as a workspace material",
+      summary:
+        "Fit thickness and Cauchy + Urbach n, k of a witness film to its T (and R) and store it as a workspace material",
       tag: TAG,
       access: ["designer", "admin"],
       multipart: true,
@@ -343,7 +392,12 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       body: z.object({
         file: fileField("CSV: a wavelength column, a T column and optionally an R column (at most 1 MB)"),
         scale: z.enum(["percent", "fraction"]),
-        id: z.string().trim().regex(/^[A-Za-z0-9][A-Za-z0-9_.+-]{0,63}$/, { message: "use 1-64 letters, digits, _ . + - (starting with a letter or digit)" }),
+        id: z
+          .string()
+          .trim()
+          .regex(/^[A-Za-z0-9][A-Za-z0-9_.+-]{0,63}$/, {
+            message: "use 1-64 letters, digits, _ . + - (starting with a letter or digit)",
+          }),
         name: z.string().trim().min(1).max(200),
         substrate: z.string().trim().min(1).max(100),
         substrateThicknessMm: z.coerce.number().positive().max(100),
@@ -365,7 +419,11 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       const R = col("R");
       const extra = table.columns.filter((c) => c !== T && c !== R);
       if (!T || extra.length > 0)
-        throw new HttpError(422, "invalid_csv", `The witness film file needs a "T" column and optionally an "R" column (got ${table.columns.map((c) => `"${c.name}"`).join(", ")}).`);
+        throw new HttpError(
+          422,
+          "invalid_csv",
+          `The witness film file needs a "T" column and optionally an "R" column (got ${table.columns.map((c) => `"${c.name}"`).join(", ")}).`,
+        );
       const ms: MeasuredSpectrum[] = [T, ...(R ? [R] : [])].map((c) => ({
         wavelengths: table.wavelengths,
         values: c.values,
@@ -375,8 +433,17 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
         uncertaintyPct: body.uncertaintyPct,
       }));
       // a taken id is refused before the fit runs (and again, atomically, when storing)
-      if (isBuiltIn(body.id) || ctx.db.select({ id: materials.id }).from(materials).where(and(eq(materials.workspaceId, auth.workspaceId), eq(materials.materialId, body.id))).get())
-        throw conflict(`The material id "${body.id}" is taken; materials are not replaced, choose another id.`);
+      if (
+        isBuiltIn(body.id) ||
+        ctx.db
+          .select({ id: materials.id })
+          .from(materials)
+          .where(and(eq(materials.workspaceId, auth.workspaceId), eq(materials.materialId, body.id)))
+          .get()
+      )
+        throw conflict(
+          `The material id "${body.id}" is taken; materials are not replaced, choose another id.`,
+        );
       const fit = await fitFilmOffThread(ms, {
         substrate: body.substrate,
         substrateThicknessMm: body.substrateThicknessMm,

@@ -134,7 +134,13 @@ export function programRoutes(ctx: AppContext, router: Router): void {
         const { protective: _p, ...mask } = specMask;
         changes.specMask = mask;
       }
-      updateProgram(ctx.db, { workspaceId: auth.workspaceId, actor: auth.user, programId: params.id, changes, note });
+      updateProgram(ctx.db, {
+        workspaceId: auth.workspaceId,
+        actor: auth.user,
+        programId: params.id,
+        changes,
+        note,
+      });
       return programView(loadProgram(ctx.db, auth.workspaceId, params.id));
     },
   );

@@ -50,7 +50,14 @@ export interface ProcessParameterEstimate {
   /** the material it belongs to, or null when one control serves every material */
   material: string | null;
   method: "time" | "crystal" | "optical";
-  parameter: "toolingPct" | "noisePct" | "rateErrorPct" | "rateDriftPct" | "driftCorrelation" | "withinLayerPct" | "opticalScale";
+  parameter:
+    | "toolingPct"
+    | "noisePct"
+    | "rateErrorPct"
+    | "rateDriftPct"
+    | "driftCorrelation"
+    | "withinLayerPct"
+    | "opticalScale";
   value: number;
   low: number;
   high: number;
@@ -125,7 +132,11 @@ function chiInterval(ss: number, dof: number, known: number): { value: number; l
   const v = ss / dof - known;
   const hi = ss / chiSquareQuantile(dof, -Z_95) - known;
   const lo = ss / chiSquareQuantile(dof, Z_95) - known;
-  return { value: Math.sqrt(Math.max(0, v)), low: Math.sqrt(Math.max(0, lo)), high: Math.sqrt(Math.max(0, hi)) };
+  return {
+    value: Math.sqrt(Math.max(0, v)),
+    low: Math.sqrt(Math.max(0, lo)),
+    high: Math.sqrt(Math.max(0, hi)),
+  };
 }
 
 function quantile(sorted: readonly number[], q: number): number {
@@ -137,11 +148,21 @@ function quantile(sorted: readonly number[], q: number): number {
 
 /** Group the parts' layers into one series per (run, design, material), parts of a run averaged per layer. */
 function seriesOf(parts: CalibrationPart[], knownNm: (material: string) => number): RunSeries[] {
-  const byKey = new Map<string, { runId: string; designKey: string; material: string; at: Map<number, { y: number[]; s2: number[]; d: number }> }>();
+  const byKey = new Map<
+    string,
+    {
+      runId: string;
+      designKey: string;
+      material: string;
+      at: Map<number, { y: number[]; s2: number[]; d: number }>;
+    }
+  >();
   parts.forEach((part, i) => {
     part.layers.forEach((l, j) => {
       if (l.index === undefined)
-        throw new RangeError(`parts[${i}].layers[${j}].index: the process calibration needs each layer's deposition index, got nothing`);
+        throw new RangeError(
+          `parts[${i}].layers[${j}].index: the process calibration needs each layer's deposition index, got nothing`,
+        );
       const designKey = part.designKey ?? "";
       const key = `${part.runId}\u0000${designKey}\u0000${l.material}`;
       let g = byKey.get(key);
@@ -168,14 +189,23 @@ function seriesOf(parts: CalibrationPart[], knownNm: (material: string) => numbe
         const n = a.y.length;
         const abs = knownNm(g.material);
         const rel = abs > 0 && a.d > 0 ? (100 * abs) / a.d : 0;
-        return { p, y: a.y.reduce((s, x) => s + x, 0) / n, v: a.s2.reduce((s, x) => s + x, 0) / n / n + rel * rel };
+        return {
+          p,
+          y: a.y.reduce((s, x) => s + x, 0) / n,
+          v: a.s2.reduce((s, x) => s + x, 0) / n / n + rel * rel,
+        };
       }),
   }));
 }
 
 // ---- quartz crystal ---------------------------------------------------------------------------------------
 
-function crystalEstimates(series: RunSeries[], material: string | null, c: Extract<ResolvedControl, { method: "crystal" }>, notes: string[]): ProcessParameterEstimate[] {
+function crystalEstimates(
+  series: RunSeries[],
+  material: string | null,
+  c: Extract<ResolvedControl, { method: "crystal" }>,
+  notes: string[],
+): ProcessParameterEstimate[] {
   let ssW = 0;
   let dofW = 0;
   let knownW = 0;
@@ -199,8 +229,21 @@ function crystalEstimates(series: RunSeries[], material: string | null, c: Extra
   if (dofW >= 2) {
     const e = chiInterval(ssW, dofW, knownW / nW);
     noise2 = e.value ** 2;
-    out.push({ material, method: "crystal", parameter: "noisePct", ...e, current: c.noisePct, interval: "chi-square", dof: dofW, runs, consistent: c.noisePct >= e.low && c.noisePct <= e.high });
-  } else notes.push(`${who}: too few determinable layers per run to estimate the crystal noise; the program's ${c.noisePct} % is kept.`);
+    out.push({
+      material,
+      method: "crystal",
+      parameter: "noisePct",
+      ...e,
+      current: c.noisePct,
+      interval: "chi-square",
+      dof: dofW,
+      runs,
+      consistent: c.noisePct >= e.low && c.noisePct <= e.high,
+    });
+  } else
+    notes.push(
+      `${who}: too few determinable layers per run to estimate the crystal noise; the program's ${c.noisePct} % is kept.`,
+    );
   // tooling: spread of the run means of each material around that material's mean, pooled over materials
   let ssB = 0;
   let dofB = 0;
@@ -225,7 +268,17 @@ function crystalEstimates(series: RunSeries[], material: string | null, c: Extra
   }
   if (dofB >= 2) {
     const e = chiInterval(ssB, dofB, knownB / nB);
-    out.push({ material, method: "crystal", parameter: "toolingPct", ...e, current: c.toolingPct, interval: "chi-square", dof: dofB, runs, consistent: c.toolingPct >= e.low && c.toolingPct <= e.high });
+    out.push({
+      material,
+      method: "crystal",
+      parameter: "toolingPct",
+      ...e,
+      current: c.toolingPct,
+      interval: "chi-square",
+      dof: dofB,
+      runs,
+      consistent: c.toolingPct >= e.low && c.toolingPct <= e.high,
+    });
   }
   return out;
 }
@@ -246,7 +299,11 @@ interface TimeFit {
  * less the measurement part: the within-layer variance cannot be negative); returns [a, b, weighted SSE].
  */
 function fitAB(h: number[], c: number[], w: number[], rho: number, total: number): [number, number, number] {
-  let sw = 0, sx = 0, sy = 0, sxx = 0, sxy = 0;
+  let sw = 0,
+    sx = 0,
+    sy = 0,
+    sxx = 0,
+    sxy = 0;
   for (let i = 0; i < h.length; i++) {
     const x = rho ** (h[i] as number);
     const wi = w[i] as number;
@@ -280,19 +337,24 @@ function fitAB(h: number[], c: number[], w: number[], rho: number, total: number
     a = T - b;
   }
   let sse = 0;
-  for (let i = 0; i < h.length; i++) sse += (w[i] as number) * ((c[i] as number) - a - b * rho ** (h[i] as number)) ** 2;
+  for (let i = 0; i < h.length; i++)
+    sse += (w[i] as number) * ((c[i] as number) - a - b * rho ** (h[i] as number)) ** 2;
   return [a, b, sse];
 }
 
 /** The covariogram estimator of the module comment; `rhoFixed` is used when fewer than 3 lags are available. */
-function timeFit(series: { material: string; layers: { p: number; y: number; v: number }[] }[], rhoFixed: number): TimeFit {
+function timeFit(
+  series: { material: string; layers: { p: number; y: number; v: number }[] }[],
+  rhoFixed: number,
+): TimeFit {
   const mean = new Map<string, { s: number; n: number }>();
-  for (const s of series) for (const l of s.layers) {
-    const m = mean.get(s.material) ?? { s: 0, n: 0 };
-    m.s += l.y;
-    m.n++;
-    mean.set(s.material, m);
-  }
+  for (const s of series)
+    for (const l of s.layers) {
+      const m = mean.get(s.material) ?? { s: 0, n: 0 };
+      m.s += l.y;
+      m.n++;
+      mean.set(s.material, m);
+    }
   const sum = new Map<number, number>();
   const cnt = new Map<number, number>();
   let c0 = 0;
@@ -345,7 +407,13 @@ function timeFit(series: { material: string; layers: { p: number; y: number; v: 
 }
 
 /** Re-simulate the same runs (positions, known variances) from a time fit, for the parametric bootstrap. */
-function simulateTime(series: RunSeries[], f: TimeFit, rng: TrialRandom, seed: string, index: number): { material: string; layers: RunLayer[] }[] {
+function simulateTime(
+  series: RunSeries[],
+  f: TimeFit,
+  rng: TrialRandom,
+  seed: string,
+  index: number,
+): { material: string; layers: RunLayer[] }[] {
   rng.reset(seed, index);
   const innov = Math.sqrt(Math.max(0, 1 - f.rho * f.rho));
   const su = Math.sqrt(f.u2);
@@ -379,12 +447,24 @@ function timeEstimates(
     return { estimates: [], fit: null };
   }
   const f = timeFit(series, c.driftCorrelation);
-  if (!f.rhoFitted) notes.push(`${who}: layers of a material at fewer than 3 different spacings; the drift correlation ρ is held at the program's ${c.driftCorrelation}.`);
-  else notes.push(`${who}: the within-layer σ is told apart from the drift only by the covariance at the shortest spacing; its interval is the least reliable (it held the true value in 30 of 40 simulated calibrations, the others in 35–37 of 40).`);
+  if (!f.rhoFitted)
+    notes.push(
+      `${who}: layers of a material at fewer than 3 different spacings; the drift correlation ρ is held at the program's ${c.driftCorrelation}.`,
+    );
+  else
+    notes.push(
+      `${who}: the within-layer σ is told apart from the drift only by the covariance at the shortest spacing; its interval is the least reliable (it held the true value in 30 of 40 simulated calibrations, the others in 35–37 of 40).`,
+    );
   const rng = new TrialRandom();
   const boot: TimeFit[] = [];
-  for (let b = 0; b < options.bootstrap; b++) boot.push(timeFit(simulateTime(series, f, rng, `${options.seed}:time:${who}`, b), c.driftCorrelation));
-  const sigma = (parameter: "rateErrorPct" | "rateDriftPct" | "withinLayerPct", v2: number, pick: (t: TimeFit) => number, current: number): ProcessParameterEstimate => {
+  for (let b = 0; b < options.bootstrap; b++)
+    boot.push(timeFit(simulateTime(series, f, rng, `${options.seed}:time:${who}`, b), c.driftCorrelation));
+  const sigma = (
+    parameter: "rateErrorPct" | "rateDriftPct" | "withinLayerPct",
+    v2: number,
+    pick: (t: TimeFit) => number,
+    current: number,
+  ): ProcessParameterEstimate => {
     const draws = boot.map(pick);
     const mean = draws.reduce((a, x) => a + x, 0) / draws.length;
     const varV = draws.reduce((a, x) => a + (x - mean) ** 2, 0) / Math.max(1, draws.length - 1);
@@ -403,7 +483,14 @@ function timeEstimates(
       high = Math.max(Math.sqrt(v2), quantile(s, 0.975));
       interval = "bootstrap percentile";
     }
-    return { ...base, low, high, interval, ...(interval === "bootstrap percentile" ? {} : { dof: round(dof) }), consistent: current >= low && current <= high };
+    return {
+      ...base,
+      low,
+      high,
+      interval,
+      ...(interval === "bootstrap percentile" ? {} : { dof: round(dof) }),
+      consistent: current >= low && current <= high,
+    };
   };
   const estimates = [
     sigma("rateErrorPct", f.u2, (t) => t.u2, c.rateErrorPct),
@@ -418,7 +505,18 @@ function timeEstimates(
     const z0 = Math.atanh(clamp(f.rho));
     const low = Math.max(0, Math.tanh(z0 - Z_95 * se));
     const high = Math.tanh(z0 + Z_95 * se);
-    estimates.push({ material, method: "time", parameter: "driftCorrelation", value: f.rho, low, high, current: c.driftCorrelation, interval: "Fisher z", runs, consistent: c.driftCorrelation >= low && c.driftCorrelation <= high });
+    estimates.push({
+      material,
+      method: "time",
+      parameter: "driftCorrelation",
+      value: f.rho,
+      low,
+      high,
+      current: c.driftCorrelation,
+      interval: "Fisher z",
+      runs,
+      consistent: c.driftCorrelation >= low && c.driftCorrelation <= high,
+    });
   }
   return { estimates, fit: f };
 }
@@ -426,7 +524,12 @@ function timeEstimates(
 // ---- optical monitoring -----------------------------------------------------------------------------------
 
 function scaleOptical(c: OpticalControl, s: number): OpticalControl {
-  const out: OpticalControl = { ...c, noisePct: c.noisePct * s, driftPct: c.driftPct * s, overshootSigmaNm: c.overshootSigmaNm * s };
+  const out: OpticalControl = {
+    ...c,
+    noisePct: c.noisePct * s,
+    driftPct: c.driftPct * s,
+    overshootSigmaNm: c.overshootSigmaNm * s,
+  };
   if (c.detectionPct !== undefined) out.detectionPct = c.detectionPct * s;
   return out;
 }
@@ -438,7 +541,12 @@ function withOpticalScale(process: ProcessModel, s: number): ProcessModel {
   };
   return {
     ...process,
-    control: "method" in process.control ? scale(process.control as Control) : Object.fromEntries(Object.entries(process.control as Record<string, Control>).map(([k, c]) => [k, scale(c)])),
+    control:
+      "method" in process.control
+        ? scale(process.control as Control)
+        : Object.fromEntries(
+            Object.entries(process.control as Record<string, Control>).map(([k, c]) => [k, scale(c)]),
+          ),
   };
 }
 
@@ -450,13 +558,20 @@ function withOpticalScale(process: ProcessModel, s: number): ProcessModel {
  * has absolute per-layer terms); optical monitoring needs the parts' designs by `designKey`.
  * @throws RangeError for bad input (naming the value).
  */
-export function calibrateProcessModel(parts: CalibrationPart[], errorModelInput: ErrorModel, options: ProcessCalibrationOptions = {}): ProcessCalibration {
-  if (!Array.isArray(parts) || parts.length === 0) throw new RangeError(`parts: expected at least one fitted part, got ${parts?.length ?? 0}`);
+export function calibrateProcessModel(
+  parts: CalibrationPart[],
+  errorModelInput: ErrorModel,
+  options: ProcessCalibrationOptions = {},
+): ProcessCalibration {
+  if (!Array.isArray(parts) || parts.length === 0)
+    throw new RangeError(`parts: expected at least one fitted part, got ${parts?.length ?? 0}`);
   const errorModel = parseErrorModel(errorModelInput);
-  if (!errorModel.process) throw new RangeError("errorModel.process: expected a process model to calibrate, got nothing");
+  if (!errorModel.process)
+    throw new RangeError("errorModel.process: expected a process model to calibrate, got nothing");
   const process = ProcessModelSchema.parse(errorModel.process);
   const bootstrap = options.bootstrap ?? 200;
-  if (!Number.isInteger(bootstrap) || bootstrap < 20 || bootstrap > 5000) throw new RangeError(`bootstrap: expected an integer in 20..5000, got ${bootstrap}`);
+  if (!Number.isInteger(bootstrap) || bootstrap < 20 || bootstrap > 5000)
+    throw new RangeError(`bootstrap: expected an integer in 20..5000, got ${bootstrap}`);
   const seed = options.seed ?? "calibration";
   const single = "method" in process.control;
   const controlOf = (m: string): ResolvedControl | null => {
@@ -472,15 +587,18 @@ export function calibrateProcessModel(parts: CalibrationPart[], errorModelInput:
   const all = seriesOf(parts, knownNm);
   const runs = new Set(all.map((s) => s.runId)).size;
   const materials = [...new Set(all.map((s) => s.material))].sort();
-  for (const m of materials) if (!controlOf(m)) notes.push(`${m}: the process model has no control for it; its layers are left out.`);
+  for (const m of materials)
+    if (!controlOf(m)) notes.push(`${m}: the process model has no control for it; its layers are left out.`);
   const parameters: ProcessParameterEstimate[] = [];
   // groups: one per material, or one for all materials sharing a single control
   const groups: { material: string | null; control: ResolvedControl; series: RunSeries[] }[] = [];
-  if (single) groups.push({ material: null, control: resolveControl(process.control as Control), series: all });
-  else for (const m of materials) {
-    const c = controlOf(m);
-    if (c) groups.push({ material: m, control: c, series: all.filter((s) => s.material === m) });
-  }
+  if (single)
+    groups.push({ material: null, control: resolveControl(process.control as Control), series: all });
+  else
+    for (const m of materials) {
+      const c = controlOf(m);
+      if (c) groups.push({ material: m, control: c, series: all.filter((s) => s.material === m) });
+    }
   const calibrated = new Map<string | null, Control>();
   const opticalGroups: typeof groups = [];
   for (const g of groups) {
@@ -489,14 +607,24 @@ export function calibrateProcessModel(parts: CalibrationPart[], errorModelInput:
       const est = crystalEstimates(g.series, g.material, c, notes);
       parameters.push(...est);
       const get = (p: string, cur: number) => est.find((e) => e.parameter === p)?.value ?? cur;
-      calibrated.set(g.material, { ...c, toolingPct: round(get("toolingPct", c.toolingPct)), noisePct: round(get("noisePct", c.noisePct)) });
+      calibrated.set(g.material, {
+        ...c,
+        toolingPct: round(get("toolingPct", c.toolingPct)),
+        noisePct: round(get("noisePct", c.noisePct)),
+      });
     } else if (c.method === "time") {
       const { estimates, fit } = timeEstimates(g.series, g.material, c, { bootstrap, seed }, notes);
       parameters.push(...estimates);
       calibrated.set(
         g.material,
         fit
-          ? { ...c, rateErrorPct: round(Math.sqrt(fit.u2)), rateDriftPct: round(Math.sqrt(fit.x2)), driftCorrelation: round(Math.min(0.9999, fit.rho)), withinLayerPct: round(Math.sqrt(fit.w2)) }
+          ? {
+              ...c,
+              rateErrorPct: round(Math.sqrt(fit.u2)),
+              rateDriftPct: round(Math.sqrt(fit.x2)),
+              driftCorrelation: round(Math.min(0.9999, fit.rho)),
+              withinLayerPct: round(Math.sqrt(fit.w2)),
+            }
           : c,
       );
     } else opticalGroups.push(g);
@@ -505,13 +633,27 @@ export function calibrateProcessModel(parts: CalibrationPart[], errorModelInput:
   const layers: LayerSigmaCheck[] = [];
   let opticalScale: ProcessParameterEstimate | null = null;
   if (opticalGroups.length > 0) {
-    const opticalMaterials = new Set(opticalGroups.flatMap((g) => (g.material ? [g.material] : materials.filter((m) => controlOf(m)?.method === "optical"))));
+    const opticalMaterials = new Set(
+      opticalGroups.flatMap((g) =>
+        g.material ? [g.material] : materials.filter((m) => controlOf(m)?.method === "optical"),
+      ),
+    );
     const designKeys = [...new Set(all.map((s) => s.designKey))].sort();
     const trials = options.statsTrials ?? 4000;
     // realised per (design, layer): one value per run
-    const cells: { designKey: string; layer: number; material: string; values: number[]; known: number[]; runIds: string[] }[] = [];
+    const cells: {
+      designKey: string;
+      layer: number;
+      material: string;
+      values: number[];
+      known: number[];
+      runIds: string[];
+    }[] = [];
     for (const key of designKeys) {
-      const byLayer = new Map<number, { material: string; values: number[]; known: number[]; runIds: string[] }>();
+      const byLayer = new Map<
+        number,
+        { material: string; values: number[]; known: number[]; runIds: string[] }
+      >();
       for (const s of all) {
         if (s.designKey !== key || !opticalMaterials.has(s.material)) continue;
         for (const l of s.layers) {
@@ -522,7 +664,8 @@ export function calibrateProcessModel(parts: CalibrationPart[], errorModelInput:
           byLayer.set(l.p, cell);
         }
       }
-      for (const [layer, cell] of [...byLayer.entries()].sort((a, b) => a[0] - b[0])) if (cell.values.length >= 3) cells.push({ designKey: key, layer, ...cell });
+      for (const [layer, cell] of [...byLayer.entries()].sort((a, b) => a[0] - b[0]))
+        if (cell.values.length >= 3) cells.push({ designKey: key, layer, ...cell });
     }
     const designs = options.designs ?? {};
     const predictFor = (proc: ProcessModel) => {
@@ -530,12 +673,20 @@ export function calibrateProcessModel(parts: CalibrationPart[], errorModelInput:
       for (const key of new Set(cells.map((c) => c.designKey))) {
         const d = designs[key];
         if (!d) continue;
-        out.set(key, processErrorStats(d, { ...errorModel, process: proc }, trials, `${seed}:optical:${key}`).map((s) => s.sigmaPct));
+        out.set(
+          key,
+          processErrorStats(d, { ...errorModel, process: proc }, trials, `${seed}:optical:${key}`).map(
+            (s) => s.sigmaPct,
+          ),
+        );
       }
       return out;
     };
     const missing = [...new Set(cells.map((c) => c.designKey))].filter((k) => !designs[k]);
-    if (missing.length > 0) notes.push(`No design given for ${missing.length} design(s) of optically monitored parts; their layers are not checked.`);
+    if (missing.length > 0)
+      notes.push(
+        `No design given for ${missing.length} design(s) of optically monitored parts; their layers are not checked.`,
+      );
     const predicted = predictFor(process);
     const checked = cells.filter((c) => predicted.has(c.designKey));
     for (const cell of checked) {
@@ -544,9 +695,22 @@ export function calibrateProcessModel(parts: CalibrationPart[], errorModelInput:
       const ss = cell.values.reduce((a, x) => a + (x - mean) ** 2, 0);
       const e = chiInterval(ss, R - 1, cell.known.reduce((a, x) => a + x, 0) / R);
       const pred = (predicted.get(cell.designKey) as number[])[cell.layer] ?? 0;
-      layers.push({ designKey: cell.designKey, layer: cell.layer, material: cell.material, runs: R, realisedPct: e.value, lowPct: e.low, highPct: e.high, predictedPct: pred, consistent: pred >= e.low && pred <= e.high });
+      layers.push({
+        designKey: cell.designKey,
+        layer: cell.layer,
+        material: cell.material,
+        runs: R,
+        realisedPct: e.value,
+        lowPct: e.low,
+        highPct: e.high,
+        predictedPct: pred,
+        consistent: pred >= e.low && pred <= e.high,
+      });
     }
-    if (checked.length === 0) notes.push("Optical monitoring: no layer was fitted in 3 or more runs of one design; nothing to compare with the model.");
+    if (checked.length === 0)
+      notes.push(
+        "Optical monitoring: no layer was fitted in 3 or more runs of one design; nothing to compare with the model.",
+      );
     else {
       // pooled realised-to-predicted variance ratio; runs resampled for its interval
       const ratioOf = (pick: (cell: (typeof checked)[number]) => number[]) => {
@@ -556,7 +720,9 @@ export function calibrateProcessModel(parts: CalibrationPart[], errorModelInput:
           const idx = pick(cell);
           const v = idx.map((i) => cell.values[i] as number);
           const m = v.reduce((a, x) => a + x, 0) / v.length;
-          num += v.reduce((a, x) => a + (x - m) ** 2, 0) - ((v.length - 1) * idx.reduce((a, i) => a + (cell.known[i] as number), 0)) / idx.length;
+          num +=
+            v.reduce((a, x) => a + (x - m) ** 2, 0) -
+            ((v.length - 1) * idx.reduce((a, i) => a + (cell.known[i] as number), 0)) / idx.length;
           den += (v.length - 1) * ((predicted.get(cell.designKey) as number[])[cell.layer] ?? 0) ** 2;
         });
         return den > 0 ? Math.max(0, num) / den : 0;
@@ -572,7 +738,11 @@ export function calibrateProcessModel(parts: CalibrationPart[], errorModelInput:
           const r = runIds[Math.min(runIds.length - 1, Math.floor(rng.uniform() * runIds.length))] as string;
           pickRuns.set(r, (pickRuns.get(r) ?? 0) + 1);
         }
-        draws.push(ratioOf((cell) => cell.runIds.flatMap((r, i) => Array.from({ length: pickRuns.get(r) ?? 0 }, () => i))));
+        draws.push(
+          ratioOf((cell) =>
+            cell.runIds.flatMap((r, i) => Array.from({ length: pickRuns.get(r) ?? 0 }, () => i)),
+          ),
+        );
       }
       // chi-square interval of the ratio with Satterthwaite's effective degrees of freedom from the bootstrap
       // variance (a ratio of variances is skewed; the scaled chi-square follows that better than percentiles)
@@ -636,7 +806,10 @@ export function calibrateProcessModel(parts: CalibrationPart[], errorModelInput:
       };
       parameters.push(opticalScale);
       const off = layers.filter((l) => !l.consistent).length;
-      if (off > 0) notes.push(`Optical monitoring: ${off} of ${layers.length} layers' realised σ excludes the model's prediction.`);
+      if (off > 0)
+        notes.push(
+          `Optical monitoring: ${off} of ${layers.length} layers' realised σ excludes the model's prediction.`,
+        );
     }
   }
   // the proposal: the program's process model with the calibrated numbers
@@ -649,10 +822,14 @@ export function calibrateProcessModel(parts: CalibrationPart[], errorModelInput:
     };
     const control = single
       ? calibrate(null, process.control as Control)
-      : Object.fromEntries(Object.entries(process.control as Record<string, Control>).map(([k, c]) => [k, calibrate(k, c)]));
+      : Object.fromEntries(
+          Object.entries(process.control as Record<string, Control>).map(([k, c]) => [k, calibrate(k, c)]),
+        );
     proposed = { ...errorModel, process: { ...process, control } };
     if (options.indexDriftPct && Object.keys(options.indexDriftPct).length > 0)
-      proposed.indexDriftPct = Object.fromEntries(Object.entries(options.indexDriftPct).map(([m, v]) => [m, round(v)]));
+      proposed.indexDriftPct = Object.fromEntries(
+        Object.entries(options.indexDriftPct).map(([m, v]) => [m, round(v)]),
+      );
   } else notes.push("Nothing of the process model was identifiable from these fits.");
   return { runs, parameters, layers, proposed, notes };
 }

@@ -92,7 +92,9 @@ export function calibrateErrorModel(parts: CalibrationPart[]): Calibration {
       throw new RangeError(`parts[${i}].runId: expected a non-empty string, got ${String(p.runId)}`);
     p.layers.forEach((l, j) => {
       if (!Number.isFinite(l.errorPct) || !(l.sePct >= 0))
-        throw new RangeError(`parts[${i}].layers[${j}]: expected a finite errorPct and sePct ≥ 0, got ${l.errorPct}, ${l.sePct}`);
+        throw new RangeError(
+          `parts[${i}].layers[${j}]: expected a finite errorPct and sePct ≥ 0, got ${l.errorPct}, ${l.sePct}`,
+        );
     });
   });
   const notes: string[] = [];
@@ -117,12 +119,15 @@ export function calibrateErrorModel(parts: CalibrationPart[]): Calibration {
         nSe++;
       }
       dofW += ls.length - 1;
-      runMeans.get(m)!.push({ mean, n: ls.length, se2: ls.reduce((s, l) => s + l.sePct ** 2, 0) / ls.length });
+      runMeans
+        .get(m)!
+        .push({ mean, n: ls.length, se2: ls.reduce((s, l) => s + l.sePct ** 2, 0) / ls.length });
     }
   }
   const meanSe2 = nSe > 0 ? se2 / nSe : 0;
   const random = dofW > 0 ? interval(ssW, dofW, meanSe2, 0) : null;
-  if (!random) notes.push("Too few determinable layers per run and material to estimate the random per-layer σ.");
+  if (!random)
+    notes.push("Too few determinable layers per run and material to estimate the random per-layer σ.");
   const rand2 = random ? random.sigmaPct ** 2 : 0;
   const systematic: Record<string, SigmaEstimate> = {};
   for (const m of materials) {
@@ -136,27 +141,44 @@ export function calibrateErrorModel(parts: CalibrationPart[]): Calibration {
     const measVar = ms.reduce((s, r) => s + (rand2 + r.se2) / r.n, 0) / ms.length;
     systematic[m] = interval(ss, ms.length - 1, measVar, grand);
     if (Math.abs(grand) > 2 * Math.sqrt(ss / (ms.length - 1) / ms.length))
-      notes.push(`${m}: the tooling is off by ${grand.toFixed(2)} % on average — correct the tooling factor; the σ is the spread around that mean.`);
+      notes.push(
+        `${m}: the tooling is off by ${grand.toFixed(2)} % on average — correct the tooling factor; the σ is the spread around that mean.`,
+      );
   }
   const indexDrift: Record<string, SigmaEstimate> = {};
   for (const m of materials) {
     const vals: { v: number; se: number }[] = [];
     for (const [, ps] of runs) {
-      const xs = ps.map((p) => p.index?.[m]).filter((x): x is { valuePct: number; sePct: number } => x !== undefined);
-      if (xs.length > 0) vals.push({ v: xs.reduce((s, x) => s + x.valuePct, 0) / xs.length, se: Math.sqrt(xs.reduce((s, x) => s + x.sePct ** 2, 0) / xs.length / xs.length) });
+      const xs = ps
+        .map((p) => p.index?.[m])
+        .filter((x): x is { valuePct: number; sePct: number } => x !== undefined);
+      if (xs.length > 0)
+        vals.push({
+          v: xs.reduce((s, x) => s + x.valuePct, 0) / xs.length,
+          se: Math.sqrt(xs.reduce((s, x) => s + x.sePct ** 2, 0) / xs.length / xs.length),
+        });
     }
     if (vals.length < 3) continue;
     const mean = vals.reduce((s, x) => s + x.v, 0) / vals.length;
     const ss = vals.reduce((s, x) => s + (x.v - mean) ** 2, 0);
-    indexDrift[m] = interval(ss, vals.length - 1, vals.reduce((s, x) => s + x.se ** 2, 0) / vals.length, mean);
+    indexDrift[m] = interval(
+      ss,
+      vals.length - 1,
+      vals.reduce((s, x) => s + x.se ** 2, 0) / vals.length,
+      mean,
+    );
   }
   const proposed: ErrorModel = {
     thickness: { relativePct: random ? round(random.sigmaPct) : 0, absoluteNm: 0, distribution: "normal" },
   };
   if (Object.keys(systematic).length > 0)
-    proposed.systematicPct = Object.fromEntries(Object.entries(systematic).map(([m, s]) => [m, round(s.sigmaPct)]));
+    proposed.systematicPct = Object.fromEntries(
+      Object.entries(systematic).map(([m, s]) => [m, round(s.sigmaPct)]),
+    );
   if (Object.keys(indexDrift).length > 0)
-    proposed.indexDriftPct = Object.fromEntries(Object.entries(indexDrift).map(([m, s]) => [m, round(s.sigmaPct)]));
+    proposed.indexDriftPct = Object.fromEntries(
+      Object.entries(indexDrift).map(([m, s]) => [m, round(s.sigmaPct)]),
+    );
   return { runs: runs.size, parts: parts.length, random, systematic, indexDrift, proposed, notes };
 }
 

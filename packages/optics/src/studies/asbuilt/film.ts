@@ -14,7 +14,14 @@
  * (J. Phys. E 16:1214, 1983) gives the same n at the transmission extrema  of a weakly absorbing film,
  * n = √(M + √(M² − s²)), M = 2s/T_m − (s² + 1)/2 (tested).
  */
-import { createStackEvaluator, HC_EV_NM, MaterialSchema, parseDesign, type Design, type Material } from "../../core/index.ts";
+import {
+  createStackEvaluator,
+  HC_EV_NM,
+  MaterialSchema,
+  parseDesign,
+  type Design,
+  type Material,
+} from "../../core/index.ts";
 import { levenbergMarquardt } from "../least-squares.ts";
 import { gram, invertSpd } from "./linalg.ts";
 import { DEFAULT_UNCERTAINTY_PCT, validateMeasured, type MeasuredSpectrum } from "./measurement.ts";
@@ -83,14 +90,20 @@ export interface FilmFitResult {
  */
 export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFitOptions): FilmFitResult {
   if (!Array.isArray(measurements) || measurements.length === 0)
-    throw new RangeError(`measurements: expected at least one measured spectrum, got ${measurements?.length ?? 0}`);
+    throw new RangeError(
+      `measurements: expected at least one measured spectrum, got ${measurements?.length ?? 0}`,
+    );
   measurements.forEach((m, k) => validateMeasured(m, `measurements[${k}]`));
   if (!(options.substrateThicknessMm > 0))
-    throw new RangeError(`substrateThicknessMm: expected a thickness > 0 mm, got ${options.substrateThicknessMm}`);
+    throw new RangeError(
+      `substrateThicknessMm: expected a thickness > 0 mm, got ${options.substrateThicknessMm}`,
+    );
   const [dLo, dHi] = options.thicknessRangeNm ?? [50, 3000];
-  if (!(dLo > 0 && dHi > dLo)) throw new RangeError(`thicknessRangeNm: expected 0 < low < high, got ${dLo}, ${dHi}`);
+  if (!(dLo > 0 && dHi > dLo))
+    throw new RangeError(`thicknessRangeNm: expected 0 < low < high, got ${dLo}, ${dHi}`);
   const [aLo, aHi] = options.indexRange ?? [1.3, 4.5];
-  if (!(aLo >= 1 && aHi > aLo)) throw new RangeError(`indexRange: expected 1 ≤ low < high, got ${aLo}, ${aHi}`);
+  if (!(aLo >= 1 && aHi > aLo))
+    throw new RangeError(`indexRange: expected 1 ≤ low < high, got ${aLo}, ${aHi}`);
   const absorbing = options.absorbing ?? true;
   const fitC = options.fitC ?? false;
   const subMaterial = typeof options.substrate === "string" ? undefined : options.substrate;
@@ -119,7 +132,11 @@ export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFi
     incident: "air",
     exit: "air",
     layers: [{ material: filmId, thickness: d }],
-    substrate: { material: subId, thicknessMm: options.substrateThicknessMm, backside: options.backside ?? true },
+    substrate: {
+      material: subId,
+      thicknessMm: options.substrateThicknessMm,
+      backside: options.backside ?? true,
+    },
     materials: [tableOf(p), ...(subMaterial ? [subMaterial] : [])],
   });
   // validate once (substrate id, material) with the full parser; the fit loop builds the same shape directly
@@ -149,12 +166,17 @@ export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFi
       thick[0] = d;
       let off = 0;
       ms.forEach((m, k) => {
-        const ev = createStackEvaluator(design, { wavelengths: m.wavelengths, angleDeg: m.angleDeg, polarization: m.polarization });
+        const ev = createStackEvaluator(design, {
+          wavelengths: m.wavelengths,
+          angleDeg: m.angleDeg,
+          polarization: m.polarization,
+        });
         const o = outs[k]!;
         ev.evaluate(thick, o);
         const q = m.quantity === "R" ? o.R : o.T;
         const u = m.uncertaintyPct ?? DEFAULT_UNCERTAINTY_PCT;
-        for (let i = 0; i < q.length; i++) res[off + i] = ((q[i] as number) * 100 - (m.values[i] as number)) / u;
+        for (let i = 0; i < q.length; i++)
+          res[off + i] = ((q[i] as number) * 100 - (m.values[i] as number)) / u;
         off += q.length;
       });
     };
@@ -165,7 +187,11 @@ export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFi
       for (let A = aLo; A <= aHi + 1e-9; A += 0.05) {
         const design = designFor({ A, B: 0, C: 0, k0: 0, E0, Eu: 1 }, 100);
         const evs = ms.map((m) =>
-          createStackEvaluator(design, { wavelengths: m.wavelengths, angleDeg: m.angleDeg, polarization: m.polarization }),
+          createStackEvaluator(design, {
+            wavelengths: m.wavelengths,
+            angleDeg: m.angleDeg,
+            polarization: m.polarization,
+          }),
         );
         // d step: a twentieth of a fringe at the shortest wavelength (Δ(2 n d) = λ/10)
         const step = shortest / (20 * A);
@@ -177,7 +203,8 @@ export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFi
             evs[k]!.evaluate(thick, o);
             const q = m.quantity === "R" ? o.R : o.T;
             const u = m.uncertaintyPct ?? DEFAULT_UNCERTAINTY_PCT;
-            for (let i = 0; i < q.length; i++) c += (((q[i] as number) * 100 - (m.values[i] as number)) / u) ** 2;
+            for (let i = 0; i < q.length; i++)
+              c += (((q[i] as number) * 100 - (m.values[i] as number)) / u) ** 2;
           });
           cand.push({ c, x: [d, A, 0, ...tail()] });
         }
@@ -189,12 +216,28 @@ export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFi
   const lnk0Start = Math.log(1e-3);
   const EuStart = 0.2;
   const tail = (): number[] => [...(fitC ? [0] : []), ...(absorbing ? [lnk0Start, EuStart] : [])];
-  const lower = Float64Array.from(names, (nm) => ({ d: dLo * 0.9, A: 1, B: -0.5, C: -0.1, lnk0: -25, Eu: 0.01 })[nm as "d"]);
-  const upper = Float64Array.from(names, (nm) => ({ d: dHi * 1.1, A: 6, B: 2, C: 0.1, lnk0: 2, Eu: 3 })[nm as "d"]);
-  const steps = Float64Array.from(names, (nm) => ({ d: 1e-3, A: 1e-6, B: 1e-6, C: 1e-7, lnk0: 1e-4, Eu: 1e-5 })[nm as "d"]);
+  const lower = Float64Array.from(
+    names,
+    (nm) => ({ d: dLo * 0.9, A: 1, B: -0.5, C: -0.1, lnk0: -25, Eu: 0.01 })[nm as "d"],
+  );
+  const upper = Float64Array.from(
+    names,
+    (nm) => ({ d: dHi * 1.1, A: 6, B: 2, C: 0.1, lnk0: 2, Eu: 3 })[nm as "d"],
+  );
+  const steps = Float64Array.from(
+    names,
+    (nm) => ({ d: 1e-3, A: 1e-6, B: 1e-6, C: 1e-7, lnk0: 1e-4, Eu: 1e-5 })[nm as "d"],
+  );
   const localFit = (r: ReturnType<typeof residualsOf>, start: ArrayLike<number>) =>
     levenbergMarquardt(
-      { parameterCount: P, residualCount: r.count, residuals: (x, res) => r.model(x, res), lower, upper, steps },
+      {
+        parameterCount: P,
+        residualCount: r.count,
+        residuals: (x, res) => r.model(x, res),
+        lower,
+        upper,
+        steps,
+      },
       start,
       { maxIterations: 200, relativeTolerance: 1e-12 },
     );
@@ -203,7 +246,14 @@ export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFi
     const seen: number[][] = [];
     for (const c of cand) {
       if (seen.length >= max) break;
-      if (seen.some((s) => Math.abs((s[0] as number) - (c.x[0] as number)) < 20 && Math.abs((s[1] as number) - (c.x[1] as number)) < 0.2)) continue;
+      if (
+        seen.some(
+          (s) =>
+            Math.abs((s[0] as number) - (c.x[0] as number)) < 20 &&
+            Math.abs((s[1] as number) - (c.x[1] as number)) < 0.2,
+        )
+      )
+        continue;
       seen.push(c.x);
     }
     return seen;
@@ -228,8 +278,13 @@ export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFi
   const longHalf = measurements
     .map((m) => {
       const keep: number[] = [];
-      for (let i = 0; i < m.wavelengths.length; i++) if (1 / (m.wavelengths[i] as number) <= invMid) keep.push(i);
-      return { ...m, wavelengths: keep.map((i) => m.wavelengths[i] as number), values: keep.map((i) => m.values[i] as number) };
+      for (let i = 0; i < m.wavelengths.length; i++)
+        if (1 / (m.wavelengths[i] as number) <= invMid) keep.push(i);
+      return {
+        ...m,
+        wavelengths: keep.map((i) => m.wavelengths[i] as number),
+        values: keep.map((i) => m.values[i] as number),
+      };
     })
     .filter((m) => m.wavelengths.length >= 8);
   if (longHalf.length > 0) {
@@ -260,13 +315,17 @@ export function fitWitnessFilm(measurements: MeasuredSpectrum[], options: FilmFi
   const s2 = chi2 / Math.max(1, n - P);
   const inv = invertSpd(gram(J, n, P), P);
   const warnings: string[] = [];
-  if (!inv) warnings.push("The fit matrix is singular: some dispersion terms are not determined by these spectra.");
+  if (!inv)
+    warnings.push("The fit matrix is singular: some dispersion terms are not determined by these spectra.");
   const se = (name: string): number => {
     const a = names.indexOf(name);
     return a < 0 || !inv ? 0 : Math.sqrt(Math.max(1, s2) * (inv[a * P + a] as number));
   };
   const { p, d } = unpack(x);
-  if (s2 > 4) warnings.push(`χ²/dof = ${s2.toFixed(1)}: the Cauchy–Urbach film does not explain the spectra to within their uncertainty.`);
+  if (s2 > 4)
+    warnings.push(
+      `χ²/dof = ${s2.toFixed(1)}: the Cauchy–Urbach film does not explain the spectra to within their uncertainty.`,
+    );
   let rss = 0;
   let off = 0;
   const fitted = measurements.map((m) => {

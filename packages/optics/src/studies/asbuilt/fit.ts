@@ -182,9 +182,7 @@ class Forward {
     this.L = ev.layerCount;
     this.nominal = Float64Array.from(ev.nominalThicknesses);
     this.layerMaterial = design.layers.map((l) => l.material);
-    this.materials = [
-      ...new Set(design.layers.filter((l) => l.thickness > 0).map((l) => l.material)),
-    ].sort();
+    this.materials = [...new Set(design.layers.filter((l) => l.thickness > 0).map((l) => l.material))].sort();
     this.cache = ms.map((_, k) => (k === 0 ? [{ shift: 0, ev }] : []));
     this.thick = new Float64Array(this.L);
     this.scale = new Float64Array(this.L);
@@ -247,7 +245,10 @@ class Forward {
  * processErrorStats (2000 trials, fixed seed), which includes what the cuts carry from the layers below.
  * Fractions of the nominal thickness.
  */
-export function processPriors(design: Design, errorModel: ErrorModel): { layer: number[]; tooling: Record<string, number> } {
+export function processPriors(
+  design: Design,
+  errorModel: ErrorModel,
+): { layer: number[]; tooling: Record<string, number> } {
   const process = ProcessModelSchema.parse(errorModel.process);
   const controlOf = (m: string): ResolvedControl | null => {
     if ("method" in process.control) return resolveControl(process.control as Control);
@@ -289,7 +290,9 @@ export function fitBuiltPart(
   options: BuiltFitOptions = {},
 ): BuiltFitResult {
   if (!Array.isArray(measurements) || measurements.length === 0)
-    throw new RangeError(`measurements: expected at least one measured spectrum, got ${measurements?.length ?? 0}`);
+    throw new RangeError(
+      `measurements: expected at least one measured spectrum, got ${measurements?.length ?? 0}`,
+    );
   measurements.forEach((m, k) => validateMeasured(m, `measurements[${k}]`));
   const errorModel = options.errorModel ? parseErrorModel(options.errorModel) : undefined;
   const scanSpan = options.scanSpan ?? 0.1;
@@ -316,7 +319,8 @@ export function fitBuiltPart(
   const fixedBase = new Float64Array(3 * K);
   const termValue = (t: BaselineTerm | undefined, def: number, what: string): number => {
     if (t === undefined || t === "fit") return def;
-    if (!Number.isFinite(t)) throw new RangeError(`baseline.${what}: expected a number or "fit", got ${String(t)}`);
+    if (!Number.isFinite(t))
+      throw new RangeError(`baseline.${what}: expected a number or "fit", got ${String(t)}`);
     return t;
   };
   for (let k = 0; k < K; k++) {
@@ -329,11 +333,32 @@ export function fitBuiltPart(
   const baseParams: Param[] = [];
   for (let k = 0; k < K; k++) {
     if (baseline.scale === "fit")
-      baseParams.push({ name: `scale[${k}]`, kind: "scale", measurement: k, lower: -0.3, upper: 0.3, step: 1e-5 });
+      baseParams.push({
+        name: `scale[${k}]`,
+        kind: "scale",
+        measurement: k,
+        lower: -0.3,
+        upper: 0.3,
+        step: 1e-5,
+      });
     if (baseline.offset === "fit")
-      baseParams.push({ name: `offset[${k}]`, kind: "offset", measurement: k, lower: -20, upper: 20, step: 1e-3 });
+      baseParams.push({
+        name: `offset[${k}]`,
+        kind: "offset",
+        measurement: k,
+        lower: -20,
+        upper: 20,
+        step: 1e-3,
+      });
     if (baseline.shiftNm === "fit")
-      baseParams.push({ name: `shift[${k}]`, kind: "shift", measurement: k, lower: -20, upper: 20, step: 1e-3 });
+      baseParams.push({
+        name: `shift[${k}]`,
+        kind: "shift",
+        measurement: k,
+        lower: -20,
+        upper: 20,
+        step: 1e-3,
+      });
   }
   const mats = fwd.materials;
   const fromProcess = errorModel?.process ? processPriors(design, errorModel) : null;
@@ -347,13 +372,33 @@ export function fitBuiltPart(
   };
   const toolingParams = (): Param[] =>
     mats.map((m) => {
-      const s = fromProcess ? (fromProcess.tooling[m] ?? 0) : errorModel ? sigmaOf(errorModel.systematicPct, m) : 0;
-      return { name: `tooling ${m}`, kind: "tooling", material: m, ...(s > 0 ? { prior: s } : {}), lower: -0.4, upper: 0.4, step: 1e-6 };
+      const s = fromProcess
+        ? (fromProcess.tooling[m] ?? 0)
+        : errorModel
+          ? sigmaOf(errorModel.systematicPct, m)
+          : 0;
+      return {
+        name: `tooling ${m}`,
+        kind: "tooling",
+        material: m,
+        ...(s > 0 ? { prior: s } : {}),
+        lower: -0.4,
+        upper: 0.4,
+        step: 1e-6,
+      };
     });
   const indexParams = (): Param[] =>
     mats.map((m) => {
       const s = errorModel ? sigmaOf(errorModel.indexDriftPct, m) : 0;
-      return { name: `index ${m}`, kind: "index", material: m, ...(s > 0 ? { prior: s } : {}), lower: -0.2, upper: 0.2, step: 1e-6 };
+      return {
+        name: `index ${m}`,
+        kind: "index",
+        material: m,
+        ...(s > 0 ? { prior: s } : {}),
+        lower: -0.2,
+        upper: 0.2,
+        step: 1e-6,
+      };
     });
   const layerParams = (): Param[] => {
     const out: Param[] = [];
@@ -361,14 +406,25 @@ export function fitBuiltPart(
       if (!((fwd.nominal[j] as number) > 0)) continue;
       const prior = layerPrior(j);
       if (!(prior > 0)) continue;
-      out.push({ name: `layer ${j + 1}`, kind: "layer", layer: j, material: fwd.layerMaterial[j], prior, lower: -0.4, upper: 0.4, step: 1e-6 });
+      out.push({
+        name: `layer ${j + 1}`,
+        kind: "layer",
+        layer: j,
+        material: fwd.layerMaterial[j],
+        prior,
+        lower: -0.4,
+        upper: 0.4,
+        step: 1e-6,
+      });
     }
     return out;
   };
 
   const fitLayers = (options.fitLayers ?? true) && errorModel !== undefined;
   if ((options.fitLayers ?? true) && !errorModel)
-    warnings.push("No error model given: the per-layer model (which needs the process model as its prior) was skipped.");
+    warnings.push(
+      "No error model given: the per-layer model (which needs the process model as its prior) was skipped.",
+    );
   const wantIndex = options.fitIndexScale ?? true;
   const stagesTotal = 1 + 1 + (wantIndex ? 1 : 0) + (fitLayers ? 1 : 0);
   let stage = 0;
@@ -396,7 +452,7 @@ export function fitBuiltPart(
         anyIndex = true;
       } else if (p.kind === "layer") tf[p.layer!] = 1 + v;
       else if (p.kind === "scale") base[3 * p.measurement!] = 1 + v;
-      else if (p.kind === "offset") base[3 * p.measurement!+ 1] = v;
+      else if (p.kind === "offset") base[3 * p.measurement! + 1] = v;
       else base[3 * p.measurement! + 2] = v;
     });
     for (let j = 0; j < L; j++) {
@@ -437,7 +493,12 @@ export function fitBuiltPart(
   };
 
   /** Statistics at a solution. */
-  const analyse = (kind: BuiltModelKind, params: Param[], x: Float64Array, iterations: number): BuiltModelResult => {
+  const analyse = (
+    kind: BuiltModelKind,
+    params: Param[],
+    x: Float64Array,
+    iterations: number,
+  ): BuiltModelResult => {
     const P = params.length;
     const n = fwd.n;
     const r = residualsFor(params);
@@ -478,7 +539,8 @@ export function fitBuiltPart(
       warnings.push(`${kind}: the fit matrix is singular; some parameters are not determined at all.`);
     }
     let pEff = 0;
-    for (let a = 0; a < P; a++) for (let b = 0; b < P; b++) pEff += (Hinv[a * P + b] as number) * (JtJ[b * P + a] as number);
+    for (let a = 0; a < P; a++)
+      for (let b = 0; b < P; b++) pEff += (Hinv[a * P + b] as number) * (JtJ[b * P + a] as number);
     const dof = Math.max(1, n - pEff);
     const s2 = chi2 / dof;
     // covariance scaled by the residual variance, never below what the stated uncertainties imply
@@ -527,7 +589,9 @@ export function fitBuiltPart(
       };
     });
     // layers: error = (1 + t)(1 + e) − 1, variance by the delta method
-    const idxOf = new Map(params.map((p, a) => [p.kind === "layer" ? `L${p.layer}` : `${p.kind}:${p.material}`, a]));
+    const idxOf = new Map(
+      params.map((p, a) => [p.kind === "layer" ? `L${p.layer}` : `${p.kind}:${p.material}`, a]),
+    );
     apply(params, x);
     const layers: FittedLayer[] = [];
     for (let j = 0; j < L; j++) {
@@ -607,7 +671,10 @@ export function fitBuiltPart(
     const minima: number[] = [];
     for (let i = 0; i < costs.length; i++) {
       const c = costs[i] as number;
-      if ((i === 0 || c <= (costs[i - 1] as number)) && (i === costs.length - 1 || c <= (costs[i + 1] as number)))
+      if (
+        (i === 0 || c <= (costs[i - 1] as number)) &&
+        (i === costs.length - 1 || c <= (costs[i + 1] as number))
+      )
         minima.push(i);
     }
     minima.sort((a, b) => (costs[a] as number) - (costs[b] as number));
@@ -696,7 +763,10 @@ export function fitBuiltPart(
     chosen,
     reason,
     layers: c.layers,
-    design: withThicknesses(design, c.layers.map((l) => l.fittedNm)),
+    design: withThicknesses(
+      design,
+      c.layers.map((l) => l.fittedNm),
+    ),
     points: fwd.n,
     warnings,
   };

@@ -69,12 +69,23 @@ function coversColour(c: SpecColour, m: MeasuredSpectrum): boolean {
 function colourVerdict(c: SpecColour, part: MeasuredPart, k: number): PartBandVerdict {
   const idx = part.measurements.findIndex((m) => coversColour(c, m));
   if (idx < 0)
-    return { bandId: c.id, status: "not-measured", margin: null, guardedMargin: null, guard: null, worst: null, measurement: null };
+    return {
+      bandId: c.id,
+      status: "not-measured",
+      margin: null,
+      guardedMargin: null,
+      guard: null,
+      worst: null,
+      measurement: null,
+    };
   const m = part.measurements[idx]!;
   const u = m.uncertaintyPct ?? DEFAULT_UNCERTAINTY_PCT;
   const judge = (shift: number) => {
     const values = Array.from(m.values, (v) => Math.min(1, Math.max(0, (v + shift) / 100)));
-    return judgeColour(c.limit, colourOfSpectrum(m.wavelengths, values, { illuminant: c.illuminant, observer: c.observer }));
+    return judgeColour(
+      c.limit,
+      colourOfSpectrum(m.wavelengths, values, { illuminant: c.illuminant, observer: c.observer }),
+    );
   };
   const j = judge(0);
   const lowest = Math.min(j.margin, judge(k * u).margin, judge(-k * u).margin);
@@ -107,15 +118,28 @@ function matches(band: SpecBand, m: MeasuredSpectrum): boolean {
  * interpolation (A cannot be measured directly and is reported "not-measured").
  * @param k guard-band coverage factor (≥ 0; 0 switches the guard band off)
  */
-export function partVerdict(maskInput: SpecMaskInput, part: MeasuredPart, k: number = DEFAULT_GUARD_K): PartVerdict {
+export function partVerdict(
+  maskInput: SpecMaskInput,
+  part: MeasuredPart,
+  k: number = DEFAULT_GUARD_K,
+): PartVerdict {
   const mask = parseSpecMask(maskInput);
   if (!(k >= 0) || !Number.isFinite(k)) throw new RangeError(`guard k: expected a number ≥ 0, got ${k}`);
-  if (typeof part?.id !== "string" || part.id === "") throw new RangeError(`part.id: expected a non-empty string, got ${String(part?.id)}`);
+  if (typeof part?.id !== "string" || part.id === "")
+    throw new RangeError(`part.id: expected a non-empty string, got ${String(part?.id)}`);
   part.measurements.forEach((m, i) => validateMeasured(m, `part ${part.id}.measurements[${i}]`));
   const bands = mask.bands.map((band): PartBandVerdict => {
     const idx = part.measurements.findIndex((m) => matches(band, m));
     if (idx < 0)
-      return { bandId: band.id, status: "not-measured", margin: null, guardedMargin: null, guard: null, worst: null, measurement: null };
+      return {
+        bandId: band.id,
+        status: "not-measured",
+        margin: null,
+        guardedMargin: null,
+        guard: null,
+        worst: null,
+        measurement: null,
+      };
     const m = part.measurements[idx]!;
     const u = m.uncertaintyPct ?? DEFAULT_UNCERTAINTY_PCT;
     let values: ArrayLike<number> = m.values;

@@ -27,7 +27,11 @@ import { UnsavedGuard } from "../../../features/workspace/components/unsaved-gua
 import { ImportExport } from "../../../features/workspace/components/import-export.tsx";
 import { SpectrumPanel } from "../../../features/spectrum/components/spectrum-panel.tsx";
 import type { ChartView } from "../../../features/spectrum/components/spectrum-panel.tsx";
-import type { ChartCurve, ChartEnvelope, ChartMarker } from "../../../features/spectrum/components/spectrum-chart.tsx";
+import type {
+  ChartCurve,
+  ChartEnvelope,
+  ChartMarker,
+} from "../../../features/spectrum/components/spectrum-chart.tsx";
 import { computeLiveSpectrum } from "../../../features/spectrum/lib/use-live-spectrum.ts";
 import { spectrumCurves } from "../../../features/spectrum/lib/curves.ts";
 import { useElementWidth } from "../../../features/spectrum/components/use-element-width.ts";
@@ -49,7 +53,9 @@ export async function loader({ params, request }: LoaderFunctionArgs) {
   await Promise.all([
     requireSession(request),
     queryClient.ensureQueryData(revisionQueryOptions(revisionId)),
-    queryClient.ensureQueryData(designQueryOptions(designId)).then((d) => queryClient.ensureQueryData(programQueryOptions(d.program.id))),
+    queryClient
+      .ensureQueryData(designQueryOptions(designId))
+      .then((d) => queryClient.ensureQueryData(programQueryOptions(d.program.id))),
     queryClient.ensureQueryData(materialsQueryOptions()).catch(() => null),
   ]);
   return null;
@@ -62,7 +68,13 @@ export function Component() {
   const program = useProgram(design.data?.program.id);
   const materials = useMaterials();
   if (revision.error || design.error || program.error) {
-    return <ErrorState error={revision.error ?? design.error ?? program.error} title="This revision could not be opened" onRetry={() => void Promise.all([revision.refetch(), design.refetch(), program.refetch()])} />;
+    return (
+      <ErrorState
+        error={revision.error ?? design.error ?? program.error}
+        title="This revision could not be opened"
+        onRetry={() => void Promise.all([revision.refetch(), design.refetch(), program.refetch()])}
+      />
+    );
   }
   if (!revision.data || !design.data || !program.data) return <PageSpinner label="Opening the workspace…" />;
   return (
@@ -78,12 +90,24 @@ export function Component() {
 
 type TabId = "study" | "process" | "refine" | "asbuilt" | "history";
 
-function Workspace({ revision, design, program, materials }: { revision: Revision; design: DesignDetail; program: Program; materials: MaterialOption[] }) {
+function Workspace({
+  revision,
+  design,
+  program,
+  materials,
+}: {
+  revision: Revision;
+  design: DesignDetail;
+  program: Program;
+  materials: MaterialOption[];
+}) {
   const session = useSession();
   const navigate = useNavigate();
   const qc = useQueryClient();
   const [state, dispatch] = useReducer(editorReducer, revision.stack, initEditor);
-  const [view, setView] = useState<ChartView>(() => defaultView(revision.stack, revision.specMask ?? program.specMask));
+  const [view, setView] = useState<ChartView>(() =>
+    defaultView(revision.stack, revision.specMask ?? program.specMask),
+  );
   const [selected, setSelected] = useState<number | null>(null);
   const [proposed, setProposed] = useState<ThreadAnchor | null>(null);
   const [studyResult, setStudyResult] = useState<YieldResult | null>(null);
@@ -102,12 +126,24 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
   // curve first and the study, refinement and as-built panels catch up in a later render.
   const deferred = useDeferredValue(current);
   const dirty = !sameDesign(state.present, revision.stack);
-  const range = useMemo(() => ({ start: view.settings.start, stop: view.settings.stop }), [view.settings.start, view.settings.stop]);
-  const savedStack = useMemo(() => withWorkspaceMaterials(revision.stack, materials), [revision.stack, materials]);
+  const range = useMemo(
+    () => ({ start: view.settings.start, stop: view.settings.stop }),
+    [view.settings.start, view.settings.stop],
+  );
+  const savedStack = useMemo(
+    () => withWorkspaceMaterials(revision.stack, materials),
+    [revision.stack, materials],
+  );
   const threadLayers = useMemo(() => openLayerThreads(threads.data ?? []), [threads.data]);
   const canThread = hasRole(session, "reviewer", "approver", "designer");
-  const bandAction = useMemo(() => ({ label: "Thread", onPick: (bandId: string) => setProposed({ kind: "band", bandId }) }), []);
-  const onTransition = useCallback(() => void qc.invalidateQueries({ queryKey: ["designs", design.id] }), [qc, design.id]);
+  const bandAction = useMemo(
+    () => ({ label: "Thread", onPick: (bandId: string) => setProposed({ kind: "band", bandId }) }),
+    [],
+  );
+  const onTransition = useCallback(
+    () => void qc.invalidateQueries({ queryKey: ["designs", design.id] }),
+    [qc, design.id],
+  );
   const focusThread = useCallback((t: { anchor: ThreadAnchor }) => {
     if (t.anchor.kind === "layer") setSelected(t.anchor.index);
   }, []);
@@ -117,7 +153,8 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
     const s = new Set<number>();
     state.present.layers.forEach((l, i) => {
       const before = revision.stack.layers[i];
-      if (!before || before.material !== l.material || Math.abs(before.thickness - l.thickness) > 1e-9) s.add(i);
+      if (!before || before.material !== l.material || Math.abs(before.thickness - l.thickness) > 1e-9)
+        s.add(i);
     });
     return s;
   }, [state.present.layers, revision.stack.layers]);
@@ -125,7 +162,12 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
   const save = useCallback(
     (stack: Design, note: string) =>
       create.mutate(
-        { designId: design.id, baseRevisionId: revision.id, stack: withWorkspaceMaterials(stack, materials), note },
+        {
+          designId: design.id,
+          baseRevisionId: revision.id,
+          stack: withWorkspaceMaterials(stack, materials),
+          note,
+        },
         {
           onSuccess: (r) => {
             leavingSaved.current = true;
@@ -147,7 +189,15 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
   const overlays: ChartCurve[] = [];
   if (preview) {
     const p = computeLiveSpectrum(withWorkspaceMaterials(preview, materials), view.settings);
-    if (p.ok) overlays.push(...spectrumCurves(p.spectrum, view.scale === "od" ? ["OD"] : view.quantities, { idPrefix: "refined-", labelPrefix: "refined ", dashed: true, color: () => "#6a4fa3" }));
+    if (p.ok)
+      overlays.push(
+        ...spectrumCurves(p.spectrum, view.scale === "od" ? ["OD"] : view.quantities, {
+          idPrefix: "refined-",
+          labelPrefix: "refined ",
+          dashed: true,
+          color: () => "#6a4fa3",
+        }),
+      );
   }
   for (const m of measured) {
     overlays.push({
@@ -167,14 +217,35 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
     const lo = env.percentiles.find((p) => p.p === 5) ?? env.percentiles[0];
     const hi = env.percentiles.find((p) => p.p === 95) ?? env.percentiles[env.percentiles.length - 1];
     if (!lo || !hi) return;
-    envelopes.push({ id: `env-${i}-${env.quantity}-${env.angleDeg}-${env.polarization}`, label: `${env.quantity} 5–95 % (${env.conditions})`, quantity: env.quantity, wavelengths: env.wavelengths, lower: lo.values, upper: hi.values, color: "#7cc6c0" });
+    envelopes.push({
+      id: `env-${i}-${env.quantity}-${env.angleDeg}-${env.polarization}`,
+      label: `${env.quantity} 5–95 % (${env.conditions})`,
+      quantity: env.quantity,
+      wavelengths: env.wavelengths,
+      lower: lo.values,
+      upper: hi.values,
+      color: "#7cc6c0",
+    });
   });
   const markers: ChartMarker[] = [];
   for (const t of threads.data ?? []) {
     const span = anchorSpan(t.anchor, mask.bands);
-    if (span && t.status === "open") markers.push({ id: t.id, label: `${t.severity} thread: ${describeAnchor(t.anchor, mask.bands)} — ${t.comments[0]?.body ?? ""}`, tone: "open", ...span });
+    if (span && t.status === "open")
+      markers.push({
+        id: t.id,
+        label: `${t.severity} thread: ${describeAnchor(t.anchor, mask.bands)} — ${t.comments[0]?.body ?? ""}`,
+        tone: "open",
+        ...span,
+      });
   }
-  if (proposed?.kind === "range") markers.push({ id: "proposed", label: "New thread range", start: proposed.start, stop: proposed.stop, tone: "resolved" });
+  if (proposed?.kind === "range")
+    markers.push({
+      id: "proposed",
+      label: "New thread range",
+      start: proposed.start,
+      stop: proposed.stop,
+      tone: "resolved",
+    });
 
   const tabs: { id: TabId; label: string; content: ReactNode }[] = [
     {
@@ -198,7 +269,15 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
     {
       id: "process",
       label: "Process",
-      content: <ProcessPanel design={deferred} mask={mask} errorModel={program.errorModel} defaults={program.studyDefaults} targetYield={program.targetYield} />,
+      content: (
+        <ProcessPanel
+          design={deferred}
+          mask={mask}
+          errorModel={program.errorModel}
+          defaults={program.studyDefaults}
+          targetYield={program.targetYield}
+        />
+      ),
     },
     {
       id: "refine",
@@ -220,9 +299,24 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
     {
       id: "asbuilt",
       label: "As built",
-      content: <AsBuiltPanel revisionId={revision.id} design={savedStack} canUpload={isDesigner} width={tabsWidth} onOverlay={setMeasured} errorModel={program.errorModel} programId={program.id} mask={mask} />,
+      content: (
+        <AsBuiltPanel
+          revisionId={revision.id}
+          design={savedStack}
+          canUpload={isDesigner}
+          width={tabsWidth}
+          onOverlay={setMeasured}
+          errorModel={program.errorModel}
+          programId={program.id}
+          mask={mask}
+        />
+      ),
     },
-    { id: "history", label: `Revisions (${design.revisions.length})`, content: <RevisionHistory designId={design.id} revisions={design.revisions} currentId={revision.id} /> },
+    {
+      id: "history",
+      label: `Revisions (${design.revisions.length})`,
+      content: <RevisionHistory designId={design.id} revisions={design.revisions} currentId={revision.id} />,
+    },
   ];
 
   return (
@@ -237,23 +331,45 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
             · {program.customer} · target yield {(program.targetYield * 100).toFixed(0)} %
           </p>
           <h1 className="flex flex-wrap items-center gap-2 text-xl font-semibold">
-            {design.name} <span className="font-mono text-base text-ink-500">r{revision.number}</span> <StatusPill status={status} />
+            {design.name} <span className="font-mono text-base text-ink-500">r{revision.number}</span>{" "}
+            <StatusPill status={status} />
             {dirty ? (
-              <span className="rounded bg-film-amber/15 px-2 py-0.5 text-xs font-medium text-[#8a5210]" data-testid="unsaved">
+              <span
+                className="rounded bg-film-amber/15 px-2 py-0.5 text-xs font-medium text-[#8a5210]"
+                data-testid="unsaved"
+              >
                 unsaved edits
               </span>
             ) : null}
             {dirty && !isDesigner ? (
-              <span className="text-xs font-normal text-ink-700">what-if only: saving a revision takes the designer role</span>
+              <span className="text-xs font-normal text-ink-700">
+                what-if only: saving a revision takes the designer role
+              </span>
             ) : null}
           </h1>
           <p className="text-xs text-ink-700">
-            {revision.author?.name ?? "unknown author"} · {new Date(revision.createdAt).toLocaleString()} · “{revision.note}” · <span className="font-mono" title="Revision hash">{revision.hash.slice(0, 12)}</span>
+            {revision.author?.name ?? "unknown author"} · {new Date(revision.createdAt).toLocaleString()} · “
+            {revision.note}” ·{" "}
+            <span className="font-mono" title="Revision hash">
+              {revision.hash.slice(0, 12)}
+            </span>
           </p>
         </div>
         <div className="ml-auto flex min-w-72 flex-col items-end gap-2">
-          <ImportExport design={current} revisionNumber={revision.number} canImport={isDesigner} onImported={(d) => dispatch({ type: "replace", design: d })} />
-          <SaveRevisionForm canSave={isDesigner} dirty={dirty} pending={create.isPending} error={create.error?.message ?? null} stale={stale} onSave={(note) => save(state.present, note)} />
+          <ImportExport
+            design={current}
+            revisionNumber={revision.number}
+            canImport={isDesigner}
+            onImported={(d) => dispatch({ type: "replace", design: d })}
+          />
+          <SaveRevisionForm
+            canSave={isDesigner}
+            dirty={dirty}
+            pending={create.isPending}
+            error={create.error?.message ?? null}
+            stale={stale}
+            onSave={(note) => save(state.present, note)}
+          />
         </div>
       </header>
       {program.protective ? <ProtectiveCaution application={program.application} /> : null}
@@ -276,21 +392,31 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
           </div>
           {proposed?.kind === "range" ? (
             <p className="text-xs text-ink-700" role="status">
-              Range {proposed.start}–{proposed.stop} nm selected for a new review thread (see the thread form).{" "}
+              Range {proposed.start}–{proposed.stop} nm selected for a new review thread (see the thread
+              form).{" "}
               <button type="button" className="underline" onClick={() => setProposed(null)}>
                 Clear
               </button>
             </p>
           ) : null}
           <div className="grid gap-4 2xl:grid-cols-2">
-            <section aria-labelledby="layers-h" className="min-w-0 rounded-lg border border-ink-100 bg-white p-3">
+            <section
+              aria-labelledby="layers-h"
+              className="min-w-0 rounded-lg border border-ink-100 bg-white p-3"
+            >
               <div className="mb-2 flex items-center gap-2">
                 <h2 id="layers-h" className="text-base font-semibold">
                   Layers
                 </h2>
-                <span className="text-xs text-ink-500">layer 1 sits on the substrate; light arrives from the last layer’s side</span>
+                <span className="text-xs text-ink-500">
+                  layer 1 sits on the substrate; light arrives from the last layer’s side
+                </span>
                 {selected !== null && hasRole(session, "reviewer", "approver", "designer") ? (
-                  <button type="button" className="ml-auto rounded border border-film-violet/40 px-2 py-0.5 text-xs text-film-violet" onClick={() => setProposed({ kind: "layer", index: selected })}>
+                  <button
+                    type="button"
+                    className="ml-auto rounded border border-film-violet/40 px-2 py-0.5 text-xs text-film-violet"
+                    onClick={() => setProposed({ kind: "layer", index: selected })}
+                  >
                     Thread on layer {selected + 1}
                   </button>
                 ) : null}
@@ -305,8 +431,16 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
                 changedLayers={changedLayers}
               />
             </section>
-            <section ref={tabsRef} className="min-w-0 rounded-lg border border-ink-100 bg-white p-3" style={{ contentVisibility: "auto", containIntrinsicSize: "auto 900px" }}>
-              <div role="tablist" aria-label="Workspace tools" className="mb-3 flex flex-wrap gap-1 border-b border-ink-100">
+            <section
+              ref={tabsRef}
+              className="min-w-0 rounded-lg border border-ink-100 bg-white p-3"
+              style={{ contentVisibility: "auto", containIntrinsicSize: "auto 900px" }}
+            >
+              <div
+                role="tablist"
+                aria-label="Workspace tools"
+                className="mb-3 flex flex-wrap gap-1 border-b border-ink-100"
+              >
                 {tabs.map((t) => (
                   <button
                     key={t.id}
@@ -319,7 +453,12 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
                     onClick={() => setTab(t.id)}
                     onKeyDown={(e) => {
                       const i = tabs.findIndex((x) => x.id === tab);
-                      const next = e.key === "ArrowRight" ? tabs[(i + 1) % tabs.length] : e.key === "ArrowLeft" ? tabs[(i - 1 + tabs.length) % tabs.length] : undefined;
+                      const next =
+                        e.key === "ArrowRight"
+                          ? tabs[(i + 1) % tabs.length]
+                          : e.key === "ArrowLeft"
+                            ? tabs[(i - 1 + tabs.length) % tabs.length]
+                            : undefined;
                       if (next) {
                         e.preventDefault();
                         setTab(next.id);
@@ -334,7 +473,13 @@ function Workspace({ revision, design, program, materials }: { revision: Revisio
               </div>
               {/* Panels stay mounted so a running study keeps going while another tab is open. */}
               {tabs.map((t) => (
-                <div key={t.id} role="tabpanel" id={`ws-panel-${t.id}`} aria-labelledby={`ws-tab-${t.id}`} hidden={tab !== t.id}>
+                <div
+                  key={t.id}
+                  role="tabpanel"
+                  id={`ws-panel-${t.id}`}
+                  aria-labelledby={`ws-tab-${t.id}`}
+                  hidden={tab !== t.id}
+                >
                   {t.content}
                 </div>
               ))}

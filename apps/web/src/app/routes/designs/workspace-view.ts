@@ -15,7 +15,8 @@ export function defaultView(design: Design, mask: SpecMask | null | undefined): 
   );
   const first = bands[0];
   const used = new Set(bands.map((b) => b.quantity));
-  const quantities: ChartQuantity[] = used.size === 0 ? ["R", "T"] : (["R", "T", "A"] as const).filter((q) => used.has(q));
+  const quantities: ChartQuantity[] =
+    used.size === 0 ? ["R", "T"] : (["R", "T", "A"] as const).filter((q) => used.has(q));
   if (quantities.length === 0) quantities.push("T");
   return {
     settings: {

@@ -26,8 +26,12 @@ export const programLotsQueryOptions = (programId: string) =>
 export const useProgramLots = (programId: string) => useQuery(programLotsQueryOptions(programId));
 
 export const lotQueryOptions = (lotId: string) =>
-  queryOptions({ queryKey: ["lots", lotId], queryFn: () => api.get(`/lots/${lotId}`, { schema: LotSchema }) });
-export const useLot = (lotId: string | null) => useQuery({ ...lotQueryOptions(lotId ?? ""), enabled: lotId !== null });
+  queryOptions({
+    queryKey: ["lots", lotId],
+    queryFn: () => api.get(`/lots/${lotId}`, { schema: LotSchema }),
+  });
+export const useLot = (lotId: string | null) =>
+  useQuery({ ...lotQueryOptions(lotId ?? ""), enabled: lotId !== null });
 
 export const calibrationQueryOptions = (programId: string) =>
   queryOptions({
@@ -85,7 +89,8 @@ export function useFitPart(lotId: string, programId: string) {
 export function useAdoptErrorModel(programId: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (errorModel: ErrorModel) => api.patch(`/programs/${programId}`, { errorModel }, { schema: ProgramSchema }),
+    mutationFn: (errorModel: ErrorModel) =>
+      api.patch(`/programs/${programId}`, { errorModel }, { schema: ProgramSchema }),
     onSuccess: () => qc.invalidateQueries({ queryKey: ["programs", programId] }),
   });
 }

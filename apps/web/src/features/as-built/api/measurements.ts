@@ -7,7 +7,10 @@ export type { MeasuredSpectrum };
 export const measurementsQueryOptions = (revisionId: string) =>
   queryOptions({
     queryKey: ["revisions", revisionId, "measurements"],
-    queryFn: () => api.get(`/revisions/${revisionId}/measurements`, { schema: MeasurementListResponse }).then((r) => r.items),
+    queryFn: () =>
+      api
+        .get(`/revisions/${revisionId}/measurements`, { schema: MeasurementListResponse })
+        .then((r) => r.items),
   });
 
 export const useMeasurements = (revisionId: string) => useQuery(measurementsQueryOptions(revisionId));

@@ -30,7 +30,10 @@ const stored: MeasuredSpectrum = {
 };
 
 function setup(preview: StubAnswer, upload: StubAnswer) {
-  const stub = stubApi({ "POST /api/v1/lots/preview": preview, "POST /api/v1/revisions/r1/measurements": upload });
+  const stub = stubApi({
+    "POST /api/v1/lots/preview": preview,
+    "POST /api/v1/revisions/r1/measurements": upload,
+  });
   const onUploaded = vi.fn();
   render(
     <QueryClientProvider client={createQueryClient()}>
@@ -39,7 +42,8 @@ function setup(preview: StubAnswer, upload: StubAnswer) {
   );
   return { ...stub, onUploaded };
 }
-const file = () => new File(["Wavelength (nm);T\n500;0,975\n550;0,9825\n600;0,96\n"], "k-02.csv", { type: "text/csv" });
+const file = () =>
+  new File(["Wavelength (nm);T\n500;0,975\n550;0,9825\n600;0,96\n"], "k-02.csv", { type: "text/csv" });
 
 afterEach(() => vi.unstubAllGlobals());
 
@@ -69,7 +73,11 @@ describe("SpectrumUploadForm", () => {
     await user.upload(within(form).getByLabelText(/CSV file/), file());
     await within(form).findByText("How the file was read — confirm");
     await user.click(within(form).getByRole("button", { name: "Upload measurement" }));
-    expect(await within(form).findByText(/has 2 spectrum columns; upload one spectrum here, or several parts as a lot/)).toBeInTheDocument();
+    expect(
+      await within(form).findByText(
+        /has 2 spectrum columns; upload one spectrum here, or several parts as a lot/,
+      ),
+    ).toBeInTheDocument();
     expect(calls.some((c) => c.path === "/api/v1/revisions/r1/measurements")).toBe(false);
   });
 
@@ -80,7 +88,7 @@ describe("SpectrumUploadForm", () => {
         body: {
           error: {
             code: "invalid_csv",
-            message: "The spectra file has errors (row 3, column T: expected a number, got \"n/a\").",
+            message: 'The spectra file has errors (row 3, column T: expected a number, got "n/a").',
             details: [{ row: 3, column: "T", message: 'expected a number, got "n/a"' }],
           },
         },

@@ -24,16 +24,33 @@ const view: CalibrationView = {
     random: null,
     systematic: { MgF2: { sigmaPct: 1.19, lowPct: 0.67, highPct: 4.4, dof: 3, meanPct: -0.13 } },
     indexDrift: {},
-    proposed: { thickness: { relativePct: 0, absoluteNm: 0, distribution: "normal" }, systematicPct: { MgF2: 1.19 } },
+    proposed: {
+      thickness: { relativePct: 0, absoluteNm: 0, distribution: "normal" },
+      systematicPct: { MgF2: 1.19 },
+    },
     notes: [],
     process: {
       runs: 4,
       parameters: [
-        { material: "MgF2", method: "crystal", parameter: "toolingPct", value: 1.19, low: 0.67, high: 4.44, current: 0, interval: "chi-square", dof: 3, runs: 4, consistent: false },
+        {
+          material: "MgF2",
+          method: "crystal",
+          parameter: "toolingPct",
+          value: 1.19,
+          low: 0.67,
+          high: 4.44,
+          current: 0,
+          interval: "chi-square",
+          dof: 3,
+          runs: 4,
+          consistent: false,
+        },
       ],
       layers: [],
       proposed: processProposed,
-      notes: ["all materials: too few determinable layers per run to estimate the crystal noise; the program's 0.2 % is kept."],
+      notes: [
+        "all materials: too few determinable layers per run to estimate the crystal noise; the program's 0.2 % is kept.",
+      ],
     },
   },
   history: [],
@@ -41,7 +58,10 @@ const view: CalibrationView = {
 };
 
 function setup(canAdopt: boolean) {
-  const stub = stubApi({ "GET /api/v1/programs/p1/calibration": view, "PATCH /api/v1/programs/p1": { status: 200, body: {} } });
+  const stub = stubApi({
+    "GET /api/v1/programs/p1/calibration": view,
+    "PATCH /api/v1/programs/p1": { status: 200, body: {} },
+  });
   render(
     <QueryClientProvider client={createQueryClient()}>
       <YieldHistory programId="p1" canAdopt={canAdopt} />
@@ -61,7 +81,9 @@ describe("YieldHistory calibration", () => {
     expect(row).toHaveTextContent("1.19 % (0.67 %–4.44 %)");
     expect(row).toHaveTextContent("0.00 % — outside");
     expect(row).toHaveTextContent("chi-square, ν = 3");
-    expect(screen.getByText(/too few determinable layers per run to estimate the crystal noise/)).toBeInTheDocument();
+    expect(
+      screen.getByText(/too few determinable layers per run to estimate the crystal noise/),
+    ).toBeInTheDocument();
     expect(screen.queryByRole("button", { name: /Adopt/ })).not.toBeInTheDocument();
   });
 
@@ -72,6 +94,8 @@ describe("YieldHistory calibration", () => {
     await vi.waitFor(() => expect(calls.some((c) => c.method === "PATCH")).toBe(true));
     expect(calls.find((c) => c.method === "PATCH")!.body).toEqual({ errorModel: processProposed });
     // the independent-error proposal is still offered, saying what it drops
-    expect(screen.getByRole("button", { name: "Adopt independent errors instead (drops the process model)" })).toBeInTheDocument();
+    expect(
+      screen.getByRole("button", { name: "Adopt independent errors instead (drops the process model)" }),
+    ).toBeInTheDocument();
   });
 });

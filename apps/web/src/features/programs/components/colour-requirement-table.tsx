@@ -1,7 +1,13 @@
 // The spec mask's colour requirements: the colour of reflected or transmitted light under an illuminant and
 // observer, at one angle and polarization, in an x/y box, an a*/b* box (optionally with L*), or within a ΔE of a
 // target. What the numbers mean is the optics package's (CIE 015); this only edits them.
-import { useFieldArray, useWatch, type Control, type FieldErrors, type UseFormRegister } from "react-hook-form";
+import {
+  useFieldArray,
+  useWatch,
+  type Control,
+  type FieldErrors,
+  type UseFormRegister,
+} from "react-hook-form";
 import { Button, SelectField, TextField } from "../../../components/ui/index.ts";
 import { emptyColour, type ColourValues, type ProgramFormValues } from "./program-form-model.ts";
 
@@ -45,7 +51,13 @@ type NumberField = Exclude<
   "id" | "label" | "quantity" | "illuminant" | "observer" | "polarization" | "limit" | "formula"
 >;
 
-function LimitFields({ control, register, errors, index, defaults }: Omit<Props, "bandCount"> & { index: number; defaults: ColourValues }) {
+function LimitFields({
+  control,
+  register,
+  errors,
+  index,
+  defaults,
+}: Omit<Props, "bandCount"> & { index: number; defaults: ColourValues }) {
   const n = index + 1;
   const e = errors.colour?.[index];
   const limit = useWatch({ control, name: `colour.${index}.limit` });
@@ -113,7 +125,13 @@ export function ColourRequirementTable({ control, register, errors, bandCount }:
                 aria-label={`Colour ${n}`}
                 className="grid grid-cols-2 gap-3 rounded-lg border border-ink-100 bg-paper/40 p-3 sm:grid-cols-3 lg:grid-cols-6"
               >
-                <TextField label="Id" aria-label={`Colour ${n} id`} className="font-mono" error={e?.id?.message} {...register(`colour.${i}.id`)} />
+                <TextField
+                  label="Id"
+                  aria-label={`Colour ${n} id`}
+                  className="font-mono"
+                  error={e?.id?.message}
+                  {...register(`colour.${i}.id`)}
+                />
                 <TextField
                   label="Label"
                   aria-label={`Colour ${n} label`}
@@ -185,9 +203,9 @@ export function ColourRequirementTable({ control, register, errors, bandCount }:
           Add colour requirement
         </Button>
         <p className="text-xs text-ink-500">
-          Colour of the reflected or transmitted light, summed over 380–780 nm (CIE 015). x, y are chromaticity
-          coordinates; L*, a*, b* are CIELAB relative to the illuminant’s white. A box must contain the colour; a
-          ΔE limit bounds its distance from the target.
+          Colour of the reflected or transmitted light, summed over 380–780 nm (CIE 015). x, y are
+          chromaticity coordinates; L*, a*, b* are CIELAB relative to the illuminant’s white. A box must
+          contain the colour; a ΔE limit bounds its distance from the target.
         </p>
       </div>
     </div>

@@ -225,7 +225,8 @@ export function colourToValues(c: SpecColour): ColourValues {
     limit: c.limit.type,
   };
   const lim = c.limit;
-  if (lim.type === "box-xy") Object.assign(v, { xMin: str(lim.x[0]), xMax: str(lim.x[1]), yMin: str(lim.y[0]), yMax: str(lim.y[1]) });
+  if (lim.type === "box-xy")
+    Object.assign(v, { xMin: str(lim.x[0]), xMax: str(lim.x[1]), yMin: str(lim.y[0]), yMax: str(lim.y[1]) });
   else if (lim.type === "box-ab")
     Object.assign(v, {
       aMin: str(lim.a[0]),
@@ -398,10 +399,18 @@ function toBand(b: BandValues): Record<keyof SpecBand, unknown> {
     // with an angle range the single angle is not used: it is stored as the range's start
     angleDeg: range ? parseNumber(b.rangeFrom) : parseNumber(b.angleDeg),
     angleRange: range
-      ? compact({ fromDeg: parseNumber(b.rangeFrom), toDeg: parseNumber(b.rangeTo), stepDeg: parseNumber(b.rangeStep) })
+      ? compact({
+          fromDeg: parseNumber(b.rangeFrom),
+          toDeg: parseNumber(b.rangeTo),
+          stepDeg: parseNumber(b.rangeStep),
+        })
       : undefined,
     angleAverage: range && b.angleAverage ? true : undefined,
-    cone: cone ? (b.coneBy === "fNumber" ? { fNumber: parseNumber(b.cone) } : { halfAngleDeg: parseNumber(b.cone) }) : undefined,
+    cone: cone
+      ? b.coneBy === "fNumber"
+        ? { fNumber: parseNumber(b.cone) }
+        : { halfAngleDeg: parseNumber(b.cone) }
+      : undefined,
     requirement: b.requirement,
     value: parseNumber(b.value),
     tolerance: parseNumber(b.tolerance),
@@ -476,7 +485,9 @@ export function toProgramBody(v: ProgramFormValues): ProgramBody {
     specMask: {
       bands: v.bands.map((b) => compact(toBand(b)) as unknown as SpecBand),
       // left out when empty, so a mask without colour keeps its stored form (and content hash)
-      ...(v.colour.length > 0 ? { colour: v.colour.map((c) => compact(toColour(c)) as unknown as SpecColour) } : {}),
+      ...(v.colour.length > 0
+        ? { colour: v.colour.map((c) => compact(toColour(c)) as unknown as SpecColour) }
+        : {}),
       protective: v.protective,
     },
     errorModel: compact({ ...em, thickness: compact(em.thickness as Record<string, unknown>) }) as ErrorModel,
@@ -550,7 +561,11 @@ export const programFormSchema = baseValues.superRefine((v, ctx) => {
     const id = raw.trim();
     if (!id) ctx.addIssue({ code: "custom", path: [...path, "id"], message: `Give the ${what} an id.` });
     else if (seen.has(id))
-      ctx.addIssue({ code: "custom", path: [...path, "id"], message: "Another band or colour requirement has this id." });
+      ctx.addIssue({
+        code: "custom",
+        path: [...path, "id"],
+        message: "Another band or colour requirement has this id.",
+      });
     seen.add(id);
     return id;
   };
@@ -592,15 +607,43 @@ export const programFormSchema = baseValues.superRefine((v, ctx) => {
     const check = (field: keyof BandValues, ok: boolean) => {
       if (!ok) flagged.add(field);
     };
-    check("start", inRange(b.start, [...at, "start"], (n) => n > 0, "Enter a wavelength above 0 nm."));
-    check("stop", inRange(b.stop, [...at, "stop"], (n) => n > 0, "Enter a wavelength above 0 nm."));
-    check("step", inRange(b.step, [...at, "step"], (n) => n > 0, "Enter a step above 0 nm, or leave it empty (1 nm).", { optional: true }));
-    check("value", inRange(b.value, [...at, "value"], () => true, ""));
-    check("tolerance", inRange(b.tolerance, [...at, "tolerance"], (n) => n >= 0, "Enter a tolerance of 0 or more.", { optional: true }));
+    check(
+      "start",
+      inRange(b.start, [...at, "start"], (n) => n > 0, "Enter a wavelength above 0 nm."),
+    );
+    check(
+      "stop",
+      inRange(b.stop, [...at, "stop"], (n) => n > 0, "Enter a wavelength above 0 nm."),
+    );
+    check(
+      "step",
+      inRange(b.step, [...at, "step"], (n) => n > 0, "Enter a step above 0 nm, or leave it empty (1 nm).", {
+        optional: true,
+      }),
+    );
+    check(
+      "value",
+      inRange(b.value, [...at, "value"], () => true, ""),
+    );
+    check(
+      "tolerance",
+      inRange(b.tolerance, [...at, "tolerance"], (n) => n >= 0, "Enter a tolerance of 0 or more.", {
+        optional: true,
+      }),
+    );
     if (b.incidence === "range") {
       check("rangeFrom", inRange(b.rangeFrom, [...at, "rangeFrom"], angle, ANGLE));
       check("rangeTo", inRange(b.rangeTo, [...at, "rangeTo"], angle, ANGLE));
-      check("rangeStep", inRange(b.rangeStep, [...at, "rangeStep"], (n) => n > 0 && n <= 10, "Enter an angle step above 0 and at most 10°, or leave it empty (1°).", { optional: true }));
+      check(
+        "rangeStep",
+        inRange(
+          b.rangeStep,
+          [...at, "rangeStep"],
+          (n) => n > 0 && n <= 10,
+          "Enter an angle step above 0 and at most 10°, or leave it empty (1°).",
+          { optional: true },
+        ),
+      );
     } else {
       check("angleDeg", inRange(b.angleDeg, [...at, "angleDeg"], angle, ANGLE));
     }
@@ -608,8 +651,18 @@ export const programFormSchema = baseValues.superRefine((v, ctx) => {
       check(
         "cone",
         b.coneBy === "fNumber"
-          ? inRange(b.cone, [...at, "cone"], (n) => n >= 0.5 && n <= 1000, "Enter an f-number from 0.5 to 1000.")
-          : inRange(b.cone, [...at, "cone"], (n) => n > 0 && n < 90, "Enter a half-angle above 0 and below 90°."),
+          ? inRange(
+              b.cone,
+              [...at, "cone"],
+              (n) => n >= 0.5 && n <= 1000,
+              "Enter an f-number from 0.5 to 1000.",
+            )
+          : inRange(
+              b.cone,
+              [...at, "cone"],
+              (n) => n > 0 && n < 90,
+              "Enter a half-angle above 0 and below 90°.",
+            ),
       );
     const id = checkId(b.id, at, "band");
     // The optics schema judges what the fields above let through (stand-ins for fields with their own message).
@@ -662,14 +715,25 @@ export const programFormSchema = baseValues.superRefine((v, ctx) => {
     // Only when every number parsed does the optics schema judge the ranges and limits (one message each).
     const all = [c.angleDeg, ...fields[c.limit].map((f) => String(c[f]))];
     if (c.limit === "box-ab" && (c.LMin.trim() !== "" || c.LMax.trim() !== "")) all.push(c.LMin, c.LMax);
-    if (!all.every(given) || !angle(parseNumber(c.angleDeg)!) || (c.limit === "delta-e" && !(parseNumber(c.deltaE)! > 0))) return;
+    if (
+      !all.every(given) ||
+      !angle(parseNumber(c.angleDeg)!) ||
+      (c.limit === "delta-e" && !(parseNumber(c.deltaE)! > 0))
+    )
+      return;
     const parsed = SpecColourSchema.safeParse(compact(toColour({ ...c, id: id || "colour" })));
     if (!parsed.success)
       for (const issue of parsed.error.issues) {
         const field = colourField(issue.path as (string | number)[]);
         // a reversed range is shown at its upper end, in the form's words
-        const message = /min ≤ max/.test(issue.message) ? "The upper end must not be below the lower end." : issue.message;
-        ctx.addIssue({ code: "custom", path: [...at, field.endsWith("Min") ? field.replace(/Min$/, "Max") : field], message });
+        const message = /min ≤ max/.test(issue.message)
+          ? "The upper end must not be below the lower end."
+          : issue.message;
+        ctx.addIssue({
+          code: "custom",
+          path: [...at, field.endsWith("Min") ? field.replace(/Min$/, "Max") : field],
+          message,
+        });
       }
   });
 

@@ -203,8 +203,12 @@ describe("ProgramForm", () => {
 
     await user.click(screen.getByRole("button", { name: "Save program" }));
     // the form's own checks, at the fields; nothing is sent
-    expect(await screen.findByLabelText("Band 1 angles to (°)")).toHaveAccessibleDescription("Enter an angle from 0 to below 90°.");
-    expect(screen.getByLabelText("Colour 1 b* to")).toHaveAccessibleDescription("The upper end must not be below the lower end.");
+    expect(await screen.findByLabelText("Band 1 angles to (°)")).toHaveAccessibleDescription(
+      "Enter an angle from 0 to below 90°.",
+    );
+    expect(screen.getByLabelText("Colour 1 b* to")).toHaveAccessibleDescription(
+      "The upper end must not be below the lower end.",
+    );
     expect(calls).toHaveLength(0);
 
     await user.clear(screen.getByLabelText("Band 1 angles to (°)"));
@@ -215,11 +219,40 @@ describe("ProgramForm", () => {
     await vi.waitFor(() => expect(onSaved).toHaveBeenCalled());
     const body = calls[0]?.body as { specMask: { bands: unknown[]; colour: unknown[] } };
     expect(body.specMask.bands).toEqual([
-      { id: "nir-ar", label: "NIR AR", start: 880, stop: 940, quantity: "R", polarization: "sp", angleDeg: 0, angleRange: { fromDeg: 0, toDeg: 30, stepDeg: 2 }, requirement: "max", value: 0.5 },
-      { id: "band-2", start: 1062, stop: 1066, quantity: "T", polarization: "u", angleDeg: 5, cone: { fNumber: 2 }, requirement: "avgMin", value: 90 },
+      {
+        id: "nir-ar",
+        label: "NIR AR",
+        start: 880,
+        stop: 940,
+        quantity: "R",
+        polarization: "sp",
+        angleDeg: 0,
+        angleRange: { fromDeg: 0, toDeg: 30, stepDeg: 2 },
+        requirement: "max",
+        value: 0.5,
+      },
+      {
+        id: "band-2",
+        start: 1062,
+        stop: 1066,
+        quantity: "T",
+        polarization: "u",
+        angleDeg: 5,
+        cone: { fNumber: 2 },
+        requirement: "avgMin",
+        value: 90,
+      },
     ]);
     expect(body.specMask.colour).toEqual([
-      { id: "colour-1", quantity: "R", illuminant: "A", observer: "10", angleDeg: 0, polarization: "u", limit: { type: "box-ab", a: [-2, 2], b: [-3, 1] } },
+      {
+        id: "colour-1",
+        quantity: "R",
+        illuminant: "A",
+        observer: "10",
+        angleDeg: 0,
+        polarization: "u",
+        limit: { type: "box-ab", a: [-2, 2], b: [-3, 1] },
+      },
     ]);
   });
 

@@ -61,7 +61,10 @@ function BandConditions({
   const incidence = useWatch({ control, name: `bands.${index}.incidence` });
   const coneBy = useWatch({ control, name: `bands.${index}.coneBy` });
   return (
-    <div className="col-span-full grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-6" data-testid={`band-${n}-conditions`}>
+    <div
+      className="col-span-full grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-6"
+      data-testid={`band-${n}-conditions`}
+    >
       <SelectField
         label="Incidence"
         aria-label={`Band ${n} incidence`}
@@ -138,7 +141,12 @@ function BandConditions({
  * The spec mask's bands, one editable row each with its wavelength range, quantity, polarization, angle
  * conditions and requirement; rows can be added and removed (the mask keeps at least one entry).
  */
-export function SpecBandTable({ control, register, errors, colourCount = 0 }: SpecBandTableProps & { colourCount?: number }) {
+export function SpecBandTable({
+  control,
+  register,
+  errors,
+  colourCount = 0,
+}: SpecBandTableProps & { colourCount?: number }) {
   const { fields, append, remove } = useFieldArray({ control, name: "bands" });
   const bandErrors = errors.bands;
   const listError = bandErrors?.message ?? bandErrors?.root?.message;

@@ -19,12 +19,19 @@ function marginText(outcome: BandOutcome, requirement: SpecColour | undefined): 
   if (!Number.isFinite(outcome.margin)) return "";
   const type = requirement?.limit.type ?? "box-ab";
   const sign = outcome.margin >= 0 ? "+" : "";
-  if (type === "box-xy") return `margin ${sign}${outcome.margin.toFixed(4)} in ${outcome.colour?.limiting ?? "x"}`;
+  if (type === "box-xy")
+    return `margin ${sign}${outcome.margin.toFixed(4)} in ${outcome.colour?.limiting ?? "x"}`;
   if (type === "delta-e") return `margin ${sign}${outcome.margin.toFixed(2)} ΔE`;
   return `margin ${sign}${outcome.margin.toFixed(2)} in ${outcome.colour?.limiting ?? "a"}*`;
 }
 
-export function ColourVerdict({ outcome, requirement }: { outcome: BandOutcome; requirement: SpecColour | undefined }) {
+export function ColourVerdict({
+  outcome,
+  requirement,
+}: {
+  outcome: BandOutcome;
+  requirement: SpecColour | undefined;
+}) {
   const c = outcome.colour;
   const name = requirement?.label ?? outcome.id;
   return (
@@ -41,8 +48,13 @@ export function ColourVerdict({ outcome, requirement }: { outcome: BandOutcome; 
         aria-label={`Swatch of ${name}: ${c?.swatch ?? "none"} (hue at full brightness)`}
       />
       <span className="truncate">{name}</span>
-      <span className="ml-auto tabular text-ink-500" title="Colour found by the spec evaluation (CIE 015, 380–780 nm)">
-        {outcome.reason && !Number.isFinite(outcome.margin) ? outcome.reason : colourCoordinatesText(outcome, requirement)}
+      <span
+        className="ml-auto tabular text-ink-500"
+        title="Colour found by the spec evaluation (CIE 015, 380–780 nm)"
+      >
+        {outcome.reason && !Number.isFinite(outcome.margin)
+          ? outcome.reason
+          : colourCoordinatesText(outcome, requirement)}
         {marginText(outcome, requirement) ? ` · ${marginText(outcome, requirement)}` : ""}
         {requirement ? ` · ${colourConditionsText(requirement)}` : ""}
       </span>

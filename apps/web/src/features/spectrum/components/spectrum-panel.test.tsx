@@ -66,10 +66,38 @@ describe("spectrum panel range fields", () => {
 
 describe("colour requirements beside the chart", () => {
   const mask: SpecMask = {
-    bands: [{ id: "ar", start: 450, stop: 650, quantity: "R", polarization: "u", angleDeg: 0, requirement: "avgMax", value: 3 }],
+    bands: [
+      {
+        id: "ar",
+        start: 450,
+        stop: 650,
+        quantity: "R",
+        polarization: "u",
+        angleDeg: 0,
+        requirement: "avgMax",
+        value: 3,
+      },
+    ],
     colour: [
-      { id: "tint", label: "Reflected tint", quantity: "R", illuminant: "D65", observer: "2", angleDeg: 0, polarization: "u", limit: { type: "box-ab", a: [-1, 1], b: [-1, 1] } },
-      { id: "white", quantity: "T", illuminant: "D65", observer: "2", angleDeg: 0, polarization: "u", limit: { type: "box-xy", x: [0.3, 0.33], y: [0.31, 0.34] } },
+      {
+        id: "tint",
+        label: "Reflected tint",
+        quantity: "R",
+        illuminant: "D65",
+        observer: "2",
+        angleDeg: 0,
+        polarization: "u",
+        limit: { type: "box-ab", a: [-1, 1], b: [-1, 1] },
+      },
+      {
+        id: "white",
+        quantity: "T",
+        illuminant: "D65",
+        observer: "2",
+        angleDeg: 0,
+        polarization: "u",
+        limit: { type: "box-xy", x: [0.3, 0.33], y: [0.31, 0.34] },
+      },
     ],
   };
 
@@ -92,9 +120,15 @@ describe("colour requirements beside the chart", () => {
     expect(white.pass).toBe(true);
     const tintItem = document.querySelector('[data-colour-requirement="tint"]') as HTMLElement;
     expect(tintItem).toHaveTextContent("fail");
-    expect(tintItem).toHaveTextContent(`L* ${tint.colour!.L.toFixed(2)}, a* ${tint.colour!.a.toFixed(2)}, b* ${tint.colour!.b.toFixed(2)}`);
+    expect(tintItem).toHaveTextContent(
+      `L* ${tint.colour!.L.toFixed(2)}, a* ${tint.colour!.a.toFixed(2)}, b* ${tint.colour!.b.toFixed(2)}`,
+    );
     expect(tintItem).toHaveTextContent("reflected, D65, CIE 1931 2°, 0°, unpolarized");
-    expect(screen.getByRole("img", { name: `Swatch of Reflected tint: ${tint.colour!.swatch} (hue at full brightness)` })).toBeInTheDocument();
+    expect(
+      screen.getByRole("img", {
+        name: `Swatch of Reflected tint: ${tint.colour!.swatch} (hue at full brightness)`,
+      }),
+    ).toBeInTheDocument();
     const whiteItem = document.querySelector('[data-colour-requirement="white"]') as HTMLElement;
     expect(whiteItem).toHaveTextContent("pass");
     expect(whiteItem).toHaveTextContent(`x ${white.colour!.x.toFixed(4)}, y ${white.colour!.y.toFixed(4)}`);

@@ -63,7 +63,17 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
       const a = Math.max(start, selectedBand.start - margin);
       const b = Math.min(stop, selectedBand.stop + margin);
       const n = b > a && stop > start ? Math.round((points * (b - a)) / (stop - start)) : 2;
-      return { ok: true, view: bandView(deferredDesign, mask, selectedBand.id, b > a ? { start: a, stop: b, points: Math.min(801, Math.max(2, n)) } : { start, stop, points: Math.min(801, Math.max(2, points)) }) };
+      return {
+        ok: true,
+        view: bandView(
+          deferredDesign,
+          mask,
+          selectedBand.id,
+          b > a
+            ? { start: a, stop: b, points: Math.min(801, Math.max(2, n)) }
+            : { start, stop, points: Math.min(801, Math.max(2, points)) },
+        ),
+      };
     } catch (e) {
       return { ok: false, error: e instanceof Error ? e.message : String(e) };
     }
@@ -85,7 +95,8 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
   if (verdicts?.ok && mask) {
     for (const band of mask.bands) {
       if (selected && band.id !== selected) continue;
-      for (const v of verdicts.violations.get(band.id) ?? []) violations.push({ bandId: band.id, quantity: band.quantity, ...v });
+      for (const v of verdicts.violations.get(band.id) ?? [])
+        violations.push({ bandId: band.id, quantity: band.quantity, ...v });
     }
   }
   const scan = useMemo(() => {
@@ -107,7 +118,12 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
     let text = spectrumToCsv(sp.wavelengths, cols);
     if (bandState?.ok) {
       const bv = bandState.view;
-      text += "\n" + spectrumToCsv(bv.wavelengths, Object.fromEntries(bv.curves.map((c) => [`${bv.id} ${bv.quantity} ${c.label}`, c.values])));
+      text +=
+        "\n" +
+        spectrumToCsv(
+          bv.wavelengths,
+          Object.fromEntries(bv.curves.map((c) => [`${bv.id} ${bv.quantity} ${c.label}`, c.values])),
+        );
     }
     const url = URL.createObjectURL(new Blob([text], { type: "text/csv" }));
     const a = document.createElement("a");
@@ -118,9 +134,13 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
   };
   const hasOD = (mask?.bands ?? []).some((b) => b.quantity === "OD");
   const curves = live.ok
-    ? spectrumCurves(live.spectrum, view.scale === "od" ? ["OD"] : view.quantities, { idPrefix: "nominal-", primary: true })
+    ? spectrumCurves(live.spectrum, view.scale === "od" ? ["OD"] : view.quantities, {
+        idPrefix: "nominal-",
+        primary: true,
+      })
     : [];
-  const set = (patch: Partial<SpectrumSettings>) => onViewChange({ ...view, settings: { ...view.settings, ...patch } });
+  const set = (patch: Partial<SpectrumSettings>) =>
+    onViewChange({ ...view, settings: { ...view.settings, ...patch } });
   const idp = useId();
   const toggleQuantity = (q: ChartQuantity) => {
     const has = view.quantities.includes(q);
@@ -143,7 +163,11 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
                   title={QUANTITY_NAMES[q]}
                   className={`rounded px-2 py-0.5 font-mono text-xs ${view.quantities.includes(q) ? "bg-ink-900 text-paper" : "bg-ink-100 text-ink-700"}`}
                 >
-                  <span className="mr-1 inline-block h-2 w-2 rounded-full" style={{ background: QUANTITY_COLORS[q] }} aria-hidden />
+                  <span
+                    className="mr-1 inline-block h-2 w-2 rounded-full"
+                    style={{ background: QUANTITY_COLORS[q] }}
+                    aria-hidden
+                  />
                   {q}
                 </button>
               ))
@@ -214,7 +238,11 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
         {verdicts ? (
           <p className="ml-auto text-sm" data-testid="nominal-verdict">
             {verdicts.ok ? (
-              <span className={verdicts.pass ? "font-semibold text-verdict-pass" : "font-semibold text-verdict-fail"}>
+              <span
+                className={
+                  verdicts.pass ? "font-semibold text-verdict-pass" : "font-semibold text-verdict-fail"
+                }
+              >
                 {verdicts.pass
                   ? "Nominal design meets the mask"
                   : `Nominal design misses ${verdicts.bands.filter((b) => !b.pass).length} ${mask?.colour?.length ? "requirement(s)" : "band(s)"}`}
@@ -244,7 +272,17 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
           aria-pressed={angleView !== null}
           className={`ml-auto rounded px-2 py-0.5 ${angleView ? "bg-ink-900 text-paper" : "bg-ink-100 text-ink-700"}`}
           onClick={() =>
-            setAngleView(angleView ? null : { wavelength: Math.round(selectedBand ? (selectedBand.start + selectedBand.stop) / 2 : (view.settings.start + view.settings.stop) / 2) })
+            setAngleView(
+              angleView
+                ? null
+                : {
+                    wavelength: Math.round(
+                      selectedBand
+                        ? (selectedBand.start + selectedBand.stop) / 2
+                        : (view.settings.start + view.settings.stop) / 2,
+                    ),
+                  },
+            )
           }
         >
           R/T vs angle
@@ -259,7 +297,12 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
             onCommit={(v) => setAngleView({ wavelength: v })}
           />
         ) : null}
-        <button type="button" className="rounded bg-ink-100 px-2 py-0.5 text-ink-700" onClick={exportCsv} disabled={!live.ok}>
+        <button
+          type="button"
+          className="rounded bg-ink-100 px-2 py-0.5 text-ink-700"
+          onClick={exportCsv}
+          disabled={!live.ok}
+        >
           Export CSV
         </button>
       </div>
@@ -288,7 +331,10 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
               title={`${design.name}: R and T against angle of incidence at ${angleView.wavelength} nm (s, p dashed; unpolarized solid)`}
             />
           ) : (
-            <div role="alert" className="rounded border border-verdict-fail/40 bg-verdict-fail/5 p-4 text-sm text-verdict-fail">
+            <div
+              role="alert"
+              className="rounded border border-verdict-fail/40 bg-verdict-fail/5 p-4 text-sm text-verdict-fail"
+            >
               R/T against angle cannot be computed: {scan.error}
             </div>
           )
@@ -298,7 +344,13 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
             height={props.height ?? 340}
             scale={view.scale}
             domain={{ start: view.settings.start, stop: view.settings.stop }}
-            curves={[...(bandCurves.length > 0 ? curves.map((c) => ({ ...c, primary: false, dashed: true })) : curves), ...bandCurves, ...(props.overlays ?? [])]}
+            curves={[
+              ...(bandCurves.length > 0
+                ? curves.map((c) => ({ ...c, primary: false, dashed: true }))
+                : curves),
+              ...bandCurves,
+              ...(props.overlays ?? []),
+            ]}
             regions={selectedBand ? regions.filter((r) => r.bandId === selectedBand.id) : regions}
             envelopes={props.envelopes}
             markers={props.markers}
@@ -312,7 +364,10 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
             onSelectRange={props.onSelectRange}
           />
         ) : (
-          <div role="alert" className="rounded border border-verdict-fail/40 bg-verdict-fail/5 p-4 text-sm text-verdict-fail">
+          <div
+            role="alert"
+            className="rounded border border-verdict-fail/40 bg-verdict-fail/5 p-4 text-sm text-verdict-fail"
+          >
             The spectrum cannot be computed: {live.error}
           </div>
         )}
@@ -326,17 +381,32 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
           .
         </p>
       ) : null}
-      <Legend overlays={props.overlays ?? []} hasEnvelope={(props.envelopes ?? []).length > 0} primaryLabel={props.primaryLabel} />
+      <Legend
+        overlays={props.overlays ?? []}
+        hasEnvelope={(props.envelopes ?? []).length > 0}
+        primaryLabel={props.primaryLabel}
+      />
       {view.settings.start <= 700 && view.settings.stop >= 430 ? (
-        <ColourReadout design={design} angleDeg={view.settings.angleDeg} polarization={view.settings.polarization} />
+        <ColourReadout
+          design={design}
+          angleDeg={view.settings.angleDeg}
+          polarization={view.settings.polarization}
+        />
       ) : null}
       {verdicts?.ok && mask ? (
-        <ul className="mt-2 grid max-h-24 gap-1 overflow-y-auto text-xs sm:grid-cols-2" aria-label="Spec bands">
+        <ul
+          className="mt-2 grid max-h-24 gap-1 overflow-y-auto text-xs sm:grid-cols-2"
+          aria-label="Spec bands"
+        >
           {verdicts.bands.map((b) => {
             if (b.colour) {
               const requirement = mask.colour?.find((x) => x.id === b.id);
               return (
-                <li key={b.id} className="flex items-center gap-2 sm:col-span-2" data-colour-requirement={b.id}>
+                <li
+                  key={b.id}
+                  className="flex items-center gap-2 sm:col-span-2"
+                  data-colour-requirement={b.id}
+                >
                   <ColourVerdict outcome={b} requirement={requirement} />
                   {props.bandAction ? (
                     <button
@@ -353,15 +423,25 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
             }
             const band = mask.bands.find((x) => x.id === b.id);
             return (
-              <li key={b.id} className={`flex items-center gap-2 ${selected === b.id ? "rounded bg-ink-100" : ""}`} data-band={b.id}>
-                <span className={`rounded px-1.5 py-0.5 font-semibold ${b.pass ? "bg-verdict-pass/10 text-verdict-pass" : "bg-verdict-fail/10 text-verdict-fail"}`}>
+              <li
+                key={b.id}
+                className={`flex items-center gap-2 ${selected === b.id ? "rounded bg-ink-100" : ""}`}
+                data-band={b.id}
+              >
+                <span
+                  className={`rounded px-1.5 py-0.5 font-semibold ${b.pass ? "bg-verdict-pass/10 text-verdict-pass" : "bg-verdict-fail/10 text-verdict-fail"}`}
+                >
                   {b.pass ? "pass" : "fail"}
                 </span>
                 <button
                   type="button"
                   className="truncate text-left underline decoration-dotted"
                   aria-pressed={selected === b.id}
-                  title={band ? `Show ${band.label ?? band.id} at its own conditions (${bandConditionsText(band)})` : undefined}
+                  title={
+                    band
+                      ? `Show ${band.label ?? band.id} at its own conditions (${bandConditionsText(band)})`
+                      : undefined
+                  }
                   onClick={() => {
                     setAngleView(null);
                     setSelected(selected === b.id ? null : b.id);
@@ -369,7 +449,10 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
                 >
                   {band?.label ?? b.id}
                 </button>
-                <span className="ml-auto tabular text-ink-500" title="Margin: distance inside the band's limit (negative = outside), in the band's own unit">
+                <span
+                  className="ml-auto tabular text-ink-500"
+                  title="Margin: distance inside the band's limit (negative = outside), in the band's own unit"
+                >
                   {b.reason ? (
                     b.reason
                   ) : (
@@ -379,7 +462,8 @@ export function SpectrumPanel(props: SpectrumPanelProps) {
                       {band?.quantity === "OD" ? " OD" : " % pts"}
                     </>
                   )}{" "}
-                  · {band ? bandConditionsText(band) : ""} · worst {b.worst.wavelength} nm, {b.worst.angleDeg.toFixed(1)}° {b.worst.polarization}
+                  · {band ? bandConditionsText(band) : ""} · worst {b.worst.wavelength} nm,{" "}
+                  {b.worst.angleDeg.toFixed(1)}° {b.worst.polarization}
                 </span>
                 {props.bandAction ? (
                   <button
@@ -441,11 +525,14 @@ function NumberField(props: {
         step={props.step ?? "any"}
         value={text}
         aria-invalid={problem && draft !== null ? true : undefined}
-        title={problem && draft !== null ? `Use ${problem}; leaving the field keeps ${props.value}` : undefined}
+        title={
+          problem && draft !== null ? `Use ${problem}; leaving the field keeps ${props.value}` : undefined
+        }
         onChange={(e) => {
           setDraft(e.target.value);
           const v = Number(e.target.value);
-          if (props.live && e.target.value.trim() !== "" && Number.isFinite(v) && !props.problem(v)) props.onCommit(v);
+          if (props.live && e.target.value.trim() !== "" && Number.isFinite(v) && !props.problem(v))
+            props.onCommit(v);
         }}
         onKeyDown={(e) => {
           if (e.key === "Enter") take();
@@ -457,7 +544,15 @@ function NumberField(props: {
   );
 }
 
-function Legend({ overlays, hasEnvelope, primaryLabel }: { overlays: readonly ChartCurve[]; hasEnvelope: boolean; primaryLabel?: string }) {
+function Legend({
+  overlays,
+  hasEnvelope,
+  primaryLabel,
+}: {
+  overlays: readonly ChartCurve[];
+  hasEnvelope: boolean;
+  primaryLabel?: string;
+}) {
   return (
     <div className="mt-1 flex flex-wrap gap-x-4 gap-y-1 text-xs text-ink-700" aria-label="Legend">
       {primaryLabel ? (
@@ -469,19 +564,27 @@ function Legend({ overlays, hasEnvelope, primaryLabel }: { overlays: readonly Ch
         <span className="inline-block h-3 w-4 bg-ink-500/20" aria-hidden /> forbidden by the mask
       </span>
       <span className="flex items-center gap-1.5">
-        <span className="inline-block w-4 border-t-2 border-dashed border-ink-700" aria-hidden /> limit on a band average
+        <span className="inline-block w-4 border-t-2 border-dashed border-ink-700" aria-hidden /> limit on a
+        band average
       </span>
       <span className="flex items-center gap-1.5">
-        <span className="inline-block h-2 w-2 rounded-full bg-verdict-fail" aria-hidden /> violation (at the band’s own conditions)
+        <span className="inline-block h-2 w-2 rounded-full bg-verdict-fail" aria-hidden /> violation (at the
+        band’s own conditions)
       </span>
       {hasEnvelope ? (
         <span className="flex items-center gap-1.5">
-          <span className="inline-block h-3 w-4 bg-film-teal-soft/60" aria-hidden /> 5–95 % of simulated builds
+          <span className="inline-block h-3 w-4 bg-film-teal-soft/60" aria-hidden /> 5–95 % of simulated
+          builds
         </span>
       ) : null}
       {overlays.map((c) => (
         <span key={c.id} className="flex items-center gap-1.5">
-          <span className="inline-block h-0.5 w-4" style={{ background: c.color, borderTop: c.dashed ? `2px dashed ${c.color}` : undefined }} aria-hidden /> {c.label}
+          <span
+            className="inline-block h-0.5 w-4"
+            style={{ background: c.color, borderTop: c.dashed ? `2px dashed ${c.color}` : undefined }}
+            aria-hidden
+          />{" "}
+          {c.label}
         </span>
       ))}
     </div>

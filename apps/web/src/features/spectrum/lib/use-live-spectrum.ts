@@ -30,7 +30,9 @@ export type SpectrumState = { ok: true; spectrum: Spectrum } | { ok: false; erro
 /** The design's spectrum under the chart settings; recomputed on every change of the design. */
 export function computeLiveSpectrum(design: Design, settings: SpectrumSettings): SpectrumState {
   try {
-    const engine = remember(engines, structureKey(design, settings), () => createSpectrumEngine(design, settings));
+    const engine = remember(engines, structureKey(design, settings), () =>
+      createSpectrumEngine(design, settings),
+    );
     return { ok: true, spectrum: engine.compute(thicknessesOf(design)) };
   } catch (e) {
     return { ok: false, error: e instanceof Error ? e.message : String(e) };
@@ -56,7 +58,14 @@ export type VerdictState =
 export function computeVerdicts(design: Design, mask: SpecMask | null): VerdictState | null {
   if (!mask || mask.bands.length + (mask.colour?.length ?? 0) === 0) return null;
   try {
-    const key = JSON.stringify([design.layers.map((l) => l.material), design.incident, design.exit, design.substrate, design.materials ?? null, mask]);
+    const key = JSON.stringify([
+      design.layers.map((l) => l.material),
+      design.incident,
+      design.exit,
+      design.substrate,
+      design.materials ?? null,
+      mask,
+    ]);
     const ev = remember(verdictEngines, key, () => createSpecEvaluator(design, mask));
     const bands = ev.evaluate(thicknessesOf(design));
     const violations = new Map(bands.map((b, i) => [b.id, ev.violations(i)] as const));

@@ -16,10 +16,15 @@ export type { YieldRun, YieldRunStatus };
  * The request body (contract YieldRunBody) and the revision it is for. The browser sends its whole YieldResult;
  * the contract's ClientResultSchema names the fields the server compares and keeps the rest.
  */
-export type CreateYieldRunInput = Omit<YieldRunInput, "clientResult"> & { revisionId: string; clientResult?: YieldResult };
+export type CreateYieldRunInput = Omit<YieldRunInput, "clientResult"> & {
+  revisionId: string;
+  clientResult?: YieldResult;
+};
 
 export const createYieldRun = ({ revisionId, ...body }: CreateYieldRunInput) =>
-  api.post(`/revisions/${revisionId}/yield-runs`, body, { schema: CreateYieldRunResponse }).then((r) => r.run);
+  api
+    .post(`/revisions/${revisionId}/yield-runs`, body, { schema: CreateYieldRunResponse })
+    .then((r) => r.run);
 
 export function useCreateYieldRun() {
   const qc = useQueryClient();
@@ -41,14 +46,18 @@ export const yieldRunQueryOptions = (runId: string) =>
     refetchInterval: (q) => (finished(q.state.data?.status) ? false : 1000),
   });
 
-export const useYieldRun = (runId: string | null) => useQuery({ ...yieldRunQueryOptions(runId ?? ""), enabled: Boolean(runId) });
+export const useYieldRun = (runId: string | null) =>
+  useQuery({ ...yieldRunQueryOptions(runId ?? ""), enabled: Boolean(runId) });
 
 export const revisionYieldRunsQueryOptions = (revisionId: string) =>
   queryOptions({
     queryKey: ["revisions", revisionId, "yield-runs"],
-    queryFn: () => api.get(`/revisions/${revisionId}/yield-runs`, { schema: YieldRunListResponse }).then((r) => r.items),
+    queryFn: () =>
+      api.get(`/revisions/${revisionId}/yield-runs`, { schema: YieldRunListResponse }).then((r) => r.items),
   });
 
-export const useRevisionYieldRuns = (revisionId: string) => useQuery(revisionYieldRunsQueryOptions(revisionId));
+export const useRevisionYieldRuns = (revisionId: string) =>
+  useQuery(revisionYieldRunsQueryOptions(revisionId));
 
-export const cancelYieldRun = (runId: string) => api.post(`/yield-runs/${runId}/cancel`, undefined, { schema: YieldRunSchema });
+export const cancelYieldRun = (runId: string) =>
+  api.post(`/yield-runs/${runId}/cancel`, undefined, { schema: YieldRunSchema });

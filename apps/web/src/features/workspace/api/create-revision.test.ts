@@ -8,7 +8,11 @@ describe("staleBaseOf", () => {
   it("reads the base and latest revision of a stale save, and nothing from another 409", () => {
     const details = { baseRevision: { id: "r1", number: 1 }, latestRevision: { id: "r2", number: 2 } };
     expect(staleBaseOf(new ApiError(409, "stale_base", "saved meanwhile", details))).toEqual(details);
-    expect(staleBaseOf(new ApiError(409, "stale_base", "x", { baseRevision: null, latestRevision: { id: "r2", number: 2 } }))).toEqual({
+    expect(
+      staleBaseOf(
+        new ApiError(409, "stale_base", "x", { baseRevision: null, latestRevision: { id: "r2", number: 2 } }),
+      ),
+    ).toEqual({
       baseRevision: null,
       latestRevision: { id: "r2", number: 2 },
     });
