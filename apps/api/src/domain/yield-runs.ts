@@ -5,11 +5,12 @@ import {
   ENGINE_VERSION,
   parseYieldStudy,
   type ErrorModel,
+  type YieldChunk,
   type YieldResult,
   type YieldStudy,
 } from "@stackproof/optics";
 import type { Db } from "../db/client.ts";
-import { yieldRuns, type Role } from "../db/schema.ts";
+import { designs, programs, revisions, yieldChunks, yieldRuns, type Role } from "../db/schema.ts";
 import { recordAudit, type DbOrTx } from "../lib/audit.ts";
 import { HttpError, conflict, forbidden } from "../lib/errors.ts";
 import { newId } from "./canonical.ts";
@@ -222,4 +223,101 @@ export function recordEvidenceResult(
     .values({ ...base, ...finishedRunValues(base, input.result), finishedAt: input.finishedAt })
     .run();
   return base.id;
+}
+
+// The job service's writes (apps/api/src/yield): the run's state as its trials are computed. The system is the
+// actor of their audit entries.
+
+/** Audit entry for a state the job service gave a run (the system is the actor). */
+function auditRun(db: DbOrTx, runId: string, action: string, summary: (label: string) => string) {
+  const row = db
+    .select({ workspaceId: programs.workspaceId, designName: designs.name, number: revisions.number })
+    .from(yieldRuns)
+    .innerJoin(revisions, eq(yieldRuns.revisionId, revisions.id))
+    .innerJoin(designs, eq(revisions.designId, designs.id))
+    .innerJoin(programs, eq(designs.programId, programs.id))
+    .where(eq(yieldRuns.id, runId))
+    .get();
+  if (!row) return;
+  recordAudit(db, {
+    workspaceId: row.workspaceId,
+    actorId: null,
+    action,
+    subjectType: "yield_run",
+    subjectId: runId,
+    summary: summary(`${row.designName} rev ${row.number}`),
+  });
+}
+
+/** Marks a queued or running run failed with `error` (audited once); a finished or cancelled run is left alone. */
+export function failRun(db: Db, runId: string, error: string): void {
+  db.transaction((tx) => {
+    const res = tx
+      .update(yieldRuns)
+      .set({ status: "failed", error, finishedAt: new Date() })
+      .where(and(eq(yieldRuns.id, runId), inArray(yieldRuns.status, ["queued", "running"])))
+      .run();
+    if (res.changes === 1)
+      auditRun(tx, runId, "yield_run.failed", (label) => `A yield run on ${label} failed: ${error}`);
+  });
+}
+
+/** Drops a run's stored chunks (once it is finished, failed or cancelled). */
+export function dropRunChunks(db: DbOrTx, runId: string): void {
+  db.delete(yieldChunks).where(eq(yieldChunks.runId, runId)).run();
+}
+
+/** A run left queued or running by a stopped server waits again for its turn (its stored chunks are kept). */
+export function requeueRun(db: DbOrTx, runId: string): void {
+  db.update(yieldRuns).set({ status: "queued" }).where(eq(yieldRuns.id, runId)).run();
+}
+
+/** A queued (or resumed) run starts: running, with `covered` trials already stored. */
+export function markRunRunning(db: DbOrTx, run: YieldRunRow, covered: number): void {
+  db.update(yieldRuns)
+    .set({ status: "running", progressDone: covered, startedAt: run.startedAt ?? new Date() })
+    .where(and(eq(yieldRuns.id, run.id), inArray(yieldRuns.status, ["queued", "running"])))
+    .run();
+}
+
+/** Stores a chunk and the progress; false when the run is no longer running. */
+export function storeRunChunk(db: Db, runId: string, chunk: YieldChunk): boolean {
+  return db.transaction((tx) => {
+    const row = tx
+      .select({ status: yieldRuns.status, progressDone: yieldRuns.progressDone })
+      .from(yieldRuns)
+      .where(eq(yieldRuns.id, runId))
+      .get();
+    if (!row || row.status !== "running") return false;
+    tx.insert(yieldChunks)
+      .values({ runId, startTrial: chunk.startTrial, count: chunk.count, data: chunk })
+      .onConflictDoNothing()
+      .run();
+    tx.update(yieldRuns)
+      .set({ progressDone: row.progressDone + chunk.count })
+      .where(eq(yieldRuns.id, runId))
+      .run();
+    return true;
+  });
+}
+
+/** Stores a running run's merged result, drops its chunks and audits the outcome. */
+export function storeFinishedRun(db: Db, current: YieldRunRow, result: YieldResult): void {
+  db.transaction((tx) => {
+    const values = finishedRunValues(current, result);
+    tx.update(yieldRuns)
+      .set(values)
+      .where(and(eq(yieldRuns.id, current.id), eq(yieldRuns.status, "running")))
+      .run();
+    tx.delete(yieldChunks).where(eq(yieldChunks.runId, current.id)).run();
+    const pct = (x: number) => `${(x * 100).toFixed(1)} %`;
+    auditRun(
+      tx,
+      current.id,
+      "yield_run.finished",
+      (label) =>
+        `A ${current.trials}-trial yield run on ${label} finished: ${pct(result.yield)}, ` +
+        (values.verified ? "verified" : `not verified (${values.mismatch ?? "mismatch"})`),
+    );
+  });
 }

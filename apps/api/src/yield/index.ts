@@ -13,8 +13,14 @@ import type { Db } from "../db/client.ts";
 import type { MailService } from "../mail/index.ts";
 import { designs, programs, revisions, yieldChunks, yieldRuns } from "../db/schema.ts";
 import { maskOf, stackOf, type YieldRunRow } from "../domain/load.ts";
-import { finishedRunValues } from "../domain/yield-runs.ts";
-import { recordAudit, type DbOrTx } from "../lib/audit.ts";
+import {
+  dropRunChunks,
+  failRun,
+  markRunRunning,
+  requeueRun,
+  storeFinishedRun,
+  storeRunChunk,
+} from "../domain/yield-runs.ts";
 import { createFairScheduler, FAIR_CHUNK_TRIALS } from "@stackproof/optics/node-pool";
 import { HttpError } from "../lib/errors.ts";
 import type { Compute } from "./compute.ts";
@@ -63,27 +69,6 @@ export function studyForRun(db: Db, run: YieldRunRow): YieldStudy | null {
 // finishedRunValues (the finished run's columns) lives with the domain: the demo seeder stores finished runs too.
 export { finishedRunValues } from "../domain/yield-runs.ts";
 
-/** Audit entry for a state the job service gave a run (the system is the actor). */
-function auditRun(db: DbOrTx, runId: string, action: string, summary: (label: string) => string) {
-  const row = db
-    .select({ workspaceId: programs.workspaceId, designName: designs.name, number: revisions.number })
-    .from(yieldRuns)
-    .innerJoin(revisions, eq(yieldRuns.revisionId, revisions.id))
-    .innerJoin(designs, eq(revisions.designId, designs.id))
-    .innerJoin(programs, eq(designs.programId, programs.id))
-    .where(eq(yieldRuns.id, runId))
-    .get();
-  if (!row) return;
-  recordAudit(db, {
-    workspaceId: row.workspaceId,
-    actorId: null,
-    action,
-    subjectType: "yield_run",
-    subjectId: runId,
-    summary: summary(`${row.designName} rev ${row.number}`),
-  });
-}
-
 /** Runs scheduled at once; further runs wait queued (each still gets its turn within the caps). */
 const MAX_SCHEDULED_RUNS = 64;
 
@@ -111,15 +96,7 @@ export function createJobService(deps: {
   }
 
   function fail(runId: string, error: string) {
-    db.transaction((tx) => {
-      const res = tx
-        .update(yieldRuns)
-        .set({ status: "failed", error, finishedAt: new Date() })
-        .where(and(eq(yieldRuns.id, runId), inArray(yieldRuns.status, ["queued", "running"])))
-        .run();
-      if (res.changes === 1)
-        auditRun(tx, runId, "yield_run.failed", (label) => `A yield run on ${label} failed: ${error}`);
-    });
+    failRun(db, runId, error);
   }
 
   /** Fails a run without throwing (a run must never be left running because storing its outcome threw). */
@@ -138,8 +115,7 @@ export function createJobService(deps: {
     scheduled.delete(runId);
     if (!closed) {
       const status = loadRun(runId)?.status;
-      if (status !== "queued" && status !== "running")
-        db.delete(yieldChunks).where(eq(yieldChunks.runId, runId)).run();
+      if (status !== "queued" && status !== "running") dropRunChunks(db, runId);
       release(runId);
       setImmediate(pump);
     }
@@ -185,10 +161,7 @@ export function createJobService(deps: {
         continue;
       }
       const { pending, covered } = pendingRanges(run);
-      db.update(yieldRuns)
-        .set({ status: "running", progressDone: covered, startedAt: run.startedAt ?? new Date() })
-        .where(and(eq(yieldRuns.id, runId), inArray(yieldRuns.status, ["queued", "running"])))
-        .run();
+      markRunRunning(db, run, covered);
       scheduled.add(runId);
       scheduler.add<YieldChunk>({
         id: runId,
@@ -227,23 +200,7 @@ export function createJobService(deps: {
 
   /** Stores a chunk and the progress; false when the run is no longer running. */
   function storeChunk(runId: string, chunk: YieldChunk): boolean {
-    return db.transaction((tx) => {
-      const row = tx
-        .select({ status: yieldRuns.status, progressDone: yieldRuns.progressDone })
-        .from(yieldRuns)
-        .where(eq(yieldRuns.id, runId))
-        .get();
-      if (!row || row.status !== "running") return false;
-      tx.insert(yieldChunks)
-        .values({ runId, startTrial: chunk.startTrial, count: chunk.count, data: chunk })
-        .onConflictDoNothing()
-        .run();
-      tx.update(yieldRuns)
-        .set({ progressDone: row.progressDone + chunk.count })
-        .where(eq(yieldRuns.id, runId))
-        .run();
-      return true;
-    });
+    return storeRunChunk(db, runId, chunk);
   }
 
   async function mergeAndStore(run: YieldRunRow, study: YieldStudy) {
@@ -264,23 +221,7 @@ export function createJobService(deps: {
     if (closed) return;
     const current = loadRun(run.id);
     if (!current || current.status !== "running") return;
-    db.transaction((tx) => {
-      const values = finishedRunValues(current, result);
-      tx.update(yieldRuns)
-        .set(values)
-        .where(and(eq(yieldRuns.id, run.id), eq(yieldRuns.status, "running")))
-        .run();
-      tx.delete(yieldChunks).where(eq(yieldChunks.runId, run.id)).run();
-      const pct = (x: number) => `${(x * 100).toFixed(1)} %`;
-      auditRun(
-        tx,
-        run.id,
-        "yield_run.finished",
-        (label) =>
-          `A ${current.trials}-trial yield run on ${label} finished: ${pct(result.yield)}, ` +
-          (values.verified ? "verified" : `not verified (${values.mismatch ?? "mismatch"})`),
-      );
-    });
+    storeFinishedRun(db, current, result);
   }
 
   function activeCount(where: ReturnType<typeof eq>): number {
@@ -309,10 +250,10 @@ export function createJobService(deps: {
         run.id,
         `the server restarted with engine ${ENGINE_VERSION} while this run used ${run.engineVersion}; start a new run`,
       );
-      db.delete(yieldChunks).where(eq(yieldChunks.runId, run.id)).run();
+      dropRunChunks(db, run.id);
       recovered.failed.push(run.id);
     } else {
-      db.update(yieldRuns).set({ status: "queued" }).where(eq(yieldRuns.id, run.id)).run();
+      requeueRun(db, run.id);
       queue.push(run.id);
       recovered.resumed.push(run.id);
     }
