@@ -4,3 +4,4 @@ export * from "./domain.ts";
 export * from "./json.ts";
 export * from "./limits.ts";
 export * from "./lots.ts";
+export * from "./uploads.ts";

@@ -1,7 +1,6 @@
 // Designs, revisions, diffs, design import, the home overview and the per-role queue.
 import type { Router } from "express";
 import { eq } from "drizzle-orm";
-import { z } from "zod";
 import { DESIGN_FORMAT, MATERIAL_LIBRARY } from "@stackproof/optics";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
@@ -37,6 +36,7 @@ import {
   RevisionDiffSchema,
   RevisionSchema,
   fileField,
+  DesignImportFields,
 } from "@stackproof/contracts";
 
 const TAG = "Designs and revisions";
@@ -207,13 +207,8 @@ export function designRoutes(ctx: AppContext, router: Router): void {
       access: ["designer"],
       multipart: true,
       before: [singleFile],
-      body: z.object({
+      body: DesignImportFields.extend({
         file: fileField("JSON design file, or CSV material,thickness_nm[,locked] (at most 1 MB)"),
-        name: z.string().trim().max(200).optional(),
-        referenceWavelength: z.coerce.number().positive().max(100000).optional(),
-        substrate: z.string().trim().max(100).optional(),
-        substrateThicknessMm: z.coerce.number().min(0).max(1000).optional(),
-        incident: z.string().trim().max(100).optional(),
       }),
       response: ImportDesignResponse,
       errors: {

@@ -34,38 +34,15 @@ import {
   SpectraPreviewSchema,
   WitnessFitResponse,
   fileField,
+  LotSpectraFields,
+  LotUploadFields,
+  WitnessFitFields,
 } from "@stackproof/contracts";
 
 const TAG = "Measured lots";
 
-const SpectraFields = {
-  file: fileField("Spectrophotometer CSV: a wavelength column and one column per part (at most 1 MB)"),
-  // required, but checked after the lot or revision is found (another workspace gets 404 before any 400)
-  scale: z
-    .enum(["percent", "fraction"])
-    .optional()
-    .meta({
-      description:
-        "Required: how the values are written; POST /lots/preview detects it for the user to confirm",
-    }),
-  quantity: z.enum(["R", "T"]).optional().meta({ description: "Required" }),
-  angleDeg: z.coerce.number().min(0).lt(90).default(0),
-  polarization: z.enum(["s", "p", "u"]).default("u"),
-  uncertaintyPct: z.coerce.number().positive().max(50).default(0.2),
-};
-
-const LotBody = z.object({
-  ...SpectraFields,
-  runId: z.string().trim().min(1).max(100).optional().meta({ description: "Required" }),
-  runDate: z
-    .string()
-    .regex(/^\d{4}-\d{2}-\d{2}$/, { message: "use YYYY-MM-DD" })
-    .optional()
-    .meta({ description: "Required" }),
-  chamber: z.string().trim().max(100).default(""),
-  notes: z.string().trim().max(2000).default(""),
-  guardK: z.coerce.number().min(0).max(5).default(2),
-});
+const SPECTRA_FILE = "Spectrophotometer CSV: a wavelength column and one column per part (at most 1 MB)";
+const LotBody = LotUploadFields.extend({ file: fileField(SPECTRA_FILE) });
 
 /** The required fields the schema leaves optional (so that scoping answers first). */
 function required<T>(value: T | undefined, name: string, expected: string): T {
@@ -81,7 +58,7 @@ function required<T>(value: T | undefined, name: string, expected: string): T {
 
 function partsFrom(
   table: SpectraTable,
-  body: z.output<z.ZodObject<typeof SpectraFields>>,
+  body: z.output<typeof LotSpectraFields>,
   fileName: string,
 ): MeasuredPart[] {
   const quantity = required(body.quantity, "quantity", '"R" or "T"');
@@ -237,7 +214,7 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       params: IdParams,
       multipart: true,
       before: [singleFile],
-      body: z.object(SpectraFields),
+      body: LotSpectraFields.extend({ file: fileField(SPECTRA_FILE) }),
       response: LotSchema,
       errors: {
         400: "Bad field or spectrum",
@@ -389,22 +366,8 @@ export function lotRoutes(ctx: AppContext, router: Router): void {
       access: ["designer", "admin"],
       multipart: true,
       before: [singleFile],
-      body: z.object({
+      body: WitnessFitFields.extend({
         file: fileField("CSV: a wavelength column, a T column and optionally an R column (at most 1 MB)"),
-        scale: z.enum(["percent", "fraction"]),
-        id: z
-          .string()
-          .trim()
-          .regex(/^[A-Za-z0-9][A-Za-z0-9_.+-]{0,63}$/, {
-            message: "use 1-64 letters, digits, _ . + - (starting with a letter or digit)",
-          }),
-        name: z.string().trim().min(1).max(200),
-        substrate: z.string().trim().min(1).max(100),
-        substrateThicknessMm: z.coerce.number().positive().max(100),
-        backside: z.enum(["true", "false"]).default("true"),
-        uncertaintyPct: z.coerce.number().positive().max(50).default(0.2),
-        minThicknessNm: z.coerce.number().positive().default(50),
-        maxThicknessNm: z.coerce.number().positive().default(3000),
       }),
       status: 201,
       response: WitnessFitResponse,

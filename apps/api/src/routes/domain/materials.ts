@@ -1,7 +1,6 @@
 // Materials (built-in library + uploaded n,k tables) and measured spectra of revisions.
 import type { Router } from "express";
 import { and, asc, desc, eq } from "drizzle-orm";
-import { z } from "zod";
 import { MATERIAL_LIBRARY, MaterialSchema } from "@stackproof/optics";
 import type { AppContext } from "../../context.ts";
 import { getAuth } from "../../auth/guards.ts";
@@ -20,6 +19,8 @@ import {
   MeasurementListResponse,
   MeasurementOutSchema,
   fileField,
+  MaterialUploadFields,
+  MeasurementUploadFields,
 } from "@stackproof/contracts";
 
 const TAG = "Materials and measurements";
@@ -78,17 +79,8 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
       access: ["designer", "admin"],
       multipart: true,
       before: [singleFile],
-      body: z.object({
+      body: MaterialUploadFields.extend({
         file: fileField("CSV n,k table: wavelength_nm or wavelength_um, n[, k] (at most 1 MB)"),
-        id: z
-          .string()
-          .trim()
-          .regex(/^[A-Za-z0-9][A-Za-z0-9_.+-]{0,63}$/, {
-            message: "use 1-64 letters, digits, _ . + - (starting with a letter or digit)",
-          }),
-        name: z.string().trim().min(1).max(200),
-        role: z.enum(["layer", "substrate", "medium", "metal"]).default("layer"),
-        source: z.string().trim().max(500).optional(),
       }),
       status: 201,
       response: MaterialOutSchema,
@@ -130,18 +122,8 @@ export function materialRoutes(ctx: AppContext, router: Router): void {
       params: IdParams,
       multipart: true,
       before: [singleFile],
-      body: z.object({
+      body: MeasurementUploadFields.extend({
         file: fileField("Spectrophotometer CSV: a wavelength column and one R or T column (at most 1 MB)"),
-        label: z.string().trim().max(200).optional(),
-        scale: z.enum(["percent", "fraction"]).optional().meta({
-          description:
-            "How the values are written (POST /lots/preview detects it for the user to confirm); required when every value lies within 0–1",
-        }),
-        quantity: z.enum(["R", "T"]).optional().meta({
-          description: "R or T; required when the column header does not say (R, T, %T, Reflectance, …)",
-        }),
-        angleDeg: z.coerce.number().min(0).lt(90).default(0),
-        polarization: z.enum(["s", "p", "u"]).default("u"),
       }),
       status: 201,
       response: MeasurementOutSchema,
