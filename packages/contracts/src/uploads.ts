@@ -9,6 +9,9 @@ const MATERIAL_ID = z
     message: "use 1-64 letters, digits, _ . + - (starting with a letter or digit)",
   });
 
+const ANGLE_DEG = z.coerce.number().min(0).lt(90).default(0);
+const POLARIZATION = z.enum(["s", "p", "u"]).default("u");
+
 /** POST /imports/design: optional overrides of the uploaded design's name, λ0 and media. */
 export const DesignImportFields = z.object({
   name: z.string().trim().max(200).optional(),
@@ -36,8 +39,8 @@ export const MeasurementUploadFields = z.object({
   quantity: z.enum(["R", "T"]).optional().meta({
     description: "R or T; required when the column header does not say (R, T, %T, Reflectance, …)",
   }),
-  angleDeg: z.coerce.number().min(0).lt(90).default(0),
-  polarization: z.enum(["s", "p", "u"]).default("u"),
+  angleDeg: ANGLE_DEG,
+  polarization: POLARIZATION,
 });
 
 /** The spectra of a lot's parts (one column per part); scale and quantity are checked after scoping. */
@@ -48,8 +51,8 @@ export const LotSpectraFields = z.object({
       "Required: how the values are written; POST /lots/preview detects it for the user to confirm",
   }),
   quantity: z.enum(["R", "T"]).optional().meta({ description: "Required" }),
-  angleDeg: z.coerce.number().min(0).lt(90).default(0),
-  polarization: z.enum(["s", "p", "u"]).default("u"),
+  angleDeg: ANGLE_DEG,
+  polarization: POLARIZATION,
   uncertaintyPct: z.coerce.number().positive().max(50).default(0.2),
 });
 
